@@ -1,0 +1,156 @@
+// `cairn declination LAT LON`: the magnetic declination to set on a compass,
+// from the World Magnetic Model shipped with Cairn.
+#include <charconv>
+#include <cmath>
+#include <cstdio>
+#include <ctime>
+#include <ostream>
+#include <stdexcept>
+#include <string>
+
+#include "app/cli/command.h"
+#include "app/cli/magnetic_source.h"
+#include "geomath/magnetic.h"
+
+namespace cairn::cli {
+namespace {
+
+using Date = geo::CalendarDate;
+
+std::string iso(const Date& d) {
+  char buf[16];
+  std::snprintf(buf, sizeof buf, "%04d-%02d-%02d", d.year, d.month, d.day);
+  return buf;
+}
+
+// A whole string as a finite number, or nothing.
+bool parse_number(const std::string& s, double& v) {
+  const char* b = s.data();
+  const char* e = b + s.size();
+  if (b != e && *b == '+') ++b;
+  auto [p, ec] = std::from_chars(b, e, v);
+  return ec == std::errc() && p == e && std::isfinite(v);
+}
+
+double parse_coordinate(const std::string& s, const char* what, double lo, double hi) {
+  double v = 0;
+  if (!parse_number(s, v))
+    throw std::invalid_argument(std::string(what) + " '" + s + "' is not a number (decimal degrees)");
+  if (v < lo || v > hi)
+    throw std::invalid_argument(std::string(what) + " " + s + " is outside " + std::to_string(int(lo)) +
+                                ".." + std::to_string(int(hi)) + " degrees");
+  return v;
+}
+
+// --date YYYY-MM-DD or a decimal year such as 2027.5.
+void parse_date(const std::string& s, Date& date, double& t) {
+  int y = 0, m = 0, d = 0;
+  char tail = 0;
+  if (s.size() == 10 && s[4] == '-' && s[7] == '-' &&
+      std::sscanf(s.c_str(), "%4d-%2d-%2d%c", &y, &m, &d, &tail) == 3) {
+    if (!geo::valid_date(y, m, d)) throw std::invalid_argument("date " + s + " does not exist");
+    date = {y, m, d};
+    t = geo::decimal_year(y, m, d);
+    return;
+  }
+  double v = 0;
+  if (!parse_number(s, v))
+    throw std::invalid_argument("date '" + s + "' is neither YYYY-MM-DD nor a decimal year");
+  if (v < 1900.0 || v >= 2101.0)
+    throw std::invalid_argument("date " + s + " is not a year between 1900 and 2100");
+  t = v;
+  date = geo::calendar_date(v);
+}
+
+Date today() {
+  std::time_t now = std::time(nullptr);
+  std::tm tm{};
+  localtime_r(&now, &tm);
+  return {tm.tm_year + 1900, tm.tm_mon + 1, tm.tm_mday};
+}
+
+std::string fixed(double v, int decimals) {
+  char buf[64];
+  std::snprintf(buf, sizeof buf, "%.*f", decimals, v);
+  std::string s = buf;
+  if (s.find_first_not_of("-0.") == std::string::npos && s[0] == '-') s.erase(0, 1);  // no "-0.0"
+  return s;
+}
+
+// "14.2° E" / "3.5° W": the way a declination is set on a compass dial.
+std::string east_west(double decl) {
+  std::string mag = fixed(std::abs(decl), 1);
+  if (mag == "0.0") return "0.0°";
+  return mag + "° " + (decl > 0 ? "E" : "W");
+}
+
+int run(const Args& in, std::ostream& out, std::ostream& err) {
+  Args args = in;
+  const bool json = take_flag(args, "--json");
+  const auto date_opt = take_option(args, "--date");
+  const auto height_opt = take_option(args, "--height");
+  reject_unknown_options(args);
+  if (args.size() != 2) throw std::invalid_argument("expected LAT LON (decimal degrees)");
+
+  const double lat = parse_coordinate(args[0], "latitude", -90.0, 90.0);
+  const double lon = parse_coordinate(args[1], "longitude", -180.0, 360.0);
+  double height = 0;
+  if (height_opt && !parse_number(*height_opt, height))
+    throw std::invalid_argument("height '" + *height_opt + "' is not a number (metres above the WGS84 ellipsoid)");
+  Date date{};
+  double t = 0;
+  if (date_opt) {
+    parse_date(*date_opt, date, t);
+  } else {
+    date = today();
+    t = geo::decimal_year(date.year, date.month, date.day);
+  }
+
+  const auto& model = wmm();
+  if (!model.in_validity(t))
+    err << "warning: " << iso(date) << " is outside the validity of " << model.name() << " ("
+        << fixed(model.valid_from(), 1) << "-" << fixed(model.valid_to(), 1)
+        << "); the declination may be off by more than the model's stated error\n";
+  // WMM Technical Report (value from memory): the model is specified from 1 km
+  // below the ellipsoid to 850 km above it.
+  if (height < -1000.0 || height > 850000.0)
+    err << "warning: height " << fixed(height, 0) << " m is outside the model's range (-1 km to 850 km)\n";
+
+  const geo::MagneticField f = model.evaluate(lat, lon, height, t);
+
+  // WMM Technical Report (2020 and later; value from memory): where the
+  // horizontal intensity H is below 2000 nT a compass is unreliable
+  // ("blackout zone"), below 6000 nT it needs caution.
+  if (f.H < 2000.0)
+    err << "warning: horizontal field " << fixed(f.H, 0)
+        << " nT is below 2000 nT; a magnetic compass is unreliable here\n";
+  else if (f.H < 6000.0)
+    err << "warning: horizontal field " << fixed(f.H, 0)
+        << " nT is below 6000 nT; use a magnetic compass with caution here\n";
+
+  if (json) {
+    out << "{\"declination\": " << fixed(f.declination, 4) << ", \"inclination\": "
+        << fixed(f.inclination, 4) << ", \"date\": \"" << iso(date) << "\", \"decimal_year\": "
+        << fixed(t, 4) << ", \"height_m\": " << fixed(height, 1) << ", \"model\": \""
+        << model.name() << "\"}\n";
+    return 0;
+  }
+  out << "declination  " << fixed(f.declination, 2) << "°  (" << east_west(f.declination)
+      << ", east positive: set this on the compass)\n"
+      << "inclination  " << fixed(f.inclination, 2) << "°  (" << (f.inclination >= 0 ? "down" : "up")
+      << ")\n"
+      << "date         " << iso(date) << "  (decimal year " << fixed(t, 4) << ")\n"
+      << "height       " << fixed(height, 1) << " m above the WGS84 ellipsoid\n"
+      << "model        " << model.name() << "\n";
+  return 0;
+}
+
+}  // namespace
+
+CAIRN_COMMAND(Command{
+    "declination",
+    "cairn declination LAT LON [--date YYYY-MM-DD|YEAR.FRACTION] [--height METRES] [--json]",
+    "magnetic declination to set on a compass at a place and date (World Magnetic Model)",
+    run});
+
+}  // namespace cairn::cli
