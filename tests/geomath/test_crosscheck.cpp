@@ -1,0 +1,339 @@
+// The cross-check engine: for every rule a scenario that must raise it and a
+// near miss that must not. Scenarios are synthetic (a known plane, points on it
+// with stated GPS noise), so the expected answer is known without the engine.
+// Sources: Markland test as given by Hoek & Bray, Rock Slope Engineering;
+// flexural toppling after Goodman & Bray (1976); the Rayleigh distribution of a
+// two-dimensional normal deviation (Mardia & Jupp, Directional Statistics, 2000;
+// value from memory); the rest is common practice, no published source.
+#include <gtest/gtest.h>
+
+#include <cmath>
+#include <random>
+
+#include "geomath/angles.h"
+#include "geomath/crosscheck.h"
+
+using namespace cairn::geo;
+
+namespace {
+
+// A contact on the plane z = z0 + a*e + b*n, sampled over a 1.2 km square with
+// GPS-like noise (h 2 m, v 3 m 1-sigma).
+CheckContact planar_contact(const Plane& p, const std::string& id, unsigned seed, int n = 30,
+                            double h = 2.0, double v = 3.0) {
+  std::mt19937_64 rng(seed);
+  std::uniform_real_distribution<double> u(-600, 600);
+  std::normal_distribution<double> gh(0, h), gv(0, v);
+  const Vec3 nrm = plane_normal_up(p);
+  CheckContact c;
+  c.uuid = id;
+  c.name = "contact " + id;
+  c.type = "depositional";
+  for (int i = 0; i < n; ++i) {
+    const double e = u(rng), nn = u(rng);
+    const double z = 500.0 - (nrm.x() * e + nrm.y() * nn) / nrm.z();
+    c.points.push_back({e + gh(rng), nn + gh(rng), z + gv(rng), h, v});
+  }
+  return c;
+}
+
+CheckStation station(const std::string& id, double e, double n, std::optional<double> z = std::nullopt) {
+  CheckStation s;
+  s.uuid = id;
+  s.code = "S" + id;
+  s.e = e;
+  s.n = n;
+  s.z = z;
+  return s;
+}
+
+CheckPlane reading(const std::string& id, const std::string& st, const Plane& p, const std::string& kind = "bedding",
+                   const std::string& contact = "") {
+  CheckPlane r;
+  r.uuid = id;
+  r.ref = "r" + id;
+  r.station = st;
+  r.kind = kind;
+  r.plane = p;
+  r.contact = contact;
+  return r;
+}
+
+std::vector<Flag> flags_of(const CheckReport& rep, const std::string& rule) {
+  std::vector<Flag> out;
+  for (const auto& f : rep.flags)
+    if (f.rule == rule) out.push_back(f);
+  return out;
+}
+
+CheckInput one_contact(const Plane& p) {
+  CheckInput in;
+  in.contacts.push_back(planar_contact(p, "C1", 11));
+  in.stations.push_back(station("1", 0, 0));
+  return in;
+}
+
+}  // namespace
+
+TEST(Crosscheck, ToleranceFollowsRayleighQuantile) {
+  // Monte Carlo check of the tolerance's statistical claim: 99% of pole deviations
+  // drawn as isotropic 2-D normal errors of sigma 3 degrees fall within it.
+  const double tol = comparison_tolerance(3.0, std::nullopt, 0.99);
+  std::mt19937_64 rng(5);
+  std::normal_distribution<double> g(0, 3.0);
+  int inside = 0;
+  const int n = 200000;
+  for (int i = 0; i < n; ++i) inside += std::hypot(g(rng), g(rng)) <= tol;
+  EXPECT_NEAR(inside / double(n), 0.99, 0.002);
+  // The fit's cone widens it: a 95% cone of 2.448 sigma adds sigma in quadrature.
+  const double k95 = std::sqrt(-2 * std::log(0.05));
+  EXPECT_NEAR(comparison_tolerance(3.0, 4.0 * k95, 0.99), 5.0 * std::sqrt(-2 * std::log(0.01)), 1e-9);
+  // Poorer grades are wider (common practice): grade 1 is three times grade 5.
+  CheckOptions o;
+  EXPECT_NEAR(reading_sigma(1, o) / reading_sigma(5, o), 3.0, 1e-12);
+  EXPECT_EQ(reading_sigma(std::nullopt, o), o.compass_sigma);
+}
+
+TEST(Crosscheck, CleanReadingRaisesNothingAndMisfitIsFlagged) {
+  const Plane truth{40, 25};
+  CheckInput in = one_contact(truth);
+  in.planes.push_back(reading("a", "1", Plane{43, 27}, "bedding", "C1"));  // near miss: 3 degrees off
+  in.planes.push_back(reading("b", "1", Plane{80, 50}, "bedding", "C1"));  // local structure
+  CheckReport rep = run_crosscheck(in);
+  ASSERT_EQ(rep.fits.size(), 1u);
+  EXPECT_TRUE(rep.fits[0].usable) << rep.fits[0].verdict;
+  EXPECT_LT(angle_between_planes(*rep.fits[0].plane, truth), 2.0);
+  auto m = flags_of(rep, "misfit");
+  ASSERT_EQ(m.size(), 1u);
+  EXPECT_EQ(m[0].reading, "b");
+  EXPECT_EQ(m[0].severity, Severity::Conflict);
+  EXPECT_NEAR(*m[0].misfit, angle_between_planes(Plane{80, 50}, *rep.fits[0].plane), 1e-9);
+  EXPECT_EQ(rep.flags.size(), 1u);
+}
+
+TEST(Crosscheck, ReversedDip) {
+  const Plane truth{120, 35};
+  CheckInput in = one_contact(truth);
+  in.planes.push_back(reading("a", "1", Plane{300, 35}, "bedding", "C1"));  // right-hand-rule slip
+  // Near miss: wrong, and reversing it does not help either.
+  in.planes.push_back(reading("b", "1", Plane{300, 70}, "bedding", "C1"));
+  CheckReport rep = run_crosscheck(in);
+  auto r = flags_of(rep, "reversed-dip");
+  ASSERT_EQ(r.size(), 1u);
+  EXPECT_EQ(r[0].reading, "a");
+  EXPECT_GT(*r[0].misfit, 60);
+  EXPECT_LT(*r[0].misfit_corrected, 3);
+  auto m = flags_of(rep, "misfit");
+  ASSERT_EQ(m.size(), 1u);
+  EXPECT_EQ(m[0].reading, "b");
+}
+
+TEST(Crosscheck, DeclinationSuspect) {
+  const Plane truth{70, 40};
+  CheckInput in = one_contact(truth);
+  // Magnetic reading stored as if true: strike short by a 22 degree east declination.
+  CheckPlane a = reading("a", "1", Plane{48, 40}, "bedding", "C1");
+  a.local_declination = 22.0;
+  in.planes.push_back(a);
+  // Near miss: the same error where the local declination is only 1 degree cannot be
+  // blamed on it; it stays a misfit.
+  CheckPlane b = reading("b", "1", Plane{48, 40}, "bedding", "C1");
+  b.local_declination = 1.0;
+  in.planes.push_back(b);
+  CheckReport rep = run_crosscheck(in);
+  auto d = flags_of(rep, "declination-suspect");
+  ASSERT_EQ(d.size(), 1u);
+  EXPECT_EQ(d[0].reading, "a");
+  EXPECT_LT(*d[0].misfit_corrected, 3);
+  ASSERT_EQ(flags_of(rep, "misfit").size(), 1u);
+  EXPECT_EQ(flags_of(rep, "misfit")[0].reading, "b");
+}
+
+TEST(Crosscheck, WeakGeometry) {
+  CheckInput in;
+  CheckContact c;
+  c.uuid = "C1";
+  c.name = "line";
+  for (int i = 0; i < 8; ++i) c.points.push_back({i * 50.0, i * 50.0, 400 + i * 5.0, 0.5, 0.5});  // collinear
+  in.contacts.push_back(c);
+  in.contacts.push_back(planar_contact(Plane{10, 30}, "C2", 3));  // near miss
+  CheckReport rep = run_crosscheck(in);
+  auto w = flags_of(rep, "weak-geometry");
+  ASSERT_EQ(w.size(), 1u);
+  EXPECT_EQ(w[0].contact, "line");
+  EXPECT_FALSE(rep.fits[0].usable);
+  EXPECT_TRUE(rep.fits[1].usable);
+}
+
+TEST(Crosscheck, NotPlanarFoldedAndMislocated) {
+  CheckInput in;
+  // A folded contact: two limbs dipping 40 degrees either way off a hinge line along n.
+  CheckContact fold;
+  fold.uuid = "F";
+  fold.name = "folded";
+  std::mt19937_64 rng(9);
+  std::uniform_real_distribution<double> u(-500, 500);
+  std::normal_distribution<double> g(0, 1.0);
+  for (int i = 0; i < 30; ++i) {
+    const double e = u(rng), n = u(rng);
+    fold.points.push_back({e + g(rng), n + g(rng), 600 - std::abs(e) * std::tan(deg2rad(40)) + g(rng), 1, 1});
+  }
+  in.contacts.push_back(fold);
+  // One point mapped 40 m off a clean plane.
+  CheckContact one = planar_contact(Plane{200, 30}, "M", 4, 25, 1.0, 1.0);
+  one.name = "mislocated";
+  one.points[7].z += 40;
+  in.contacts.push_back(one);
+  in.contacts.push_back(planar_contact(Plane{200, 30}, "OK", 4, 25, 1.0, 1.0));  // near miss
+  CheckReport rep = run_crosscheck(in);
+  auto np = flags_of(rep, "not-planar");
+  ASSERT_EQ(np.size(), 2u);
+  EXPECT_EQ(np[0].contact, "folded");
+  EXPECT_EQ(np[1].contact, "mislocated");
+  ASSERT_FALSE(rep.fits[1].worst_points.empty());
+  EXPECT_EQ(rep.fits[1].worst_points, std::vector<size_t>{7u});  // only the moved point
+  EXPECT_TRUE(rep.fits[2].usable);
+}
+
+TEST(Crosscheck, FacingConflict) {
+  // Contact dipping 30 towards 090; the younger unit U lies above (east and higher).
+  const Plane truth{0, 30};
+  auto build = [&](bool younger_above) {
+    CheckInput in;
+    CheckContact c = planar_contact(truth, "C1", 21);
+    c.lower_unit = "L";
+    c.upper_unit = "U";
+    in.contacts.push_back(c);
+    const Vec3 nrm = plane_normal_up(truth);
+    for (int i = 0; i < 6; ++i) {
+      const double e = -300 + 120 * i, n = 50.0 * i;
+      const double zc = 500.0 - (nrm.x() * e + nrm.y() * n) / nrm.z();
+      CheckStation up = station("u" + std::to_string(i), e, n, zc + (younger_above ? 40 : -40));
+      up.unit = "U";
+      CheckStation low = station("l" + std::to_string(i), e, n + 10, zc + (younger_above ? -40 : 40));
+      low.unit = "L";
+      in.stations.push_back(up);
+      in.stations.push_back(low);
+    }
+    return in;
+  };
+  EXPECT_EQ(flags_of(run_crosscheck(build(true)), "facing-conflict").size(), 0u);  // near miss
+  CheckInput bad = build(false);
+  EXPECT_EQ(flags_of(run_crosscheck(bad), "facing-conflict").size(), 1u);
+  // Readings marked overturned say the limb is overturned: then younger-below is expected.
+  CheckPlane o = reading("o", "u0", truth, "bedding", "C1");
+  o.facing = CheckFacing::Overturned;
+  bad.planes.push_back(o);
+  EXPECT_EQ(flags_of(run_crosscheck(bad), "facing-conflict").size(), 0u);
+}
+
+TEST(Crosscheck, MarklandPlanarSlidingHandWorked) {
+  // Hoek & Bray's conditions worked by hand: face dips 60 towards 150.
+  const Plane face = plane_from_dip_direction(150, 60);
+  EXPECT_TRUE(planar_sliding_possible(plane_from_dip_direction(160, 40), face, 30, 20));   // all met
+  EXPECT_FALSE(planar_sliding_possible(plane_from_dip_direction(175, 40), face, 30, 20));  // 25 off strike
+  EXPECT_FALSE(planar_sliding_possible(plane_from_dip_direction(150, 65), face, 30, 20));  // does not daylight
+  EXPECT_FALSE(planar_sliding_possible(plane_from_dip_direction(150, 25), face, 30, 20));  // below friction
+}
+
+TEST(Crosscheck, FlexuralToppingHandWorked) {
+  // Goodman & Bray (1976): (90 - dip) + friction <= face dip, dipping into the face.
+  const Plane face = plane_from_dip_direction(150, 60);
+  EXPECT_TRUE(flexural_toppling_possible(plane_from_dip_direction(330, 70), face, 30, 10));   // 20+30 <= 60
+  EXPECT_FALSE(flexural_toppling_possible(plane_from_dip_direction(330, 55), face, 30, 10));  // 35+30 > 60
+  EXPECT_FALSE(flexural_toppling_possible(plane_from_dip_direction(345, 80), face, 30, 10));  // 15 off
+}
+
+TEST(Crosscheck, SafetyScreeningFlagsCarryCautions) {
+  CheckInput in;
+  in.stations.push_back(station("1", 0, 0));
+  in.planes.push_back(reading("face", "1", plane_from_dip_direction(150, 60), "slope"));
+  in.planes.push_back(reading("bed", "1", plane_from_dip_direction(155, 40), "bedding"));
+  in.planes.push_back(reading("jt", "1", plane_from_dip_direction(330, 75), "joint"));
+  in.planes.push_back(reading("safe", "1", plane_from_dip_direction(60, 40), "joint"));  // near miss
+  CheckReport rep = run_crosscheck(in);
+  auto d = flags_of(rep, "daylighting");
+  auto t = flags_of(rep, "toppling");
+  ASSERT_EQ(d.size(), 1u);
+  ASSERT_EQ(t.size(), 1u);
+  EXPECT_EQ(d[0].reading, "bed");
+  EXPECT_EQ(t[0].reading, "jt");
+  for (const auto& f : {d[0], t[0]}) {
+    EXPECT_EQ(f.severity, Severity::Hazard);
+    EXPECT_NE(f.caution.find("not a slope-stability assessment"), std::string::npos);
+    EXPECT_NE(f.caution.find("licensed engineering geologist"), std::string::npos);
+  }
+  EXPECT_EQ(rep.flags.size(), 2u);
+}
+
+TEST(Crosscheck, RemeasureOnSteepGroundCarriesCaution) {
+  const Plane truth{40, 25};
+  CheckInput in = one_contact(truth);
+  in.stations.push_back(station("2", 100, 0));
+  in.planes.push_back(reading("m1", "1", Plane{80, 50}, "bedding", "C1"));
+  in.planes.push_back(reading("m2", "2", Plane{80, 50}, "bedding", "C1"));
+  in.planes.push_back(reading("f2", "2", plane_from_dip_direction(10, 45), "slope"));  // 45 > 35
+  CheckReport rep = run_crosscheck(in);
+  auto m = flags_of(rep, "misfit");
+  ASSERT_EQ(m.size(), 2u);
+  for (const auto& f : m) EXPECT_EQ(f.caution.empty(), f.reading == "m1") << f.reading;
+}
+
+TEST(Crosscheck, Duplicate) {
+  CheckInput in;
+  in.stations.push_back(station("1", 0, 0));
+  auto at = [&](const std::string& id, const Plane& p, double minutes, const std::string& kind = "joint") {
+    CheckPlane r = reading(id, "1", p, kind);
+    r.time_minutes = minutes;
+    in.planes.push_back(r);
+  };
+  at("a", Plane{100, 60}, 0);
+  at("b", Plane{101, 60.5}, 4);        // twice
+  at("c", Plane{100, 60}, 30);         // near miss: 26 minutes later
+  at("d", Plane{100, 60}, 5, "vein");  // near miss: another kind
+  CheckReport rep = run_crosscheck(in);
+  auto d = flags_of(rep, "duplicate");
+  ASSERT_EQ(d.size(), 1u);
+  EXPECT_EQ(d[0].reading, "b");
+  EXPECT_EQ(d[0].severity, Severity::Note);
+}
+
+TEST(Crosscheck, FalsePositivesOnCleanReadings) {
+  // 200 clean readings, 2.5 degrees of noise (1 sigma per axis of the pole) against
+  // well-constrained contacts, fixed seed: fewer than 5 misfit-type flags.
+  CheckInput in;
+  const Plane truths[] = {{30, 20}, {200, 45}, {310, 70}, {95, 8}};
+  for (int k = 0; k < 4; ++k) in.contacts.push_back(planar_contact(truths[k], "C" + std::to_string(k), 100 + k, 40));
+  in.stations.push_back(station("1", 0, 0));
+  std::mt19937_64 rng(42);
+  std::normal_distribution<double> g(0, deg2rad(2.5));
+  for (int i = 0; i < 200; ++i) {
+    const Plane t = truths[i % 4];
+    const Vec3 p = pole_vector(t);
+    const Vec3 a = p.unitOrthogonal(), b = p.cross(a);
+    const Vec3 q = (p + g(rng) * a + g(rng) * b).normalized();
+    in.planes.push_back(reading(std::to_string(i), "1", plane_from_pole(line_from_vector(q)), "bedding",
+                                "C" + std::to_string(i % 4)));
+  }
+  CheckReport rep = run_crosscheck(in);
+  int misfits = 0;
+  for (const auto& f : rep.flags) misfits += f.rule == "misfit" || f.rule == "reversed-dip" || f.rule == "declination-suspect";
+  for (const auto& f : rep.fits) EXPECT_TRUE(f.usable) << f.contact << ": " << f.verdict;
+  EXPECT_LT(misfits, 5);
+}
+
+TEST(Crosscheck, NearbyOptionComparesUnnamedReadings) {
+  const Plane truth{40, 25};
+  CheckInput in = one_contact(truth);
+  const auto& p0 = in.contacts[0].points[0];
+  in.stations.push_back(station("near", p0.e + 20, p0.n));
+  in.stations.push_back(station("far", 5000, 5000));
+  in.planes.push_back(reading("n", "near", Plane{80, 50}));
+  in.planes.push_back(reading("f", "far", Plane{80, 50}));
+  EXPECT_TRUE(flags_of(run_crosscheck(in), "misfit").empty());  // option off by default
+  CheckOptions o;
+  o.nearby_radius = 100;
+  auto m = flags_of(run_crosscheck(in, o), "misfit");
+  ASSERT_EQ(m.size(), 1u);
+  EXPECT_EQ(m[0].reading, "n");
+}
