@@ -1,0 +1,58 @@
+#include "storage/ids.h"
+
+#include <chrono>
+#include <cstdio>
+#include <ctime>
+#include <random>
+
+namespace cairn::store {
+
+std::string new_uuid() {
+  // std::random_device reads the kernel's random source on Linux (getrandom or
+  // /dev/urandom); a thread_local instance avoids reopening it.
+  thread_local std::random_device rd;
+  unsigned char b[16];
+  for (int i = 0; i < 16; i += 4) {
+    const unsigned v = rd();
+    b[i] = v & 0xff;
+    b[i + 1] = (v >> 8) & 0xff;
+    b[i + 2] = (v >> 16) & 0xff;
+    b[i + 3] = (v >> 24) & 0xff;
+  }
+  b[6] = static_cast<unsigned char>((b[6] & 0x0f) | 0x40);  // version 4 (RFC 4122 4.4)
+  b[8] = static_cast<unsigned char>((b[8] & 0x3f) | 0x80);  // variant 10xx (RFC 4122 4.1.1)
+  char out[37];
+  std::snprintf(out, sizeof out,
+                "%02x%02x%02x%02x-%02x%02x-%02x%02x-%02x%02x-%02x%02x%02x%02x%02x%02x", b[0], b[1],
+                b[2], b[3], b[4], b[5], b[6], b[7], b[8], b[9], b[10], b[11], b[12], b[13], b[14],
+                b[15]);
+  return out;
+}
+
+bool is_uuid(std::string_view s) {
+  if (s.size() != 36) return false;
+  for (size_t i = 0; i < s.size(); ++i) {
+    const char c = s[i];
+    if (i == 8 || i == 13 || i == 18 || i == 23) {
+      if (c != '-') return false;
+    } else if (!((c >= '0' && c <= '9') || (c >= 'a' && c <= 'f'))) {
+      return false;
+    }
+  }
+  return true;
+}
+
+std::string utc_now() {
+  using namespace std::chrono;
+  const auto now = system_clock::now();
+  const auto ms = duration_cast<milliseconds>(now.time_since_epoch()).count() % 1000;
+  const std::time_t t = system_clock::to_time_t(now);
+  std::tm tm{};
+  gmtime_r(&t, &tm);
+  char buf[96];
+  std::snprintf(buf, sizeof buf, "%04d-%02d-%02dT%02d:%02d:%02d.%03dZ", tm.tm_year + 1900,
+                tm.tm_mon + 1, tm.tm_mday, tm.tm_hour, tm.tm_min, tm.tm_sec, static_cast<int>(ms));
+  return buf;
+}
+
+}  // namespace cairn::store

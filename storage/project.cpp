@@ -1,0 +1,414 @@
+#include "storage/project.h"
+
+#include <sqlite3.h>
+
+#include <algorithm>
+#include <cctype>
+#include <chrono>
+#include <cmath>
+#include <ctime>
+#include <filesystem>
+#include <thread>
+
+#include "geomath/magnetic.h"
+#include "storage/ids.h"
+#include "storage/iso8601.h"
+#include "storage/schema.h"
+
+namespace fs = std::filesystem;
+
+namespace cairn::store {
+
+struct Project::Impl {
+  std::string path;
+  OpenOptions options;
+  Db db;
+  bool read_only = false;
+  std::string problem;
+  std::string device;
+  int depth = 0;  // nesting of write()
+  std::chrono::steady_clock::time_point last_backup{};
+  bool have_backup = false;
+  std::string backup_error;
+};
+
+namespace {
+
+std::string backup_folder(const std::string& path, const std::string& dir) {
+  return dir.empty() ? path + ".backups" : dir;
+}
+
+std::string stem_of(const std::string& path) { return fs::path(path).stem().string(); }
+
+void set_pragmas(Db& db, const OpenOptions& o, bool writable) {
+  sqlite3_busy_timeout(db.handle(), o.busy_timeout_ms);
+  db.exec("PRAGMA foreign_keys = ON");
+  if (writable) {
+    const std::string mode = db.query_text("PRAGMA journal_mode = WAL");
+    if (mode != "wal") throw std::runtime_error("cannot switch the file to WAL journal mode (got " + mode + ")");
+  }
+  db.exec("PRAGMA synchronous = FULL");
+}
+
+std::vector<std::string> check(Db& db, bool quick) {
+  std::vector<std::string> out;
+  Stmt s(db, quick ? "PRAGMA quick_check" : "PRAGMA integrity_check");
+  while (s.step()) {
+    std::string m = s.text(0);
+    if (m != "ok") out.push_back(m);
+  }
+  return out;
+}
+
+std::string newest_backup_sentence(const std::string& path, const std::string& dir) {
+  auto b = list_backups(path, dir);
+  if (b.empty()) return "no backup was found in " + backup_folder(path, dir);
+  return "the newest backup is " + b.back();
+}
+
+// Today's date as ISO 8601 (UTC).
+FieldTime today() {
+  std::time_t now = std::time(nullptr);
+  std::tm tm{};
+  gmtime_r(&now, &tm);
+  FieldTime t;
+  t.year = tm.tm_year + 1900;
+  t.month = tm.tm_mon + 1;
+  t.day = tm.tm_mday;
+  return t;
+}
+
+void register_device(Db& db, const std::string& id, const std::string& name) {
+  Stmt q(db, "SELECT 1 FROM devices WHERE uuid = ?");
+  q.bind(1, id);
+  if (q.step()) return;
+  const std::string now = utc_now();
+  Stmt ins(db, "INSERT INTO devices(uuid, name, created, updated, device) VALUES (?,?,?,?,?)");
+  ins.bind(1, id).bind(2, name.empty() ? std::string("device ") + id.substr(0, 8) : name);
+  ins.bind(3, now).bind(4, now).bind(5, id);
+  ins.run();
+}
+
+// One backup of the open database `src` (file `path`) into `dir`, keeping the newest `keep`.
+std::string make_backup(Db& src, const std::string& path, const std::string& dir, int keep) {
+  const fs::path folder = backup_folder(path, dir);
+  fs::create_directories(folder);
+  std::string stamp = utc_now();  // 2025-06-14T09:32:10.123Z -> 20250614T093210123Z
+  stamp.erase(std::remove_if(stamp.begin(), stamp.end(), [](char c) { return c == '-' || c == ':' || c == '.'; }),
+              stamp.end());
+  fs::path target = folder / (stem_of(path) + "-" + stamp + ".cairn");
+  for (int n = 2; fs::exists(target); ++n)
+    target = folder / (stem_of(path) + "-" + stamp + "-" + std::to_string(n) + ".cairn");
+  // Written under a temporary name and renamed, so a crash never leaves a
+  // half-written file that looks like the newest backup.
+  const fs::path tmp = target.string() + ".tmp";
+  {
+    Db dest(tmp.string(), SQLITE_OPEN_READWRITE | SQLITE_OPEN_CREATE);
+    sqlite3_backup* b = sqlite3_backup_init(dest.handle(), "main", src.handle(), "main");
+    if (!b) throw SqlError("backup: " + dest.errmsg(), 0);
+    int rc;
+    do {
+      rc = sqlite3_backup_step(b, -1);
+      if (rc == SQLITE_BUSY || rc == SQLITE_LOCKED) std::this_thread::sleep_for(std::chrono::milliseconds(20));
+    } while (rc == SQLITE_OK || rc == SQLITE_BUSY || rc == SQLITE_LOCKED);
+    sqlite3_backup_finish(b);
+    if (rc != SQLITE_DONE) {
+      const std::string msg = sqlite3_errstr(rc);
+      dest.close();
+      std::error_code ec;
+      fs::remove(tmp, ec);
+      throw SqlError("backup of " + path + " failed: " + msg, rc);
+    }
+    // A backup is one self-contained file: no -wal beside it.
+    dest.exec("PRAGMA journal_mode = DELETE");
+  }
+  fs::rename(tmp, target);
+  auto all = list_backups(path, dir);
+  const size_t k = static_cast<size_t>(std::max(1, keep));
+  for (size_t i = 0; i + k < all.size(); ++i) {
+    std::error_code ec;
+    fs::remove(all[i], ec);
+  }
+  return target.string();
+}
+
+// Validates the project settings; returns the normalised UTM zone ("" when none).
+std::string checked_settings(const std::string& name, const std::string& utm_zone, double declination) {
+  if (name.empty()) throw ValidationError("name", "required", "the project needs a name");
+  std::string zone;
+  if (!utm_zone.empty()) {
+    auto z = parse_utm_zone(utm_zone);
+    if (!z) throw ValidationError("utm_zone", "utm-zone", z.error());
+    zone = *z;
+  }
+  if (!std::isfinite(declination) || std::abs(declination) > 180)
+    throw ValidationError("declination", "declination-range", "declination must be within -180..180 degrees");
+  return zone;
+}
+
+}  // namespace
+
+Result<std::string> parse_utm_zone(const std::string& text) {
+  std::string s;
+  for (char c : text)
+    if (!std::isspace(static_cast<unsigned char>(c))) s += static_cast<char>(std::toupper(static_cast<unsigned char>(c)));
+  auto bad = [&] {
+    return Result<std::string>::failure("UTM zone '" + text +
+                                        "' is not a zone number 1-60 followed by N or S (e.g. 33N)");
+  };
+  if (s.size() < 2 || (s.back() != 'N' && s.back() != 'S')) return bad();
+  const std::string num = s.substr(0, s.size() - 1);
+  if (num.empty() || num.size() > 2 || !std::all_of(num.begin(), num.end(), ::isdigit)) return bad();
+  const int z = std::stoi(num);
+  if (z < 1 || z > 60) return bad();
+  return std::to_string(z) + s.back();
+}
+
+std::vector<std::string> list_backups(const std::string& path, const std::string& dir) {
+  std::vector<std::string> out;
+  const fs::path folder = backup_folder(path, dir);
+  std::error_code ec;
+  if (!fs::is_directory(folder, ec)) return out;
+  const std::string prefix = stem_of(path) + "-";
+  for (const auto& e : fs::directory_iterator(folder, ec)) {
+    const std::string name = e.path().filename().string();
+    if (e.is_regular_file() && name.rfind(prefix, 0) == 0 && e.path().extension() == ".cairn")
+      out.push_back(e.path().string());
+  }
+  std::sort(out.begin(), out.end());  // names carry a UTC stamp, so this is time order
+  return out;
+}
+
+Project::Project(std::unique_ptr<Impl> impl) : impl_(std::move(impl)) {}
+Project::Project(Project&&) noexcept = default;
+Project& Project::operator=(Project&&) noexcept = default;
+Project::~Project() = default;
+
+Project Project::create(const std::string& path, const NewProject& p, OpenOptions options) {
+  const std::string zone = checked_settings(p.name, p.utm_zone, p.declination);
+  std::error_code ec;
+  if (fs::exists(path, ec)) throw std::runtime_error(path + " already exists; pick another name");
+  {
+    Db db(path, SQLITE_OPEN_READWRITE | SQLITE_OPEN_CREATE);
+    set_pragmas(db, options, true);
+    const std::string device = options.device_id.empty() ? new_uuid() : options.device_id;
+    const std::string now = utc_now();
+    try {
+      db.exec("BEGIN IMMEDIATE");
+      create_schema(db);
+      Stmt s(db, "INSERT INTO project(id, file_uuid, name, utm_zone, north_default, declination, "
+                 "local_device, created, updated) VALUES (1,?,?,?,?,?,?,?,?)");
+      s.bind(1, new_uuid()).bind(2, p.name).bind_text_or_null(3, zone);
+      s.bind(4, to_string(p.north_default)).bind(5, p.declination).bind(6, device);
+      s.bind(7, now).bind(8, now);
+      s.run();
+      register_device(db, device, options.device_name);
+      db.exec("COMMIT");
+    } catch (...) {
+      db.close();
+      fs::remove(path, ec);
+      fs::remove(path + "-wal", ec);
+      fs::remove(path + "-shm", ec);
+      throw;
+    }
+  }
+  return open(path, std::move(options));
+}
+
+Project Project::open(const std::string& path, OpenOptions options) {
+  std::error_code ec;
+  if (!fs::exists(path, ec)) throw std::runtime_error("no project file " + path + " (make one with 'cairn new')");
+  auto impl = std::make_unique<Impl>();
+  impl->path = path;
+  impl->options = options;
+  const std::string bdir = options.backup_dir;
+  auto open_read_only = [&](const std::string& why) {
+    const std::string sentence = why + "; " + newest_backup_sentence(path, bdir);
+    try {
+      impl->db = Db(path, SQLITE_OPEN_READONLY);
+      set_pragmas(impl->db, options, false);
+      impl->db.query_int("SELECT count(*) FROM project");  // readable at all?
+    } catch (const std::exception& e) {
+      throw std::runtime_error(path + " cannot be read (" + e.what() + "); " +
+                               newest_backup_sentence(path, bdir));
+    }
+    impl->read_only = true;
+    impl->problem = sentence + "; the file is open read-only";
+  };
+
+  bool writable = !options.read_only;
+  try {
+    impl->db = Db(path, writable ? SQLITE_OPEN_READWRITE : SQLITE_OPEN_READONLY);
+    sqlite3_busy_timeout(impl->db.handle(), options.busy_timeout_ms);
+    const int64_t app = impl->db.query_int("PRAGMA application_id");
+    const int64_t version = impl->db.query_int("PRAGMA user_version");
+    if (app != kApplicationId)
+      throw std::runtime_error(path + " is not a Cairn project file (an SQLite file of another program, "
+                               "or no database at all)");
+    if (version > kSchemaVersion)
+      throw std::runtime_error(path + " was written by a newer version of Cairn (schema version " +
+                               std::to_string(version) + "; this Cairn reads versions up to " +
+                               std::to_string(kSchemaVersion) +
+                               "); open it with a newer Cairn. The file has not been changed.");
+    if (version < 1) throw std::runtime_error(path + " is not a Cairn project file (no schema version)");
+    set_pragmas(impl->db, options, writable);
+    auto problems = check(impl->db, true);
+    if (!problems.empty()) {
+      impl->db.close();
+      open_read_only(path + " failed its integrity check (" + problems.front() + ")");
+      writable = false;
+    } else if (version < kSchemaVersion) {
+      if (!writable)
+        throw std::runtime_error(path + " has schema version " + std::to_string(version) +
+                                 " and must be upgraded to " + std::to_string(kSchemaVersion) +
+                                 "; open it for writing once");
+      make_backup(impl->db, path, bdir, options.backup_keep);  // the file as it was, before migrating
+      try {
+        impl->db.exec("BEGIN IMMEDIATE");
+        migrate(impl->db, static_cast<int>(version));
+        impl->db.exec("COMMIT");
+      } catch (const std::exception& e) {
+        try {
+          impl->db.exec("ROLLBACK");
+        } catch (...) {
+        }
+        throw std::runtime_error(path + ": upgrading from schema version " + std::to_string(version) +
+                                 " failed (" + e.what() + "); the file has not been changed");
+      }
+    }
+  } catch (const SqlError& e) {
+    if (e.code() == SQLITE_BUSY) throw std::runtime_error(path + " is locked by another program: " + e.what());
+    const int primary = e.code() & 0xff;
+    if (primary == SQLITE_CORRUPT || primary == SQLITE_NOTADB) {
+      impl->db.close();
+      open_read_only(path + " is damaged (" + e.what() + ")");
+      writable = false;
+    } else {
+      throw std::runtime_error(path + ": " + e.what());
+    }
+  }
+  impl->read_only = !writable;
+  impl->device = options.device_id;
+  if (impl->device.empty()) impl->device = impl->db.query_text("SELECT local_device FROM project");
+  Project p(std::move(impl));
+  if (writable) {
+    p.write([&] { register_device(p.db(), p.impl_->device, options.device_name); });
+    if (options.backups) {
+      try {
+        p.backup_now();
+      } catch (const std::exception& e) {
+        p.impl_->backup_error = e.what();
+      }
+    }
+  }
+  return p;
+}
+
+const std::string& Project::path() const { return impl_->path; }
+bool Project::read_only() const { return impl_->read_only; }
+const std::string& Project::problem() const { return impl_->problem; }
+int Project::schema_version() const { return static_cast<int>(impl_->db.query_int("PRAGMA user_version")); }
+const std::string& Project::device() const { return impl_->device; }
+const std::string& Project::person() const { return impl_->options.person; }
+void Project::set_person(const std::string& p) { impl_->options.person = p; }
+Db& Project::db() { return impl_->db; }
+bool Project::in_transaction() const { return impl_->depth > 0; }
+const std::string& Project::backup_error() const { return impl_->backup_error; }
+std::string Project::backup_dir() const { return backup_folder(impl_->path, impl_->options.backup_dir); }
+std::vector<std::string> Project::backups() const { return list_backups(impl_->path, impl_->options.backup_dir); }
+
+ProjectInfo Project::info() {
+  Stmt s(impl_->db, "SELECT file_uuid, name, utm_zone, north_default, declination, local_device, created, "
+                    "updated FROM project WHERE id = 1");
+  if (!s.step()) throw std::runtime_error(impl_->path + " has no project row");
+  ProjectInfo i;
+  i.file_uuid = s.text(0);
+  i.name = s.text(1);
+  i.utm_zone = s.text(2);
+  i.north_default = parse_north(s.text(3)).value_or(North::True);
+  i.declination = s.real(4);
+  i.local_device = s.text(5);
+  i.created = s.text(6);
+  i.updated = s.text(7);
+  return i;
+}
+
+void Project::update_info(const ProjectInfo& i) {
+  const std::string zone = checked_settings(i.name, i.utm_zone, i.declination);
+  write([&] {
+    Stmt s(impl_->db, "UPDATE project SET name=?, utm_zone=?, north_default=?, declination=?, updated=? WHERE id=1");
+    s.bind(1, i.name).bind_text_or_null(2, zone).bind(3, to_string(i.north_default));
+    s.bind(4, i.declination).bind(5, utc_now());
+    s.run();
+  });
+}
+
+Declination Project::declination_at(double lat, double lon, const std::string& time) {
+  FieldTime t = today();
+  if (!time.empty()) {
+    auto parsed = parse_iso8601(time);
+    if (parsed) t = *parsed;
+  }
+  if (impl_->options.declination) {
+    return impl_->options.declination(lat, lon, geo::decimal_year(t.year, t.month, t.day));
+  }
+  return Declination{info().declination, "project setting"};
+}
+
+std::vector<std::string> Project::integrity_check(bool quick) { return check(impl_->db, quick); }
+
+void Project::write(const std::function<void()>& f) {
+  if (impl_->read_only) {
+    std::string why = impl_->path + " is open read-only";
+    if (!impl_->problem.empty()) why += ": " + impl_->problem;
+    throw std::runtime_error(why);
+  }
+  if (impl_->depth > 0) {
+    ++impl_->depth;
+    try {
+      f();
+    } catch (...) {
+      --impl_->depth;
+      throw;
+    }
+    --impl_->depth;
+    return;
+  }
+  impl_->db.exec("BEGIN IMMEDIATE");
+  impl_->depth = 1;
+  try {
+    f();
+    impl_->db.exec("COMMIT");
+  } catch (...) {
+    impl_->depth = 0;
+    try {
+      impl_->db.exec("ROLLBACK");
+    } catch (...) {
+      // the transaction may already be gone (SQLite rolls back on some errors)
+    }
+    throw;
+  }
+  impl_->depth = 0;
+  // A rolling backup once the edits have gone on long enough since the last one.
+  if (impl_->options.backups) {
+    const auto now = std::chrono::steady_clock::now();
+    if (!impl_->have_backup ||
+        now - impl_->last_backup >= std::chrono::seconds(impl_->options.backup_interval_s)) {
+      try {
+        backup_now();
+      } catch (const std::exception& e) {
+        impl_->backup_error = e.what();
+      }
+    }
+  }
+}
+
+std::string Project::backup_now() {
+  std::string b = make_backup(impl_->db, impl_->path, impl_->options.backup_dir, impl_->options.backup_keep);
+  impl_->last_backup = std::chrono::steady_clock::now();
+  impl_->have_backup = true;
+  impl_->backup_error.clear();
+  return b;
+}
+
+}  // namespace cairn::store

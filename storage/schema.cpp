@@ -1,0 +1,250 @@
+#include "storage/schema.h"
+
+#include <stdexcept>
+
+#include "storage/sqlite.h"
+
+namespace cairn::store {
+
+namespace {
+
+// Version 1: the records, the project row and the audit trail. CHECK
+// constraints repeat the boundary validation as a last line of defence; the
+// friendly messages come from storage/validate before anything reaches SQL.
+// Partial unique indexes keep codes unique among live records only, so a code
+// freed by a soft delete can be used again.
+const char* const kSchemaV1 = R"SQL(
+CREATE TABLE project (
+  id              INTEGER PRIMARY KEY CHECK (id = 1),
+  file_uuid       TEXT NOT NULL,
+  name            TEXT NOT NULL,
+  utm_zone        TEXT,
+  north_default   TEXT NOT NULL CHECK (north_default IN ('true','magnetic')),
+  declination     REAL NOT NULL DEFAULT 0 CHECK (declination BETWEEN -180 AND 180),
+  local_device    TEXT NOT NULL,
+  created         TEXT NOT NULL,
+  updated         TEXT NOT NULL
+);
+
+CREATE TABLE devices (
+  uuid     TEXT PRIMARY KEY,
+  name     TEXT NOT NULL,
+  created  TEXT NOT NULL,
+  updated  TEXT NOT NULL,
+  device   TEXT NOT NULL,
+  deleted  TEXT
+);
+
+CREATE TABLE people (
+  uuid     TEXT PRIMARY KEY,
+  name     TEXT NOT NULL,
+  initials TEXT NOT NULL,
+  created  TEXT NOT NULL,
+  updated  TEXT NOT NULL,
+  device   TEXT NOT NULL,
+  deleted  TEXT
+);
+CREATE UNIQUE INDEX people_initials ON people(initials) WHERE deleted IS NULL;
+
+CREATE TABLE units (
+  uuid      TEXT PRIMARY KEY,
+  code      TEXT NOT NULL,
+  name      TEXT NOT NULL,
+  age_rank  INTEGER NOT NULL CHECK (age_rank >= 1),
+  colour    TEXT NOT NULL,
+  created   TEXT NOT NULL,
+  updated   TEXT NOT NULL,
+  device    TEXT NOT NULL,
+  deleted   TEXT
+);
+CREATE UNIQUE INDEX units_code ON units(code) WHERE deleted IS NULL;
+
+CREATE TABLE contacts (
+  uuid        TEXT PRIMARY KEY,
+  name        TEXT NOT NULL,
+  lower_unit  TEXT NOT NULL REFERENCES units(uuid),
+  upper_unit  TEXT NOT NULL REFERENCES units(uuid),
+  type        TEXT NOT NULL CHECK (type IN ('depositional','unconformity','fault','intrusive')),
+  created     TEXT NOT NULL,
+  updated     TEXT NOT NULL,
+  device      TEXT NOT NULL,
+  deleted     TEXT
+);
+CREATE UNIQUE INDEX contacts_name ON contacts(name) WHERE deleted IS NULL;
+
+CREATE TABLE stations (
+  uuid        TEXT PRIMARY KEY,
+  code        TEXT NOT NULL,
+  lat         REAL NOT NULL CHECK (lat BETWEEN -90 AND 90),
+  lon         REAL NOT NULL CHECK (lon BETWEEN -180 AND 180),
+  elevation   REAL CHECK (elevation BETWEEN -500 AND 9000),
+  h_accuracy  REAL CHECK (h_accuracy >= 0),
+  v_accuracy  REAL CHECK (v_accuracy >= 0),
+  source      TEXT NOT NULL CHECK (source IN ('gps','map','manual')),
+  unit        TEXT REFERENCES units(uuid),
+  observer    TEXT REFERENCES people(uuid),
+  time        TEXT,
+  notes       TEXT NOT NULL DEFAULT '',
+  created     TEXT NOT NULL,
+  updated     TEXT NOT NULL,
+  device      TEXT NOT NULL,
+  deleted     TEXT
+);
+CREATE UNIQUE INDEX stations_code ON stations(code) WHERE deleted IS NULL;
+
+CREATE TABLE planes (
+  uuid                TEXT PRIMARY KEY,
+  station             TEXT NOT NULL REFERENCES stations(uuid),
+  kind                TEXT NOT NULL CHECK (kind IN ('bedding','foliation','cleavage','joint',
+                                                    'fault','vein','contact','slope')),
+  strike              REAL NOT NULL CHECK (strike >= 0 AND strike < 360),
+  dip                 REAL NOT NULL CHECK (dip BETWEEN 0 AND 90),
+  typed               TEXT NOT NULL,
+  notation            TEXT NOT NULL CHECK (notation IN ('strike_dip','dip_direction_dip','text')),
+  north               TEXT NOT NULL CHECK (north IN ('true','magnetic')),
+  measured_strike     REAL NOT NULL,
+  measured_dip        REAL NOT NULL,
+  declination         REAL NOT NULL,
+  declination_source  TEXT NOT NULL DEFAULT '',
+  quality             INTEGER CHECK (quality BETWEEN 1 AND 5),
+  facing              TEXT NOT NULL CHECK (facing IN ('unknown','upright','overturned')),
+  contact             TEXT REFERENCES contacts(uuid),
+  ref                 TEXT,
+  time                TEXT,
+  observer            TEXT REFERENCES people(uuid),
+  notes               TEXT NOT NULL DEFAULT '',
+  created             TEXT NOT NULL,
+  updated             TEXT NOT NULL,
+  device              TEXT NOT NULL,
+  deleted             TEXT
+);
+CREATE INDEX planes_station ON planes(station);
+CREATE UNIQUE INDEX planes_ref ON planes(station, ref) WHERE deleted IS NULL AND ref IS NOT NULL;
+
+CREATE TABLE lines (
+  uuid                TEXT PRIMARY KEY,
+  station             TEXT NOT NULL REFERENCES stations(uuid),
+  kind                TEXT NOT NULL CHECK (kind IN ('lineation','fold_axis','slickenline',
+                                                    'intersection')),
+  trend               REAL NOT NULL CHECK (trend >= 0 AND trend < 360),
+  plunge              REAL NOT NULL CHECK (plunge BETWEEN 0 AND 90),
+  typed               TEXT NOT NULL,
+  north               TEXT NOT NULL CHECK (north IN ('true','magnetic')),
+  measured_trend      REAL NOT NULL,
+  measured_plunge     REAL NOT NULL,
+  declination         REAL NOT NULL,
+  declination_source  TEXT NOT NULL DEFAULT '',
+  host_plane          TEXT REFERENCES planes(uuid),
+  rake                REAL CHECK (rake BETWEEN 0 AND 180),
+  ref                 TEXT,
+  time                TEXT,
+  observer            TEXT REFERENCES people(uuid),
+  notes               TEXT NOT NULL DEFAULT '',
+  created             TEXT NOT NULL,
+  updated             TEXT NOT NULL,
+  device              TEXT NOT NULL,
+  deleted             TEXT
+);
+CREATE INDEX lines_station ON lines(station);
+CREATE UNIQUE INDEX lines_ref ON lines(station, ref) WHERE deleted IS NULL AND ref IS NOT NULL;
+
+CREATE TABLE points (
+  uuid        TEXT PRIMARY KEY,
+  contact     TEXT NOT NULL REFERENCES contacts(uuid),
+  lat         REAL NOT NULL CHECK (lat BETWEEN -90 AND 90),
+  lon         REAL NOT NULL CHECK (lon BETWEEN -180 AND 180),
+  elevation   REAL CHECK (elevation BETWEEN -500 AND 9000),
+  h_accuracy  REAL CHECK (h_accuracy >= 0),
+  v_accuracy  REAL CHECK (v_accuracy >= 0),
+  source      TEXT NOT NULL CHECK (source IN ('gps','map','dem')),
+  time        TEXT,
+  observer    TEXT REFERENCES people(uuid),
+  notes       TEXT NOT NULL DEFAULT '',
+  created     TEXT NOT NULL,
+  updated     TEXT NOT NULL,
+  device      TEXT NOT NULL,
+  deleted     TEXT
+);
+CREATE INDEX points_contact ON points(contact);
+
+CREATE TABLE photos (
+  uuid      TEXT PRIMARY KEY,
+  station   TEXT REFERENCES stations(uuid),
+  path      TEXT NOT NULL,
+  sha256    TEXT NOT NULL CHECK (length(sha256) = 64),
+  caption   TEXT NOT NULL DEFAULT '',
+  time      TEXT,
+  created   TEXT NOT NULL,
+  updated   TEXT NOT NULL,
+  device    TEXT NOT NULL,
+  deleted   TEXT
+);
+
+CREATE TABLE audit (
+  uuid        TEXT PRIMARY KEY,
+  at          TEXT NOT NULL,
+  device      TEXT NOT NULL,
+  person      TEXT,
+  tbl         TEXT NOT NULL,
+  record      TEXT NOT NULL,
+  action      TEXT NOT NULL CHECK (action IN ('insert','update','delete','restore')),
+  old_values  TEXT,
+  new_values  TEXT
+);
+CREATE INDEX audit_record ON audit(record);
+CREATE INDEX audit_at ON audit(at);
+)SQL";
+
+// Version 2: re-import detection and merge bookkeeping.
+//  - import_key: a digest of an imported row (and of how many identical rows
+//    came before it in its file), so that importing the same file again is a
+//    no-op rather than a duplicate, for records that have no natural key.
+//  - merges: one row per merge of another project file into this one, so a
+//    later merge knows the last common merge with that file.
+const char* const kMigrate1to2 = R"SQL(
+ALTER TABLE planes ADD COLUMN import_key TEXT;
+ALTER TABLE lines  ADD COLUMN import_key TEXT;
+ALTER TABLE points ADD COLUMN import_key TEXT;
+CREATE INDEX planes_import_key ON planes(import_key) WHERE import_key IS NOT NULL;
+CREATE INDEX lines_import_key  ON lines(import_key)  WHERE import_key IS NOT NULL;
+CREATE INDEX points_import_key ON points(import_key) WHERE import_key IS NOT NULL;
+
+CREATE TABLE merges (
+  uuid            TEXT PRIMARY KEY,
+  peer_file_uuid  TEXT NOT NULL,
+  peer_name       TEXT NOT NULL,
+  peer_path       TEXT NOT NULL DEFAULT '',
+  merged_at       TEXT NOT NULL,
+  device          TEXT NOT NULL,
+  added           INTEGER NOT NULL DEFAULT 0,
+  skipped         INTEGER NOT NULL DEFAULT 0,
+  conflicts       INTEGER NOT NULL DEFAULT 0
+);
+CREATE INDEX merges_peer ON merges(peer_file_uuid, merged_at);
+)SQL";
+
+const char* const kRecordTables[] = {"devices", "people", "units",  "contacts", "stations",
+                                     "planes",  "lines",  "points", "photos",   nullptr};
+
+}  // namespace
+
+const char* const* record_tables() { return kRecordTables; }
+
+void create_schema(Db& db) {
+  db.exec(kSchemaV1);
+  db.exec("PRAGMA application_id = " + std::to_string(kApplicationId));
+  db.exec("PRAGMA user_version = 1");
+  migrate(db, 1);
+}
+
+void migrate(Db& db, int from) {
+  if (from < 1 || from > kSchemaVersion)
+    throw std::logic_error("no migration from schema version " + std::to_string(from));
+  static const char* const steps[] = {nullptr, kMigrate1to2};  // steps[v]: v -> v+1
+  for (int v = from; v < kSchemaVersion; ++v) {
+    db.exec(steps[v]);
+    db.exec("PRAGMA user_version = " + std::to_string(v + 1));
+  }
+}
+
+}  // namespace cairn::store

@@ -1,0 +1,149 @@
+#include "storage/sqlite.h"
+
+#include <sqlite3.h>
+
+namespace cairn::store {
+
+namespace {
+[[noreturn]] void fail(sqlite3* db, int rc, const std::string& context) {
+  std::string msg = db ? sqlite3_errmsg(db) : sqlite3_errstr(rc);
+  int code = db ? sqlite3_extended_errcode(db) : rc;
+  throw SqlError(context.empty() ? msg : context + ": " + msg, code);
+}
+}  // namespace
+
+Db::Db(const std::string& path, int flags) {
+  int rc = sqlite3_open_v2(path.c_str(), &db_, flags, nullptr);
+  if (rc != SQLITE_OK) {
+    std::string msg = db_ ? sqlite3_errmsg(db_) : sqlite3_errstr(rc);
+    sqlite3_close_v2(db_);
+    db_ = nullptr;
+    throw SqlError("cannot open " + path + ": " + msg, rc);
+  }
+  sqlite3_extended_result_codes(db_, 1);
+}
+
+Db::~Db() { close(); }
+
+Db::Db(Db&& o) noexcept : db_(o.db_) { o.db_ = nullptr; }
+
+Db& Db::operator=(Db&& o) noexcept {
+  if (this != &o) {
+    close();
+    db_ = o.db_;
+    o.db_ = nullptr;
+  }
+  return *this;
+}
+
+void Db::close() {
+  if (db_) sqlite3_close_v2(db_);
+  db_ = nullptr;
+}
+
+void Db::exec(const std::string& sql) {
+  char* err = nullptr;
+  int rc = sqlite3_exec(db_, sql.c_str(), nullptr, nullptr, &err);
+  if (rc != SQLITE_OK) {
+    std::string msg = err ? err : sqlite3_errstr(rc);
+    sqlite3_free(err);
+    throw SqlError(msg, sqlite3_extended_errcode(db_));
+  }
+}
+
+Stmt Db::prepare(std::string_view sql) { return Stmt(*this, sql); }
+
+std::string Db::query_text(const std::string& sql) {
+  Stmt s(*this, sql);
+  return s.step() ? s.text(0) : std::string();
+}
+
+int64_t Db::query_int(const std::string& sql) {
+  Stmt s(*this, sql);
+  return s.step() ? s.int64(0) : 0;
+}
+
+int64_t Db::changes() const { return sqlite3_changes64(db_); }
+
+std::string Db::errmsg() const { return db_ ? sqlite3_errmsg(db_) : ""; }
+
+Stmt::Stmt(Db& db, std::string_view sql) : db_(&db) {
+  int rc = sqlite3_prepare_v2(db.handle(), sql.data(), static_cast<int>(sql.size()), &st_, nullptr);
+  if (rc != SQLITE_OK) fail(db.handle(), rc, "preparing SQL");
+}
+
+Stmt::~Stmt() { sqlite3_finalize(st_); }
+
+Stmt::Stmt(Stmt&& o) noexcept : db_(o.db_), st_(o.st_) { o.st_ = nullptr; }
+
+#define CAIRN_BIND(call)                                  \
+  do {                                                    \
+    int rc = (call);                                      \
+    if (rc != SQLITE_OK) fail(db_->handle(), rc, "bind"); \
+  } while (0)
+
+Stmt& Stmt::bind(int i, std::nullptr_t) {
+  CAIRN_BIND(sqlite3_bind_null(st_, i));
+  return *this;
+}
+Stmt& Stmt::bind(int i, int64_t v) {
+  CAIRN_BIND(sqlite3_bind_int64(st_, i, v));
+  return *this;
+}
+Stmt& Stmt::bind(int i, double v) {
+  CAIRN_BIND(sqlite3_bind_double(st_, i, v));
+  return *this;
+}
+Stmt& Stmt::bind(int i, std::string_view v) {
+  CAIRN_BIND(sqlite3_bind_text(st_, i, v.data(), static_cast<int>(v.size()), SQLITE_TRANSIENT));
+  return *this;
+}
+Stmt& Stmt::bind(int i, const std::optional<double>& v) { return v ? bind(i, *v) : bind(i, nullptr); }
+Stmt& Stmt::bind(int i, const std::optional<int>& v) { return v ? bind(i, *v) : bind(i, nullptr); }
+Stmt& Stmt::bind(int i, const std::optional<std::string>& v) {
+  return v ? bind(i, std::string_view(*v)) : bind(i, nullptr);
+}
+Stmt& Stmt::bind_text_or_null(int i, const std::string& v) {
+  return v.empty() ? bind(i, nullptr) : bind(i, std::string_view(v));
+}
+#undef CAIRN_BIND
+
+bool Stmt::step() {
+  int rc = sqlite3_step(st_);
+  if (rc == SQLITE_ROW) return true;
+  if (rc == SQLITE_DONE) return false;
+  fail(db_->handle(), rc, "");
+}
+
+void Stmt::run() {
+  while (step()) {
+  }
+}
+
+void Stmt::reset() {
+  sqlite3_reset(st_);
+  sqlite3_clear_bindings(st_);
+}
+
+bool Stmt::is_null(int c) const { return sqlite3_column_type(st_, c) == SQLITE_NULL; }
+int64_t Stmt::int64(int c) const { return sqlite3_column_int64(st_, c); }
+double Stmt::real(int c) const { return sqlite3_column_double(st_, c); }
+std::string Stmt::text(int c) const {
+  const unsigned char* p = sqlite3_column_text(st_, c);
+  if (!p) return {};
+  return std::string(reinterpret_cast<const char*>(p), static_cast<size_t>(sqlite3_column_bytes(st_, c)));
+}
+std::optional<double> Stmt::opt_real(int c) const {
+  if (is_null(c)) return std::nullopt;
+  return real(c);
+}
+std::optional<int> Stmt::opt_int(int c) const {
+  if (is_null(c)) return std::nullopt;
+  return integer(c);
+}
+std::optional<std::string> Stmt::opt_text(int c) const {
+  if (is_null(c)) return std::nullopt;
+  return text(c);
+}
+
+}  // namespace cairn::store

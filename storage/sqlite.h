@@ -1,0 +1,101 @@
+// A thin RAII layer over the SQLite C API, used by every storage module.
+// Every statement is prepared and its values bound as parameters (never pasted
+// into SQL text), so a name such as "'); DROP TABLE stations;--" is stored as
+// it is written (SQLite documentation, "Binding Values To Prepared Statements").
+#pragma once
+#include <cstdint>
+#include <optional>
+#include <stdexcept>
+#include <string>
+#include <string_view>
+
+struct sqlite3;
+struct sqlite3_stmt;
+
+namespace cairn::store {
+
+// An SQLite failure, with SQLite's own message and the extended result code.
+class SqlError : public std::runtime_error {
+public:
+  SqlError(const std::string& what, int code) : std::runtime_error(what), code_(code) {}
+  int code() const { return code_; }
+
+private:
+  int code_;
+};
+
+class Stmt;
+
+// One database connection.
+class Db {
+public:
+  Db() = default;
+  // Opens PATH with sqlite3_open_v2 flags (SQLITE_OPEN_*). Throws SqlError.
+  Db(const std::string& path, int flags);
+  ~Db();
+  Db(Db&& o) noexcept;
+  Db& operator=(Db&& o) noexcept;
+  Db(const Db&) = delete;
+  Db& operator=(const Db&) = delete;
+
+  sqlite3* handle() const { return db_; }
+  explicit operator bool() const { return db_ != nullptr; }
+  void close();
+
+  // Runs one or more statements without parameters (schema, pragmas).
+  void exec(const std::string& sql);
+  Stmt prepare(std::string_view sql);
+  // First column of the first row of a parameterless query, as text ("" when none).
+  std::string query_text(const std::string& sql);
+  int64_t query_int(const std::string& sql);
+  int64_t changes() const;
+  std::string errmsg() const;
+
+private:
+  sqlite3* db_ = nullptr;
+};
+
+// A prepared statement. Parameters are numbered from 1, columns from 0.
+class Stmt {
+public:
+  Stmt(Db& db, std::string_view sql);
+  ~Stmt();
+  Stmt(Stmt&& o) noexcept;
+  Stmt(const Stmt&) = delete;
+  Stmt& operator=(const Stmt&) = delete;
+  Stmt& operator=(Stmt&&) = delete;
+
+  Stmt& bind(int i, std::nullptr_t);
+  Stmt& bind(int i, int64_t v);
+  Stmt& bind(int i, int v) { return bind(i, static_cast<int64_t>(v)); }
+  Stmt& bind(int i, double v);
+  Stmt& bind(int i, std::string_view v);
+  Stmt& bind(int i, const std::string& v) { return bind(i, std::string_view(v)); }
+  Stmt& bind(int i, const char* v) { return bind(i, std::string_view(v)); }
+  Stmt& bind(int i, const std::optional<double>& v);
+  Stmt& bind(int i, const std::optional<int>& v);
+  Stmt& bind(int i, const std::optional<std::string>& v);
+  // Binds a text that is NULL when empty.
+  Stmt& bind_text_or_null(int i, const std::string& v);
+
+  // Steps once: true when a row is ready, false when done. Throws SqlError.
+  bool step();
+  // Steps to completion (for statements that return no rows).
+  void run();
+  void reset();
+
+  bool is_null(int col) const;
+  int64_t int64(int col) const;
+  int integer(int col) const { return static_cast<int>(int64(col)); }
+  double real(int col) const;
+  std::string text(int col) const;  // "" for NULL
+  std::optional<double> opt_real(int col) const;
+  std::optional<int> opt_int(int col) const;
+  std::optional<std::string> opt_text(int col) const;
+
+private:
+  Db* db_;
+  sqlite3_stmt* st_ = nullptr;
+};
+
+}  // namespace cairn::store

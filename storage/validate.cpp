@@ -1,0 +1,109 @@
+#include "storage/validate.h"
+
+#include <cctype>
+#include <charconv>
+#include <cmath>
+#include <cstdio>
+
+#include "storage/iso8601.h"
+
+namespace cairn::store {
+
+std::string format_number(double v) {
+  // %.15g prints any decimal of up to 15 significant digits back exactly
+  // (DBL_DIG = 15), so a typed value survives list -> import -> list unchanged.
+  char buf[40];
+  std::snprintf(buf, sizeof buf, "%.15g", v);
+  std::string s = buf;
+  if (s == "-0") s = "0";
+  return s;
+}
+
+std::optional<double> parse_decimal(std::string_view t) {
+  while (!t.empty() && std::isspace(static_cast<unsigned char>(t.front()))) t.remove_prefix(1);
+  while (!t.empty() && std::isspace(static_cast<unsigned char>(t.back()))) t.remove_suffix(1);
+  if (!t.empty() && t.front() == '+') t.remove_prefix(1);
+  if (t.empty()) return std::nullopt;
+  double v = 0;
+  auto [p, ec] = std::from_chars(t.data(), t.data() + t.size(), v, std::chars_format::fixed);
+  if (ec != std::errc() || p != t.data() + t.size() || !std::isfinite(v)) return std::nullopt;
+  return v;
+}
+
+Check check_number_text(std::string_view text, const std::string& what, double* out) {
+  auto v = parse_decimal(text);
+  if (!v) return Broken{"number", what + " '" + std::string(text) + "' is not a number"};
+  *out = *v;
+  return std::nullopt;
+}
+
+Check check_integer_text(std::string_view text, const std::string& what, int* out) {
+  auto v = parse_decimal(text);
+  if (!v || *v != std::floor(*v) || std::abs(*v) > 1e9)
+    return Broken{"integer", what + " '" + std::string(text) + "' is not a whole number"};
+  *out = static_cast<int>(*v);
+  return std::nullopt;
+}
+
+Check check_latitude(double v) {
+  if (std::isfinite(v) && v >= -90 && v <= 90) return std::nullopt;
+  return Broken{"lat-range", "latitude " + format_number(v) + " is outside -90..90 degrees"};
+}
+
+Check check_longitude(double v) {
+  if (std::isfinite(v) && v >= -180 && v <= 180) return std::nullopt;
+  return Broken{"lon-range", "longitude " + format_number(v) + " is outside -180..180 degrees"};
+}
+
+Check check_elevation(double v) {
+  if (std::isfinite(v) && v >= -500 && v <= 9000) return std::nullopt;
+  return Broken{"elevation-range", "elevation " + format_number(v) + " m is outside -500..9000 m"};
+}
+
+Check check_accuracy(double v, const std::string& what) {
+  if (std::isfinite(v) && v >= 0) return std::nullopt;
+  return Broken{"accuracy-range", what + " " + format_number(v) + " m is negative"};
+}
+
+Check check_quality(int v) {
+  if (v >= 1 && v <= 5) return std::nullopt;
+  return Broken{"quality-range", "quality " + std::to_string(v) + " is outside 1..5"};
+}
+
+Check check_age_rank(int v) {
+  if (v >= 1) return std::nullopt;
+  return Broken{"age-rank", "age_rank " + std::to_string(v) + " is below 1 (1 = oldest)"};
+}
+
+Check check_colour(const std::string& v) {
+  bool ok = v.size() == 7 && v[0] == '#';
+  for (size_t i = 1; ok && i < v.size(); ++i) ok = std::isxdigit(static_cast<unsigned char>(v[i])) != 0;
+  if (ok) return std::nullopt;
+  return Broken{"colour", "colour '" + v + "' is not of the form #RRGGBB"};
+}
+
+Check check_sha256(const std::string& v) {
+  bool ok = v.size() == 64;
+  for (char c : v) ok = ok && ((c >= '0' && c <= '9') || (c >= 'a' && c <= 'f'));
+  if (ok) return std::nullopt;
+  return Broken{"sha256", "SHA-256 '" + v + "' is not 64 lower-case hexadecimal digits"};
+}
+
+Check check_time(const std::string& v, std::string* normalised) {
+  auto t = parse_iso8601(v);
+  if (!t) return Broken{"time", t.error()};
+  if (normalised) *normalised = t->text;
+  return std::nullopt;
+}
+
+std::string default_unit_colour(int age_rank) {
+  // Okabe & Ito (2008), "Color Universal Design": orange, sky blue, bluish
+  // green, yellow, blue, vermillion, reddish purple (black left out: it hides linework).
+  static const char* const kPalette[] = {"#E69F00", "#56B4E9", "#009E73", "#F0E442",
+                                         "#0072B2", "#D55E00", "#CC79A7"};
+  const int n = static_cast<int>(sizeof kPalette / sizeof kPalette[0]);
+  const int i = ((age_rank - 1) % n + n) % n;
+  return kPalette[i];
+}
+
+}  // namespace cairn::store

@@ -1,0 +1,43 @@
+// Boundary rules shared by the record API (storage/repository.h) and the
+// importers (storage/import.h). Each rule has a stable id; the ids and their
+// messages are listed in storage/SCHEMA.md and tested in tests/storage.
+#pragma once
+#include <optional>
+#include <string>
+#include <string_view>
+
+namespace cairn::store {
+
+// A broken rule: its id and a sentence naming the value.
+struct Broken {
+  std::string rule;
+  std::string message;
+};
+using Check = std::optional<Broken>;
+
+// Shortest decimal text of a number as it appears in messages and CSV ("30", "40.5").
+std::string format_number(double v);
+
+// A whole text as a finite decimal number (leading '+' allowed, no hex, no inf/nan).
+std::optional<double> parse_decimal(std::string_view text);
+// Rule "number": `what` is the quantity ("latitude").
+Check check_number_text(std::string_view text, const std::string& what, double* out);
+// Rule "integer": a whole number.
+Check check_integer_text(std::string_view text, const std::string& what, int* out);
+
+Check check_latitude(double v);          // "lat-range": -90..90 (WGS84)
+Check check_longitude(double v);         // "lon-range": -180..180
+Check check_elevation(double v);         // "elevation-range": -500..9000 m
+Check check_accuracy(double v, const std::string& what);  // "accuracy-range": >= 0
+Check check_quality(int v);              // "quality-range": 1..5
+Check check_age_rank(int v);             // "age-rank": >= 1
+Check check_colour(const std::string& v);  // "colour": #RRGGBB
+Check check_sha256(const std::string& v);  // "sha256": 64 lower-case hex digits
+// "time": ISO 8601; on success *normalised receives parse_iso8601's text.
+Check check_time(const std::string& v, std::string* normalised);
+
+// The Okabe-Ito colour-blind-safe palette (Okabe & Ito, 2008), without its
+// black, cycled by age rank: the default colour of a unit.
+std::string default_unit_colour(int age_rank);
+
+}  // namespace cairn::store
