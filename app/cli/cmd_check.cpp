@@ -1,0 +1,194 @@
+// cairn check FILE: contact fits, then the flags grouped by station.
+#include <cstdio>
+#include <iomanip>
+#include <iostream>
+#include <map>
+#include <sstream>
+
+#include "app/cli/command.h"
+#include "app/cli/json.h"
+#include "app/cli/magnetic_source.h"
+#include "geomath/crosscheck.h"
+#include "geomath/notation.h"
+#include "geomath/strike_lines.h"
+#include "storage/check_input.h"
+
+namespace cairn::cli {
+namespace {
+
+std::string num(std::optional<double> v, const char* f = "%.1f") {
+  if (!v) return "-";
+  char buf[32];
+  std::snprintf(buf, sizeof buf, f, *v);
+  return buf;
+}
+
+double option_number(Args& args, const std::string& opt, double fallback, double lo, double hi) {
+  auto v = take_option(args, opt);
+  if (!v) return fallback;
+  char* end = nullptr;
+  const double d = std::strtod(v->c_str(), &end);
+  if (end == v->c_str() || *end || !(d >= lo && d <= hi))
+    throw std::invalid_argument(opt + " must be a number from " + num(lo, "%g") + " to " + num(hi, "%g") +
+                                ", not '" + *v + "'");
+  return d;
+}
+
+void write_json(std::ostream& out, const geo::CheckReport& rep, geo::Severity min) {
+  JsonWriter j(out);
+  j.begin_object();
+  j.key("fits").begin_array();
+  for (const auto& f : rep.fits) {
+    j.begin_object();
+    j.key("contact").value(f.contact);
+    j.key("points").value(static_cast<unsigned long>(f.points));
+    if (f.plane) {
+      j.key("strike").value(f.plane->strike);
+      j.key("dip").value(f.plane->dip);
+      j.key("dip_direction").value(f.plane->dip_direction());
+      j.key("cone95").value(f.fit->cone95);
+      j.key("rms").value(f.fit->rms);
+      j.key("M").value(f.fit->M);
+      j.key("K").value(f.fit->K);
+    } else {
+      for (const char* k : {"strike", "dip", "dip_direction", "cone95", "rms", "M", "K"}) j.key(k).null();
+    }
+    j.key("verdict").value(f.verdict);
+    j.end_object();
+  }
+  j.end_array();
+  j.key("flags").begin_array();
+  auto opt = [](const std::string& s) { return s.empty() ? std::optional<std::string>{} : std::optional<std::string>{s}; };
+  for (const auto& f : rep.flags) {
+    if (f.severity < min) continue;
+    j.begin_object();
+    j.key("rule").value(f.rule);
+    j.key("severity").value(geo::severity_name(f.severity));
+    j.key("station").value(opt(f.station));
+    j.key("ref").value(opt(f.ref));
+    j.key("reading").value(opt(f.reading));
+    j.key("contact").value(opt(f.contact));
+    j.key("misfit").value(f.misfit);
+    j.key("misfit_corrected").value(f.misfit_corrected);
+    j.key("message").value(f.message);
+    j.key("action").value(f.action);
+    j.key("caution").value(opt(f.caution));
+    j.end_object();
+  }
+  j.end_array();
+  j.end_object();
+  out << "\n";
+}
+
+void write_text(std::ostream& out, const store::CheckData& data, const geo::CheckReport& rep, geo::Severity min) {
+  out << "Contact fits (strike by the right-hand rule, true north; cone at 95%)\n";
+  out << "  " << std::left << std::setw(24) << "contact" << std::right << std::setw(6) << "points" << "  "
+      << std::left << std::setw(11) << "strike/dip" << std::setw(13) << "quadrant" << std::right << std::setw(7)
+      << "cone95" << std::setw(8) << "rms m" << "  verdict\n";
+  for (const auto& f : rep.fits) {
+    out << "  " << std::left << std::setw(24) << f.contact << std::right << std::setw(6) << f.points << "  ";
+    if (f.plane) {
+      out << std::left << std::setw(11) << geo::format_strike_dip(*f.plane) << std::setw(13)
+          << geo::format_quadrant(*f.plane) << std::right << std::setw(7) << num(f.fit->cone95) << std::setw(8)
+          << num(f.fit->rms) << "  " << f.verdict << "\n";
+    } else {
+      out << std::left << std::setw(39) << "-" << f.verdict << "\n";
+    }
+  }
+  size_t shown = 0;
+  std::map<std::string, int> by_severity;
+  std::string last_station = "\x01";
+  out << "\nFlags\n";
+  for (const auto& f : rep.flags) {
+    if (f.severity < min) continue;
+    ++shown;
+    ++by_severity[geo::severity_name(f.severity)];
+    if (f.station != last_station) {
+      out << "  " << (f.station.empty() ? "Contacts" : "Station " + f.station) << "\n";
+      last_station = f.station;
+    }
+    std::string head = std::string(geo::severity_name(f.severity)) + " " + f.rule;
+    for (auto& c : head) c = static_cast<char>(std::toupper(static_cast<unsigned char>(c)));
+    out << "    [" << head << "]" << (f.ref.empty() ? "" : " " + f.ref) << "  " << f.message << "\n";
+    out << "      action: " << f.action << "\n";
+    if (!f.caution.empty()) out << "      CAUTION: " << f.caution << "\n";
+  }
+  if (shown == 0) out << "  none\n";
+
+  // Where next: the contact's predicted elevation at stations that name it.
+  std::map<std::string, std::vector<std::string>> lines;
+  std::map<std::string, const geo::CheckStation*> st;
+  for (const auto& s : data.input.stations) st[s.uuid] = &s;
+  for (const auto& f : rep.fits) {
+    if (!f.usable) continue;
+    std::map<std::string, bool> seen;
+    for (const auto& r : data.input.planes) {
+      if (r.contact != f.contact_id || seen[r.station] || !st.count(r.station)) continue;
+      seen[r.station] = true;
+      const auto* s = st[r.station];
+      auto e = geo::elevation_at(*f.fit, s->e, s->n);
+      if (!e) continue;
+      std::string l = "    " + s->code + ": contact at " + num(e->elevation, "%.0f") + " m";
+      if (e->half_width95) l += " +/- " + num(*e->half_width95, "%.0f");
+      if (s->z) l += " (station at " + num(*s->z, "%.0f") + " m: " + num(e->elevation - *s->z, "%+.0f") + " m)";
+      lines[f.contact].push_back(l);
+    }
+  }
+  if (!lines.empty()) {
+    out << "\nWhere next (the contact's predicted elevation at stations that record it, 95%)\n";
+    for (const auto& [c, ls] : lines) {
+      out << "  " << c << "\n";
+      for (const auto& l : ls) out << l << "\n";
+    }
+  }
+  out << "\n" << shown << " flag" << (shown == 1 ? "" : "s");
+  for (const char* s : {"hazard", "conflict", "query", "note"})
+    if (by_severity.count(s)) out << ", " << by_severity[s] << " " << s;
+  out << "\n";
+}
+
+int run_check(const Args& in, std::ostream& out, std::ostream& err) {
+  Args args = in;
+  const bool json = take_flag(args, "--json");
+  geo::Severity min = geo::Severity::Note;
+  if (auto s = take_option(args, "--min-severity")) {
+    auto v = geo::parse_severity(*s);
+    if (!v) throw std::invalid_argument("--min-severity must be one of note, query, conflict, hazard, not '" + *s + "'");
+    min = *v;
+  }
+  geo::CheckOptions o;
+  o.nearby_radius = option_number(args, "--nearby", 0, 0, 100000);
+  o.friction_angle = option_number(args, "--friction", o.friction_angle, 0, 89);
+  o.confidence = option_number(args, "--confidence", o.confidence, 0.5, 0.9999);
+  reject_unknown_options(args);
+  if (args.size() != 1) throw std::invalid_argument("expected one project file");
+
+  store::OpenOptions oo;
+  oo.read_only = true;
+  oo.backups = false;
+  store::Project p = store::Project::open(args[0], oo);
+  if (!p.problem().empty()) err << "warning: " << p.problem() << "\n";
+  const geo::MagneticModel* model = nullptr;
+  try {
+    model = &wmm();
+  } catch (const std::exception& e) {
+    err << "warning: no magnetic model (" << e.what() << "); declination-suspect is not checked\n";
+  }
+  store::LocalDeclination decl;
+  if (model)
+    decl = [model](double lat, double lon, double year) -> std::optional<double> {
+      return model->evaluate(lat, lon, 0.0, year).declination;
+    };
+  const store::CheckData data = store::load_check_input(p, decl);
+  const geo::CheckReport rep = geo::run_crosscheck(data.input, o);
+  if (json) write_json(out, rep, min);
+  else write_text(out, data, rep, min);
+  return 0;
+}
+
+}  // namespace
+
+CAIRN_COMMAND(Command{"check", "cairn check FILE [--json] [--min-severity note|query|conflict|hazard] [--nearby METRES] [--friction DEG] [--confidence P]",
+                      "Fit every contact and cross-check the readings against the fits", run_check});
+
+}  // namespace cairn::cli

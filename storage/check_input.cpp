@@ -1,0 +1,170 @@
+#include "storage/check_input.h"
+
+#include <stdexcept>
+
+#include "storage/iso8601.h"
+#include "storage/repository.h"
+
+namespace cairn::store {
+
+namespace {
+
+// Days from 1970-01-01 of a proleptic Gregorian date (H. Hinnant's
+// days_from_civil algorithm, "chrono-Compatible Low-Level Date Algorithms").
+long days_from_civil(int y, int m, int d) {
+  y -= m <= 2;
+  const long era = (y >= 0 ? y : y - 399) / 400;
+  const long yoe = y - era * 400;
+  const long doy = (153 * (m + (m > 2 ? -3 : 9)) + 2) / 5 + d - 1;
+  const long doe = yoe * 365 + yoe / 4 - yoe / 100 + doy;
+  return era * 146097 + doe - 719468;
+}
+
+bool is_leap(int y) { return (y % 4 == 0 && y % 100 != 0) || y % 400 == 0; }
+
+geo::CheckFacing facing_of(Facing f) {
+  switch (f) {
+    case Facing::Upright: return geo::CheckFacing::Upright;
+    case Facing::Overturned: return geo::CheckFacing::Overturned;
+    case Facing::Unknown: break;
+  }
+  return geo::CheckFacing::Unknown;
+}
+
+}  // namespace
+
+std::optional<double> minutes_since_epoch(const std::string& iso) {
+  if (iso.empty()) return std::nullopt;
+  auto t = parse_iso8601(iso);
+  if (!t) return std::nullopt;
+  double minutes = days_from_civil(t->year, t->month, t->day) * 1440.0;
+  const std::string& s = t->text;
+  if (s.size() >= 16 && s[10] == 'T') {
+    minutes += std::stoi(s.substr(11, 2)) * 60.0 + std::stoi(s.substr(14, 2));
+    if (s.size() >= 19 && s[16] == ':') minutes += std::stod(s.substr(17, 2)) / 60.0;
+    const size_t z = s.find_first_of("Z+-", 16);
+    if (z != std::string::npos && s[z] != 'Z') {
+      const int sign = s[z] == '+' ? 1 : -1;
+      const int oh = std::stoi(s.substr(z + 1, 2));
+      const int om = s.size() >= z + 6 ? std::stoi(s.substr(z + 4, 2)) : 0;
+      minutes -= sign * (oh * 60.0 + om);  // local = UTC + offset
+    }
+  }
+  return minutes;
+}
+
+std::optional<double> decimal_year_of(const std::string& iso) {
+  if (iso.empty()) return std::nullopt;
+  auto t = parse_iso8601(iso);
+  if (!t) return std::nullopt;
+  const long doy = days_from_civil(t->year, t->month, t->day) - days_from_civil(t->year, 1, 1);
+  return t->year + static_cast<double>(doy) / (is_leap(t->year) ? 366.0 : 365.0);
+}
+
+CheckData load_check_input(Project& p, const LocalDeclination& local_declination) {
+  CheckData out;
+  const auto stations = list_stations(p);
+  const auto contacts = list_contacts(p);
+  const auto points = list_points(p);
+  const auto planes = list_planes(p);
+  for (const auto& u : list_units(p)) out.unit_code[u.meta.uuid] = u.code;
+
+  // The working zone: the project's, else the zone of the data's mean position.
+  const ProjectInfo info = p.info();
+  std::vector<geo::LatLon> all;
+  for (const auto& s : stations) all.push_back({s.lat, s.lon});
+  for (const auto& q : points) all.push_back({q.lat, q.lon});
+  if (!info.utm_zone.empty()) {
+    auto z = geo::parse_utm_zone(info.utm_zone);
+    if (!z) throw std::runtime_error("project UTM zone: " + z.error());
+    out.zone.zone = z->zone;
+    out.zone.northp = z->northp.value_or(all.empty() || all.front().lat >= 0);
+  } else if (!all.empty()) {
+    auto z = geo::utm_zone_for(all);
+    if (!z) throw std::runtime_error("choosing a UTM zone: " + z.error());
+    out.zone = *z;
+  } else {
+    out.zone = {31, true};
+  }
+  if (!all.empty()) {
+    double lat = 0, lon = 0;
+    for (const auto& a : all) lat += a.lat, lon += a.lon;
+    auto g = geo::utm_grid_factors({lat / all.size(), lon / all.size()}, out.zone);
+    if (g) out.input.grid = *g;
+  }
+  auto project = [&](double lat, double lon, const std::string& what) {
+    auto u = geo::to_utm({lat, lon}, out.zone);
+    if (!u) throw std::runtime_error(what + ": " + u.error());
+    return *u;
+  };
+
+  std::unordered_map<std::string, const Station*> station_by_id;
+  for (const auto& s : stations) {
+    station_by_id[s.meta.uuid] = &s;
+    const auto u = project(s.lat, s.lon, "station " + s.code);
+    geo::CheckStation cs;
+    cs.uuid = s.meta.uuid;
+    cs.code = s.code;
+    cs.e = u.easting;
+    cs.n = u.northing;
+    cs.z = s.elevation;
+    cs.h_acc = s.h_accuracy.value_or(0);
+    cs.v_acc = s.v_accuracy.value_or(0);
+    cs.unit = s.unit;
+    out.input.stations.push_back(cs);
+  }
+  std::unordered_map<std::string, size_t> contact_index;
+  for (const auto& c : contacts) {
+    geo::CheckContact cc;
+    cc.uuid = c.meta.uuid;
+    cc.name = c.name;
+    cc.type = std::string(to_string(c.type));
+    cc.lower_unit = c.lower_unit;
+    cc.upper_unit = c.upper_unit;
+    contact_index[c.meta.uuid] = out.input.contacts.size();
+    out.input.contacts.push_back(cc);
+  }
+  for (const auto& q : points) {
+    auto it = contact_index.find(q.contact);
+    if (it == contact_index.end() || !q.elevation) continue;  // a point without elevation cannot be fitted
+    const auto u = project(q.lat, q.lon, "contact point " + q.meta.uuid);
+    auto& cc = out.input.contacts[it->second];
+    cc.points.push_back({u.easting, u.northing, *q.elevation, q.h_accuracy.value_or(0), q.v_accuracy.value_or(0)});
+    cc.point_ids.push_back(q.meta.uuid);
+  }
+  // A contact whose points state accuracies only in part is fitted without them:
+  // fit_plane needs all or none.
+  for (auto& cc : out.input.contacts) {
+    bool any = false, all_given = true;
+    for (const auto& fp : cc.points) {
+      const bool given = fp.h_acc > 0 || fp.v_acc > 0;
+      any = any || given;
+      all_given = all_given && given;
+    }
+    if (any && !all_given)
+      for (auto& fp : cc.points) fp.h_acc = fp.v_acc = 0;
+  }
+  for (const auto& r : planes) {
+    geo::CheckPlane cp;
+    cp.uuid = r.meta.uuid;
+    cp.station = r.station;
+    cp.ref = r.ref;
+    cp.kind = std::string(to_string(r.kind));
+    cp.plane = geo::Plane{r.strike, r.dip};
+    cp.magnetic = r.north == North::Magnetic;
+    cp.declination_applied = r.declination;
+    cp.quality = r.quality;
+    cp.facing = facing_of(r.facing);
+    cp.contact = r.contact;
+    cp.time_minutes = minutes_since_epoch(r.time);
+    if (local_declination) {
+      auto st = station_by_id.find(r.station);
+      auto year = decimal_year_of(r.time);
+      if (st != station_by_id.end() && year) cp.local_declination = local_declination(st->second->lat, st->second->lon, *year);
+    }
+    out.input.planes.push_back(cp);
+  }
+  return out;
+}
+
+}  // namespace cairn::store
