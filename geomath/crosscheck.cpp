@@ -383,10 +383,15 @@ CheckReport run_crosscheck(const CheckInput& in, const CheckOptions& o) {
       if (r.facing == CheckFacing::Upright) ++upright;
     }
     const bool expect_overturned = overturned > upright;
+    NearIndex near_contact(o.facing_radius);
+    for (size_t k = 0; k < c.points.size(); ++k) near_contact.add(c.points[k].e, c.points[k].n, k);
     int agree = 0, disagree = 0;
     std::string wrong;
     for (const auto& s : in.stations) {
       if (!s.z || (s.unit != c.upper_unit && s.unit != c.lower_unit)) continue;
+      bool near = false;
+      near_contact.within(s.e, s.n, o.facing_radius, [&](size_t, double) { near = true; });
+      if (!near) continue;
       const double d = (Vec3(s.e, s.n, *s.z) - ctr).dot(nrm);
       // A station too close to the plane to tell which side it is on does not vote.
       if (std::abs(d) <= std::max(1.0, 2.0 * std::max(s.v_acc, s.h_acc))) continue;

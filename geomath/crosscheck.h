@@ -75,6 +75,10 @@ struct CheckOptions {
   double toppling_window = 10.0;     // +/- degrees (Goodman & Bray, 1976)
   double steep_slope = 35.0;         // degrees: re-measure actions on steeper ground carry a caution
   double terrain_radius = 150.0;     // metres, for estimating the ground slope from nearby stations
+  // Only stations this close (metres) to one of a contact's points say which side
+  // of it they are on: a plane fitted to one stretch of a contact says nothing
+  // about rocks far along strike (common practice, no published source).
+  double facing_radius = 400.0;
   double duplicate_angle = 2.0;      // degrees
   double duplicate_minutes = 10.0;
   double min_declination = 2.0;      // smaller declinations cannot be told from compass error

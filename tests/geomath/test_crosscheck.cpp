@@ -221,6 +221,11 @@ TEST(Crosscheck, FacingConflict) {
   CheckInput bad = build(false);
   EXPECT_EQ(flags_of(run_crosscheck(bad), "facing-conflict").size(), 1u);
   // Readings marked overturned say the limb is overturned: then younger-below is expected.
+  // Near miss: the same stations far along strike from the mapped points do not vote.
+  CheckInput far = bad;
+  // The plane strikes north, so moving 3 km north keeps each station on its side.
+  for (auto& s : far.stations) s.n += 3000;
+  EXPECT_EQ(flags_of(run_crosscheck(far), "facing-conflict").size(), 0u);
   CheckPlane o = reading("o", "u0", truth, "bedding", "C1");
   o.facing = CheckFacing::Overturned;
   bad.planes.push_back(o);
