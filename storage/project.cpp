@@ -10,6 +10,7 @@
 #include <filesystem>
 #include <thread>
 
+#include "geomath/geodesy.h"
 #include "geomath/magnetic.h"
 #include "storage/ids.h"
 #include "storage/iso8601.h"
@@ -149,19 +150,11 @@ std::string checked_settings(const std::string& name, const std::string& utm_zon
 }  // namespace
 
 Result<std::string> parse_utm_zone(const std::string& text) {
-  std::string s;
-  for (char c : text)
-    if (!std::isspace(static_cast<unsigned char>(c))) s += static_cast<char>(std::toupper(static_cast<unsigned char>(c)));
-  auto bad = [&] {
-    return Result<std::string>::failure("UTM zone '" + text +
-                                        "' is not a zone number 1-60 followed by N or S (e.g. 33N)");
-  };
-  if (s.size() < 2 || (s.back() != 'N' && s.back() != 'S')) return bad();
-  const std::string num = s.substr(0, s.size() - 1);
-  if (num.empty() || num.size() > 2 || !std::all_of(num.begin(), num.end(), ::isdigit)) return bad();
-  const int z = std::stoi(num);
-  if (z < 1 || z > 60) return bad();
-  return std::to_string(z) + s.back();
+  auto z = geo::parse_utm_zone(text);
+  if (!z) return Result<std::string>::failure("UTM zone " + z.error());
+  if (!z->northp)
+    return Result<std::string>::failure("UTM zone '" + text + "' needs its hemisphere, N or S (e.g. 33N)");
+  return std::to_string(z->zone) + (*z->northp ? "N" : "S");
 }
 
 std::vector<std::string> list_backups(const std::string& path, const std::string& dir) {

@@ -427,7 +427,7 @@ T read_row(const Stmt& s) {
 
 template <class T>
 std::vector<T> query(Project& p, const std::string& where, const std::vector<std::string>& args,
-                     const std::string& order = "created, uuid") {
+                     const std::string& order = "created, rowid") {
   Stmt s(p.db(), select_sql<T>() + (where.empty() ? "" : " WHERE " + where) + " ORDER BY " + order);
   for (size_t i = 0; i < args.size(); ++i) s.bind(static_cast<int>(i) + 1, args[i]);
   std::vector<T> out;
@@ -653,7 +653,7 @@ std::string live_clause(const ListOptions& o, std::vector<std::string>& args, co
 
 template <class T>
 std::vector<T> list_kind(Project& p, const ListOptions& o, const char* filter_col = nullptr,
-                         const std::string& filter = "", const std::string& order = "created, uuid") {
+                         const std::string& filter = "", const std::string& order = "created, rowid") {
   std::vector<std::string> args;
   const std::string w = live_clause(o, args, filter_col, filter);
   return query<T>(p, w, args, order);

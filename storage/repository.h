@@ -71,7 +71,7 @@ std::vector<PlanarReading> list_planes(Project& p, const ListOptions& o = {});
 std::vector<LinearReading> list_lines(Project& p, const ListOptions& o = {});
 std::vector<ContactPoint> list_points(Project& p, const ListOptions& o = {});
 std::vector<Photo> list_photos(Project& p, const ListOptions& o = {});
-// Lists come in creation order (created, then uuid) unless said otherwise.
+// Lists come in creation order (created, then insertion order) unless said otherwise.
 
 // One record by UUID, deleted or not.
 std::optional<Person> get_person(Project& p, const std::string& uuid);

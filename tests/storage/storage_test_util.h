@@ -6,6 +6,8 @@
 #include <sstream>
 #include <string>
 
+#include "storage/project.h"
+
 namespace cairn::store::testing {
 
 class TempDir {
@@ -25,6 +27,13 @@ public:
 private:
   std::filesystem::path path_;
 };
+
+// Options for tests: no rolling backups (each test says when it wants them).
+inline OpenOptions quiet() {
+  OpenOptions o;
+  o.backups = false;
+  return o;
+}
 
 inline void write_file(const std::string& path, const std::string& text) {
   std::ofstream f(path, std::ios::binary);

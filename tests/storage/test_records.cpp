@@ -24,8 +24,7 @@ using cairn::store::testing::TempDir;
 namespace {
 
 OpenOptions quiet() {
-  OpenOptions o;
-  o.backups = false;
+  OpenOptions o = cairn::store::testing::quiet();
   o.device_id = "0b7c1a52-3f7e-4c55-9d6e-8f1a2b3c4d5e";
   o.device_name = "tablet one";
   return o;

@@ -1,0 +1,51 @@
+// `cairn import FILE KIND PATH [--contact NAME]`: reads a CSV (or, for
+// waypoints, a GPX 1.1 file) into a project, all or nothing.
+#include <ostream>
+#include <stdexcept>
+
+#include "app/cli/command.h"
+#include "app/cli/project_access.h"
+#include "storage/import.h"
+
+namespace cairn::cli {
+namespace {
+
+const char* kKinds = "units, contacts, stations, planes, lines, points, waypoints";
+
+int run(const Args& in, std::ostream& out, std::ostream& err) {
+  Args args = in;
+  const auto contact = take_option(args, "--contact");
+  reject_unknown_options(args);
+  if (args.size() != 3) throw std::invalid_argument("expected FILE KIND PATH");
+  const std::string& file = args[0];
+  const std::string& kind_name = args[1];
+  const std::string& path = args[2];
+  const bool waypoints = kind_name == "waypoints";
+  const auto kind = store::parse_import_kind(kind_name);
+  if (!waypoints && !kind) throw std::invalid_argument("KIND '" + kind_name + "' is not one of: " + kKinds);
+  if (contact && !waypoints) throw std::invalid_argument("--contact goes with KIND waypoints only");
+  const std::string text = read_text_file(path);
+  auto project = open_project(file, false, err);
+  const store::ImportReport rep = waypoints ? store::import_gpx(project, text, path, contact.value_or(""))
+                                            : store::import_csv(project, *kind, text, path);
+  if (!rep.ok()) {
+    for (const auto& e : rep.errors) err << e << "\n";
+    err << "nothing imported: " << rep.errors.size() << (rep.errors.size() == 1 ? " problem" : " problems")
+        << " in " << path << "\n";
+    return 1;
+  }
+  const std::string what = waypoints ? (contact ? "contact points" : "stations") : kind_name;
+  out << "imported " << rep.added << " " << what << " from " << path;
+  if (rep.skipped) out << " (" << rep.skipped << " already in the project)";
+  out << "\n";
+  return 0;
+}
+
+}  // namespace
+
+CAIRN_COMMAND(Command{"import", "cairn import FILE KIND PATH [--contact NAME]",
+                      "import a CSV of units, contacts, stations, planes, lines or points, or GPX waypoints "
+                      "(all or nothing)",
+                      run});
+
+}  // namespace cairn::cli

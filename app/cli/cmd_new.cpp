@@ -1,0 +1,53 @@
+// `cairn new FILE --name NAME [--utm ZONE] [--north true|magnetic] [--declination DEG]`:
+// makes an empty project file.
+#include <ostream>
+#include <stdexcept>
+
+#include "app/cli/command.h"
+#include "app/cli/project_access.h"
+#include "storage/validate.h"
+
+namespace cairn::cli {
+namespace {
+
+int run(const Args& in, std::ostream& out, std::ostream&) {
+  Args args = in;
+  const auto name = take_option(args, "--name");
+  const auto utm = take_option(args, "--utm");
+  const auto north = take_option(args, "--north");
+  const auto decl = take_option(args, "--declination");
+  reject_unknown_options(args);
+  if (args.size() != 1) throw std::invalid_argument("expected one FILE");
+  if (!name || name->empty()) throw std::invalid_argument("--name NAME is required");
+  store::NewProject np;
+  np.name = *name;
+  if (utm) np.utm_zone = *utm;
+  if (north) {
+    auto n = store::parse_north(*north);
+    if (!n) throw std::invalid_argument("--north must be one of: " + store::names_of_north());
+    np.north_default = *n;
+  }
+  if (decl) {
+    auto d = store::parse_decimal(*decl);
+    if (!d) throw std::invalid_argument("--declination '" + *decl + "' is not a number (degrees, east positive)");
+    np.declination = *d;
+  }
+  try {
+    auto p = store::Project::create(args[0], np, cli_open_options(false));
+    const auto info = p.info();
+    out << "created " << args[0] << ": project '" << info.name << "'"
+        << (info.utm_zone.empty() ? std::string(", no UTM zone") : ", UTM zone " + info.utm_zone)
+        << ", readings default to " << store::to_string(info.north_default) << " north\n";
+  } catch (const store::ValidationError& e) {
+    throw std::invalid_argument(e.what());
+  }
+  return 0;
+}
+
+}  // namespace
+
+CAIRN_COMMAND(Command{"new",
+                      "cairn new FILE --name NAME [--utm ZONE] [--north true|magnetic] [--declination DEGREES]",
+                      "make a new, empty project file (NAME.cairn)", run});
+
+}  // namespace cairn::cli
