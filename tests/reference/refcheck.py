@@ -1,0 +1,40 @@
+"""Shared plumbing for the reference checks in tests/reference/test_*.py:
+the common arguments and a pass/fail tally. Imported, never run by ctest
+(ctest runs test_*.py only).
+
+    from refcheck import parse_args, Tally
+    args = parse_args(required=("cairn",))
+    t = Tally("test_name")
+    t.check(ok, "what was checked")
+    sys.exit(t.finish())
+"""
+import argparse
+
+
+def parse_args(required=("cairn",)):
+    """--cairn PATH --tools DIR --source DIR --shared DIR; unknown arguments are ignored."""
+    parser = argparse.ArgumentParser()
+    for name in ("cairn", "tools", "source", "shared"):
+        parser.add_argument("--" + name, required=name in required)
+    args, _ = parser.parse_known_args()
+    return args
+
+
+class Tally:
+    def __init__(self, name):
+        self.name = name
+        self.passed = 0
+        self.failed = 0
+
+    def check(self, ok, what):
+        if ok:
+            self.passed += 1
+        else:
+            self.failed += 1
+            print("FAIL:", what)
+        return ok
+
+    def finish(self):
+        """Prints the closing 'N passed, N failed' line; returns the exit code."""
+        print("%s: %d passed, %d failed" % (self.name, self.passed, self.failed))
+        return 1 if self.failed else 0
