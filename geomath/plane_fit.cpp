@@ -26,8 +26,10 @@ constexpr double kMaxK = 0.8;
 // In the spirit of Jones et al. (2016): the cloud's spread across its second
 // axis must clearly exceed the positional precision along that axis, and the
 // relief must exceed the vertical precision. The factors are our own choice
-// (common practice, no published source): 10 across, 3 for relief.
-constexpr double kSpreadOverPrecision = 10.0;
+// (common practice, no published source): 3 across, 3 for relief. They are
+// deliberately lenient: a contact's trace is always long and thin, and how much
+// that matters depends on the number of points, which the 95% cone measures.
+constexpr double kSpreadOverPrecision = 3.0;
 constexpr double kReliefOverPrecision = 3.0;
 // Without any precision (three exact points, no accuracies) only the shape is
 // judged: a second-axis spread under 5% of the first is "nearly collinear"
@@ -346,7 +348,7 @@ Result<PlaneFit> fit_plane(const std::vector<FitPoint>& pts, const FitOptions& o
     if (spread2 < kSpreadOverPrecision * across_prec)
       weak("points nearly collinear",
            "The points spread only " + fmt("%.3g", spread2) + " m (1-sigma) across the line they follow, "
-           "less than 10 times " + across_what + " (" + fmt("%.3g", across_prec) + " m).");
+           "less than 3 times " + across_what + " (" + fmt("%.3g", across_prec) + " m).");
     if (relief < kReliefOverPrecision * vert_prec)
       weak(relief_brief, "The elevations vary by only " + fmt("%.3g", relief) + " m (1-sigma), less than 3 times " +
                              vert_what + " (" + fmt("%.3g", vert_prec) + " m): the dip direction is poorly constrained.");
@@ -368,11 +370,19 @@ Result<PlaneFit> fit_plane(const std::vector<FitPoint>& pts, const FitOptions& o
          "The points spread only " + fmt("%.3g", spread2) + " m across the line they follow, under 5% of "
          "their length; without accuracies the fit cannot say how much that matters.");
   }
+  // Fernández's shape figures describe the cloud; on a long, thin contact trace
+  // they fail even where the cone shows a well-determined pole, so they are
+  // reported as caveats and only the geometry tests and the cone make a fit weak.
+  std::vector<std::string> caveats;
+  auto caveat = [&](const std::string& b, const std::string& why) {
+    caveats.push_back(b);
+    full.push_back(why);
+  };
   if (f.M && *f.M < kMinM)
-    weak("points barely define a plane (M < 4)",
+    caveat("points barely define a plane (M < 4)",
          "Fernández M = " + fmt("%.2f", *f.M) + " is below 4: the points hardly stand out from a blob.");
   if (f.K && *f.K > kMaxK)
-    weak("points closer to a line than a plane (K > 0.8)",
+    caveat("points closer to a line than a plane (K > 0.8)",
          "Fernández K = " + fmt("%.2f", *f.K) + " is above 0.8: the points are closer to a line than a plane.");
   if (f.cone95 && *f.cone95 > kMaxCone)
     weak("wide confidence cone",
@@ -400,6 +410,7 @@ Result<PlaneFit> fit_plane(const std::vector<FitPoint>& pts, const FitOptions& o
   } else {
     f.verdict = "well constrained";
   }
+  if (!caveats.empty()) f.verdict += " (" + join(caveats, "; ") + ")";
   if (!full.empty()) f.weakness = join(full, " ");
   return f;
 }

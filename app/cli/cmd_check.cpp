@@ -130,7 +130,11 @@ void write_text(std::ostream& out, const store::CheckData& data, const geo::Chec
       if (!e) continue;
       std::string l = "    " + s->code + ": contact at " + num(e->elevation, "%.0f") + " m";
       if (e->half_width95) l += " +/- " + num(*e->half_width95, "%.0f");
-      if (s->z) l += " (station at " + num(*s->z, "%.0f") + " m: " + num(e->elevation - *s->z, "%+.0f") + " m)";
+      if (s->z) {
+        const double d = e->elevation - *s->z;
+        l += " (station at " + num(*s->z, "%.0f") + " m; contact " + num(std::abs(d), "%.0f") + " m " +
+             (d >= 0 ? "above" : "below") + " it)";
+      }
       lines[f.contact].push_back(l);
     }
   }

@@ -1,0 +1,119 @@
+// cairn demo [DIR]: builds the invented demo field area (see demo_area.h).
+#include <filesystem>
+#include <fstream>
+#include <iostream>
+
+#include "app/cli/command.h"
+#include "app/cli/demo_area.h"
+#include "app/cli/project_access.h"
+#include "storage/import.h"
+#include "storage/repository.h"
+
+namespace fs = std::filesystem;
+
+namespace cairn::cli {
+namespace {
+
+const char* const kFiles[] = {"tablet-a.cairn", "tablet-b.cairn", "camp.cairn", "notebook.csv", "handheld.gpx"};
+
+void remove_project_file(const fs::path& f) {
+  std::error_code ec;
+  for (const char* suffix : {"", "-wal", "-shm", "-journal"}) fs::remove(f.string() + suffix, ec);
+  fs::remove_all(f.string() + ".backups", ec);
+}
+
+store::OpenOptions demo_options(const std::string& device_id, const std::string& device_name) {
+  store::OpenOptions o = cli_open_options(false);
+  o.device_id = device_id;
+  o.device_name = device_name;
+  o.backups = false;  // a generated file needs no rolling backups
+  return o;
+}
+
+void write_records(store::Project& p, const demo::Tablet& t) {
+  p.write([&] {
+    for (auto r : t.people) store::add(p, r);
+    for (auto r : t.units) store::add(p, r);
+    for (auto r : t.contacts) store::add(p, r);
+    for (auto r : t.stations) store::add(p, r);
+    for (auto r : t.planes) store::add(p, r);
+    for (auto r : t.lines) store::add(p, r);
+    for (auto r : t.points) store::add(p, r);
+  });
+}
+
+void write_tablet(const fs::path& dir, const demo::Area& area, const demo::Tablet& t, store::North north) {
+  store::NewProject np;
+  np.name = area.project_name;
+  np.utm_zone = area.utm_zone;
+  np.north_default = north;
+  store::Project p = store::Project::create((dir / t.file).string(), np, demo_options(t.device_id, t.device_name));
+  write_records(p, t);
+}
+
+void write_text(const fs::path& f, const std::string& text) {
+  std::ofstream out(f, std::ios::binary);
+  out << text;
+  if (!out.flush()) throw std::runtime_error("cannot write " + f.string());
+}
+
+void check_import(const store::ImportReport& r, const std::string& what) {
+  if (r.ok()) return;
+  std::string all;
+  for (const auto& e : r.errors) all += "\n  " + e;
+  throw std::logic_error("the demo's " + what + " did not import:" + all);
+}
+
+int run_demo(const Args& in, std::ostream& out, std::ostream&) {
+  Args args = in;
+  const bool force = take_flag(args, "--force");
+  reject_unknown_options(args);
+  if (args.size() > 1) throw std::invalid_argument("expected at most one folder");
+  const fs::path dir = args.empty() ? fs::path("demo_project") : fs::path(args[0]);
+  fs::create_directories(dir);
+  for (const char* f : kFiles)
+    if (fs::exists(dir / f) && !force)
+      throw std::runtime_error((dir / f).string() + " exists; run with --force to rebuild the demo in " +
+                               dir.string() + " (its demo files are replaced)");
+  for (const char* f : kFiles) remove_project_file(dir / f);
+
+  const demo::Area area = demo::build_area();
+  write_tablet(dir, area, area.a, store::North::True);
+  write_tablet(dir, area, area.b, store::North::Magnetic);
+  write_text(dir / "notebook.csv", area.notebook_csv);
+  write_text(dir / "handheld.gpx", area.gpx);
+
+  // The evening's camp file: both tablets, the notebook and the handheld's waypoints.
+  store::NewProject np;
+  np.name = area.project_name;
+  np.utm_zone = area.utm_zone;
+  np.north_default = store::North::True;
+  store::Project camp =
+      store::Project::create((dir / "camp.cairn").string(), np, demo_options(area.a.device_id, area.a.device_name));
+  write_records(camp, area.a);
+  demo::Tablet b_only = area.b;  // the shared set-up is already there
+  b_only.people.clear();
+  b_only.units.clear();
+  b_only.contacts.clear();
+  write_records(camp, b_only);
+  check_import(store::import_csv(camp, store::ImportKind::Planes, area.notebook_csv, "notebook.csv"), "notebook");
+  check_import(store::import_gpx(camp, area.gpx, "handheld.gpx", area.gpx_contact), "handheld waypoints");
+
+  out << "Demo field area \"" << area.project_name << "\" written to " << dir.string() << ":\n"
+      << "  tablet-a.cairn  " << area.a.stations.size() << " stations, " << area.a.planes.size() << " planar and "
+      << area.a.lines.size() << " linear readings, " << area.a.points.size() << " contact points\n"
+      << "  tablet-b.cairn  " << area.b.stations.size() << " stations, " << area.b.planes.size() << " planar and "
+      << area.b.lines.size() << " linear readings, " << area.b.points.size() << " contact points\n"
+      << "  notebook.csv    planar readings typed in camp\n"
+      << "  handheld.gpx    waypoints along the " << area.gpx_contact << "\n"
+      << "  camp.cairn      all of the above in one camp file\n"
+      << "Next: cairn check " << (dir / "camp.cairn").string() << "\n";
+  return 0;
+}
+
+}  // namespace
+
+CAIRN_COMMAND(Command{"demo", "cairn demo [DIR] [--force]",
+                      "Build the invented demo field area (default folder demo_project)", run_demo});
+
+}  // namespace cairn::cli

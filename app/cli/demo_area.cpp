@@ -1,0 +1,600 @@
+#include "app/cli/demo_area.h"
+
+#include <cmath>
+#include <cstdio>
+#include <random>
+#include <stdexcept>
+
+#include "geomath/angles.h"
+#include "geomath/geodesy.h"
+#include "geomath/notation.h"
+#include "geomath/orientation.h"
+#include "storage/csv.h"
+
+namespace cairn::cli::demo {
+
+using geo::deg2rad;
+using geo::Plane;
+
+namespace {
+
+// The area's origin: an invented place at a plausible latitude and longitude in
+// the far north-west, where the magnetic declination is large (about 18 degrees east).
+constexpr double kLat0 = 61.20, kLon0 = -135.60;
+constexpr int kZone = 8;
+const char* const kTimeOffset = "-07:00";  // local time of the field area
+constexpr int kOffsetMinutes = -7 * 60;
+
+// A portable random source: mt19937_64 is fully specified by the C++ standard,
+// and the distributions below are our own, so every machine draws the same demo.
+class Rng {
+public:
+  explicit Rng(std::uint64_t seed) : g_(seed) {}
+  double uniform(double lo, double hi) { return lo + (hi - lo) * (static_cast<double>(g_() >> 11) * 0x1.0p-53); }
+  int integer(int lo, int hi) { return lo + static_cast<int>(uniform(0, hi - lo + 1 - 1e-9)); }
+  double normal(double sigma) {  // Box-Muller
+    const double u1 = std::max(uniform(0, 1), 1e-300), u2 = uniform(0, 1);
+    return sigma * std::sqrt(-2.0 * std::log(u1)) * std::cos(2.0 * geo::kPi * u2);
+  }
+  std::string uuid() {
+    const std::uint64_t a = g_(), b = g_();
+    char buf[40];
+    std::snprintf(buf, sizeof buf, "%08x-%04x-4%03x-%04x-%012llx", static_cast<unsigned>(a >> 32),
+                  static_cast<unsigned>((a >> 16) & 0xffff), static_cast<unsigned>(a & 0xfff),
+                  static_cast<unsigned>(0x8000 | ((b >> 48) & 0x3fff)),
+                  static_cast<unsigned long long>(b & 0xffffffffffffULL));
+    return buf;
+  }
+
+private:
+  std::mt19937_64 g_;
+};
+
+// Local frame: metres east and north of the origin in UTM zone 8N (grid).
+class Frame {
+public:
+  Frame() {
+    auto o = geo::to_utm({kLat0, kLon0}, geo::UtmZone{kZone, true});
+    if (!o) throw std::logic_error(o.error());
+    e0_ = o->easting;
+    n0_ = o->northing;
+    auto g = geo::utm_grid_factors({kLat0, kLon0}, geo::UtmZone{kZone, true});
+    if (!g) throw std::logic_error(g.error());
+    convergence_ = g->convergence;
+  }
+  geo::LatLon latlon(double e, double n) const {
+    auto ll = geo::from_utm({kZone, true, e0_ + e, n0_ + n});
+    if (!ll) throw std::logic_error(ll.error());
+    return *ll;
+  }
+  // A true-north azimuth as seen on the grid.
+  double to_grid(double az) const { return geo::wrap360(az - convergence_); }
+  double to_true(double az) const { return geo::wrap360(az + convergence_); }
+
+private:
+  double e0_ = 0, n0_ = 0, convergence_ = 0;
+};
+
+// A planar contact: a plane (true north) through an anchor point on the terrain.
+struct ContactPlane {
+  Plane true_plane;
+  double e0, n0, z0;
+  double grid_dd;  // dip direction on the grid
+  double z_at(double e, double n) const {
+    const double dd = deg2rad(grid_dd);
+    return z0 - std::tan(deg2rad(true_plane.dip)) * ((e - e0) * std::sin(dd) + (n - n0) * std::cos(dd));
+  }
+  // Height above the plane (positive on the side its upward normal points to).
+  double side(double e, double n, double z) const { return z - z_at(e, n); }
+};
+
+struct Pos {
+  double e, n, z;
+};
+
+// Where the contact meets the terrain, near the anchor shifted `s` metres along strike:
+// searched along the dip direction for the sign change closest to the strike line.
+Pos trace_point(const ContactPlane& c, double s) {
+  const double st = deg2rad(c.grid_dd - 90.0), dd = deg2rad(c.grid_dd);
+  const double be = c.e0 + s * std::sin(st), bn = c.n0 + s * std::cos(st);
+  auto f = [&](double t) {
+    const double e = be + t * std::sin(dd), n = bn + t * std::cos(dd);
+    return c.z_at(e, n) - terrain(e, n);
+  };
+  double best = 1e9;
+  for (double t = 0; t <= 1500; t += 5) {
+    for (double sgn : {1.0, -1.0}) {
+      const double a = sgn * t, b = sgn * (t + 5);
+      if ((f(a) <= 0) != (f(b) <= 0)) {
+        double lo = a, hi = b;
+        for (int i = 0; i < 60; ++i) {
+          const double mid = 0.5 * (lo + hi);
+          ((f(lo) <= 0) == (f(mid) <= 0) ? lo : hi) = mid;
+        }
+        if (std::abs(lo) < std::abs(best)) best = lo;
+      }
+    }
+    if (best < 1e8) break;
+  }
+  if (best > 1e8) throw std::logic_error("demo contact does not meet the terrain");
+  const double e = be + best * std::sin(dd), n = bn + best * std::cos(dd);
+  return {e, n, terrain(e, n)};
+}
+
+std::string fmt(const char* f, double v) {
+  char buf[64];
+  std::snprintf(buf, sizeof buf, f, v);
+  return buf;
+}
+
+// Field days: day 1 is 2026-07-06.
+struct Clock {
+  int day = 1;
+  int minute = 0;  // minutes after local midnight
+  std::string local() const {
+    char buf[40];
+    std::snprintf(buf, sizeof buf, "2026-07-%02dT%02d:%02d:00%s", 5 + day, minute / 60, minute % 60, kTimeOffset);
+    return buf;
+  }
+  std::string utc() const {
+    const int m = minute - kOffsetMinutes;  // local = UTC + offset
+    char buf[40];
+    std::snprintf(buf, sizeof buf, "2026-07-%02dT%02d:%02d:00.000Z", 5 + day + m / 1440, (m % 1440) / 60, m % 60);
+    return buf;
+  }
+};
+
+store::RecordMeta meta(Rng& rng, const Clock& c, const std::string& device) {
+  store::RecordMeta m;
+  m.uuid = rng.uuid();
+  m.created = m.updated = c.utc();
+  m.device = device;
+  return m;
+}
+
+// A plane with compass noise: the pole turned by a normal deviation of sigma degrees
+// about two axes, and the dip kept in range.
+Plane noisy(Rng& rng, const Plane& p, double sigma) {
+  const geo::Vec3 pole = geo::pole_vector(p);
+  const geo::Vec3 a = pole.unitOrthogonal(), b = pole.cross(a);
+  const geo::Vec3 q = (pole + deg2rad(rng.normal(sigma)) * a + deg2rad(rng.normal(sigma)) * b).normalized();
+  Plane out = geo::plane_from_pole(geo::line_from_vector(q));
+  out.strike = std::round(out.strike);
+  out.dip = std::round(out.dip);
+  return out;
+}
+
+std::string typed_rhr(const Plane& p) { return geo::format_strike_dip(p); }
+
+}  // namespace
+
+double terrain(double e, double n) {
+  // Documented synthetic topography: a valley floor at 900 m rising 60 m per km to
+  // the north, a ridge 280 m high and about 1.4 km wide trending 011 degrees
+  // (axis e = 300 + 0.2 n), a hollow 80 m deep in the west, and side gullies and
+  // spurs (two sine waves of 90 and 60 m amplitude, 1.1 and 0.8 km wavelength)
+  // that make mapped contacts wander across the slopes as real ones do.
+  const double u = e - 300.0 - 0.2 * n;
+  const double w = e + 1800.0;
+  const double k1 = 2.0 * geo::kPi / 1100.0, k2 = 2.0 * geo::kPi / 800.0;
+  return 900.0 + 0.06 * n + 280.0 * std::exp(-(u * u) / (2.0 * 600.0 * 600.0)) -
+         80.0 * std::exp(-(w * w) / (2.0 * 500.0 * 500.0)) + 90.0 * std::sin(k1 * (0.6 * e + 0.8 * n)) +
+         60.0 * std::sin(k2 * (0.9 * e - 0.44 * n) + 1.0);
+}
+
+Area build_area() {
+  Rng rng(20260706);
+  const Frame frame;
+  Area area;
+  area.project_name = "Auska valley";
+  area.utm_zone = "8N";
+
+  Tablet& A = area.a;
+  Tablet& B = area.b;
+  A.file = "tablet-a.cairn";
+  A.device_name = "tablet A";
+  A.device_id = rng.uuid();
+  B.file = "tablet-b.cairn";
+  B.device_name = "tablet B";
+  B.device_id = rng.uuid();
+
+  // The season's shared set-up (the same records, same UUIDs, on both tablets).
+  Clock setup{1, 7 * 60};
+  auto person = [&](const std::string& name, const std::string& ini) {
+    store::Person p;
+    p.meta = meta(rng, setup, A.device_id);
+    p.name = name;
+    p.initials = ini;
+    return p;
+  };
+  const store::Person RO = person("Rhian Ottery", "RO"), BK = person("Benno Kask", "BK"),
+                      MT = person("Mira Tallis", "MT");
+  struct UnitDef { const char* code; const char* name; const char* colour; };
+  // Colours from the Okabe & Ito (2008) palette.
+  const UnitDef unit_defs[] = {{"Vg", "Vell gneiss", "#CC79A7"},        {"Sq", "Skarra quartzite", "#E69F00"},
+                               {"Ss", "Skarra slate", "#56B4E9"},       {"Tc", "Tolm conglomerate", "#009E73"},
+                               {"Ts", "Tolm sandstone", "#F0E442"},     {"Hg", "Heddle granite", "#D55E00"}};
+  std::vector<store::Unit> units;
+  for (int i = 0; i < 6; ++i) {
+    store::Unit u;
+    u.meta = meta(rng, setup, A.device_id);
+    u.code = unit_defs[i].code;
+    u.name = unit_defs[i].name;
+    u.age_rank = i + 1;
+    u.colour = unit_defs[i].colour;
+    units.push_back(u);
+  }
+  auto uid = [&](const char* code) {
+    for (const auto& u : units)
+      if (u.code == code) return u.meta.uuid;
+    throw std::logic_error("unit");
+  };
+  auto contact = [&](const char* name, const char* lower, const char* upper, store::ContactType t) {
+    store::Contact c;
+    c.meta = meta(rng, setup, A.device_id);
+    c.name = name;
+    c.lower_unit = uid(lower);
+    c.upper_unit = uid(upper);
+    c.type = t;
+    return c;
+  };
+  const store::Contact C1 = contact("Skarra slate base", "Sq", "Ss", store::ContactType::Depositional);
+  const store::Contact C2 = contact("Tolm unconformity", "Ss", "Tc", store::ContactType::Unconformity);
+  const store::Contact C3 = contact("Tolm sandstone base", "Tc", "Ts", store::ContactType::Depositional);
+  const store::Contact C4 = contact("Brenn fault", "Sq", "Tc", store::ContactType::Fault);
+  const store::Contact C5 = contact("Vell gneiss margin", "Vg", "Sq", store::ContactType::Unconformity);
+  for (Tablet* t : {&A, &B}) {
+    t->people = {RO, BK, MT};
+    t->units = units;
+    t->contacts = {C1, C2, C3, C4, C5};
+  }
+  area.gpx_contact = C2.name;
+
+  auto make_plane = [&](const Plane& truth, double e0, double n0) {
+    ContactPlane c;
+    c.true_plane = truth;
+    c.e0 = e0;
+    c.n0 = n0;
+    c.z0 = terrain(e0, n0);
+    c.grid_dd = frame.to_grid(truth.dip_direction());
+    return c;
+  };
+  const ContactPlane P1 = make_plane(Plane{40, 35}, -900, -900);
+  const ContactPlane P2 = make_plane(Plane{200, 20}, 0, 1400);
+  const ContactPlane P3 = make_plane(Plane{10, 58}, 950, 300);
+
+  // A station beside a contact's trace, on the chosen side of the contact and far
+  // enough from it (15 m in height) that its side is not in doubt.
+  auto beside = [&](const ContactPlane& c, double s, bool above, double tmin, double tmax) -> Pos {
+    const double dd = deg2rad(c.grid_dd);
+    for (int attempt = 0; attempt < 400; ++attempt) {
+      const Pos tp = trace_point(c, s + (attempt / 20) * 7.0);
+      const double t = (above ? 1 : -1) * rng.uniform(tmin, tmax);
+      const double e = tp.e + t * std::sin(dd), n = tp.n + t * std::cos(dd);
+      const double side = c.side(e, n, std::round(terrain(e, n)));
+      if ((side > 15.0 && above) || (side < -15.0 && !above)) return {e, n, terrain(e, n)};
+    }
+    throw std::logic_error("demo station cannot be placed beside its contact");
+  };
+  auto add_point = [&](Tablet& t, const store::Contact& c, const Pos& p, const Clock& clk, const store::Person& who,
+                       double h, double v) {
+    store::ContactPoint q;
+    q.meta = meta(rng, clk, t.device_id);
+    q.contact = c.meta.uuid;
+    const double e = p.e + rng.normal(h), n = p.n + rng.normal(h);
+    const auto ll = frame.latlon(e, n);
+    q.lat = ll.lat;
+    q.lon = ll.lon;
+    q.elevation = std::round((p.z + rng.normal(v)) * 10.0) / 10.0;
+    q.h_accuracy = h;
+    q.v_accuracy = v;
+    q.source = store::PointSource::Gps;
+    q.time = clk.local();
+    q.observer = who.meta.uuid;
+    t.points.push_back(q);
+  };
+  auto add_station = [&](Tablet& t, const std::string& code, double e, double n, const char* unit, const Clock& clk,
+                         const store::Person& who, const std::string& notes = "") {
+    store::Station s;
+    s.meta = meta(rng, clk, t.device_id);
+    s.code = code;
+    const auto ll = frame.latlon(e, n);
+    s.lat = ll.lat;
+    s.lon = ll.lon;
+    s.elevation = std::round(terrain(e, n));
+    s.h_accuracy = 3;
+    s.v_accuracy = 5;
+    s.source = store::PositionSource::Gps;
+    s.unit = uid(unit);
+    s.observer = who.meta.uuid;
+    s.time = clk.local();
+    s.notes = notes;
+    t.stations.push_back(s);
+    return t.stations.back();
+  };
+  // A planar reading as typed on the tablet (right-hand rule). Magnetic readings
+  // are typed as read off the compass; storage applies the declination.
+  auto add_plane = [&](Tablet& t, const store::Station& s, store::PlaneKind kind, const Plane& typed,
+                       store::North north, const Clock& clk, const std::string& ref,
+                       const store::Contact* c = nullptr, int quality = 5, const std::string& notes = "") {
+    store::PlanarReading r;
+    r.meta = meta(rng, clk, t.device_id);
+    r.station = s.meta.uuid;
+    r.kind = kind;
+    r.typed = typed_rhr(typed);
+    r.notation = store::PlaneNotation::StrikeDip;
+    r.north = north;
+    r.quality = quality;
+    r.facing = store::Facing::Unknown;
+    r.contact = c ? c->meta.uuid : "";
+    r.ref = ref;
+    r.time = clk.local();
+    r.observer = s.observer;
+    r.notes = notes;
+    t.planes.push_back(r);
+  };
+  auto add_line = [&](Tablet& t, const store::Station& s, store::LineKind kind, const geo::Line& l, store::North north,
+                      const Clock& clk, const std::string& ref) {
+    store::LinearReading r;
+    r.meta = meta(rng, clk, t.device_id);
+    r.station = s.meta.uuid;
+    r.kind = kind;
+    r.typed = geo::format_trend_plunge(geo::Line{std::round(l.trend), std::round(l.plunge)});
+    r.north = north;
+    r.ref = ref;
+    r.time = clk.local();
+    r.observer = s.observer;
+    t.lines.push_back(r);
+  };
+  // Magnetic declination of the area (WMM2025 at the origin in July 2026, rounded):
+  // tablet B's mapper reads a compass without declination set.
+  const double kDecl = 17.9;
+  auto magnetic = [&](const Plane& truth) { return Plane{geo::wrap360(truth.strike - kDecl), truth.dip}; };
+
+  const Plane joint1 = geo::plane_from_dip_direction(220, 80), joint2 = geo::plane_from_dip_direction(40, 75);
+  const Plane cleavage = geo::plane_from_dip_direction(300, 65);
+
+  // ---- Tablet A, days 1-2: the Skarra slate base (contact 1), two mappers ----
+  const double sigma = 2.0;  // compass noise of a careful reading, degrees (common practice)
+  for (int day = 1; day <= 2; ++day) {
+    const store::Person& who = day == 1 ? RO : BK;
+    Clock clk{day, 8 * 60 + 30};
+    for (int i = 0; i < 20; ++i) {  // contact points walked along the trace
+      add_point(A, C1, trace_point(P1, -850 + i * 90.0 + (day - 1) * 45.0), clk, who, 3, 5);
+      clk.minute += 6;
+    }
+    for (int i = 1; i <= 12; ++i) {
+      const std::string code = who.initials + "-" + fmt("%02.0f", i);
+      const double s = -800 + (i - 1) * 140.0 + (day - 1) * 60.0;
+      // Alternate sides of the contact: slate above, quartzite below.
+      const bool above = (i + day) % 2 == 0;
+      const Pos sp = beside(P1, s, above, 60, 220);
+      const double e = sp.e, n = sp.n;
+      clk.minute += 12;
+      const store::Station& st = add_station(A, code, e, n, above ? "Ss" : "Sq", clk, who);
+      Plane bed = noisy(rng, P1.true_plane, sigma);
+      std::string note;
+      if (who.initials == "RO" && i == 7) {
+        bed = Plane{geo::wrap360(bed.strike + 180.0), bed.dip};  // PLANTED: right-hand-rule slip
+      }
+      add_plane(A, st, store::PlaneKind::Bedding, bed, store::North::True, clk, code + "a", &C1);
+      clk.minute += 4;
+      if (above) {
+        const Plane cl = noisy(rng, cleavage, sigma);
+        add_plane(A, st, store::PlaneKind::Cleavage, cl, store::North::True, clk, code + "b");
+        auto l = geo::intersection_line(bed, cl);
+        if (l && i % 2 == 0) add_line(A, st, store::LineKind::Intersection, *l, store::North::True, clk, code + "L");
+        clk.minute += 4;
+        add_plane(A, st, store::PlaneKind::Joint, noisy(rng, joint2, sigma), store::North::True, clk, code + "c");
+      } else {
+        add_plane(A, st, store::PlaneKind::Joint, noisy(rng, i % 4 == 1 ? joint1 : joint2, sigma), store::North::True,
+                  clk, code + "b");
+      }
+      if (who.initials == "BK" && i == 5) {
+        // PLANTED: a bedding plane that daylights under a steep slope face.
+        clk.minute += 4;
+        add_plane(A, st, store::PlaneKind::Slope, geo::plane_from_dip_direction(P1.true_plane.dip_direction(), 62),
+                  store::North::True, clk, code + "s", nullptr, 4, "cliff face above the track");
+      }
+      clk.minute += 3;
+    }
+  }
+  // ---- Tablet A, day 3: the Vell gneiss margin, folded (contact 5) ----
+  {
+    Clock clk{3, 8 * 60 + 15};
+    // The folded surface: an antiform with its hinge along e = -2000, limbs dipping
+    // about 38 degrees either way; its trace is where it meets the terrain.
+    auto folded = [](double e, double n) { return 1010.0 + 0.05 * n - 0.78 * std::abs(e + 2000.0); };
+    for (int i = 0; i < 40; ++i) {
+      const double n = -400 + (i / 2) * 60.0;
+      const double sgn = i % 2 ? 1.0 : -1.0;
+      double lo = 0, hi = 800;
+      auto f = [&](double d) { const double e = -2000 + sgn * d; return folded(e, n) - terrain(e, n); };
+      if ((f(lo) > 0) == (f(hi) > 0)) throw std::logic_error("demo fold does not meet the terrain");
+      for (int k = 0; k < 60; ++k) {
+        const double mid = 0.5 * (lo + hi);
+        ((f(lo) > 0) == (f(mid) > 0) ? lo : hi) = mid;
+      }
+      const double e = -2000 + sgn * lo;
+      add_point(A, C5, {e, n, terrain(e, n)}, clk, RO, 3, 5);
+      clk.minute += 5;
+    }
+    for (int i = 1; i <= 10; ++i) {
+      const std::string code = "RO-" + fmt("%02.0f", 12 + i);
+      const double n = -350 + i * 100.0, e = -2000 + (i % 2 ? 1 : -1) * rng.uniform(450, 650);
+      clk.minute += 10;
+      const store::Station& st = add_station(A, code, e, n, "Vg", clk, RO);
+      const Plane fol = noisy(rng, geo::plane_from_dip_direction(e > -2000 ? 90 : 270, 38), 4);
+      add_plane(A, st, store::PlaneKind::Foliation, fol, store::North::True, clk, code + "a", nullptr, 4);
+      clk.minute += 4;
+      if (i <= 8) add_line(A, st, store::LineKind::FoldAxis, {geo::wrap360(rng.uniform(-4, 4)), 4 + rng.uniform(0, 3)}, store::North::True, clk, code + "F");
+      add_plane(A, st, store::PlaneKind::Joint, noisy(rng, i % 2 ? joint1 : joint2, 3), store::North::True, clk,
+                code + "b");
+    }
+  }
+  // ---- Tablet A, day 4: scattered stations on the ridge ----
+  {
+    Clock clk{4, 8 * 60};
+    for (int i = 1; i <= 10; ++i) {
+      const std::string code = "BK-" + fmt("%02.0f", 12 + i);
+      const double e = rng.uniform(-300, 600), n = rng.uniform(-1900, -1200);
+      clk.minute += 20;
+      const store::Station& st = add_station(A, code, e, n, "Sq", clk, BK);
+      const Plane joint = noisy(rng, joint1, 3);
+      add_plane(A, st, store::PlaneKind::Joint, joint, store::North::True, clk, code + "a");
+      clk.minute += 4;
+      add_plane(A, st, store::PlaneKind::Vein, noisy(rng, geo::plane_from_dip_direction(160, 55), 5),
+                store::North::True, clk, code + "b");
+      if (i == 4) {
+        // PLANTED: the same joint entered twice, three minutes apart.
+        clk.minute += 3;
+        add_plane(A, st, store::PlaneKind::Joint, joint, store::North::True, clk, code + "c");
+      }
+      add_line(A, st, store::LineKind::Lineation, {rng.uniform(20, 40), rng.uniform(10, 25)}, store::North::True, clk,
+               code + "L");
+    }
+  }
+
+  // ---- Tablet B: magnetic compass readings (no declination set) ----
+  // Days 1-2: the Tolm sandstone base (contact 3), an overturned limb nobody marked.
+  {
+    for (int day = 1; day <= 2; ++day) {
+      Clock clk{day, 8 * 60 + 45};
+      for (int i = 0; i < 15; ++i) {
+        add_point(B, C3, trace_point(P3, -750 + i * 105.0 + (day - 1) * 50.0), clk, MT, 3, 5);
+        clk.minute += 6;
+      }
+      for (int i = 1; i <= 8; ++i) {
+        const int k = (day - 1) * 8 + i;
+        const std::string code = "MT-" + fmt("%02.0f", k);
+        // PLANTED: overturned limb: the younger sandstone lies on the lower side of the
+        // contact (west), the conglomerate on its upper side (east).
+        const bool above = k % 2 == 0;
+        const Pos sp = beside(P3, -700 + (k - 1) * 95.0, above, 40, 160);
+        const double e = sp.e, n = sp.n;
+        clk.minute += 15;
+        const store::Station& st = add_station(B, code, e, n, above ? "Tc" : "Ts", clk, MT);
+        const Plane bed = noisy(rng, P3.true_plane, sigma);
+        if (k == 4 || k == 11) {
+          // PLANTED: read off the compass (magnetic) but recorded as true north.
+          add_plane(B, st, store::PlaneKind::Bedding, magnetic(bed), store::North::True, clk, code + "a", &C3);
+        } else {
+          add_plane(B, st, store::PlaneKind::Bedding, magnetic(bed), store::North::Magnetic, clk, code + "a", &C3);
+        }
+        clk.minute += 4;
+        add_plane(B, st, store::PlaneKind::Joint, magnetic(noisy(rng, k % 2 ? joint1 : joint2, sigma)),
+                  store::North::Magnetic, clk, code + "b");
+        if (k % 4 == 0) {
+          const geo::Line lin = geo::line_from_rake(bed, 75);
+          add_line(B, st, store::LineKind::Lineation, {geo::wrap360(lin.trend - kDecl), lin.plunge},
+                   store::North::Magnetic, clk, code + "L");
+        }
+      }
+    }
+    // Day 3: the Tolm unconformity (contact 2); its trace is walked with the handheld receiver.
+    Clock clk{3, 9 * 60};
+    for (int i = 1; i <= 12; ++i) {
+      const std::string code = "MT-" + fmt("%02.0f", 16 + i);
+      const bool above = i % 2 == 0;
+      const Pos sp = beside(P2, -650 + (i - 1) * 118.0, above, 40, 200);
+      const double e = sp.e, n = sp.n;
+      clk.minute += 18;
+      const store::Station& st = add_station(B, code, e, n, above ? "Tc" : "Ss", clk, MT);
+      add_plane(B, st, store::PlaneKind::Contact, magnetic(noisy(rng, P2.true_plane, sigma)), store::North::Magnetic,
+                clk, code + "a", &C2);
+      clk.minute += 4;
+      add_plane(B, st, above ? store::PlaneKind::Bedding : store::PlaneKind::Cleavage,
+                magnetic(noisy(rng, above ? geo::plane_from_dip_direction(285, 22) : cleavage, sigma)),
+                store::North::Magnetic, clk, code + "b");
+      clk.minute += 4;
+      add_plane(B, st, store::PlaneKind::Joint, magnetic(noisy(rng, joint1, sigma)), store::North::Magnetic, clk,
+                code + "c");
+    }
+    // Day 4: the Brenn fault (contact 4) along the valley floor: every point on one straight
+    // line at nearly one elevation. PLANTED: too weak a geometry to fit.
+    clk = Clock{4, 9 * 60};
+    for (int i = 0; i < 8; ++i) {
+      const double e = 700 + i * 140.0, n = -1750 + i * 50.0;
+      add_point(B, C4, {e, n, 820.0 + 0.5 * i}, clk, MT, 3, 5);
+      clk.minute += 7;
+    }
+    const Plane fault = geo::plane_from_dip_direction(155, 80);
+    for (int i = 1; i <= 6; ++i) {
+      const std::string code = "MT-" + fmt("%02.0f", 28 + i);
+      const double e = 720 + i * 150.0 + rng.uniform(-30, 30), n = -1700 + i * 55.0 + rng.uniform(-30, 30);
+      clk.minute += 20;
+      const store::Station& st = add_station(B, code, e, n, i % 2 ? "Sq" : "Tc", clk, MT, "fault breccia");
+      const Plane fp = noisy(rng, fault, 3);
+      add_plane(B, st, store::PlaneKind::Fault, magnetic(fp), store::North::Magnetic, clk, code + "a");
+      clk.minute += 4;
+      const geo::Line sl = geo::line_from_rake(fp, 20 + rng.uniform(-5, 5));
+      add_line(B, st, store::LineKind::Slickenline, {geo::wrap360(sl.trend - kDecl), sl.plunge}, store::North::Magnetic,
+               clk, code + "K");
+      add_plane(B, st, store::PlaneKind::Joint, magnetic(noisy(rng, joint2, 3)), store::North::Magnetic, clk,
+                code + "b");
+    }
+    // Scattered stations in the west (tablet B, day 4 afternoon).
+    clk = Clock{4, 14 * 60};
+    for (int i = 1; i <= 6; ++i) {
+      const std::string code = "MT-" + fmt("%02.0f", 34 + i);
+      const double e = rng.uniform(-2400, -1500), n = rng.uniform(-1900, -1200);
+      clk.minute += 15;
+      const store::Station& st = add_station(B, code, e, n, "Hg", clk, MT, "granite, coarse");
+      add_plane(B, st, store::PlaneKind::Joint, magnetic(noisy(rng, joint1, 3)), store::North::Magnetic, clk, code + "a");
+      add_line(B, st, store::LineKind::Lineation, {geo::wrap360(rng.uniform(300, 330) - kDecl), rng.uniform(5, 15)},
+               store::North::Magnetic, clk, code + "L");
+    }
+  }
+
+  // ---- The notebook typed in camp: tablet A's stations revisited on day 3 evening ----
+  {
+    std::string csv = "station,kind,strike,dip,north,contact,quality,facing,ref,time,notes\n";
+    Clock clk{3, 16 * 60};
+    for (int i = 1; i <= 12; ++i) {
+      const std::string code = "BK-" + fmt("%02.0f", i);
+      clk.minute += 9;
+      Plane p = noisy(rng, i % 2 ? joint2 : joint1, sigma);
+      std::string kind = "joint", contact_name, note = "revisit";
+      if (i == 9) {
+        // PLANTED: cross-bedding in a channel taken for bedding: disagrees with the contact.
+        p = Plane{75, 62};
+        kind = "bedding";
+        contact_name = C1.name;
+        note = "channel fill, top of bed";
+      }
+      csv += store::csv_record({code, kind, fmt("%.0f", p.strike), fmt("%.0f", p.dip), "true", contact_name, "5",
+                                "unknown", code + "n", clk.local(), note});
+    }
+    area.notebook_csv = csv;
+  }
+
+  // ---- The handheld receiver's waypoints along the Tolm unconformity (GPX 1.1) ----
+  {
+    std::string g =
+        "<?xml version=\"1.0\" encoding=\"UTF-8\" standalone=\"no\"?>\n"
+        "<gpx xmlns=\"http://www.topografix.com/GPX/1/1\" xmlns:xsi=\"http://www.w3.org/2001/XMLSchema-instance\" "
+        "xmlns:hh=\"urn:example:handheld:ext\" version=\"1.1\" creator=\"handheld receiver\" "
+        "xsi:schemaLocation=\"http://www.topografix.com/GPX/1/1 http://www.topografix.com/GPX/1/1/gpx.xsd\">\n"
+        "  <metadata><name>Tolm unconformity walk</name><time>2026-07-08T16:00:00Z</time></metadata>\n";
+    Clock clk{3, 9 * 60 + 5};
+    for (int i = 0; i < 30; ++i) {
+      const Pos p = trace_point(P2, -700 + i * 48.0);
+      const auto ll = frame.latlon(p.e + rng.normal(3), p.n + rng.normal(3));
+      const double ele = p.z + rng.normal(5);
+      char buf[512];
+      std::snprintf(buf, sizeof buf, "  <wpt lat=\"%.7f\" lon=\"%.7f\">\n", ll.lat, ll.lon);
+      g += buf;
+      if (i != 17) g += "    <ele>" + fmt("%.1f", ele) + "</ele>\n";  // one fix without elevation
+      g += "    <time>" + clk.utc().substr(0, 19) + "Z</time>\n";
+      g += "    <name>TU" + fmt("%02.0f", i + 1) + "</name>\n    <sym>Flag, Blue</sym>\n";
+      g += "    <extensions><hh:fix><hh:sats>" + std::to_string(7 + i % 5) + "</hh:sats></hh:fix></extensions>\n";
+      g += "  </wpt>\n";
+      clk.minute += 4;
+    }
+    g += "</gpx>\n";
+    area.gpx = g;
+  }
+  return area;
+}
+
+}  // namespace cairn::cli::demo
