@@ -7,14 +7,21 @@ bash "$here/scripts/install-deps.sh"
 cmake -S "$here" -B "$here/build" -DCMAKE_BUILD_TYPE=Release >/dev/null
 cmake --build "$here/build" -j"$(nproc)" --target cairn
 cairn="$here/build/app/cairn"
-demo="$here/demo_project/camp.cairn"
-if [ -f "$demo" ]; then
-  if [ -n "${DISPLAY:-}${WAYLAND_DISPLAY:-}" ]; then
-    exec "$cairn" gui "$demo"
+# Work on a copy, so the bundled files stay as shipped; an existing copy (with the
+# user's edits) is kept.
+work="$here/build/demo"
+if [ ! -f "$work/camp.cairn" ]; then
+  if [ -f "$here/demo_project/camp.cairn" ]; then
+    mkdir -p "$work"
+    cp "$here"/demo_project/*.cairn "$here"/demo_project/*.csv "$here"/demo_project/*.gpx "$work"/
+  else
+    "$cairn" demo "$work" --force >/dev/null
   fi
-  "$cairn" check "$demo"
-  echo
-  echo "No display here. To open the touch UI on a machine with a screen: $cairn gui $demo"
-else
-  "$cairn" fit "$here/demo_project/examples/strike_lines.csv"
 fi
+if [ -n "${DISPLAY:-}${WAYLAND_DISPLAY:-}" ] && "$cairn" help gui >/dev/null 2>&1; then
+  exec "$cairn" gui "$work/camp.cairn"
+fi
+"$cairn" check "$work/camp.cairn" --min-severity query
+echo
+echo "No display here. On a machine with a screen, open the touch UI with:"
+echo "  $cairn gui $work/camp.cairn"
