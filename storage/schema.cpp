@@ -223,6 +223,44 @@ CREATE TABLE merges (
 CREATE INDEX merges_peer ON merges(peer_file_uuid, merged_at);
 )SQL";
 
+// Version 3: merge conflicts and natural-key clashes (storage/merge.h).
+//  - conflicts: a version of a record that lost to a newer one changed on
+//    another device since their common ancestor; its id is derived from the
+//    record and the losing version (updated, device), so finding the same
+//    conflict again adds nothing. `resolved` is set when a person has settled it.
+//  - conflict_values: the losing version, one row per column. The value column
+//    has no declared type, so SQLite keeps every value exactly as it was stored
+//    (SQLite documentation, "Datatypes In SQLite", BLOB/no affinity).
+//  - key_clashes: a record whose code (station code, unit code, contact name,
+//    initials, reading ref) was taken by another record from another device;
+//    it is kept under `stored` until a person renames it.
+const char* const kMigrate2to3 = R"SQL(
+CREATE TABLE conflicts (
+  uuid           TEXT PRIMARY KEY,
+  tbl            TEXT NOT NULL,
+  record         TEXT NOT NULL,
+  other_updated  TEXT NOT NULL,
+  other_device   TEXT NOT NULL,
+  found_at       TEXT NOT NULL,
+  resolved       TEXT
+);
+CREATE INDEX conflicts_record ON conflicts(record);
+
+CREATE TABLE conflict_values (
+  conflict  TEXT NOT NULL REFERENCES conflicts(uuid) ON DELETE CASCADE,
+  col       TEXT NOT NULL,
+  value,
+  PRIMARY KEY (conflict, col)
+);
+
+CREATE TABLE key_clashes (
+  record    TEXT PRIMARY KEY,
+  tbl       TEXT NOT NULL,
+  original  TEXT NOT NULL,
+  stored    TEXT NOT NULL
+);
+)SQL";
+
 const char* const kRecordTables[] = {"devices", "people", "units",  "contacts", "stations",
                                      "planes",  "lines",  "points", "photos",   nullptr};
 
@@ -240,7 +278,7 @@ void create_schema(Db& db) {
 void migrate(Db& db, int from) {
   if (from < 1 || from > kSchemaVersion)
     throw std::logic_error("no migration from schema version " + std::to_string(from));
-  static const char* const steps[] = {nullptr, kMigrate1to2};  // steps[v]: v -> v+1
+  static const char* const steps[] = {nullptr, kMigrate1to2, kMigrate2to3};  // steps[v]: v -> v+1
   for (int v = from; v < kSchemaVersion; ++v) {
     db.exec(steps[v]);
     db.exec("PRAGMA user_version = " + std::to_string(v + 1));

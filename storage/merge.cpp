@@ -1,0 +1,1008 @@
+#include "storage/merge.h"
+
+#include <sqlite3.h>
+
+#include <algorithm>
+#include <cmath>
+#include <filesystem>
+#include <set>
+#include <stdexcept>
+
+#include "geomath/geodesy.h"
+#include "storage/ids.h"
+#include "storage/schema.h"
+#include "storage/sha256.h"
+#include "storage/sqlite.h"
+#include "storage/validate.h"
+
+namespace fs = std::filesystem;
+
+namespace cairn::store {
+
+namespace {
+
+// ---- rows as typed values ------------------------------------------------------
+
+enum class Affinity { Integer, Real, Text };
+
+// SQLite's affinity rules for a declared column type (SQLite documentation,
+// "Datatypes In SQLite", section 3.1), for the types the schema uses.
+Affinity affinity_of(std::string type) {
+  for (auto& c : type) c = static_cast<char>(std::toupper(static_cast<unsigned char>(c)));
+  if (type.find("INT") != std::string::npos) return Affinity::Integer;
+  if (type.find("CHAR") != std::string::npos || type.find("CLOB") != std::string::npos ||
+      type.find("TEXT") != std::string::npos)
+    return Affinity::Text;
+  return Affinity::Real;  // REAL, FLOA, DOUB (no NUMERIC or BLOB columns in a project file)
+}
+
+struct Value {
+  enum Type { Null, Int, Real, Text } type = Null;
+  int64_t i = 0;
+  double d = 0;
+  std::string s;
+
+  bool operator==(const Value& o) const {
+    if (type != o.type) return false;
+    switch (type) {
+      case Null: return true;
+      case Int: return i == o.i;
+      case Real: return d == o.d || (std::isnan(d) && std::isnan(o.d));
+      case Text: return s == o.s;
+    }
+    return false;
+  }
+  bool operator!=(const Value& o) const { return !(*this == o); }
+  bool null() const { return type == Null; }
+  // For ordering versions with equal stamps and for messages.
+  std::string text() const {
+    switch (type) {
+      case Null: return "";
+      case Int: return std::to_string(i);
+      case Real: {
+        char buf[40];
+        std::snprintf(buf, sizeof buf, "%.17g", d);
+        return buf;
+      }
+      case Text: return s;
+    }
+    return "";
+  }
+  static Value of(const std::string& v) {
+    Value x;
+    x.type = Text;
+    x.s = v;
+    return x;
+  }
+};
+using Row = std::vector<Value>;
+
+Value read_value(const Stmt& s, int col, Affinity a) {
+  Value v;
+  if (s.is_null(col)) return v;
+  switch (a) {
+    case Affinity::Integer: v.type = Value::Int, v.i = s.int64(col); break;
+    case Affinity::Real: v.type = Value::Real, v.d = s.real(col); break;
+    case Affinity::Text: v.type = Value::Text, v.s = s.text(col); break;
+  }
+  return v;
+}
+
+void bind_value(Stmt& s, int i, const Value& v) {
+  switch (v.type) {
+    case Value::Null: s.bind(i, nullptr); break;
+    case Value::Int: s.bind(i, v.i); break;
+    case Value::Real: s.bind(i, v.d); break;
+    case Value::Text: s.bind(i, v.s); break;
+  }
+}
+
+std::string quoted(const std::string& name) { return "\"" + name + "\""; }
+
+// ---- tables --------------------------------------------------------------------
+
+struct Column {
+  std::string name;
+  Affinity affinity;
+};
+
+struct Table {
+  std::string name;
+  std::vector<Column> cols;
+  int uuid = -1, created = -1, updated = -1, device = -1, deleted = -1;
+  int key = -1, scope = -1;  // natural key, unique among live records (within scope)
+  int col(const std::string& n) const {
+    for (size_t i = 0; i < cols.size(); ++i)
+      if (cols[i].name == n) return static_cast<int>(i);
+    return -1;
+  }
+  std::string list() const {
+    std::string l;
+    for (const auto& c : cols) l += (l.empty() ? "" : ", ") + quoted(c.name);
+    return l;
+  }
+};
+
+// Natural keys, as the partial unique indexes of storage/schema.cpp define them.
+struct KeySpec {
+  const char* table;
+  const char* key;
+  const char* scope;  // nullptr: unique in the whole table
+};
+const KeySpec kKeys[] = {{"people", "initials", nullptr}, {"units", "code", nullptr},   {"contacts", "name", nullptr},
+                         {"stations", "code", nullptr},    {"planes", "ref", "station"}, {"lines", "ref", "station"}};
+
+Table table_info(Db& db, const std::string& name) {
+  Table t;
+  t.name = name;
+  Stmt s(db, "SELECT name, type FROM pragma_table_info(?) ORDER BY cid");
+  s.bind(1, name);
+  while (s.step()) t.cols.push_back({s.text(0), affinity_of(s.text(1))});
+  if (t.cols.empty()) throw std::runtime_error("the file has no table '" + name + "'");
+  t.uuid = t.col("uuid");
+  t.created = t.col("created");
+  t.updated = t.col("updated");
+  t.device = t.col("device");
+  t.deleted = t.col("deleted");
+  for (const auto& k : kKeys)
+    if (name == k.table) {
+      t.key = t.col(k.key);
+      t.scope = k.scope ? t.col(k.scope) : -1;
+    }
+  return t;
+}
+
+// The source's row of `uuid` must be read with the target's column list; a
+// source migrated to the same schema version has the same columns.
+std::optional<Row> read_row(Db& db, const Table& t, const std::string& uuid) {
+  Stmt s(db, "SELECT " + t.list() + " FROM " + quoted(t.name) + " WHERE uuid = ?");
+  s.bind(1, uuid);
+  if (!s.step()) return std::nullopt;
+  Row r(t.cols.size());
+  for (size_t i = 0; i < t.cols.size(); ++i) r[i] = read_value(s, static_cast<int>(i), t.cols[i].affinity);
+  return r;
+}
+
+// The code a record was written with: a record stored under CODE~xxxxxx after a
+// clash reads as CODE again (unless a person has renamed it since).
+void natural_key(Db& db, const Table& t, Row& r) {
+  if (t.key < 0 || r[t.key].null()) return;
+  Stmt s(db, "SELECT original, stored FROM key_clashes WHERE record = ?");
+  s.bind(1, r[t.uuid].s);
+  if (s.step() && s.text(1) == r[t.key].s) r[t.key] = Value::of(s.text(0));
+}
+
+struct Stamp {
+  std::string updated, device;
+  bool operator==(const Stamp& o) const { return updated == o.updated && device == o.device; }
+  bool operator<(const Stamp& o) const { return std::tie(updated, device) < std::tie(o.updated, o.device); }
+};
+Stamp stamp_of(const Table& t, const Row& r) { return {r[t.updated].s, r[t.device].s}; }
+
+// A conflict's id: a UUID (version 8, RFC 9562 section 5.8) made from the
+// SHA-256 digest of the record and the version kept aside, so that the same
+// conflict found twice, in any order, is one row.
+std::string conflict_id(const std::string& table, const std::string& record, const Stamp& v) {
+  std::string h = sha256_hex(table + "\n" + record + "\n" + v.updated + "\n" + v.device).substr(0, 32);
+  h[12] = '8';
+  h[16] = "89ab"[std::stoi(h.substr(16, 1), nullptr, 16) & 3];
+  return h.substr(0, 8) + "-" + h.substr(8, 4) + "-" + h.substr(12, 4) + "-" + h.substr(16, 4) + "-" + h.substr(20);
+}
+
+// ---- lineage from the audit trail ------------------------------------------------
+
+// Parent versions of each version of one record, from the audit rows (each
+// holds the row before and after one write).
+class Lineage {
+public:
+  Lineage(Db& db, const std::string& record) {
+    Stmt s(db,
+           "SELECT json_extract(new_values, '$.updated'), json_extract(new_values, '$.device'), "
+           "json_extract(old_values, '$.updated'), json_extract(old_values, '$.device') "
+           "FROM audit WHERE record = ? AND new_values IS NOT NULL AND old_values IS NOT NULL");
+    s.bind(1, record);
+    while (s.step()) parents_.emplace(Stamp{s.text(0), s.text(1)}, Stamp{s.text(2), s.text(3)});
+  }
+  // True when `a` is a strict ancestor of `b`.
+  bool ancestor(const Stamp& a, const Stamp& b) const {
+    std::set<Stamp> seen;
+    std::vector<Stamp> todo{b};
+    while (!todo.empty()) {
+      const Stamp x = todo.back();
+      todo.pop_back();
+      auto [lo, hi] = parents_.equal_range(x);
+      for (auto it = lo; it != hi; ++it) {
+        if (it->second == a) return true;
+        if (seen.insert(it->second).second) todo.push_back(it->second);
+      }
+    }
+    return false;
+  }
+
+private:
+  std::multimap<Stamp, Stamp> parents_;
+};
+
+// ---- a source, copied and checked -------------------------------------------------
+
+class TempDir {
+public:
+  TempDir() {
+    std::string tmpl = (fs::temp_directory_path() / "cairn-merge-XXXXXX").string();
+    if (!mkdtemp(tmpl.data())) throw std::runtime_error("cannot make a temporary folder for the merge");
+    path_ = tmpl;
+  }
+  ~TempDir() {
+    std::error_code ec;
+    fs::remove_all(path_, ec);
+  }
+  fs::path path_;
+};
+
+// Copies PATH into DEST after checking that it is a Cairn project this build can read.
+void snapshot(const std::string& path, const std::string& dest) {
+  Db src;
+  int64_t app = 0, version = 0;
+  try {
+    src = Db(path, SQLITE_OPEN_READONLY);
+    app = src.query_int("PRAGMA application_id");
+    version = src.query_int("PRAGMA user_version");
+  } catch (const SqlError& e) {
+    throw std::runtime_error(path + " is not a Cairn project file (" + e.what() + ")");
+  }
+  if (app != kApplicationId) throw std::runtime_error(path + " is not a Cairn project file");
+  if (version > kSchemaVersion)
+    throw std::runtime_error(path + " was written by a newer version of Cairn (schema version " +
+                             std::to_string(version) + "); merge it with a newer Cairn");
+  // VACUUM INTO writes a consistent snapshot, also from a read-only connection
+  // (SQLite documentation, "VACUUM", section "VACUUM INTO").
+  try {
+    Stmt v(src, "VACUUM INTO ?");
+    v.bind(1, dest);
+    v.run();
+  } catch (const SqlError& e) {
+    throw std::runtime_error("copying " + path + ": " + e.what());
+  }
+}
+
+struct Source {
+  TempDir dir;
+  std::optional<Project> project;
+  ProjectInfo info;
+
+  explicit Source(const std::string& path) {
+    std::error_code ec;
+    if (!fs::exists(path, ec)) throw std::runtime_error("no project file " + path);
+    const std::string copy = (dir.path_ / "source.cairn").string();
+    snapshot(path, copy);
+    OpenOptions o;
+    o.backups = false;
+    o.backup_dir = (dir.path_ / "backups").string();
+    try {
+      project.emplace(Project::open(copy, o));  // migrates the copy when it is older
+    } catch (const std::exception& e) {
+      std::string m = e.what();
+      const size_t at = m.find(copy);
+      if (at != std::string::npos) m.replace(at, copy.size(), path);
+      throw std::runtime_error(m);
+    }
+    if (!project->problem().empty())
+      throw std::runtime_error(path + " failed its integrity check; restore it from one of its backups before merging");
+    info = project->info();
+  }
+  Db& db() { return project->db(); }
+};
+
+// ---- the merge of one source -----------------------------------------------------------
+
+const char* const kRecordOrder[] = {"people", "units", "contacts", "stations", "planes", "lines", "points", "photos"};
+
+// Who points at what (for the dangling-reference warnings).
+struct Ref {
+  const char* table;
+  const char* column;
+  const char* parent;
+};
+const Ref kRefs[] = {{"contacts", "lower_unit", "units"}, {"contacts", "upper_unit", "units"},
+                     {"stations", "unit", "units"},       {"stations", "observer", "people"},
+                     {"planes", "station", "stations"},   {"planes", "contact", "contacts"},
+                     {"planes", "observer", "people"},    {"lines", "station", "stations"},
+                     {"lines", "host_plane", "planes"},   {"lines", "observer", "people"},
+                     {"points", "contact", "contacts"},   {"points", "observer", "people"},
+                     {"photos", "station", "stations"}};
+
+struct Candidate {
+  enum Origin { Current, Kept, Incoming } origin;
+  Row row;
+  Stamp stamp;
+  std::string conflict;  // Kept: its conflict id
+};
+
+enum class Outcome { Added, Updated, Skipped, Conflict };
+
+class Merger {
+public:
+  Merger(Project& target, const MergeOptions& o, MergeReport& rep) : p_(target), db_(target.db()), o_(o), rep_(rep) {
+    for (const char* t : kRecordOrder) tables_.emplace(t, table_info(db_, t));
+    tables_.emplace("devices", table_info(db_, "devices"));
+    tables_.emplace("audit", table_info(db_, "audit"));
+  }
+
+  void merge(Source& src, const std::string& path, size_t index, size_t count) {
+    SourceMerge sm;
+    const long writes_before = writes_;
+    sm.path = path;
+    sm.file_uuid = src.info.file_uuid;
+    sm.name = src.info.name;
+    const ProjectInfo mine = p_.info();
+    if (!mine.utm_zone.empty() && !src.info.utm_zone.empty() && mine.utm_zone != src.info.utm_zone)
+      rep_.warnings.push_back(path + " works in UTM zone " + src.info.utm_zone + ", this file in " + mine.utm_zone +
+                              "; positions are WGS84 and merge unchanged");
+
+    MergeProgress pr;
+    pr.source = path;
+    pr.source_index = index;
+    pr.sources = count;
+    pr.total = static_cast<size_t>(src.db().query_int("SELECT count(*) FROM audit") +
+                                   src.db().query_int("SELECT count(*) FROM devices"));
+    for (const char* t : kRecordOrder) pr.total += static_cast<size_t>(src.db().query_int(std::string("SELECT count(*) FROM ") + t));
+    auto tick = [&](const std::string& table) {
+      ++pr.done;
+      pr.table = table;
+      if (o_.progress && (pr.done % 50 == 0 || pr.done == pr.total)) o_.progress(pr);
+    };
+
+    // Devices: labels only; the newest name wins, a given name over a made-up one.
+    {
+      const Table& t = tables_.at("devices");
+      Stmt s(src.db(), "SELECT uuid FROM devices ORDER BY created, uuid");
+      while (s.step()) {
+        tick("devices");
+        Row in = *read_row(src.db(), t, s.text(0));
+        auto cur = read_row(db_, t, in[t.uuid].s);
+        if (!cur) {
+          insert_row(t, in);
+          ++sm.devices_added;
+        } else if (device_rank(t, in) > device_rank(t, *cur)) {
+          update_row(t, in);
+        }
+      }
+    }
+    // Audit rows: the history of every version, merged first so that the
+    // lineage of incoming versions is known.
+    {
+      const Table& t = tables_.at("audit");
+      Stmt s(src.db(), "SELECT " + t.list() + " FROM audit ORDER BY at, uuid");
+      Stmt ins(db_, "INSERT OR IGNORE INTO audit(" + t.list() + ") VALUES (" + marks(t.cols.size()) + ")");
+      while (s.step()) {
+        tick("audit");
+        for (size_t i = 0; i < t.cols.size(); ++i)
+          bind_value(ins, static_cast<int>(i) + 1, read_value(s, static_cast<int>(i), t.cols[i].affinity));
+        ins.run();
+        ins.reset();
+        if (db_.changes() > 0) {
+          ++sm.audit_added;
+          wrote();
+        }
+      }
+    }
+    for (const char* name : kRecordOrder) {
+      const Table& t = tables_.at(name);
+      Stmt s(src.db(), std::string("SELECT uuid FROM ") + name + " ORDER BY created, uuid");
+      while (s.step()) {
+        tick(name);
+        Row in = *read_row(src.db(), t, s.text(0));
+        natural_key(src.db(), t, in);
+        const Outcome o = merge_record(src, t, in);
+        const std::string device = in[t.device].s;
+        const std::string person = person_of(t, in);
+        for (MergeCounts* c : {&sm.counts, &sm.by_device[device], &sm.by_person[person]}) {
+          switch (o) {
+            case Outcome::Added: ++c->added; break;
+            case Outcome::Updated: ++c->updated; break;
+            case Outcome::Skipped: ++c->skipped; break;
+            case Outcome::Conflict: ++c->conflicts; break;
+          }
+        }
+      }
+    }
+    merge_side_tables(src, path, sm);
+    const bool changed = writes_ > writes_before;
+    if (changed) {
+      rep_.changed = true;
+      Stmt m(db_, "INSERT INTO merges(uuid, peer_file_uuid, peer_name, peer_path, merged_at, device, added, skipped, "
+                  "conflicts) VALUES (?,?,?,?,?,?,?,?,?)");
+      m.bind(1, new_uuid()).bind(2, sm.file_uuid).bind(3, sm.name).bind(4, path).bind(5, utc_now());
+      m.bind(6, p_.device()).bind(7, sm.counts.added + sm.counts.updated).bind(8, sm.counts.skipped);
+      m.bind(9, sm.counts.conflicts);
+      m.run();
+    }
+    rep_.sources.push_back(std::move(sm));
+  }
+
+  // Live records that point at a record deleted on another device.
+  void dangling_warnings() {
+    for (const Ref& r : kRefs) {
+      Stmt s(db_, std::string("SELECT c.uuid, x.uuid FROM ") + r.table + " c JOIN " + r.parent + " x ON c." + r.column +
+                      " = x.uuid WHERE c.deleted IS NULL AND x.deleted IS NOT NULL");
+      while (s.step()) {
+        rep_.warnings.push_back("live " + label(tables_.at(r.table), s.text(0)) + " points at deleted " +
+                                label(tables_.at(r.parent), s.text(1)) + " (" + r.column +
+                                "); restore the one or delete the other");
+      }
+    }
+  }
+
+  void names() {
+    Stmt d(db_, "SELECT uuid, name FROM devices");
+    while (d.step()) rep_.device_names[d.text(0)] = d.text(1);
+    Stmt p(db_, "SELECT uuid, name, initials FROM people");
+    while (p.step()) rep_.person_names[p.text(0)] = p.text(1) + " (" + p.text(2) + ")";
+  }
+
+private:
+  // Tables a module keeps beside the records (e.g. flag reviews and day
+  // sign-offs): rows with the record columns but no audit trail, written once
+  // and then only withdrawn. They merge by UUID; of two versions the newer wins.
+  void merge_side_tables(Source& src, const std::string& path, SourceMerge& sm) {
+    static const std::set<std::string> known = {"project", "devices", "audit", "merges", "conflicts",
+                                                "conflict_values", "key_clashes", "people", "units", "contacts",
+                                                "stations", "planes", "lines", "points", "photos"};
+    std::vector<std::pair<std::string, std::string>> side;
+    {
+      Stmt s(src.db(), "SELECT name, sql FROM sqlite_master WHERE type = 'table' AND name NOT LIKE 'sqlite_%' "
+                       "ORDER BY name");
+      while (s.step())
+        if (!known.count(s.text(0))) side.emplace_back(s.text(0), s.text(1));
+    }
+    for (const auto& [name, sql] : side) {
+      const Table ts = table_info(src.db(), name);
+      if (ts.uuid < 0 || ts.updated < 0 || ts.device < 0 || ts.deleted < 0) continue;  // not record-like
+      bool have = false;
+      {
+        Stmt s(db_, "SELECT 1 FROM sqlite_master WHERE type = 'table' AND name = ?");
+        s.bind(1, name);
+        have = s.step();
+      }
+      if (!have) {
+        db_.exec(sql);
+        Stmt ix(src.db(), "SELECT sql FROM sqlite_master WHERE type = 'index' AND tbl_name = ? AND sql IS NOT NULL");
+        ix.bind(1, name);
+        while (ix.step()) db_.exec(ix.text(0));
+        wrote();
+      }
+      const Table t = table_info(db_, name);
+      bool columns_match = true;
+      for (const auto& c : t.cols) columns_match = columns_match && ts.col(c.name) >= 0;
+      if (!columns_match) {
+        rep_.warnings.push_back(path + ": table " + name + " has other columns here; its rows were not merged");
+        continue;
+      }
+      Stmt s(src.db(), "SELECT uuid FROM " + quoted(name) + " ORDER BY created, uuid");
+      while (s.step()) {
+        const Row in = *read_row(src.db(), t, s.text(0));
+        auto cur = read_row(db_, t, in[t.uuid].s);
+        MergeCounts& c = sm.by_device[in[t.device].s];
+        try {
+          if (!cur) {
+            insert_row(t, in);
+            ++sm.counts.added, ++c.added;
+          } else if (newer(t, Candidate{Candidate::Incoming, in, stamp_of(t, in), ""},
+                           Candidate{Candidate::Current, *cur, stamp_of(t, *cur), ""})) {
+            update_row(t, in);
+            ++sm.counts.updated, ++c.updated;
+          } else {
+            ++sm.counts.skipped, ++c.skipped;
+          }
+        } catch (const std::runtime_error& e) {
+          if (o_.fail_after && writes_ > *o_.fail_after) throw;
+          rep_.warnings.push_back(path + ": " + name + " row " + in[t.uuid].s + " was not merged (" + e.what() + ")");
+        }
+      }
+    }
+  }
+
+  // ---- one record --------------------------------------------------------------
+
+  Outcome merge_record(Source& src, const Table& t, const Row& in) {
+    const std::string id = in[t.uuid].s;
+    auto cur = read_row(db_, t, id);
+    if (!cur) {
+      write(t, in, nullptr);
+      return Outcome::Added;
+    }
+    natural_key(db_, t, *cur);
+    const Stamp sin = stamp_of(t, in), scur = stamp_of(t, *cur);
+    if (sin == scur) {
+      if (!same_data(t, in, *cur, true))
+        rep_.warnings.push_back(label(t, id) + ": " + src.info.name +
+                                " holds the same version with other values; the target's is kept");
+      return Outcome::Skipped;
+    }
+    // A version already kept aside (open or settled) is not news.
+    {
+      Stmt s(db_, "SELECT 1 FROM conflicts WHERE uuid = ?");
+      s.bind(1, conflict_id(t.name, id, sin));
+      if (s.step()) return Outcome::Skipped;
+    }
+    std::vector<Candidate> c;
+    c.push_back({Candidate::Current, *cur, scur, ""});
+    {
+      Stmt s(db_, "SELECT uuid, other_updated, other_device FROM conflicts WHERE tbl = ? AND record = ? AND "
+                  "resolved IS NULL ORDER BY uuid");
+      s.bind(1, t.name).bind(2, id);
+      while (s.step()) c.push_back({Candidate::Kept, kept_row(t, s.text(0)), {s.text(1), s.text(2)}, s.text(0)});
+    }
+    c.push_back({Candidate::Incoming, in, sin, ""});
+
+    // The versions no other descends from; of those with equal contents, the newest.
+    const Lineage lineage(db_, id);
+    std::vector<bool> keep(c.size(), true);
+    for (size_t i = 0; i < c.size(); ++i)
+      for (size_t j = 0; j < c.size() && keep[i]; ++j)
+        if (i != j && lineage.ancestor(c[i].stamp, c[j].stamp)) keep[i] = false;
+    for (size_t i = 0; i < c.size(); ++i)
+      for (size_t j = 0; j < c.size() && keep[i]; ++j)
+        if (i != j && keep[j] && same_data(t, c[i].row, c[j].row, false) && newer(t, c[j], c[i])) keep[i] = false;
+    size_t w = c.size();
+    for (size_t i = 0; i < c.size(); ++i)
+      if (keep[i] && (w == c.size() || newer(t, c[i], c[w]))) w = i;
+
+    const Candidate& win = c[w];
+    if (win.origin != Candidate::Current) write(t, win.row, &*cur);
+    bool conflict = false;
+    for (size_t i = 0; i < c.size(); ++i) {
+      if (i == w) {
+        if (c[i].origin == Candidate::Kept) drop_conflict(c[i].conflict);
+        continue;
+      }
+      if (c[i].origin == Candidate::Kept) {
+        if (!keep[i]) drop_conflict(c[i].conflict);
+      } else if (keep[i]) {
+        keep_aside(t, c[i], win);
+        conflict = true;
+      }
+    }
+    if (conflict) return Outcome::Conflict;
+    return win.origin == Candidate::Current ? Outcome::Skipped : Outcome::Updated;
+  }
+
+  // Later `updated`, then device id, then content: a total order, so the choice
+  // of the current version never depends on the order of merging.
+  bool newer(const Table& t, const Candidate& a, const Candidate& b) const {
+    if (!(a.stamp == b.stamp)) return b.stamp < a.stamp;
+    return content(t, a.row) > content(t, b.row);
+  }
+  static std::string content(const Table&, const Row& r) {
+    std::string s;
+    for (const auto& v : r) s += std::to_string(v.type) + ":" + v.text() + "\x1f";
+    return s;
+  }
+
+  // Same values, apart from who wrote them when; a deletion counts as deleted or not.
+  static bool same_data(const Table& t, const Row& a, const Row& b, bool exact) {
+    for (size_t i = 0; i < a.size(); ++i) {
+      const int c = static_cast<int>(i);
+      if (!exact && (c == t.updated || c == t.device)) continue;
+      if (!exact && c == t.deleted) {
+        if (a[i].null() != b[i].null()) return false;
+        continue;
+      }
+      if (a[i] != b[i]) return false;
+    }
+    return true;
+  }
+
+  Row kept_row(const Table& t, const std::string& conflict) {
+    Row r(t.cols.size());
+    Stmt s(db_, "SELECT col, value FROM conflict_values WHERE conflict = ?");
+    s.bind(1, conflict);
+    while (s.step()) {
+      const int c = t.col(s.text(0));
+      if (c >= 0) r[c] = read_value(s, 1, t.cols[c].affinity);
+    }
+    return r;
+  }
+
+  void keep_aside(const Table& t, const Candidate& loser, const Candidate& winner) {
+    const std::string record = loser.row[t.uuid].s;
+    const std::string cid = conflict_id(t.name, record, loser.stamp);
+    {
+      Stmt s(db_, "INSERT INTO conflicts(uuid, tbl, record, other_updated, other_device, found_at) VALUES (?,?,?,?,?,?)");
+      s.bind(1, cid).bind(2, t.name).bind(3, record).bind(4, loser.stamp.updated).bind(5, loser.stamp.device);
+      s.bind(6, utc_now());
+      s.run();
+      wrote();
+    }
+    Stmt v(db_, "INSERT INTO conflict_values(conflict, col, value) VALUES (?,?,?)");
+    for (size_t i = 0; i < t.cols.size(); ++i) {
+      v.bind(1, cid).bind(2, t.cols[i].name);
+      bind_value(v, 3, loser.row[i]);
+      v.run();
+      v.reset();
+    }
+    MergeConflict mc;
+    mc.id = cid;
+    mc.table = t.name;
+    mc.record = record;
+    mc.label = label(t, record);
+    mc.current = side(t, winner.row);
+    mc.other = side(t, loser.row);
+    mc.fields = differences(t, winner.row, loser.row);
+    rep_.conflicts.push_back(std::move(mc));
+  }
+
+  void drop_conflict(const std::string& id) {
+    Stmt a(db_, "DELETE FROM conflict_values WHERE conflict = ?");
+    a.bind(1, id);
+    a.run();
+    Stmt b(db_, "DELETE FROM conflicts WHERE uuid = ?");
+    b.bind(1, id);
+    b.run();
+    wrote();
+  }
+
+  // ---- writing a version, with its code placed ------------------------------------
+
+  // Writes ROW (natural code) as the current version; OLD is the version it replaces.
+  void write(const Table& t, const Row& row, const Row* old) {
+    Row r = row;
+    const bool keyed = t.key >= 0 && !r[t.key].null() && r[t.deleted].null();
+    // A code held by another live record: written first under a code of its
+    // own (listed as a clash), then settle() decides who keeps the code.
+    if (keyed && taken(t, r, r[t.key].s)) r[t.key] = Value::of(provisional(row[t.key].s, r[t.uuid].s));
+    if (old) update_row(t, r);
+    else insert_row(t, r);
+    if (keyed && r[t.key] != row[t.key]) {
+      Stmt s(db_, "INSERT OR REPLACE INTO key_clashes(record, tbl, original, stored) VALUES (?,?,?,?)");
+      s.bind(1, r[t.uuid].s).bind(2, t.name).bind(3, row[t.key].s).bind(4, r[t.key].s);
+      s.run();
+    }
+    if (t.key < 0) return;
+    settle(t, row);
+    if (old && ((*old)[t.key] != row[t.key] || (t.scope >= 0 && (*old)[t.scope] != row[t.scope]))) settle(t, *old);
+  }
+
+  // True when a live record other than R holds CODE (in R's scope).
+  bool taken(const Table& t, const Row& r, const std::string& code) {
+    std::string sql = "SELECT 1 FROM " + quoted(t.name) + " WHERE " + quoted(t.cols[t.key].name) +
+                      " = ?1 AND deleted IS NULL AND uuid <> ?2";
+    if (t.scope >= 0) sql += " AND " + quoted(t.cols[t.scope].name) + " IS ?3";
+    Stmt s(db_, sql);
+    s.bind(1, code).bind(2, r[t.uuid].s);
+    if (t.scope >= 0) bind_value(s, 3, r[t.scope]);
+    return s.step();
+  }
+
+  static std::string provisional(const std::string& code, const std::string& uuid) {
+    return code + "~" + compact(uuid);
+  }
+  static std::string compact(const std::string& uuid) {
+    std::string h;
+    for (char ch : uuid)
+      if (ch != '-') h += ch;
+    return h;
+  }
+
+  // Gives every record whose natural code is REF's its stored code: the live
+  // one created first keeps the code, the other live ones get CODE~xxxxxx,
+  // deleted ones keep their own code. A function of the records alone.
+  void settle(const Table& t, const Row& ref) {
+    if (ref[t.key].null()) return;
+    const std::string code = ref[t.key].s;
+    const std::string k = quoted(t.cols[t.key].name);
+    std::string sql = "SELECT r.uuid, r." + k + ", r.created, r.deleted IS NOT NULL, kc.original, kc.stored FROM " +
+                      quoted(t.name) + " r LEFT JOIN key_clashes kc ON kc.record = r.uuid WHERE (r." + k +
+                      " = ?1 OR (kc.original = ?1 AND kc.stored = r." + k + "))";
+    if (t.scope >= 0) sql += " AND r." + quoted(t.cols[t.scope].name) + " IS ?2";
+    sql += " ORDER BY r.created, r.uuid";
+    struct Member {
+      std::string uuid, stored, created;
+      bool deleted, clash_row;
+    };
+    std::vector<Member> members;
+    {
+      Stmt s(db_, sql);
+      s.bind(1, code);
+      if (t.scope >= 0) bind_value(s, 2, ref[t.scope]);
+      // clash_row: already reported (a provisional code is not a report yet).
+      while (s.step())
+        members.push_back({s.text(0), s.text(1), s.text(2), s.int64(3) != 0,
+                           !s.is_null(4) && s.text(5) != provisional(code, s.text(0))});
+    }
+    const Member* keeper = nullptr;
+    for (const auto& m : members)
+      if (!m.deleted) {
+        keeper = &m;
+        break;
+      }
+    // Others first, so that the code is free when the keeper takes it.
+    for (const auto& m : members) {
+      if (&m == keeper) continue;
+      std::string want = code;
+      if (!m.deleted) {
+        want = code + "~" + compact(m.uuid).substr(0, 6);
+        Row probe(t.cols.size());
+        probe[t.uuid] = Value::of(m.uuid);
+        if (t.scope >= 0) probe[t.scope] = ref[t.scope];
+        if (taken(t, probe, want)) want = code + "~" + compact(m.uuid);
+      }
+      set_code(t, m.uuid, m.stored, want, code, !m.deleted);
+      if (!m.deleted && !m.clash_row) report_clash(t, ref, code, keeper ? keeper->uuid : "", m.uuid, want);
+    }
+    if (keeper) set_code(t, keeper->uuid, keeper->stored, code, code, false);
+  }
+
+  void set_code(const Table& t, const std::string& uuid, const std::string& now, const std::string& want,
+                const std::string& original, bool clash) {
+    if (now != want) {
+      Stmt s(db_, "UPDATE " + quoted(t.name) + " SET " + quoted(t.cols[t.key].name) + " = ? WHERE uuid = ?");
+      s.bind(1, want).bind(2, uuid);
+      s.run();
+      wrote();
+    }
+    if (clash) {
+      Stmt s(db_, "INSERT OR REPLACE INTO key_clashes(record, tbl, original, stored) VALUES (?,?,?,?)");
+      s.bind(1, uuid).bind(2, t.name).bind(3, original).bind(4, want);
+      s.run();
+    } else {
+      Stmt s(db_, "DELETE FROM key_clashes WHERE record = ?");
+      s.bind(1, uuid);
+      s.run();
+    }
+  }
+
+  void report_clash(const Table& t, const Row& ref, const std::string& code, const std::string& kept,
+                    const std::string& renamed, const std::string& stored) {
+    KeyClash k;
+    k.table = t.name;
+    k.column = t.cols[t.key].name;
+    k.code = code;
+    if (t.scope >= 0) k.scope = label(tables_.at("stations"), ref[t.scope].s);
+    k.kept = kept;
+    k.renamed = renamed;
+    k.stored_as = stored;
+    k.kept_device = device_name(record_device(t, kept));
+    k.renamed_device = device_name(record_device(t, renamed));
+    // A suggestion: the code with the first free letter, b to z.
+    for (char ch = 'b'; ch <= 'z' && k.suggestion.empty(); ++ch) {
+      const std::string s = code + ch;
+      Row probe(t.cols.size());
+      probe[t.uuid] = Value::of("");
+      if (t.scope >= 0) probe[t.scope] = ref[t.scope];
+      if (!taken(t, probe, s)) k.suggestion = s;
+    }
+    if (k.suggestion.empty()) k.suggestion = code + "-" + compact(renamed).substr(0, 4);
+    if (t.name == "stations") {
+      auto a = read_row(db_, t, kept), b = read_row(db_, t, renamed);
+      if (a && b) {
+        const geo::LatLon pa{(*a)[t.col("lat")].d, (*a)[t.col("lon")].d}, pb{(*b)[t.col("lat")].d, (*b)[t.col("lon")].d};
+        auto ua = geo::to_utm(pa);
+        if (ua) {
+          auto ub = geo::to_utm(pb, geo::UtmZone{ua->zone, ua->northp});
+          if (ub) k.distance_m = std::hypot(ua->easting - ub->easting, ua->northing - ub->northing);
+        }
+      }
+    }
+    rep_.clashes.push_back(std::move(k));
+  }
+
+  void insert_row(const Table& t, const Row& r) {
+    Stmt s(db_, "INSERT INTO " + quoted(t.name) + "(" + t.list() + ") VALUES (" + marks(t.cols.size()) + ")");
+    for (size_t i = 0; i < r.size(); ++i) bind_value(s, static_cast<int>(i) + 1, r[i]);
+    run(s, t, r);
+  }
+
+  void update_row(const Table& t, const Row& r) {
+    std::string set;
+    for (size_t i = 0; i < t.cols.size(); ++i)
+      if (static_cast<int>(i) != t.uuid) set += (set.empty() ? "" : ", ") + quoted(t.cols[i].name) + " = ?" + std::to_string(i + 1);
+    Stmt s(db_, "UPDATE " + quoted(t.name) + " SET " + set + " WHERE uuid = ?" + std::to_string(t.uuid + 1));
+    for (size_t i = 0; i < r.size(); ++i) bind_value(s, static_cast<int>(i) + 1, r[i]);
+    run(s, t, r);
+  }
+
+  void run(Stmt& s, const Table& t, const Row& r) {
+    try {
+      s.run();
+    } catch (const SqlError& e) {
+      throw std::runtime_error("cannot merge " + t.name + " record " + r[t.uuid].s + ": " + e.what());
+    }
+    wrote();
+  }
+
+  void wrote() {
+    ++writes_;
+    if (o_.fail_after && writes_ > *o_.fail_after)
+      throw std::runtime_error("merge stopped by the test hook after " + std::to_string(*o_.fail_after) + " writes");
+  }
+
+  static std::string marks(size_t n) {
+    std::string m;
+    for (size_t i = 0; i < n; ++i) m += i ? ",?" : "?";
+    return m;
+  }
+
+  // A made-up device name ("device 1a2b3c4d") ranks below a given one; then the newer.
+  static std::tuple<bool, std::string, std::string> device_rank(const Table& t, const Row& r) {
+    const std::string name = r[t.col("name")].s;
+    const bool made_up = name == "device " + r[t.uuid].s.substr(0, 8);
+    return {!made_up, r[t.updated].s, name};
+  }
+
+  // ---- describing records --------------------------------------------------------
+
+  std::string person_of(const Table& t, const Row& r) {
+    Stmt s(db_, "SELECT person FROM audit WHERE record = ? AND json_extract(new_values, '$.updated') = ? AND "
+                "json_extract(new_values, '$.device') = ? AND person IS NOT NULL LIMIT 1");
+    s.bind(1, r[t.uuid].s).bind(2, r[t.updated].s).bind(3, r[t.device].s);
+    if (s.step()) return s.text(0);
+    const int obs = t.col("observer");
+    if (obs >= 0 && !r[obs].null()) return r[obs].s;
+    return "";
+  }
+
+  VersionSide side(const Table& t, const Row& r) {
+    VersionSide v;
+    v.updated = r[t.updated].s;
+    v.device = r[t.device].s;
+    v.device_name = device_name(v.device);
+    v.person = person_of(t, r);
+    if (!v.person.empty()) {
+      Stmt s(db_, "SELECT name, initials FROM people WHERE uuid = ?");
+      s.bind(1, v.person);
+      if (s.step()) v.person_name = s.text(0) + " (" + s.text(1) + ")";
+    }
+    v.deleted = !r[t.deleted].null();
+    return v;
+  }
+
+  std::string device_name(const std::string& uuid) {
+    Stmt s(db_, "SELECT name FROM devices WHERE uuid = ?");
+    s.bind(1, uuid);
+    return s.step() ? s.text(0) : uuid;
+  }
+
+  std::string record_device(const Table& t, const std::string& uuid) {
+    if (uuid.empty()) return "";
+    Stmt s(db_, "SELECT device FROM " + quoted(t.name) + " WHERE uuid = ?");
+    s.bind(1, uuid);
+    return s.step() ? s.text(0) : "";
+  }
+
+  std::vector<ConflictField> differences(const Table& t, const Row& cur, const Row& other) {
+    std::vector<ConflictField> out;
+    for (size_t i = 0; i < t.cols.size(); ++i) {
+      const int c = static_cast<int>(i);
+      if (c == t.updated || c == t.device || c == t.uuid) continue;
+      if (cur[i] == other[i]) continue;
+      out.push_back({t.cols[i].name, shown(t, c, cur[i]), shown(t, c, other[i])});
+    }
+    return out;
+  }
+
+  // A value for people: references by their code or name, deletions in words.
+  std::string shown(const Table& t, int c, const Value& v) {
+    if (c == t.deleted) return v.null() ? "live" : "deleted " + v.s;
+    if (v.null()) return "";
+    if (v.type == Value::Real) return format_number(v.d);
+    const std::string& name = t.cols[c].name;
+    for (const Ref& r : kRefs)
+      if (t.name == r.table && name == r.column) return label(tables_.at(r.parent), v.s);
+    return v.text();
+  }
+
+public:
+  // "station S12", "planar reading P3 at S12", ... for messages.
+  std::string label(const Table& t, const std::string& uuid) {
+    auto text = [&](const std::string& sql, const std::string& u) {
+      Stmt s(db_, sql);
+      s.bind(1, u);
+      return s.step() ? s.text(0) : std::string();
+    };
+    const std::string name = t.name;
+    if (name == "stations") return "station " + text("SELECT code FROM stations WHERE uuid = ?", uuid);
+    if (name == "units") return "unit " + text("SELECT code FROM units WHERE uuid = ?", uuid);
+    if (name == "contacts") return "contact " + text("SELECT name FROM contacts WHERE uuid = ?", uuid);
+    if (name == "people") return "person " + text("SELECT initials FROM people WHERE uuid = ?", uuid);
+    if (name == "planes" || name == "lines") {
+      const std::string what = name == "planes" ? "planar reading" : "linear reading";
+      const std::string ref = text("SELECT ref FROM " + name + " WHERE uuid = ?", uuid);
+      const std::string st =
+          text("SELECT s.code FROM " + name + " r JOIN stations s ON s.uuid = r.station WHERE r.uuid = ?", uuid);
+      const std::string typed = text("SELECT typed FROM " + name + " WHERE uuid = ?", uuid);
+      return what + (ref.empty() ? " " + typed : " " + ref) + " at station " + st;
+    }
+    if (name == "points")
+      return "contact point of " +
+             text("SELECT c.name FROM points p JOIN contacts c ON c.uuid = p.contact WHERE p.uuid = ?", uuid) + " (" +
+             uuid.substr(0, 8) + ")";
+    if (name == "photos") return "photo " + text("SELECT path FROM photos WHERE uuid = ?", uuid);
+    return name + " " + uuid;
+  }
+
+  std::string conflict_label(const std::string& table, const std::string& uuid) {
+    return label(tables_.at(table), uuid);
+  }
+
+  MergeConflict describe(const std::string& id) {
+    MergeConflict mc;
+    Stmt s(db_, "SELECT tbl, record, found_at, resolved FROM conflicts WHERE uuid = ?");
+    s.bind(1, id);
+    if (!s.step()) throw std::runtime_error("no conflict " + id);
+    mc.id = id;
+    mc.table = s.text(0);
+    mc.record = s.text(1);
+    mc.found_at = s.text(2);
+    mc.resolved = s.text(3);
+    const Table& t = tables_.at(mc.table);
+    mc.label = label(t, mc.record);
+    auto cur = read_row(db_, t, mc.record);
+    const Row other = kept_row(t, id);
+    if (cur) {
+      mc.current = side(t, *cur);
+      mc.fields = differences(t, *cur, other);
+    }
+    mc.other = side(t, other);
+    return mc;
+  }
+
+private:
+  Project& p_;
+  Db& db_;
+  const MergeOptions& o_;
+  MergeReport& rep_;
+  std::map<std::string, Table> tables_;
+  long writes_ = 0;
+};
+
+}  // namespace
+
+MergeReport merge_files(Project& target, const std::vector<std::string>& sources, const MergeOptions& options) {
+  if (sources.empty()) throw std::invalid_argument("no source files to merge");
+  std::error_code ec;
+  for (const auto& s : sources) {
+    if (!fs::exists(s, ec)) throw std::runtime_error("no project file " + s);
+    if (fs::equivalent(s, target.path(), ec))
+      throw std::runtime_error(s + " is the target file itself; name the tablets' files to merge into it");
+  }
+  // Check and copy every source before anything is written.
+  std::vector<std::unique_ptr<Source>> copies;
+  for (const auto& s : sources) copies.push_back(std::make_unique<Source>(s));
+
+  MergeReport rep;
+  target.write([&] {
+    rep = MergeReport{};
+    Merger m(target, options, rep);
+    for (size_t i = 0; i < copies.size(); ++i) m.merge(*copies[i], sources[i], i, copies.size());
+    m.dangling_warnings();
+    m.names();
+  });
+  return rep;
+}
+
+std::vector<MergeConflict> list_conflicts(Project& p, bool include_resolved) {
+  MergeReport scratch;
+  MergeOptions o;
+  Merger m(p, o, scratch);
+  std::vector<std::string> ids;
+  {
+    Stmt s(p.db(), std::string("SELECT uuid FROM conflicts") + (include_resolved ? "" : " WHERE resolved IS NULL") +
+                       " ORDER BY found_at, tbl, record, uuid");
+    while (s.step()) ids.push_back(s.text(0));
+  }
+  std::vector<MergeConflict> out;
+  for (const auto& id : ids) out.push_back(m.describe(id));
+  return out;
+}
+
+void resolve_conflict(Project& p, const std::string& id) {
+  p.write([&] {
+    Stmt s(p.db(), "UPDATE conflicts SET resolved = ? WHERE uuid = ? AND resolved IS NULL");
+    s.bind(1, utc_now()).bind(2, id);
+    s.run();
+    if (p.db().changes() == 0) throw std::runtime_error("no open conflict " + id);
+  });
+}
+
+}  // namespace cairn::store
