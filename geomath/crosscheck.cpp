@@ -416,9 +416,12 @@ CheckReport run_crosscheck(const CheckInput& in, const CheckOptions& o) {
   }
 
   // 5. Safety screening under slope faces.
+  std::unordered_map<std::string, std::vector<const CheckPlane*>> planes_at;
+  for (const auto& p : in.planes)
+    if (slopes_at.count(p.station) && p.kind != "slope") planes_at[p.station].push_back(&p);
   for (const auto& [station_id, faces] : slopes_at) {
-    for (const auto& r : in.planes) {
-      if (r.station != station_id || r.kind == "slope") continue;
+    for (const CheckPlane* rp : planes_at[station_id]) {
+      const CheckPlane& r = *rp;
       for (const CheckPlane* face : faces) {
         const bool slide = planar_sliding_possible(r.plane, face->plane, o.friction_angle, o.sliding_window);
         const bool topple = !slide && flexural_toppling_possible(r.plane, face->plane, o.friction_angle, o.toppling_window);
