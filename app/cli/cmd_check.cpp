@@ -34,7 +34,7 @@ double option_number(Args& args, const std::string& opt, double fallback, double
   return d;
 }
 
-void write_json(std::ostream& out, const geo::CheckReport& rep, geo::Severity min) {
+void write_json(std::ostream& out, const store::CheckData& data, const geo::CheckReport& rep, geo::Severity min) {
   JsonWriter j(out);
   j.begin_object();
   j.key("fits").begin_array();
@@ -74,6 +74,23 @@ void write_json(std::ostream& out, const geo::CheckReport& rep, geo::Severity mi
     j.key("action").value(f.action);
     j.key("caution").value(opt(f.caution));
     j.end_object();
+  }
+  j.end_array();
+  // Where next: every usable contact's predicted elevation (95% half-width) at every station.
+  j.key("where_next").begin_array();
+  for (const auto& f : rep.fits) {
+    if (!f.usable) continue;
+    for (const auto& s : data.input.stations) {
+      auto e = geo::elevation_at(*f.fit, s.e, s.n);
+      if (!e) continue;
+      j.begin_object();
+      j.key("contact").value(f.contact);
+      j.key("station").value(s.code);
+      j.key("elevation").value(e->elevation);
+      j.key("half_width95").value(e->half_width95);
+      j.key("station_elevation").value(s.z);
+      j.end_object();
+    }
   }
   j.end_array();
   j.end_object();
@@ -185,7 +202,7 @@ int run_check(const Args& in, std::ostream& out, std::ostream& err) {
     };
   const store::CheckData data = store::load_check_input(p, decl);
   const geo::CheckReport rep = geo::run_crosscheck(data.input, o);
-  if (json) write_json(out, rep, min);
+  if (json) write_json(out, data, rep, min);
   else write_text(out, data, rep, min);
   return 0;
 }

@@ -86,6 +86,34 @@ with tempfile.TemporaryDirectory() as tmp:
             ds = abs((f["strike"] - s + 180) % 360 - 180)
             t.check(ds < 2 and abs(f["dip"] - dip) < 2, "%s fits its laid-out plane (%s)" % (f["contact"], f))
 
+    # Where next: the predicted elevations of a contact at two stations differ as its
+    # fitted plane says. Positions projected by PROJ (pyproj, UTM zone 8N), fitted
+    # plane turned back from true to grid north with PROJ's meridian convergence
+    # and scale factor.
+    import csv
+    import io
+    import math
+    from pyproj import Proj, Transformer
+    st = {row["station"]: row for row in csv.DictReader(io.StringIO(run("list", camp, "stations").stdout))}
+    to_utm = Transformer.from_crs("EPSG:4326", "EPSG:32608", always_xy=True)
+    wn = [w for w in rep["where_next"] if w["contact"] == "Skarra slate base"]
+    t.check(len(wn) == n["stations"], "where next covers every station for a usable contact")
+    fit = [f for f in rep["fits"] if f["contact"] == "Skarra slate base"][0]
+    a, b = wn[0], wn[-1]
+    (ea, na), (eb, nb) = [to_utm.transform(float(st[w["station"]]["lon"]), float(st[w["station"]]["lat"]))
+                          for w in (a, b)]
+    lat = (float(st[a["station"]]["lat"]) + float(st[b["station"]]["lat"])) / 2
+    lon = (float(st[a["station"]]["lon"]) + float(st[b["station"]]["lon"])) / 2
+    fac = Proj("EPSG:32608").get_factors(lon, lat)
+    gamma, k = fac.meridian_convergence, fac.meridional_scale
+    dd_grid = math.radians(fit["dip_direction"] - gamma)
+    tan_grid = math.tan(math.radians(fit["dip"])) / k
+    expect = -tan_grid * ((eb - ea) * math.sin(dd_grid) + (nb - na) * math.cos(dd_grid))
+    got = b["elevation"] - a["elevation"]
+    print("where next: %.3f vs %.3f m" % (got, expect))
+    t.check(abs(got - expect) < 0.5, "where next follows the fitted plane (%.2f vs %.2f m)" % (got, expect))
+    t.check(all(w["half_width95"] is not None and w["half_width95"] > 0 for w in wn), "where next has 95% intervals")
+
     # Deterministic: a second build holds the same records.
     run("demo", d2)
     for kind in ("stations", "planes", "lines", "points"):
