@@ -312,6 +312,11 @@ std::string format_trend_plunge(const Line& l) {
   return fmt_angle(round_azimuth(l.trend), 3) + "/" + fmt_angle(l.plunge, 2);
 }
 
+std::string format_rake(const Plane& host, const Line& l) {
+  const double r = std::round(rake_of_line(host, l) * 10.0) / 10.0;
+  return fmt_angle(r >= 180.0 ? 0.0 : r, 1);
+}
+
 std::string format_quadrant_azimuth(double azimuth) {
   const double a = round_azimuth(azimuth);
   if (a <= 90.0) return "N" + fmt_angle(a, 2) + "E";

@@ -45,6 +45,8 @@ std::string format_dip_direction(const Plane& p);
 std::string format_quadrant(const Plane& p);
 // "035/20" (trend / plunge)
 std::string format_trend_plunge(const Line& l);
+// Rake of a line on its host plane, 0..180 from the right-hand-rule strike: "40", "132.5".
+std::string format_rake(const Plane& host, const Line& l);
 // Azimuth in quadrant form: 30 -> "N30E", 200 -> "S20W".
 std::string format_quadrant_azimuth(double azimuth);
 

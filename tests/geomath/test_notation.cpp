@@ -135,6 +135,16 @@ TEST(Notation, Rake) {
   ASSERT_TRUE(e.ok() && w.ok());
   EXPECT_NEAR(rake_of_line(host, *e), 30, 1e-9);
   EXPECT_NEAR(rake_of_line(host, *w), 150, 1e-9);
+  // Format back: every rake in 0.5 degree steps survives format -> parse on several hosts.
+  for (const Plane h : {Plane{90, 30}, Plane{213, 71}, Plane{5, 12.5}}) {
+    for (int r2 = 0; r2 < 360; ++r2) {
+      const Line l = line_from_rake(h, r2 * 0.5);
+      auto back = parse_rake(format_rake(h, l), h);
+      ASSERT_TRUE(back.ok()) << format_rake(h, l) << ": " << back.error();
+      EXPECT_NEAR(angle_between_lines(l, *back), 0, 1e-9) << format_rake(h, l);
+    }
+  }
+  EXPECT_EQ(format_rake(host, *e), "30");
   EXPECT_EQ(parse_rake("30N", host).error(), "strike end N is ambiguous for strike 090");
   EXPECT_EQ(parse_rake("190", host).error(), "rake 190 is out of range: 0 to 180");
 }
