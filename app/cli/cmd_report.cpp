@@ -1,0 +1,170 @@
+// cairn report FILE -o report.html: the evening report, one self-contained HTML
+// file (see report_html.h).
+#include <cerrno>
+#include <cstdio>
+#include <cstring>
+#include <ctime>
+#include <filesystem>
+#include <fstream>
+#include <ostream>
+#include <stdexcept>
+
+#include "app/cli/command.h"
+#include "app/cli/magnetic_source.h"
+#include "app/cli/report_html.h"
+#include "geomath/crosscheck.h"
+#include "storage/check_input.h"
+#include "storage/project.h"
+#include "storage/repository.h"
+
+namespace fs = std::filesystem;
+
+namespace cairn::cli {
+namespace {
+
+std::string utc_now(const char* format) {
+  const std::time_t t = std::time(nullptr);
+  std::tm tm{};
+  gmtime_r(&t, &tm);
+  char buf[64];
+  std::strftime(buf, sizeof buf, format, &tm);
+  return buf;
+}
+
+std::string date_part(const std::string& iso) {
+  if (iso.size() < 10 || iso[4] != '-' || iso[7] != '-') return "";
+  return iso.substr(0, 10);
+}
+
+// The model's declination at the data's mean position over its date range.
+DeclinationSummary summarise_declination(const geo::MagneticModel& m, const ReportData& d) {
+  DeclinationSummary s;
+  s.model = m.name();
+  double lat = 0, lon = 0;
+  size_t n = 0;
+  for (const auto& st : d.stations) lat += st.lat, lon += st.lon, ++n;
+  for (const auto& p : d.points) lat += p.lat, lon += p.lon, ++n;
+  if (n == 0) throw std::runtime_error("no stations or contact points to place it");
+  s.lat = lat / n, s.lon = lon / n;
+  std::string lo, hi;
+  auto take = [&](const std::string& iso) {
+    const std::string day = date_part(iso);
+    if (day.empty()) return;
+    if (lo.empty() || day < lo) lo = day;
+    if (hi.empty() || day > hi) hi = day;
+  };
+  for (const auto& r : d.stations) take(r.time);
+  for (const auto& r : d.planes) take(r.time);
+  for (const auto& r : d.lines) take(r.time);
+  for (const auto& r : d.points) take(r.time);
+  if (lo.empty()) {
+    s.dates_from_data = false;
+    lo = hi = utc_now("%Y-%m-%d");
+  }
+  s.first_date = lo, s.last_date = hi;
+  const auto y0 = store::decimal_year_of(lo), y1 = store::decimal_year_of(hi);
+  if (!y0 || !y1) throw std::runtime_error("cannot read the dates " + lo + " and " + hi);
+  s.first = m.evaluate(s.lat, s.lon, 0.0, *y0).declination;
+  s.last = m.evaluate(s.lat, s.lon, 0.0, *y1).declination;
+  s.in_validity = m.in_validity(*y0) && m.in_validity(*y1);
+  s.valid_from = m.valid_from(), s.valid_to = m.valid_to();
+  return s;
+}
+
+// Writes `text` to `path` through a temporary file beside it, so a failure leaves
+// no half-written report (and an existing one untouched).
+void write_file_atomically(const std::string& path, const std::string& text) {
+  const fs::path target(path);
+  const fs::path dir = target.has_parent_path() ? target.parent_path() : fs::path(".");
+  std::error_code ec;
+  if (!fs::is_directory(dir, ec)) throw std::runtime_error("cannot write " + path + ": no folder " + dir.string());
+  const fs::path tmp = dir / ("." + target.filename().string() + ".tmp");
+  {
+    std::ofstream f(tmp, std::ios::binary | std::ios::trunc);
+    if (!f) throw std::runtime_error("cannot write " + tmp.string() + ": " + std::strerror(errno));
+    f << text;
+    f.flush();
+    if (!f) {
+      fs::remove(tmp, ec);
+      throw std::runtime_error("cannot write " + tmp.string() + ": " + std::strerror(errno));
+    }
+  }
+  fs::rename(tmp, target, ec);
+  if (ec) {
+    fs::remove(tmp, ec);
+    throw std::runtime_error("cannot write " + path + ": " + ec.message());
+  }
+}
+
+int run_report(const Args& in, std::ostream& out, std::ostream& err) {
+  Args args = in;
+  auto output = take_option(args, "-o");
+  if (!output) output = take_option(args, "--output");
+  geo::NetKind net = geo::NetKind::EqualArea;
+  if (auto k = take_option(args, "--net")) {
+    if (*k == "equal-area") net = geo::NetKind::EqualArea;
+    else if (*k == "equal-angle") net = geo::NetKind::EqualAngle;
+    else throw std::invalid_argument("--net must be equal-area or equal-angle, not '" + *k + "'");
+  }
+  reject_unknown_options(args);
+  if (args.size() != 1) throw std::invalid_argument("expected one project file");
+  if (!output || output->empty()) throw std::invalid_argument("-o REPORT.html is required");
+  {
+    std::error_code ec;
+    if (*output == args[0] || (fs::exists(*output, ec) && fs::equivalent(*output, args[0], ec)))
+      throw std::invalid_argument("the report would overwrite the project file " + args[0]);
+  }
+
+  store::OpenOptions oo;
+  oo.read_only = true;
+  oo.backups = false;
+  store::Project p = store::Project::open(args[0], oo);
+  if (!p.problem().empty()) err << "warning: " << p.problem() << "\n";
+
+  ReportData d;
+  d.file = fs::path(args[0]).filename().string();
+  d.generated = utc_now("%Y-%m-%d %H:%M UTC");
+  d.net = net;
+  d.info = p.info();
+  d.people = store::list_people(p);
+  d.units = store::list_units(p);
+  d.contacts = store::list_contacts(p);
+  d.stations = store::list_stations(p);
+  d.planes = store::list_planes(p);
+  d.lines = store::list_lines(p);
+  d.points = store::list_points(p);
+
+  const geo::MagneticModel* model = nullptr;
+  try {
+    model = &wmm();
+  } catch (const std::exception& e) {
+    d.declination_problem = std::string("no magnetic model (") + e.what() + ")";
+    err << "warning: no magnetic model (" << e.what() << "); declination-suspect is not checked\n";
+  }
+  store::LocalDeclination decl;
+  if (model) {
+    decl = [model](double lat, double lon, double year) -> std::optional<double> {
+      return model->evaluate(lat, lon, 0.0, year).declination;
+    };
+    try {
+      d.declination = summarise_declination(*model, d);
+    } catch (const std::exception& e) {
+      d.declination_problem = e.what();
+    }
+  }
+  d.check = store::load_check_input(p, decl);
+  d.result = geo::run_crosscheck(d.check.input);
+
+  write_file_atomically(*output, render_report_html(d));
+  out << "wrote " << *output << ": " << d.stations.size() << " stations, " << d.result.fits.size() << " contacts, "
+      << d.result.flags.size() << " flags\n";
+  return 0;
+}
+
+}  // namespace
+
+CAIRN_COMMAND(Command{"report", "cairn report FILE -o REPORT.html [--net equal-area|equal-angle]",
+                      "Write the evening report: one self-contained HTML file with summary, flags, plan and nets",
+                      run_report});
+
+}  // namespace cairn::cli

@@ -1,0 +1,52 @@
+// The evening report of `cairn report`: one self-contained HTML file (inline CSS
+// and SVG, no script, nothing fetched from a network) for the debrief in camp and
+// for supervisors. It holds a summary per day and per person, the declination
+// used, the flags with their cautions, a plan, the contact fits, and nets per
+// unit and per contact. Print rules fit both A4 and Letter.
+//
+// The renderer is pure: the verb (cmd_report.cpp) reads the project and runs the
+// cross-check; this file only turns the result into HTML.
+#pragma once
+#include <optional>
+#include <string>
+#include <vector>
+
+#include "geomath/crosscheck.h"
+#include "geomath/stereonet.h"
+#include "storage/check_input.h"
+#include "storage/records.h"
+
+namespace cairn::cli {
+
+// The magnetic model's declination over the project area and dates.
+struct DeclinationSummary {
+  std::string model;                  // "WMM2025"
+  double lat = 0, lon = 0;            // where it was evaluated (mean position of the data)
+  std::string first_date, last_date;  // YYYY-MM-DD, the data's date range
+  double first = 0, last = 0;         // declination (degrees east) at those dates
+  bool dates_from_data = true;        // false: no dated records, evaluated today
+  bool in_validity = true;            // both dates inside the model's validity
+  double valid_from = 0, valid_to = 0;  // decimal years
+};
+
+struct ReportData {
+  std::string file;       // the project file as named on the command line
+  std::string generated;  // "2026-06-14 21:05 UTC"
+  store::ProjectInfo info;
+  std::vector<store::Person> people;
+  std::vector<store::Unit> units;  // oldest first
+  std::vector<store::Contact> contacts;
+  std::vector<store::Station> stations;
+  std::vector<store::PlanarReading> planes;
+  std::vector<store::LinearReading> lines;
+  std::vector<store::ContactPoint> points;
+  store::CheckData check;     // positions in UTM metres, as the engine saw them
+  geo::CheckReport result;    // fits and flags
+  std::optional<DeclinationSummary> declination;
+  std::string declination_problem;  // why there is no summary ("" when there is one)
+  geo::NetKind net = geo::NetKind::EqualArea;
+};
+
+std::string render_report_html(const ReportData& d);
+
+}  // namespace cairn::cli
