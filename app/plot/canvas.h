@@ -38,6 +38,8 @@ public:
   virtual void circle(Pt centre, double radius, Rgba stroke, double width,
                       std::optional<Rgba> fill = std::nullopt) = 0;
   virtual void marker(Pt centre, Shape shape, double size, Rgba colour, bool filled = true) = 0;
+  // `at` is the top of the line of text; the baseline sits 0.8 * size below it
+  // (both backends follow this, so labels land in the same place).
   virtual void text(Pt at, const std::string& s, Rgba colour, double size, Anchor anchor = Anchor::Start) = 0;
 };
 
