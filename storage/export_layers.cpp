@@ -1,0 +1,369 @@
+#include "storage/export_layers.h"
+
+#include <algorithm>
+#include <filesystem>
+#include <fstream>
+#include <map>
+#include <stdexcept>
+#include <unordered_map>
+
+#include "geomath/angles.h"
+#include "storage/ids.h"
+#include "storage/repository.h"
+
+namespace fs = std::filesystem;
+
+namespace cairn::store {
+
+namespace {
+
+FieldValue text(const std::string& s) { return s.empty() ? FieldValue{} : FieldValue{s}; }
+FieldValue real(const std::optional<double>& v) { return v ? FieldValue{*v} : FieldValue{}; }
+FieldValue integer(const std::optional<int>& v) { return v ? FieldValue{static_cast<int64_t>(*v)} : FieldValue{}; }
+
+std::string lookup(const std::unordered_map<std::string, std::string>& m, const std::string& k) {
+  auto it = m.find(k);
+  return it == m.end() ? std::string() : it->second;
+}
+
+// The flags of one thing, worst first: "conflict misfit; query duplicate".
+struct FlagText {
+  std::string list;
+  std::string worst;
+};
+FlagText flag_text(std::vector<const geo::Flag*> flags) {
+  std::stable_sort(flags.begin(), flags.end(),
+                   [](const geo::Flag* a, const geo::Flag* b) { return a->severity > b->severity; });
+  FlagText t;
+  for (const auto* f : flags) t.list += (t.list.empty() ? "" : "; ") + std::string(geo::severity_name(f->severity)) + " " + f->rule;
+  if (!flags.empty()) t.worst = geo::severity_name(flags.front()->severity);
+  return t;
+}
+
+class Builder {
+public:
+  Builder(Project& p, const ExportOptions& o, RotationFrame frame) : p_(p), frame_(frame) {
+    data_ = load_check_input(p, o.local_declination);
+    report_ = geo::run_crosscheck(data_.input, o.check);
+    out_.zone = data_.zone;
+    for (const auto& d : list_devices(p)) device_[d.meta.uuid] = d.name;
+    for (const auto& x : list_people(p, {true})) initials_[x.meta.uuid] = x.initials;
+    for (const auto& u : list_units(p, {true})) unit_[u.meta.uuid] = u.code;
+    for (const auto& c : list_contacts(p, {true})) contact_[c.meta.uuid] = c.name;
+    for (const auto& s : list_stations(p)) station_[s.meta.uuid] = s;
+  }
+
+  LayerSet build() {
+    stations();
+    planes();
+    lines();
+    points();
+    fitted_contacts();
+    flags();
+    return std::move(out_);
+  }
+
+private:
+  Feature at(double lat, double lon, const std::string& what) {
+    Feature f;
+    f.where = geo::LatLon{lat, lon};
+    auto u = geo::to_utm(*f.where, out_.zone);
+    if (!u) throw std::runtime_error(what + ": " + u.error());
+    f.grid = *u;
+    return f;
+  }
+  Feature at_grid(double e, double n) {
+    Feature f;
+    const geo::UtmPoint u{out_.zone.zone, out_.zone.northp, e, n};
+    auto ll = geo::from_utm(u);
+    if (!ll) return f;  // no geometry rather than a wrong one
+    f.where = *ll;
+    f.grid = u;
+    return f;
+  }
+
+  // Clockwise from the layer grid's north to a true azimuth (see export.h).
+  double rotation(double azimuth, const Feature& f) const {
+    if (frame_ == RotationFrame::TrueNorth || !f.where) return geo::wrap360(azimuth);
+    auto g = geo::utm_grid_factors(*f.where, out_.zone);
+    // Convergence: the azimuth of grid north measured clockwise from true north,
+    // so a true azimuth A is A - convergence from grid north.
+    return geo::wrap360(azimuth - (g ? g->convergence : 0.0));
+  }
+
+  void meta_values(Feature& f, const RecordMeta& m) {
+    f.values.push_back(text(lookup(device_, m.device)));
+    f.values.push_back(m.created);
+    f.values.push_back(m.updated);
+  }
+  static void meta_fields(Layer& l) {
+    for (const char* n : {"device", "created", "updated"}) l.fields.push_back({n, FieldType::Text});
+  }
+
+  void stations() {
+    Layer l{"stations", "Stations", "Where readings were taken (WGS84 positions as recorded).", {}, {}};
+    using T = FieldType;
+    l.fields = {{"uuid", T::Text},       {"code", T::Text},     {"lat", T::Real},      {"lon", T::Real},
+                {"elevation", T::Real},  {"h_accuracy", T::Real}, {"v_accuracy", T::Real}, {"source", T::Text},
+                {"unit", T::Text},       {"observer", T::Text}, {"time", T::Text},     {"notes", T::Text}};
+    meta_fields(l);
+    for (const auto& [id, s] : ordered_stations()) {
+      Feature f = at(s->lat, s->lon, "station " + s->code);
+      f.values = {s->meta.uuid, s->code, s->lat, s->lon, real(s->elevation), real(s->h_accuracy), real(s->v_accuracy),
+                  std::string(to_string(s->source)), text(lookup(unit_, s->unit)), text(lookup(initials_, s->observer)),
+                  text(s->time), text(s->notes)};
+      meta_values(f, s->meta);
+      l.features.push_back(std::move(f));
+    }
+    out_.layers.push_back(std::move(l));
+  }
+
+  std::vector<std::pair<std::string, const Station*>> ordered_stations() const {
+    std::vector<std::pair<std::string, const Station*>> v;
+    for (const auto& [id, s] : station_) v.emplace_back(id, &s);
+    std::sort(v.begin(), v.end(), [](const auto& a, const auto& b) {
+      return std::tie(a.second->meta.created, a.first) < std::tie(b.second->meta.created, b.first);
+    });
+    return v;
+  }
+
+  Feature at_station(const std::string& station_uuid) {
+    auto it = station_.find(station_uuid);
+    if (it == station_.end()) return Feature{};
+    return at(it->second.lat, it->second.lon, "station " + it->second.code);
+  }
+  std::string station_code(const std::string& uuid) const {
+    auto it = station_.find(uuid);
+    return it == station_.end() ? std::string() : it->second.code;
+  }
+
+  void planes() {
+    Layer l{"planar_readings", "Planar readings",
+            "Strike (right-hand rule) and dip against true north; symbol_rotation: clockwise from the layer grid's "
+            "north to the strike (draw the strike-dip symbol pointing up, dip tick on the right, then rotate).",
+            {}, {}};
+    using T = FieldType;
+    l.fields = {{"uuid", T::Text},          {"station", T::Text},           {"kind", T::Text},
+                {"strike", T::Real},        {"dip", T::Real},               {"dip_direction", T::Real},
+                {"symbol_rotation", T::Real}, {"quality", T::Integer},      {"facing", T::Text},
+                {"north", T::Text},         {"declination", T::Real},       {"declination_source", T::Text},
+                {"measured_strike", T::Real}, {"measured_dip", T::Real},    {"typed", T::Text},
+                {"contact", T::Text},       {"ref", T::Text},               {"time", T::Text},
+                {"observer", T::Text},      {"notes", T::Text},             {"flags", T::Text},
+                {"worst_flag", T::Text}};
+    meta_fields(l);
+    std::unordered_map<std::string, std::vector<const geo::Flag*>> by_reading;
+    for (const auto& f : report_.flags)
+      if (!f.reading.empty()) by_reading[f.reading].push_back(&f);
+    for (const auto& r : list_planes(p_)) {
+      Feature f = at_station(r.station);
+      const geo::Plane pl{r.strike, r.dip};
+      const FlagText ft = flag_text(by_reading[r.meta.uuid]);
+      f.values = {r.meta.uuid,
+                  station_code(r.station),
+                  std::string(to_string(r.kind)),
+                  r.strike,
+                  r.dip,
+                  pl.dip_direction(),
+                  rotation(r.strike, f),
+                  integer(r.quality),
+                  std::string(to_string(r.facing)),
+                  std::string(to_string(r.north)),
+                  r.declination,
+                  text(r.declination_source),
+                  r.measured_strike,
+                  r.measured_dip,
+                  r.typed,
+                  text(lookup(contact_, r.contact)),
+                  text(r.ref),
+                  text(r.time),
+                  text(lookup(initials_, r.observer)),
+                  text(r.notes),
+                  text(ft.list),
+                  text(ft.worst)};
+      meta_values(f, r.meta);
+      l.features.push_back(std::move(f));
+    }
+    out_.layers.push_back(std::move(l));
+  }
+
+  void lines() {
+    Layer l{"linear_readings", "Linear readings",
+            "Trend and plunge against true north; symbol_rotation: clockwise from the layer grid's north to the trend.",
+            {}, {}};
+    using T = FieldType;
+    l.fields = {{"uuid", T::Text},         {"station", T::Text},       {"kind", T::Text},
+                {"trend", T::Real},        {"plunge", T::Real},        {"symbol_rotation", T::Real},
+                {"rake", T::Real},         {"plane_ref", T::Text},     {"north", T::Text},
+                {"declination", T::Real},  {"declination_source", T::Text}, {"measured_trend", T::Real},
+                {"measured_plunge", T::Real}, {"typed", T::Text},      {"ref", T::Text},
+                {"time", T::Text},         {"observer", T::Text},      {"notes", T::Text}};
+    meta_fields(l);
+    std::unordered_map<std::string, std::string> plane_ref;
+    for (const auto& pl : list_planes(p_, {true})) plane_ref[pl.meta.uuid] = pl.ref;
+    for (const auto& r : list_lines(p_)) {
+      Feature f = at_station(r.station);
+      f.values = {r.meta.uuid,
+                  station_code(r.station),
+                  std::string(to_string(r.kind)),
+                  r.trend,
+                  r.plunge,
+                  rotation(r.trend, f),
+                  real(r.rake),
+                  text(lookup(plane_ref, r.host_plane)),
+                  std::string(to_string(r.north)),
+                  r.declination,
+                  text(r.declination_source),
+                  r.measured_trend,
+                  r.measured_plunge,
+                  r.typed,
+                  text(r.ref),
+                  text(r.time),
+                  text(lookup(initials_, r.observer)),
+                  text(r.notes)};
+      meta_values(f, r.meta);
+      l.features.push_back(std::move(f));
+    }
+    out_.layers.push_back(std::move(l));
+  }
+
+  void points() {
+    Layer l{"contact_points", "Contact points", "Points mapped along contacts (WGS84 positions as recorded).", {}, {}};
+    using T = FieldType;
+    l.fields = {{"uuid", T::Text},       {"contact", T::Text},    {"lat", T::Real},        {"lon", T::Real},
+                {"elevation", T::Real},  {"h_accuracy", T::Real}, {"v_accuracy", T::Real}, {"source", T::Text},
+                {"time", T::Text},       {"observer", T::Text},   {"notes", T::Text}};
+    meta_fields(l);
+    for (const auto& q : list_points(p_)) {
+      Feature f = at(q.lat, q.lon, "contact point " + q.meta.uuid);
+      f.values = {q.meta.uuid, text(lookup(contact_, q.contact)), q.lat, q.lon, real(q.elevation), real(q.h_accuracy),
+                  real(q.v_accuracy), std::string(to_string(q.source)), text(q.time), text(lookup(initials_, q.observer)),
+                  text(q.notes)};
+      meta_values(f, q.meta);
+      l.features.push_back(std::move(f));
+    }
+    out_.layers.push_back(std::move(l));
+  }
+
+  // Where a contact's feature goes: the centroid its plane was fitted through,
+  // else the mean of its mapped points.
+  Feature contact_place(const std::string& name) {
+    for (const auto& fit : report_.fits)
+      if (fit.contact == name && fit.fit) return at_grid(fit.fit->centroid.x(), fit.fit->centroid.y());
+    for (const auto& c : data_.input.contacts) {
+      if (c.name != name || c.points.empty()) continue;
+      double e = 0, n = 0;
+      for (const auto& q : c.points) e += q.e, n += q.n;
+      return at_grid(e / c.points.size(), n / c.points.size());
+    }
+    return Feature{};
+  }
+
+  void fitted_contacts() {
+    Layer l{"fitted_contacts", "Fitted contacts",
+            "One point per contact at the centroid of its mapped points: the plane fitted through them (strike by "
+            "the right-hand rule, true north), its 95% cone, verdict and the cross-check's contact-wide flags.",
+            {}, {}};
+    using T = FieldType;
+    l.fields = {{"contact_uuid", T::Text}, {"contact", T::Text},        {"type", T::Text},
+                {"lower_unit", T::Text},   {"upper_unit", T::Text},     {"points", T::Integer},
+                {"strike", T::Real},       {"dip", T::Real},            {"dip_direction", T::Real},
+                {"symbol_rotation", T::Real}, {"cone95", T::Real},      {"rms", T::Real},
+                {"verdict", T::Text},      {"usable", T::Boolean},      {"flags", T::Text},
+                {"worst_flag", T::Text},   {"reading_flags", T::Integer}};
+    for (const auto& fit : report_.fits) {
+      Feature f = contact_place(fit.contact);
+      const geo::CheckContact* cc = nullptr;
+      for (const auto& c : data_.input.contacts)
+        if (c.uuid == fit.contact_id) cc = &c;
+      std::vector<const geo::Flag*> own;
+      int64_t at_stations = 0;
+      for (const auto& fl : report_.flags) {
+        if (fl.contact != fit.contact) continue;
+        if (fl.station.empty()) own.push_back(&fl);
+        else ++at_stations;
+      }
+      const FlagText ft = flag_text(own);
+      std::optional<double> strike, dip, dd, rot, cone, rms;
+      if (fit.plane) {
+        strike = fit.plane->strike;
+        dip = fit.plane->dip;
+        dd = fit.plane->dip_direction();
+        rot = rotation(fit.plane->strike, f);
+        cone = fit.fit->cone95;
+        rms = fit.fit->rms;
+      }
+      f.values = {fit.contact_id,
+                  fit.contact,
+                  text(cc ? cc->type : ""),
+                  text(cc ? lookup(unit_, cc->lower_unit) : ""),
+                  text(cc ? lookup(unit_, cc->upper_unit) : ""),
+                  static_cast<int64_t>(fit.points),
+                  real(strike),
+                  real(dip),
+                  real(dd),
+                  real(rot),
+                  real(cone),
+                  real(rms),
+                  text(fit.verdict),
+                  fit.usable,
+                  text(ft.list),
+                  text(ft.worst),
+                  at_stations};
+      l.features.push_back(std::move(f));
+    }
+    out_.layers.push_back(std::move(l));
+  }
+
+  void flags() {
+    Layer l{"flags", "Cross-check flags",
+            "Findings of the cross-check at their station (or at the contact's centroid for contact-wide flags).", {}, {}};
+    using T = FieldType;
+    l.fields = {{"rule", T::Text},   {"severity", T::Text}, {"station", T::Text},  {"ref", T::Text},
+                {"reading", T::Text}, {"contact", T::Text}, {"misfit", T::Real},    {"misfit_corrected", T::Real},
+                {"message", T::Text}, {"action", T::Text},  {"caution", T::Text}};
+    for (const auto& fl : report_.flags) {
+      Feature f = fl.station_id.empty() ? contact_place(fl.contact) : at_station(fl.station_id);
+      f.values = {fl.rule,          std::string(geo::severity_name(fl.severity)), text(fl.station), text(fl.ref),
+                  text(fl.reading), text(fl.contact),  real(fl.misfit), real(fl.misfit_corrected), fl.message,
+                  fl.action,        text(fl.caution)};
+      l.features.push_back(std::move(f));
+    }
+    out_.layers.push_back(std::move(l));
+  }
+
+  Project& p_;
+  RotationFrame frame_;
+  CheckData data_;
+  geo::CheckReport report_;
+  LayerSet out_;
+  std::unordered_map<std::string, std::string> device_, initials_, unit_, contact_;
+  std::map<std::string, Station> station_;
+};
+
+}  // namespace
+
+LayerSet build_layers(Project& p, const ExportOptions& o, RotationFrame frame) { return Builder(p, o, frame).build(); }
+
+void write_file_atomically(const std::string& path, const std::string& text) {
+  const fs::path target(path);
+  const fs::path tmp = target.parent_path() / ("." + target.filename().string() + "." + new_uuid().substr(0, 8) + ".tmp");
+  {
+    std::ofstream f(tmp, std::ios::binary | std::ios::trunc);
+    f << text;
+    f.flush();
+    if (!f) {
+      std::error_code ec;
+      fs::remove(tmp, ec);
+      throw std::runtime_error("cannot write " + path);
+    }
+  }
+  std::error_code ec;
+  fs::rename(tmp, target, ec);
+  if (ec) {
+    fs::remove(tmp, ec);
+    throw std::runtime_error("cannot write " + path + ": " + ec.message());
+  }
+}
+
+}  // namespace cairn::store

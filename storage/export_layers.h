@@ -1,0 +1,54 @@
+// The features an export writes, built once from a project and its
+// cross-check and written by the GeoPackage and GeoJSON writers
+// (storage/export.h describes the layers and the symbol rotation).
+#pragma once
+#include <cstdint>
+#include <optional>
+#include <string>
+#include <variant>
+#include <vector>
+
+#include "geomath/geodesy.h"
+#include "storage/export.h"
+
+namespace cairn::store {
+
+enum class FieldType { Text, Real, Integer, Boolean };
+
+struct FieldDef {
+  std::string name;
+  FieldType type;
+};
+
+// Empty (null), text, number, whole number or yes/no.
+using FieldValue = std::variant<std::monostate, std::string, double, int64_t, bool>;
+
+struct Feature {
+  std::optional<geo::LatLon> where;   // WGS84; nothing: no geometry
+  std::optional<geo::UtmPoint> grid;  // the same place in the export's UTM zone
+  std::vector<FieldValue> values;     // one per field of the layer
+};
+
+struct Layer {
+  std::string name;         // table name / value of the GeoJSON "layer" property
+  std::string title;        // human-readable identifier
+  std::string description;
+  std::vector<FieldDef> fields;
+  std::vector<Feature> features;
+};
+
+// What `symbol_rotation` is measured from: the UTM grid's north or true north.
+enum class RotationFrame { Grid, TrueNorth };
+
+struct LayerSet {
+  geo::UtmZone zone;
+  std::vector<Layer> layers;
+};
+
+// Throws std::runtime_error naming the record when a position cannot be projected.
+LayerSet build_layers(Project& p, const ExportOptions& o, RotationFrame frame);
+
+// Writes `text` to PATH through a temporary file in the same folder and a rename.
+void write_file_atomically(const std::string& path, const std::string& text);
+
+}  // namespace cairn::store
