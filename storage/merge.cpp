@@ -386,6 +386,7 @@ public:
         }
       }
     }
+    int photos_added = 0;
     for (const char* name : kRecordOrder) {
       const Table& t = tables_.at(name);
       Stmt s(src.db(), std::string("SELECT uuid FROM ") + name + " ORDER BY created, uuid");
@@ -394,6 +395,7 @@ public:
         Row in = *read_row(src.db(), t, s.text(0));
         natural_key(src.db(), t, in);
         const Outcome o = merge_record(src, t, in);
+        if (o == Outcome::Added && t.name == "photos") ++photos_added;
         const std::string device = in[t.device].s;
         const std::string person = person_of(t, in);
         for (MergeCounts* c : {&sm.counts, &sm.by_device[device], &sm.by_person[person]}) {
@@ -406,6 +408,9 @@ public:
         }
       }
     }
+    if (photos_added > 0)
+      rep_.warnings.push_back(path + ": " + std::to_string(photos_added) +
+                              " photo record(s) added; the image files are not copied: copy them beside this file");
     merge_side_tables(src, path, sm);
     const bool changed = writes_ > writes_before;
     if (changed) {

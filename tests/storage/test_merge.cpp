@@ -588,3 +588,68 @@ TEST(Merge, AReadingAddedToAStationDeletedElsewhereIsReported) {
   for (const auto& w : rep.warnings) warned = warned || w.find("points at deleted station S3") != std::string::npos;
   EXPECT_TRUE(warned);
 }
+
+TEST(Merge, DeletesAndRestoresTravelLikeEditsAndTheAuditTrailComesAlong) {
+  Camp c;
+  const std::string a = c.tablet("tabletA.cairn");
+  {
+    Project p = Project::open(a, device(kTabletA, "tablet A"));
+    soft_delete(p, Kind::Plane, c.legend.plane);
+  }
+  merge_into(c.camp, {a});
+  {
+    Project p = Project::open(c.camp, device(kCampDevice, "camp laptop"));
+    EXPECT_TRUE(get_plane(p, c.legend.plane)->meta.deleted.has_value());
+    EXPECT_TRUE(list_conflicts(p).empty());
+  }
+  {
+    Project p = Project::open(a, device(kTabletA, "tablet A"));
+    restore(p, Kind::Plane, c.legend.plane);
+  }
+  const MergeReport rep = merge_into(c.camp, {a});
+  EXPECT_EQ(rep.sources[0].counts.updated, 1);
+  Project p = Project::open(c.camp, device(kCampDevice, "camp laptop"));
+  EXPECT_FALSE(get_plane(p, c.legend.plane)->meta.deleted.has_value());
+  // Every audit row of the tablet is in the camp file, unchanged.
+  Db tablet(a, SQLITE_OPEN_READONLY);
+  Stmt s(tablet, "SELECT uuid, action, new_values FROM audit");
+  int rows = 0;
+  while (s.step()) {
+    ++rows;
+    Stmt q(p.db(), "SELECT action, new_values FROM audit WHERE uuid = ?");
+    q.bind(1, s.text(0));
+    ASSERT_TRUE(q.step()) << s.text(0);
+    EXPECT_EQ(q.text(0), s.text(1));
+    EXPECT_EQ(q.text(1), s.text(2));
+  }
+  EXPECT_GE(rows, 9);  // the legend's inserts, the delete and the restore
+  auto trail = audit_trail(p, c.legend.plane);
+  ASSERT_EQ(trail.size(), 3u);
+  EXPECT_EQ(trail[1].action, "delete");
+  EXPECT_EQ(trail[2].action, "restore");
+}
+
+TEST(Merge, TablesOtherModulesKeepBesideTheRecordsMergeByUuid) {
+  // A table with the record columns that this module does not know (as a
+  // module's flag reviews are): created in the camp file and merged by UUID.
+  Camp c;
+  const std::string a = c.tablet("tabletA.cairn");
+  {
+    Db db(a, SQLITE_OPEN_READWRITE);
+    db.exec("CREATE TABLE field_sketches (uuid TEXT PRIMARY KEY, caption TEXT NOT NULL, created TEXT NOT NULL, "
+            "updated TEXT NOT NULL, device TEXT NOT NULL, deleted TEXT);"
+            "CREATE INDEX field_sketches_caption ON field_sketches(caption);"
+            "INSERT INTO field_sketches VALUES ('5a0c1e2d-0000-4000-8000-000000000001', 'fold hinge at S1', "
+            "'2025-06-14T10:00:00.000Z', '2025-06-14T10:00:00.000Z', 'a0000000-0000-4000-8000-00000000000a', NULL)");
+  }
+  const MergeReport rep = merge_into(c.camp, {a});
+  EXPECT_EQ(rep.sources[0].counts.added, 1);
+  {
+    Db camp(c.camp, SQLITE_OPEN_READONLY);
+    EXPECT_EQ(camp.query_text("SELECT caption FROM field_sketches"), "fold hinge at S1");
+    EXPECT_EQ(camp.query_int("SELECT count(*) FROM sqlite_master WHERE name = 'field_sketches_caption'"), 1);
+  }
+  const std::string before = dump(c.camp);
+  EXPECT_FALSE(merge_into(c.camp, {a}).changed);
+  EXPECT_EQ(dump(c.camp), before);
+}
