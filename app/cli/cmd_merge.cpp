@@ -2,6 +2,7 @@
 // files into the camp file (storage/merge.h), all or nothing, and reports what
 // was added, updated, skipped and conflicting, per device and per person.
 // `cairn merge TARGET --conflicts` lists the conflicts still open in TARGET.
+// A TARGET that does not exist yet is made with the first source's settings.
 //
 // Progress goes to stderr (with --progress, or by itself for a source of more
 // than kLongMerge rows), so stdout stays the report (or the JSON).
@@ -254,8 +255,39 @@ int run(const Args& in, std::ostream& out, std::ostream& err) {
     err << "merging " << std::filesystem::path(m.source).filename().string() << " (" << m.source_index + 1 << "/"
         << m.sources << "): " << 10 * step << "% (" << m.table << ")\n";
   };
-  auto project = open_project(target, false, err);
-  const store::MergeReport rep = store::merge_files(project, sources, o);
+  // The first evening there is no camp file yet: make one with the first
+  // tablet's settings (a file of its own, with its own identity).
+  namespace fs = std::filesystem;
+  std::error_code ec;
+  bool created = false;
+  if (!fs::exists(target, ec)) {
+    for (const auto& s : sources)
+      if (!fs::exists(s, ec)) throw std::runtime_error("no project file " + s);
+    store::OpenOptions ro;
+    ro.read_only = true;
+    ro.backups = false;
+    store::ProjectInfo info;
+    try {
+      info = store::Project::open(sources.front(), ro).info();
+    } catch (const std::exception& e) {
+      throw std::runtime_error(std::string(e.what()) + "; or make " + target + " first with 'cairn new'");
+    }
+    store::Project::create(target, store::NewProject{info.name, info.utm_zone, info.north_default, info.declination},
+                           cli_open_options(false));
+    created = true;
+    err << "created " << target << " with the settings of " << sources.front() << "\n";
+  }
+  store::MergeReport rep;
+  try {
+    auto project = open_project(target, false, err);
+    rep = store::merge_files(project, sources, o);
+  } catch (...) {
+    if (created) {  // nothing is left behind by a merge that failed
+      for (const std::string& f : {target, target + "-wal", target + "-shm"}) fs::remove(f, ec);
+      fs::remove_all(target + ".backups", ec);
+    }
+    throw;
+  }
   if (json) write_json(out, target, rep);
   else write_text(out, target, rep);
   return 0;

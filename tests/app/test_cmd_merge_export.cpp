@@ -138,3 +138,18 @@ TEST_F(CampVerbs, ExportWritesEachFormat) {
   EXPECT_EQ(r.status, 2);
   EXPECT_NE(r.err.find("name a .gpkg or .geojson file, or a folder for CSV files"), std::string::npos) << r.err;
 }
+
+TEST_F(CampVerbs, TheFirstEveningMakesTheCampFile) {
+  camp_and_tablets();
+  Outcome r = cairn("merge evening.cairn tabletA.cairn tabletB.cairn");
+  ASSERT_EQ(r.status, 0) << r.err;
+  EXPECT_NE(r.err.find("created evening.cairn with the settings of tabletA.cairn"), std::string::npos) << r.err;
+  r = cairn("list evening.cairn stations");
+  EXPECT_NE(r.out.find("A1"), std::string::npos);
+  EXPECT_NE(r.out.find("B1"), std::string::npos);
+  // A failed first merge leaves no camp file behind.
+  r = cairn("merge other.cairn tabletA.cairn", "CAIRN_MERGE_FAIL_AFTER=2");
+  EXPECT_EQ(r.status, 1);
+  EXPECT_FALSE(std::filesystem::exists(file("other.cairn")));
+  EXPECT_FALSE(std::filesystem::exists(file("other.cairn.backups")));
+}
