@@ -1,0 +1,568 @@
+#include "app/ui/app.h"
+
+#include <algorithm>
+#include <cctype>
+#include <cmath>
+#include <iostream>
+#include <vector>
+
+#include <SDL_opengl.h>
+#include <backends/imgui_impl_opengl3.h>
+#include <backends/imgui_impl_sdl.h>
+#include <stb_image_write.h>
+
+#include "app/cli/project_access.h"
+#include "app/ui/screens.h"
+#include "app/ui/script.h"
+#include "app/ui/text_util.h"
+#include "app/ui/widgets.h"
+#include "storage/repository.h"
+
+namespace cairn::ui {
+
+namespace {
+
+struct ScreenName {
+  Screen screen;
+  const char* key;
+  const char* title;
+};
+const ScreenName kScreens[] = {
+    {Screen::Open, "open", "Open"},
+    {Screen::Logbook, "logbook", "Logbook"},
+    {Screen::Station, "station", "Station sheet"},
+    {Screen::Pad, "pad", "Reading pad"},
+    {Screen::Net, "net", "Net"},
+    {Screen::Plan, "plan", "Plan"},
+    {Screen::Crosscheck, "crosscheck", "Crosscheck"},
+    {Screen::Camp, "camp", "Camp"},
+    {Screen::Review, "review", "Review"},
+};
+
+std::string lower(std::string s) {
+  for (auto& c : s) c = static_cast<char>(std::tolower(static_cast<unsigned char>(c)));
+  return s;
+}
+
+}  // namespace
+
+const char* screen_title(Screen s) {
+  for (const auto& n : kScreens)
+    if (n.screen == s) return n.title;
+  return "";
+}
+
+std::optional<Screen> parse_screen(const std::string& name) {
+  const std::string l = lower(name);
+  for (const auto& n : kScreens)
+    if (l == n.key || l == lower(n.title)) return n.screen;
+  if (l == "reading-pad" || l == "station-sheet") return l == "reading-pad" ? Screen::Pad : Screen::Station;
+  return std::nullopt;
+}
+
+App::App(GuiOptions o) : opts(std::move(o)) {}
+
+App::~App() { shutdown(); }
+
+float App::frame_width() const { return ImGui::GetIO().DisplaySize.x; }
+float App::frame_height() const { return ImGui::GetIO().DisplaySize.y; }
+
+void App::go(Screen s) {
+  screen = s;
+  if (s == Screen::Pad) {
+    pad.error.clear();
+    pad.status.clear();
+  }
+}
+
+void App::notify(const std::string& message) {
+  toast_ = message;
+  toast_until_ = ImGui::GetTime() + 6.0;
+}
+
+bool App::act(const std::string& label, const std::function<void(store::Project&)>& f, std::string* error) {
+  std::string err;
+  if (model->act(label, f, &err)) {
+    notify("Saved: " + label);
+    return true;
+  }
+  if (error) *error = err;
+  else notify(err);
+  return false;
+}
+
+void App::select_station(const std::string& uuid) {
+  station = uuid;
+  reading.clear();
+  edit = StationEdit{};
+  pad = PadState{};
+}
+
+void App::set_person(const std::string& uuid) {
+  person_ = uuid;
+  if (model) model->project().set_person(uuid);
+}
+
+bool App::open_project(const std::string& path, std::string* error) {
+  try {
+    store::OpenOptions oo = cli::cli_open_options(false);
+    store::Project p = store::Project::open(path, oo);
+    model = std::make_unique<Model>(std::move(p));
+  } catch (const std::exception& e) {
+    if (error) *error = e.what();
+    return false;
+  }
+  if (!model->project().problem().empty()) notify(model->project().problem());
+  if (!opts.person.empty())
+    if (auto who = store::find_person(model->project(), opts.person)) set_person(who->meta.uuid);
+  if (!opts.station.empty())
+    if (auto s = store::find_station(model->project(), opts.station)) select_station(s->meta.uuid);
+  screen = Screen::Logbook;
+  request_check();
+  return true;
+}
+
+void App::request_check() {
+  if (!model || checker.busy() || model->check_is_current()) return;
+  if (model->check() && !model->check()->error.empty() && model->check()->revision == model->revision()) return;
+  const std::string path = model->path();
+  const std::uint64_t rev = model->revision();
+  Model* m = model.get();
+  checker.start("Checking readings against contact fits", [path, rev, m](JobProgress& pr) {
+    auto r = std::make_shared<CheckResult>(run_check_on_file(path, rev, [&](float f, const std::string& s) { pr.set(f, s); }));
+    return std::function<void()>([m, r] { m->set_check(r); });
+  });
+}
+
+bool App::idle() const {
+  if (jobs.busy() || checker.busy()) return false;
+  return !model || model->check_is_current() || (model->check() && !model->check()->error.empty());
+}
+
+bool App::init(std::string* error) {
+  SDL_SetHint(SDL_HINT_VIDEO_X11_NET_WM_BYPASS_COMPOSITOR, "0");
+  if (SDL_Init(SDL_INIT_VIDEO | SDL_INIT_TIMER) != 0) {
+    *error = std::string("cannot open the display (on Linux DISPLAY or WAYLAND_DISPLAY must name one; "
+                         "use xvfb-run for pictures and tests): ") + SDL_GetError();
+    return false;
+  }
+  SDL_GL_SetAttribute(SDL_GL_CONTEXT_FLAGS, 0);
+  SDL_GL_SetAttribute(SDL_GL_CONTEXT_MAJOR_VERSION, 3);
+  SDL_GL_SetAttribute(SDL_GL_CONTEXT_MINOR_VERSION, 0);
+  SDL_GL_SetAttribute(SDL_GL_DOUBLEBUFFER, 1);
+  SDL_GL_SetAttribute(SDL_GL_DEPTH_SIZE, 0);
+  SDL_GL_SetAttribute(SDL_GL_STENCIL_SIZE, 8);
+
+  // The display's density sets the tap size; X servers that do not know the
+  // screen's size report nonsense, so anything outside 50..1000 dpi means 96.
+  double dpi = opts.dpi;
+  float ddpi = 0, hdpi = 0, vdpi = 0;
+  if (dpi <= 0 && SDL_GetDisplayDPI(0, &ddpi, &hdpi, &vdpi) == 0) dpi = hdpi > 0 ? hdpi : ddpi;
+  if (!(dpi >= 50 && dpi <= 1000)) dpi = 96;
+
+  SDL_DisplayMode dm{};
+  SDL_GetDesktopDisplayMode(0, &dm);
+  const bool automatic = opts.screenshot.empty() && opts.script.empty();
+  // Tablet-sized: a touch screen of at most 13.5 inches across (common tablet
+  // sizes run 8 to 13 inches; no published source).
+  const double diagonal_in = dm.w > 0 ? std::hypot(dm.w, dm.h) / dpi : 99;
+  const bool tablet = SDL_GetNumTouchDevices() > 0 && diagonal_in <= 13.5;
+  const bool full = opts.fullscreen || (automatic && !opts.windowed && tablet);
+  int w = opts.width, h = opts.height;
+  if (w <= 0 || h <= 0) {
+    w = dm.w > 0 ? std::min(1280, dm.w * 9 / 10) : 1280;
+    h = dm.h > 0 ? std::min(800, dm.h * 9 / 10) : 800;
+  }
+  Uint32 flags = SDL_WINDOW_OPENGL | SDL_WINDOW_RESIZABLE | SDL_WINDOW_ALLOW_HIGHDPI;
+  if (full) flags |= SDL_WINDOW_FULLSCREEN_DESKTOP;
+  window_ = SDL_CreateWindow("Cairn", SDL_WINDOWPOS_CENTERED, SDL_WINDOWPOS_CENTERED, w, h, flags);
+  if (!window_) {
+    *error = std::string("cannot open a window: ") + SDL_GetError();
+    return false;
+  }
+  gl_ = SDL_GL_CreateContext(window_);
+  if (!gl_) {
+    *error = std::string("cannot create an OpenGL 3 context: ") + SDL_GetError();
+    return false;
+  }
+  SDL_GL_MakeCurrent(window_, gl_);
+  SDL_GL_SetSwapInterval(automatic ? 1 : 0);
+
+  IMGUI_CHECKVERSION();
+  ImGui::CreateContext();
+  ImGuiIO& io = ImGui::GetIO();
+  io.IniFilename = nullptr;  // no layout file: the screens are fixed
+  io.ConfigWindowsMoveFromTitleBarOnly = true;
+  io.ConfigInputTextCursorBlink = false;
+  ImGui_ImplSDL2_InitForOpenGL(window_, gl_);
+  ImGui_ImplOpenGL3_Init("#version 130");
+
+  Look& lk = look();
+  lk.m = metrics_for_dpi(dpi);
+  lk.theme = opts.night ? ThemeKind::Night : ThemeKind::Outdoor;
+  try {
+    lk.fonts = load_fonts(lk.m);
+  } catch (const std::exception& e) {
+    *error = e.what();
+    return false;
+  }
+  lk.pal = apply_theme(lk.theme, lk.m);
+  // Dear ImGui's drag threshold: a finger wobbles more than a mouse.
+  io.MouseDragThreshold = lk.m.tap * 0.2f;
+
+  if (!opts.file.empty()) {
+    std::string err;
+    if (!open_project(opts.file, &err)) {
+      *error = err;
+      return false;
+    }
+  } else {
+    screen = Screen::Open;
+  }
+  if (!opts.view.empty()) {
+    if (auto s = parse_screen(opts.view)) screen = *s;
+  }
+  if (!opts.no_gps && !opts.gps.empty()) {
+    const auto colon = opts.gps.rfind(':');
+    gps.start(colon == std::string::npos ? opts.gps : opts.gps.substr(0, colon),
+              colon == std::string::npos ? "2947" : opts.gps.substr(colon + 1));
+  }
+  return true;
+}
+
+void App::shutdown() {
+  gps.stop();
+  jobs.join();
+  checker.join();
+  if (ImGui::GetCurrentContext()) {
+    ImGui_ImplOpenGL3_Shutdown();
+    ImGui_ImplSDL2_Shutdown();
+    ImGui::DestroyContext();
+  }
+  if (gl_) SDL_GL_DeleteContext(gl_);
+  gl_ = nullptr;
+  if (window_) SDL_DestroyWindow(window_);
+  window_ = nullptr;
+  SDL_Quit();
+}
+
+// Mouse and touch drive one pointer. Touch events carry normalised positions;
+// the mouse events SDL makes from touches (which == SDL_TOUCH_MOUSEID) are
+// skipped so that a finger counts once. Dear ImGui 1.86's SDL backend reads the
+// mouse from SDL's state, so the pointer is written into ImGui after it (apply_pointer).
+void App::handle_event(const SDL_Event& e) {
+  ImGui_ImplSDL2_ProcessEvent(&e);
+  int ww = 1, wh = 1;
+  SDL_GetWindowSize(window_, &ww, &wh);
+  switch (e.type) {
+    case SDL_QUIT:
+      quit_ = true;
+      break;
+    case SDL_WINDOWEVENT:
+      if (e.window.event == SDL_WINDOWEVENT_CLOSE && e.window.windowID == SDL_GetWindowID(window_)) quit_ = true;
+      break;
+    case SDL_MOUSEMOTION:
+      if (e.motion.which == SDL_TOUCH_MOUSEID) break;
+      pointer_ = ImVec2(static_cast<float>(e.motion.x), static_cast<float>(e.motion.y));
+      break;
+    case SDL_MOUSEBUTTONDOWN:
+    case SDL_MOUSEBUTTONUP:
+      if (e.button.which == SDL_TOUCH_MOUSEID || e.button.button != SDL_BUTTON_LEFT) break;
+      pointer_ = ImVec2(static_cast<float>(e.button.x), static_cast<float>(e.button.y));
+      pointer_down_ = e.type == SDL_MOUSEBUTTONDOWN;
+      if (pointer_down_) pointer_pressed_ = true;
+      break;
+    case SDL_FINGERDOWN:
+    case SDL_FINGERMOTION:
+    case SDL_FINGERUP: {
+      const ImVec2 at(e.tfinger.x * static_cast<float>(ww), e.tfinger.y * static_cast<float>(wh));
+      const long long id = static_cast<long long>(e.tfinger.fingerId);
+      auto it = std::find_if(fingers.begin(), fingers.end(), [&](const Finger& f) { return f.id == id; });
+      if (e.type == SDL_FINGERUP) {
+        if (it != fingers.end()) fingers.erase(it);
+      } else if (it == fingers.end()) {
+        fingers.push_back({id, at});
+      } else {
+        it->pos = at;
+      }
+      if (e.type == SDL_FINGERDOWN && fingers.size() == 1) {
+        primary_finger_ = id;
+        pointer_ = at;
+        pointer_down_ = true;
+        pointer_pressed_ = true;
+      } else if (e.type == SDL_FINGERDOWN && fingers.size() >= 2) {
+        // A second finger makes it a gesture: the first finger's press is not a tap.
+        pointer_down_ = false;
+        primary_finger_ = -1;
+      } else if (id == primary_finger_) {
+        pointer_ = at;
+        if (e.type == SDL_FINGERUP) {
+          pointer_down_ = false;
+          pointer_lift_ = true;
+          primary_finger_ = -1;
+        }
+      }
+      break;
+    }
+    default:
+      break;
+  }
+}
+
+void App::apply_pointer() {
+  ImGuiIO& io = ImGui::GetIO();
+  io.MousePos = pointer_;
+  // A press and release within one frame still counts as a press this frame.
+  io.MouseDown[0] = pointer_down_ || pointer_pressed_;
+  pointer_pressed_ = false;
+  if (pointer_lift_ && !pointer_down_) {
+    // After a finger lifts (and the release frame is drawn) nothing stays "hovered".
+    pointer_lift_ = false;
+    pointer_ = ImVec2(-1e9f, -1e9f);
+  }
+}
+
+bool App::write_screenshot(const std::string& path, std::string* error) {
+  int w = 0, h = 0;
+  SDL_GL_GetDrawableSize(window_, &w, &h);
+  std::vector<unsigned char> px(static_cast<size_t>(w) * h * 4), flipped(px.size());
+  glPixelStorei(GL_PACK_ALIGNMENT, 1);
+  glReadBuffer(GL_BACK);
+  glReadPixels(0, 0, w, h, GL_RGBA, GL_UNSIGNED_BYTE, px.data());
+  // OpenGL's rows run bottom to top; PNG's top to bottom.
+  const size_t row = static_cast<size_t>(w) * 4;
+  for (int y = 0; y < h; ++y)
+    std::copy(px.begin() + static_cast<long>(row * (h - 1 - y)), px.begin() + static_cast<long>(row * (h - y)),
+              flipped.begin() + static_cast<long>(row * y));
+  for (size_t i = 3; i < flipped.size(); i += 4) flipped[i] = 255;
+  if (!stbi_write_png(path.c_str(), w, h, 4, flipped.data(), static_cast<int>(row))) {
+    *error = "cannot write the screenshot " + path;
+    return false;
+  }
+  return true;
+}
+
+void App::draw_top_bar() {
+  Look& lk = look();
+  const float tap = lk.m.tap;
+  ImGui::PushFont(lk.fonts.bold);
+  ImGui::AlignTextToFramePadding();
+  text(model ? model->name() : std::string("Cairn"));
+  ImGui::PopFont();
+  if (model) {
+    ImGui::SameLine();
+    const store::Person* who = model->person(person_);
+    const std::string me = who ? "Person: " + who->initials : std::string("Person: choose");
+    if (button(me + "##person")) ImGui::OpenPopup("person");
+    if (ImGui::BeginPopup("person")) {
+      text("Who is using this tablet?");
+      for (const auto& pp : model->people()) {
+        ImGui::PushID(pp.meta.uuid.c_str());
+        if (button(pp.initials + "  " + pp.name, tap * 6)) {
+          set_person(pp.meta.uuid);
+          ImGui::CloseCurrentPopup();
+        }
+        ImGui::PopID();
+      }
+      if (model->people().empty()) text_dim("No people in this project yet (add them with cairn import).");
+      ImGui::EndPopup();
+    }
+    ImGui::SameLine();
+    const std::string g = describe(fix);
+    const ImU32 gc = fix.has_position() ? lk.pal.ok : lk.pal.text_dim;
+    ImGui::AlignTextToFramePadding();
+    text_colour(gc, fix.has_position() ? "GPS: " + g : g.rfind("no GPS", 0) == 0 ? "no GPS: type positions" : g);
+
+    // Hazard flags are announced on every screen.
+    int hazards = 0;
+    if (auto c = model->check())
+      for (const auto& f : c->report.flags)
+        if (f.severity == geo::Severity::Hazard) ++hazards;
+    if (hazards > 0) {
+      ImGui::SameLine();
+      ImGui::PushStyleColor(ImGuiCol_Button, ImGui::ColorConvertU32ToFloat4(lk.pal.caution_bg));
+      ImGui::PushStyleColor(ImGuiCol_ButtonHovered, ImGui::ColorConvertU32ToFloat4(lk.pal.caution_bg));
+      ImGui::PushStyleColor(ImGuiCol_Text, ImGui::ColorConvertU32ToFloat4(lk.pal.caution_text));
+      if (button("\xE2\x96\xB2 " + std::to_string(hazards) + " hazard" + (hazards == 1 ? "" : "s") + "##hazards"))
+        go(Screen::Crosscheck);
+      ImGui::PopStyleColor(3);
+    }
+  }
+  // Right side: undo and the theme.
+  const std::string theme_label = lk.theme == ThemeKind::Outdoor ? "Night" : "Day";
+  const std::string undo_label = model && model->can_undo() ? "Undo: " + model->undo_label() : std::string("Undo");
+  float right_w = label_width(theme_label) + ImGui::GetStyle().ItemSpacing.x;
+  float undo_w = std::min(label_width(undo_label), tap * 7);
+  right_w += undo_w;
+  ImGui::SameLine();
+  ImGui::SetCursorPosX(std::max(ImGui::GetCursorPosX(), ImGui::GetWindowContentRegionMax().x - right_w));
+  if (button(undo_label + "##undo", undo_w, model && model->can_undo())) {
+    std::string err;
+    const std::string what = model->undo_label();
+    if (model->undo(&err)) notify("Undone: " + what);
+    else notify(err);
+  }
+  ImGui::SameLine();
+  if (button(theme_label + "##theme")) {
+    lk.theme = lk.theme == ThemeKind::Outdoor ? ThemeKind::Night : ThemeKind::Outdoor;
+    lk.pal = apply_theme(lk.theme, lk.m);
+    net.key.clear();
+    plan.key.clear();
+  }
+  if (!toast_.empty() && ImGui::GetTime() < toast_until_) text_colour(lk.pal.text, toast_);
+  if (jobs.busy()) progress(jobs.progress().fraction(), jobs.name() + ": " + jobs.progress().message());
+}
+
+void App::draw_navigation() {
+  Look& lk = look();
+  const Screen order[] = {Screen::Logbook, Screen::Station, Screen::Pad, Screen::Net,
+                          Screen::Plan, Screen::Crosscheck, Screen::Camp, Screen::Review};
+  const float avail = ImGui::GetContentRegionAvail().x;
+  const float sp = ImGui::GetStyle().ItemSpacing.x;
+  float widest = 0;
+  for (Screen s : order) widest = std::max(widest, label_width(screen_title(s)));
+  const int per_row = (widest + sp) * 8 <= avail + sp ? 8 : 4;
+  const float w = (avail - sp * static_cast<float>(per_row - 1)) / static_cast<float>(per_row);
+  for (int i = 0; i < 8; ++i) {
+    if (i % per_row != 0) ImGui::SameLine();
+    const bool here = screen == order[i];
+    if (chip(screen_title(order[i]), here, model != nullptr, w, false)) go(order[i]);
+    if (here) {
+      // The current screen is marked by a bar under it as well as by colour.
+      const ImVec2 a = ImGui::GetItemRectMin(), b = ImGui::GetItemRectMax();
+      ImGui::GetWindowDrawList()->AddRectFilled(ImVec2(a.x + 4, b.y - 6), ImVec2(b.x - 4, b.y - 2), lk.pal.accent_text);
+    }
+  }
+}
+
+void App::draw_screen() {
+  switch (screen) {
+    case Screen::Open: draw_open(*this); break;
+    case Screen::Logbook: draw_logbook(*this); break;
+    case Screen::Station: draw_station(*this); break;
+    case Screen::Pad: draw_pad(*this); break;
+    case Screen::Net: draw_net_screen(*this); break;
+    case Screen::Plan: draw_plan_screen(*this); break;
+    case Screen::Crosscheck: draw_crosscheck(*this); break;
+    case Screen::Camp: draw_camp(*this); break;
+    case Screen::Review: draw_review(*this); break;
+  }
+}
+
+void App::draw_frame() {
+  ImGui_ImplOpenGL3_NewFrame();
+  ImGui_ImplSDL2_NewFrame();
+  apply_pointer();
+  ImGui::NewFrame();
+
+  ImGuiIO& io = ImGui::GetIO();
+  ImGui::SetNextWindowPos(ImVec2(0, 0));
+  ImGui::SetNextWindowSize(io.DisplaySize);
+  ImGui::Begin("Cairn", nullptr,
+               ImGuiWindowFlags_NoDecoration | ImGuiWindowFlags_NoMove | ImGuiWindowFlags_NoResize |
+                   ImGuiWindowFlags_NoSavedSettings | ImGuiWindowFlags_NoBringToFrontOnFocus |
+                   ImGuiWindowFlags_NoScrollWithMouse);
+  draw_top_bar();
+  ImGui::Separator();
+  // The navigation's height: one or two rows of tap-high chips.
+  const float nav_rows = frame_width() < look().m.tap * 20 ? 2.0f : 1.0f;
+  const float nav_h = (look().m.tap + ImGui::GetStyle().ItemSpacing.y) * nav_rows + ImGui::GetStyle().ItemSpacing.y;
+  const float body_h = std::max(look().m.tap, ImGui::GetContentRegionAvail().y - nav_h);
+  canvas_min = ImGui::GetCursorScreenPos();
+  ImGui::BeginChild("screen", ImVec2(0, body_h), false, ImGuiWindowFlags_NoScrollbar | ImGuiWindowFlags_NoScrollWithMouse);
+  canvas_max = ImVec2(canvas_min.x + ImGui::GetWindowWidth(), canvas_min.y + body_h);
+  try {
+    draw_screen();
+  } catch (const std::exception& e) {
+    error_box(std::string("This screen failed: ") + e.what());
+  }
+  ImGui::EndChild();
+  ImGui::Separator();
+  draw_navigation();
+  ImGui::End();
+
+  ImGui::Render();
+  int fw = 0, fh = 0;
+  SDL_GL_GetDrawableSize(window_, &fw, &fh);
+  glViewport(0, 0, fw, fh);
+  const ImVec4 bg = ImGui::ColorConvertU32ToFloat4(look().pal.background);
+  glClearColor(bg.x, bg.y, bg.z, 1.0f);
+  glClear(GL_COLOR_BUFFER_BIT);
+  ImGui_ImplOpenGL3_RenderDrawData(ImGui::GetDrawData());
+  if (!pending_screenshot_.empty()) {
+    std::string err;
+    if (!write_screenshot(pending_screenshot_, &err)) std::cerr << "cairn gui: " << err << "\n";
+    pending_screenshot_.clear();
+  }
+  SDL_GL_SwapWindow(window_);
+  finish_frame_record();
+
+  // On a tablet the system's on-screen keyboard comes up for text fields only.
+  if (io.WantTextInput != want_text_) {
+    want_text_ = io.WantTextInput;
+    if (want_text_) SDL_StartTextInput();
+    else SDL_StopTextInput();
+  }
+}
+
+int App::run() {
+  std::string err;
+  if (!init(&err)) {
+    std::cerr << "cairn gui: " << err << "\n";
+    return 1;
+  }
+  std::optional<Script> script;
+  if (!opts.script.empty()) {
+    try {
+      script = Script::load(opts.script);
+    } catch (const std::exception& e) {
+      std::cerr << "cairn gui: " << e.what() << "\n";
+      return 2;
+    }
+  }
+  const bool shot_only = !opts.screenshot.empty() && !script;
+  const bool interactive = !script && !shot_only;
+  int frame = 0, code = 0;
+  unsigned long gps_seen = 0;
+  while (!quit_) {
+    if (script) {
+      const auto st = script->step(*this);
+      if (st == Script::Step::Failed) {
+        std::cerr << "cairn gui: " << script->failure() << "\n";
+        code = 3;
+        break;
+      }
+      if (st == Script::Step::Done) {
+        if (!opts.screenshot.empty()) {
+          pending_screenshot_ = opts.screenshot;
+          draw_frame();
+        }
+        break;
+      }
+    }
+    SDL_Event e;
+    // Interactive: sleep until something happens (a tablet's battery), but wake
+    // for running jobs, new GPS fixes and the message timer.
+    const bool animate = jobs.busy() || checker.busy() || gps.updates() != gps_seen ||
+                         (!toast_.empty() && ImGui::GetTime() < toast_until_ + 0.1) || frame < 3;
+    if (interactive && !animate) {
+      if (SDL_WaitEventTimeout(&e, 500)) handle_event(e);
+    }
+    while (SDL_PollEvent(&e)) handle_event(e);
+    gps_seen = gps.updates();
+    jobs.poll();
+    checker.poll();
+    fix = gps.fix();
+    request_check();
+    draw_frame();
+    ++frame;
+    if (shot_only && ((frame >= opts.frames && idle()) || frame > 2000)) {
+      pending_screenshot_ = opts.screenshot;
+      draw_frame();
+      break;
+    }
+  }
+  return code;
+}
+
+}  // namespace cairn::ui

@@ -1,0 +1,209 @@
+// The touch UI's application: one SDL2 window with an OpenGL 3 context, Dear
+// ImGui, the open project, the worker threads, the GPS client, and the screens.
+//
+// Input: mouse and touch events both drive one pointer (a finger is the
+// pointer; two fingers pinch on the Plan), so every target works with a finger
+// and nothing needs a keyboard. Events can also come from an event script
+// (script.h), pushed through SDL's own queue.
+#pragma once
+#include <map>
+#include <memory>
+#include <optional>
+#include <string>
+#include <vector>
+
+#include <SDL.h>
+#include <imgui.h>
+
+#include "app/plot/plan_scene.h"
+#include "app/plot/recording_canvas.h"
+#include "app/ui/gps.h"
+#include "app/ui/jobs.h"
+#include "app/ui/model.h"
+#include "app/ui/theme.h"
+#include "storage/records.h"
+
+namespace cairn::ui {
+
+enum class Screen { Open, Logbook, Station, Pad, Net, Plan, Crosscheck, Camp, Review };
+// The screen's name as the user sees it (naming sheet): "Logbook", "Station sheet", ...
+const char* screen_title(Screen s);
+// "logbook", "station", "pad", "net", "plan", "crosscheck", "camp", "review" (also the titles, any case).
+std::optional<Screen> parse_screen(const std::string& name);
+
+struct GuiOptions {
+  std::string file;
+  bool fullscreen = false, windowed = false, night = false;
+  double dpi = 0;            // 0: ask the display
+  int width = 0, height = 0;  // window size; 0: from the display
+  std::string view;          // screen to open
+  std::string screenshot;    // write a PNG of the view and exit
+  int frames = 3;            // frames to draw before the screenshot
+  std::string script;        // event script to run
+  std::string gps = "localhost:2947";
+  bool no_gps = false;
+  std::string person;   // initials of the person at the tablet
+  std::string station;  // station code to select
+  std::string flag;     // flag to open on the Crosscheck: its rule (the first such flag)
+};
+
+// ---- per-screen state ---------------------------------------------------------------
+
+struct PadState {
+  bool linear = false;
+  std::string kind = "bedding";
+  int notation = 0;   // planes: 0 strike/dip (RHR), 1 dip direction/dip, 2 quadrant; lines: 0 trend/plunge, 1 rake
+  std::string text;   // as typed on the keypad
+  int quality = 0;    // 0: not stated, else 1..5
+  store::Facing facing = store::Facing::Unknown;
+  std::optional<store::North> north;  // nothing: the project's default
+  std::string contact;     // contact UUID or ""
+  std::string host_plane;  // planar reading UUID for a rake
+  std::string error;       // from the last Record
+  std::string status;      // after a Record that worked
+};
+
+struct StationEdit {
+  std::string for_station;  // UUID the buffers belong to ("" = a new station)
+  bool utm = false;         // typing easting/northing instead of lat/lon
+  int field = 0;            // 0 lat/easting, 1 lon/northing, 2 elevation
+  std::string a, b, elev;
+  std::string notes;
+  std::string photo_path, photo_caption;
+  std::string error;
+};
+
+struct NetState {
+  std::string kind, unit, contact, day, person;  // filters, "" = all
+  int display = 0;  // 0 poles, 1 great circles, 2 both
+  bool contours = false, statistics = false, equal_angle = false;
+  // Cache: the drawing recorded for this key.
+  std::string key;
+  plot::RecordingCanvas drawing;
+  std::vector<std::string> legend;  // summary lines under the net
+  std::vector<std::string> texts;   // the drawing's text, for event scripts
+  int shown = 0;
+};
+
+struct PlanState {
+  bool have_view = false;
+  plot::PlanView view;
+  double interval = 0;  // strike-line interval, metres (0: chosen per contact)
+  std::vector<std::string> notes;  // per contact: the interval drawn
+  double spacing = 0;  // median distance from a station to its nearest neighbour, metres
+  std::optional<std::pair<double, double>> probe;  // map point tapped
+  std::string key;
+  plot::PlanData data;  // cached for `key`
+  double convergence = 0;
+  bool dragging = false;
+  float pinch_distance = 0;
+};
+
+struct CrosscheckState {
+  int min_severity = 0;
+  std::string open_key;    // review key of the open flag ("" = none)
+  bool acknowledged = false;  // the open hazard flag's caution has been acknowledged
+  std::string message;
+};
+
+struct CampState {
+  std::string selected;  // file chosen in the list
+  int kind = 0;          // what the file holds (import)
+  std::string contact;   // GPX points: the contact they belong to
+  std::vector<std::string> log;
+};
+
+struct ReviewState {
+  bool unlocked = false;
+  int tab = 0;  // 0 flags, 1 days, 2 audit trail
+  std::string flag_key;  // flag being reviewed
+  std::string comment;
+  std::string record;  // record whose audit trail is shown
+  std::string message;
+};
+
+struct LogbookState {
+  std::string person, unit;  // filters, "" = all
+  int flags = 0;             // 0 all, 1 with flags, 2 with hazard flags
+};
+
+// One finger on the screen (pixels).
+struct Finger {
+  long long id = 0;
+  ImVec2 pos;
+};
+
+class App {
+public:
+  explicit App(GuiOptions o);
+  ~App();
+  int run();
+
+  // ---- for the screens ----
+  GuiOptions opts;
+  std::unique_ptr<Model> model;
+  Jobs jobs;     // user's long work
+  Jobs checker;  // the automatic cross-check
+  GpsClient gps;
+  GpsFix fix;    // this frame's
+  Screen screen = Screen::Logbook;
+  std::string station;   // selected station UUID ("" = none)
+  std::string reading;   // reading opened from a flag (highlighted on the Station sheet)
+  PadState pad;
+  StationEdit edit;
+  NetState net;
+  PlanState plan;
+  CrosscheckState cross;
+  CampState camp;
+  ReviewState review;
+  LogbookState logbook;
+  std::string open_error;  // Open screen
+  std::string new_name;    // Open screen: name of a new project
+  std::vector<Finger> fingers;  // touches now down
+  ImVec2 canvas_min, canvas_max;  // the screen area below the top bar and above the navigation
+
+  void go(Screen s);
+  void notify(const std::string& message);  // a short message in the top bar
+  bool open_project(const std::string& path, std::string* error);
+  void select_station(const std::string& uuid);
+  // Runs a confirmed change (Model::act) and shows its error, if any, in the top bar.
+  bool act(const std::string& label, const std::function<void(store::Project&)>& f, std::string* error = nullptr);
+  // Starts the cross-check on the worker when the project changed since the last one.
+  void request_check();
+  // The UUID of the person at the tablet ("" = none chosen).
+  std::string person() const { return person_; }
+  void set_person(const std::string& uuid);
+  bool idle() const;  // no job running and the check is current
+
+  // Writes a PNG of the next frame drawn.
+  void request_screenshot(const std::string& path) { pending_screenshot_ = path; }
+  SDL_Window* window() const { return window_; }
+  float frame_width() const;
+  float frame_height() const;
+
+private:
+  bool init(std::string* error);
+  void shutdown();
+  void handle_event(const SDL_Event& e);
+  void apply_pointer();
+  void draw_frame();
+  void draw_top_bar();
+  void draw_navigation();
+  void draw_screen();
+  bool write_screenshot(const std::string& path, std::string* error);
+
+  SDL_Window* window_ = nullptr;
+  void* gl_ = nullptr;
+  bool quit_ = false;
+  std::string person_;
+  std::string toast_;
+  double toast_until_ = 0;
+  // The pointer as mouse and touch events set it (see app.cpp).
+  ImVec2 pointer_{-1e9f, -1e9f};
+  bool pointer_down_ = false, pointer_pressed_ = false, pointer_lift_ = false;
+  long long primary_finger_ = -1;
+  bool want_text_ = false;
+  std::string pending_screenshot_;
+};
+
+}  // namespace cairn::ui

@@ -1,0 +1,239 @@
+// Camp: import CSV and GPX files, merge other tablets' project files into this
+// one, export, and run a full check, each on the worker thread with a progress
+// bar while the UI keeps drawing. Files are chosen from the project's folder
+// by tapping them, so no keyboard is needed.
+#include <algorithm>
+#include <filesystem>
+#include <fstream>
+
+#include "app/cli/project_access.h"
+#include "app/ui/screens.h"
+#include "app/ui/text_util.h"
+#include "app/ui/widgets.h"
+#include "storage/import.h"
+#include "storage/merge.h"
+
+namespace cairn::ui {
+
+namespace fs = std::filesystem;
+
+namespace {
+
+const std::vector<std::string> kKinds{"units", "contacts", "stations", "planes", "lines", "points"};
+
+// A guess of what a CSV holds from its name ("day2_planes.csv" -> planes).
+int guess_kind(const std::string& name) {
+  std::string l = name;
+  for (auto& c : l) c = static_cast<char>(std::tolower(static_cast<unsigned char>(c)));
+  for (size_t i = 0; i < kKinds.size(); ++i)
+    if (l.find(kKinds[i].substr(0, kKinds[i].size() - 1)) != std::string::npos) return static_cast<int>(i);
+  return 2;
+}
+
+std::string ext_of(const fs::path& p) {
+  std::string e = p.extension().string();
+  for (auto& c : e) c = static_cast<char>(std::tolower(static_cast<unsigned char>(c)));
+  return e;
+}
+
+std::vector<fs::path> files_beside(const std::string& project, const std::vector<std::string>& exts) {
+  std::vector<fs::path> out;
+  const fs::path dir = fs::absolute(fs::path(project)).parent_path();
+  std::error_code ec;
+  for (fs::directory_iterator it(dir, ec), end; !ec && it != end; it.increment(ec)) {
+    if (!it->is_regular_file()) continue;
+    const std::string e = ext_of(it->path());
+    if (std::find(exts.begin(), exts.end(), e) == exts.end()) continue;
+    if (fs::absolute(it->path()) == fs::absolute(fs::path(project))) continue;
+    out.push_back(it->path());
+  }
+  std::sort(out.begin(), out.end());
+  return out;
+}
+
+void file_list(App& a, const char* id, const std::vector<fs::path>& files, float height) {
+  ImGui::BeginChild(id, ImVec2(0, height), true);
+  for (const auto& f : files) {
+    const std::string name = f.filename().string();
+    ImGui::PushID(f.string().c_str());
+    if (chip(name, a.camp.selected == f.string(), true, -1)) {
+      a.camp.selected = f.string();
+      if (ext_of(f) == ".csv") a.camp.kind = guess_kind(name);
+    }
+    ImGui::PopID();
+  }
+  if (files.empty()) text_dim("none in the project's folder");
+  touch_scroll();
+  ImGui::EndChild();
+}
+
+}  // namespace
+
+void draw_camp(App& a) {
+  Model& m = *a.model;
+  Look& lk = look();
+  CampState& cs = a.camp;
+  const bool busy = a.jobs.busy();
+  const bool writable = !m.project().read_only();
+  const std::string project = m.path();
+
+  if (busy) progress(a.jobs.progress().fraction(), a.jobs.name() + ": " + a.jobs.progress().message());
+
+  const float avail = ImGui::GetContentRegionAvail().x;
+  const bool two = avail > lk.m.tap * 18;
+  const float col_w = two ? (avail - ImGui::GetStyle().ItemSpacing.x) / 2 : avail;
+  const float list_h = lk.m.tap * 3.4f;
+
+  ImGui::BeginChild("campleft", ImVec2(col_w, 0), false);
+  heading("Import");
+  const auto inputs = files_beside(project, {".csv", ".gpx"});
+  file_list(a, "inputs", inputs, list_h);
+  const bool is_gpx = !cs.selected.empty() && ext_of(cs.selected) == ".gpx";
+  const bool is_csv = !cs.selected.empty() && ext_of(cs.selected) == ".csv";
+  if (is_csv) {
+    text_dim("The file holds");
+    ImGui::PushID("kind");
+    const int k = chip_row(kKinds, cs.kind);
+    ImGui::PopID();
+    if (k >= 0) cs.kind = k;
+  } else if (is_gpx) {
+    text_dim("Its waypoints are");
+    std::vector<std::string> opts{"stations"};
+    int sel = 0;
+    for (size_t i = 0; i < m.contacts().size(); ++i) {
+      opts.push_back("points of " + m.contacts()[i].name);
+      if (m.contacts()[i].name == cs.contact) sel = static_cast<int>(i) + 1;
+    }
+    ImGui::PushID("gpxas");
+    const int k = chip_row(opts, sel);
+    ImGui::PopID();
+    if (k >= 0) cs.contact = k == 0 ? "" : m.contacts()[static_cast<size_t>(k - 1)].name;
+  }
+  if (button("Import " + (cs.selected.empty() || !(is_csv || is_gpx) ? std::string("(choose a file)") : fs::path(cs.selected).filename().string()),
+             -1, writable && !busy && (is_csv || is_gpx), true)) {
+    const std::string file = cs.selected;
+    const int kind = cs.kind;
+    const std::string contact = cs.contact;
+    Model* model = &m;
+    CampState* camp = &cs;
+    a.jobs.start("Import", [project, file, kind, contact, is_gpx, model, camp](JobProgress& pr) {
+      pr.set(-1.0f, "reading " + fs::path(file).filename().string());
+      const std::string text = cli::read_text_file(file);
+      store::Project p = store::Project::open(project, cli::cli_open_options(false));
+      pr.set(-1.0f, "checking and writing every row");
+      const store::ImportReport r = is_gpx ? store::import_gpx(p, text, file, contact)
+                                           : store::import_csv(p, *store::parse_import_kind(kKinds[static_cast<size_t>(kind)]), text, file);
+      std::vector<std::string> log;
+      const std::string name = fs::path(file).filename().string();
+      if (r.ok()) log.push_back(name + ": " + std::to_string(r.added) + " added, " + std::to_string(r.skipped) + " already there");
+      else {
+        log.push_back(name + ": nothing imported, " + std::to_string(r.errors.size()) + " problem" + (r.errors.size() == 1 ? "" : "s") + ":");
+        for (size_t i = 0; i < r.errors.size() && i < 30; ++i) log.push_back("  " + r.errors[i]);
+      }
+      return std::function<void()>([model, camp, log] {
+        model->reload();
+        camp->log.insert(camp->log.end(), log.begin(), log.end());
+      });
+    });
+  }
+
+  heading("Merge tablets");
+  const auto others = files_beside(project, {".cairn"});
+  file_list(a, "others", others, list_h);
+  const bool is_cairn = !cs.selected.empty() && ext_of(cs.selected) == ".cairn";
+  if (button("Merge " + (is_cairn ? fs::path(cs.selected).filename().string() : std::string("(choose a project file)")) + " into this project",
+             -1, writable && !busy && is_cairn, true)) {
+    const std::string file = cs.selected;
+    Model* model = &m;
+    CampState* camp = &cs;
+    a.jobs.start("Merge", [project, file, model, camp](JobProgress& pr) {
+      store::Project target = store::Project::open(project, cli::cli_open_options(false));
+      store::MergeOptions mo;
+      mo.progress = [&pr](const store::MergeProgress& mp) {
+        const float part = mp.total ? static_cast<float>(mp.done) / static_cast<float>(mp.total) : 0.0f;
+        const float f = (static_cast<float>(mp.source_index) + part) / static_cast<float>(std::max<size_t>(1, mp.sources));
+        pr.set(f, fs::path(mp.source).filename().string() + ": " + mp.table);
+      };
+      const store::MergeReport rep = store::merge_files(target, {file}, mo);
+      std::vector<std::string> log;
+      for (const auto& s : rep.sources)
+        log.push_back(fs::path(s.path).filename().string() + ": " + std::to_string(s.counts.added) + " added, " +
+                      std::to_string(s.counts.updated) + " updated, " + std::to_string(s.counts.skipped) + " skipped, " +
+                      std::to_string(s.counts.conflicts) + " conflicts");
+      for (const auto& c : rep.conflicts) log.push_back("  conflict: " + c.label + " (" + std::to_string(c.fields.size()) + " fields differ)");
+      for (const auto& k : rep.clashes)
+        log.push_back("  shared code " + k.code + ": stored as " + k.stored_as + ", suggest " + k.suggestion);
+      for (const auto& w : rep.warnings) log.push_back("  " + w);
+      return std::function<void()>([model, camp, log] {
+        model->reload();
+        camp->log.insert(camp->log.end(), log.begin(), log.end());
+      });
+    });
+  }
+  touch_scroll();
+  ImGui::EndChild();
+  if (two) ImGui::SameLine();
+
+  ImGui::BeginChild("campright", ImVec2(0, 0), false);
+  heading("Export");
+  text_wrapped("CSV files in the columns cairn import reads, one per record kind, in a folder beside the project.");
+  if (button("Export CSV folder", -1, !busy, true)) {
+    const fs::path dir = fs::absolute(fs::path(project)).parent_path() / (fs::path(project).stem().string() + "-export");
+    CampState* camp = &cs;
+    a.jobs.start("Export", [project, dir, camp](JobProgress& pr) {
+      store::OpenOptions oo = cli::cli_open_options(true);
+      oo.backups = false;
+      store::Project p = store::Project::open(project, oo);
+      fs::create_directories(dir);
+      std::vector<std::string> log;
+      for (size_t i = 0; i < kKinds.size(); ++i) {
+        pr.set(static_cast<float>(i) / static_cast<float>(kKinds.size()), "writing " + kKinds[i] + ".csv");
+        const std::string csv = store::list_csv(p, *store::parse_import_kind(kKinds[i]));
+        const fs::path out = dir / (kKinds[i] + ".csv");
+        std::ofstream f(out, std::ios::binary);
+        f << csv;
+        if (!f) throw std::runtime_error("cannot write " + out.string());
+      }
+      log.push_back("exported " + std::to_string(kKinds.size()) + " CSV files to " + dir.string());
+      return std::function<void()>([camp, log] { camp->log.insert(camp->log.end(), log.begin(), log.end()); });
+    });
+  }
+  heading("Full check");
+  text_wrapped("Fits every contact and compares every reading (it also runs by itself after each change).");
+  if (button("Run the full check now", -1, !busy && !a.checker.busy())) {
+    const std::uint64_t rev = m.revision();
+    Model* model = &m;
+    CampState* camp = &cs;
+    a.jobs.start("Full check", [project, rev, model, camp](JobProgress& pr) {
+      auto r = std::make_shared<CheckResult>(run_check_on_file(project, rev, [&](float f, const std::string& s) { pr.set(f, s); }));
+      return std::function<void()>([model, camp, r] {
+        model->set_check(r);
+        camp->log.push_back(r->error.empty() ? "full check: " + std::to_string(r->report.fits.size()) + " contacts, " +
+                                                   std::to_string(r->report.flags.size()) + " flags"
+                                             : "full check failed: " + r->error);
+      });
+    });
+  }
+  // Open merge conflicts, read again only when the project changes.
+  static std::uint64_t conflicts_rev = 0;
+  static std::vector<store::MergeConflict> conflicts;
+  if (conflicts_rev != m.revision()) {
+    conflicts_rev = m.revision();
+    try {
+      conflicts = store::list_conflicts(m.project());
+    } catch (const std::exception&) {
+      conflicts.clear();  // a file from before merges existed
+    }
+  }
+  if (!conflicts.empty()) {
+    heading(std::to_string(conflicts.size()) + " merge conflict" + (conflicts.size() == 1 ? "" : "s") + " to decide");
+    for (size_t i = 0; i < conflicts.size() && i < 20; ++i) text_wrapped(conflicts[i].label);
+  }
+  heading("Log");
+  if (cs.log.empty()) text_dim("Nothing yet this session.");
+  for (const auto& l : cs.log) text_wrapped(l);
+  touch_scroll();
+  ImGui::EndChild();
+}
+
+}  // namespace cairn::ui

@@ -1,0 +1,216 @@
+// Crosscheck: the flags of the cross-check, grouped by station and severity
+// (worst first), each opening its reading. A flag that carries a field-safety
+// caution (every hazard) shows it prominently and cannot be closed, nor left
+// for its reading, until the caution has been acknowledged; the
+// acknowledgement is saved (storage/reviews.h).
+#include <algorithm>
+#include <map>
+#include <memory>
+
+#include "app/ui/screens.h"
+#include "app/ui/text_util.h"
+#include "app/ui/widgets.h"
+#include "storage/reviews.h"
+
+namespace cairn::ui {
+
+namespace {
+
+bool acknowledged(const Model& m, const std::string& key) {
+  for (const auto& r : m.reviews())
+    if (r.flag_key == key && r.status == store::ReviewStatus::Acknowledged) return true;
+  return false;
+}
+
+std::string review_note(const Model& m, const std::string& key) {
+  std::string s;
+  for (const auto& r : m.reviews())
+    if (r.flag_key == key) s = store::to_string(r.status);  // newest wins
+  return s;
+}
+
+// The open flag, as a modal window: it cannot be closed by tapping beside it.
+void flag_window(App& a, const geo::Flag& f) {
+  Model& m = *a.model;
+  Look& lk = look();
+  CrosscheckState& cs = a.cross;
+  const std::string key = review_key(f);
+  const bool has_caution = !f.caution.empty();
+  const bool acked = cs.acknowledged || acknowledged(m, key);
+  const ImVec2 ds = ImGui::GetIO().DisplaySize;
+  ImGui::SetNextWindowPos(ImVec2(ds.x * 0.5f, ds.y * 0.5f), ImGuiCond_Always, ImVec2(0.5f, 0.5f));
+  ImGui::SetNextWindowSize(ImVec2(std::min(ds.x - lk.m.tap, lk.m.tap * 17), 0), ImGuiCond_Always);
+  if (!ImGui::IsPopupOpen("Flag")) ImGui::OpenPopup("Flag");
+  if (!ImGui::BeginPopupModal("Flag", nullptr, ImGuiWindowFlags_NoTitleBar | ImGuiWindowFlags_NoMove |
+                                                    ImGuiWindowFlags_NoResize | ImGuiWindowFlags_AlwaysAutoResize))
+    return;
+  ImGui::PushFont(lk.fonts.bold);
+  text(severity_label(f.severity) + "   " + f.rule);
+  ImGui::PopFont();
+  std::string where = f.station.empty() ? "contact-wide" : "station " + f.station;
+  if (!f.ref.empty()) where += ", reading " + f.ref;
+  if (!f.contact.empty()) where += ", contact " + f.contact;
+  text_dim(where);
+  text_wrapped(f.message);
+  if (f.misfit) {
+    std::string mf = "misfit " + fmt("%.1f\xC2\xB0", *f.misfit);
+    if (f.misfit_corrected) mf += ", after the suggested correction " + fmt("%.1f\xC2\xB0", *f.misfit_corrected);
+    text(mf);
+  }
+  text_wrapped("Action: " + f.action);
+  if (has_caution) {
+    caution_box(f.severity == geo::Severity::Hazard ? "HAZARD: read before going near this face" : "CAUTION",
+                f.caution);
+    if (acked) {
+      text_colour(lk.pal.ok, "\xE2\x9C\x93 Caution acknowledged");
+    } else {
+      text_colour(lk.pal.error, "Acknowledge the caution to close this flag.");
+      if (button("I have read this caution", -1, true, true)) {
+        store::FlagReview r;
+        r.flag_key = key;
+        r.rule = f.rule;
+        r.station = f.station;
+        r.reading = f.reading;
+        r.contact = f.contact;
+        r.status = store::ReviewStatus::Acknowledged;
+        r.person = a.person();
+        std::string err;
+        // Undo of an acknowledgement withdraws that review.
+        auto id = std::make_shared<std::string>();
+        const bool ok = m.act_custom(
+            "acknowledge caution " + f.rule + (f.ref.empty() ? std::string() : " " + f.ref),
+            [&r, id](store::Project& p) { *id = store::add_flag_review(p, r); },
+            [id](store::Project& p) { store::withdraw_flag_review(p, *id); }, &err);
+        if (ok) {
+          cs.acknowledged = true;
+          a.notify("Saved: caution acknowledged");
+        } else {
+          // A read-only file cannot keep the acknowledgement: it still counts for this session.
+          cs.acknowledged = true;
+          a.notify("Acknowledged for this session (not saved: " + err + ")");
+        }
+      }
+    }
+  }
+  const bool may_leave = !has_caution || acked || cs.acknowledged;
+  if (!f.reading.empty()) {
+    if (button("Open reading", 0, may_leave)) {
+      a.select_station(f.station_id);
+      a.reading = f.reading;
+      cs.open_key.clear();
+      ImGui::CloseCurrentPopup();
+      a.go(Screen::Station);
+    }
+    ImGui::SameLine();
+  } else if (!f.station_id.empty()) {
+    if (button("Open station", 0, may_leave)) {
+      a.select_station(f.station_id);
+      cs.open_key.clear();
+      ImGui::CloseCurrentPopup();
+      a.go(Screen::Station);
+    }
+    ImGui::SameLine();
+  }
+  if (button("Close", 0, may_leave)) {
+    cs.open_key.clear();
+    ImGui::CloseCurrentPopup();
+  }
+  ImGui::EndPopup();
+}
+
+}  // namespace
+
+void draw_crosscheck(App& a) {
+  Model& m = *a.model;
+  Look& lk = look();
+  CrosscheckState& cs = a.cross;
+  auto c = m.check();
+  if (a.checker.busy()) progress(a.checker.progress().fraction(), "Checking: " + a.checker.progress().message());
+  if (!c) {
+    text("Running the cross-check...");
+    return;
+  }
+  if (!c->error.empty()) {
+    error_box("The cross-check could not run: " + c->error);
+    return;
+  }
+  std::map<geo::Severity, int> counts;
+  for (const auto& f : c->report.flags) ++counts[f.severity];
+  std::string summary = std::to_string(c->report.flags.size()) + " flag" + (c->report.flags.size() == 1 ? "" : "s");
+  for (auto s : {geo::Severity::Hazard, geo::Severity::Conflict, geo::Severity::Query, geo::Severity::Note})
+    if (counts[s]) summary += ",  " + std::to_string(counts[s]) + " " + geo::severity_name(s);
+  summary += "   (" + std::to_string(c->report.fits.size()) + " contacts fitted)";
+  heading(summary);
+  {
+    ImGui::AlignTextToFramePadding();
+    text_dim("Show from");
+    ImGui::SameLine();
+    ImGui::PushID("min");
+    const int hit = chip_row({"note", "query", "conflict", "hazard"}, cs.min_severity);
+    ImGui::PopID();
+    if (hit >= 0) cs.min_severity = hit;
+  }
+  if (counts[geo::Severity::Hazard] > 0)
+    caution_box(std::to_string(counts[geo::Severity::Hazard]) + " hazard flag" + (counts[geo::Severity::Hazard] == 1 ? "" : "s"),
+                "Open each one and read its caution before working near the face.");
+
+  // Opened from the command line (--flag RULE): the first flag of that rule.
+  if (!a.opts.flag.empty()) {
+    for (const auto& f : c->report.flags)
+      if (f.rule == a.opts.flag) {
+        cs.open_key = review_key(f);
+        break;
+      }
+    a.opts.flag.clear();
+  }
+
+  const geo::Flag* open = nullptr;
+  ImGui::BeginChild("flags", ImVec2(0, 0), true);
+  std::string last_station = "\x01";
+  for (size_t i = 0; i < c->report.flags.size(); ++i) {
+    const auto& f = c->report.flags[i];
+    const std::string key = review_key(f);
+    if (key == cs.open_key) open = &f;
+    if (static_cast<int>(f.severity) < cs.min_severity) continue;
+    if (f.station != last_station) {
+      heading(f.station.empty() ? "Contacts" : "Station " + f.station);
+      last_station = f.station;
+    }
+    std::string line = severity_label(f.severity) + "  " + f.rule;
+    if (!f.ref.empty()) line += "  " + f.ref;
+    line += "   " + f.message;
+    const std::string note = review_note(m, key);
+    if (!note.empty()) line += "   [" + note + "]";
+    ImGui::PushID(static_cast<int>(i));
+    ImGui::PushStyleVar(ImGuiStyleVar_ButtonTextAlign, ImVec2(0.0f, 0.5f));
+    if (f.severity == geo::Severity::Hazard) {
+      ImGui::PushStyleColor(ImGuiCol_Button, ImGui::ColorConvertU32ToFloat4(lk.pal.caution_bg));
+      ImGui::PushStyleColor(ImGuiCol_ButtonHovered, ImGui::ColorConvertU32ToFloat4(lk.pal.caution_bg));
+      ImGui::PushStyleColor(ImGuiCol_Text, ImGui::ColorConvertU32ToFloat4(lk.pal.caution_text));
+    }
+    // Long messages are cut to the row; the whole text is in the flag's window.
+    std::string shown = line;
+    const float w = ImGui::GetContentRegionAvail().x - ImGui::GetStyle().FramePadding.x * 2;
+    while (shown.size() > 8 && ImGui::CalcTextSize(shown.c_str()).x > w) shown.resize(shown.size() - 4);
+    if (shown.size() < line.size()) {
+      while (!shown.empty() && (static_cast<unsigned char>(shown.back()) & 0xC0) == 0x80) shown.pop_back();
+      if (!shown.empty()) shown.pop_back();
+      shown += "\xE2\x80\xA6";
+    }
+    if (button(shown + "##flag", -1)) {
+      cs.open_key = key;
+      cs.acknowledged = false;
+    }
+    also_label(f.rule + (f.ref.empty() ? std::string() : " " + f.ref));
+    if (f.severity == geo::Severity::Hazard) ImGui::PopStyleColor(3);
+    ImGui::PopStyleVar();
+    ImGui::PopID();
+  }
+  if (c->report.flags.empty()) text("No flags: every compared reading agrees with its contact's fit.");
+  touch_scroll();
+  ImGui::EndChild();
+  if (open) flag_window(a, *open);
+  else cs.open_key.clear();
+}
+
+}  // namespace cairn::ui

@@ -1,0 +1,230 @@
+// Plan: stations, points mapped along contacts, strike-dip symbols and the
+// fitted contacts' strike lines in the working UTM zone; the predicted contact
+// elevation at a tapped point; drag to pan, pinch (or the wheel) to zoom.
+#include <algorithm>
+#include <cmath>
+#include <map>
+
+#include "app/plot/plan_scene.h"
+#include "app/plot/symbols.h"
+#include "app/ui/imgui_canvas.h"
+#include "app/ui/screens.h"
+#include "app/ui/text_util.h"
+#include "app/ui/widgets.h"
+#include "geomath/strike_lines.h"
+
+namespace cairn::ui {
+
+namespace {
+
+// Rebuilds the plan's data from the newest check (positions in UTM metres).
+void build(App& a, const CheckResult& c) {
+  Model& m = *a.model;
+  PlanState& ps = a.plan;
+  plot::PlanData d;
+  ps.convergence = c.data.input.grid.convergence;
+  std::map<std::string, size_t> unit_index;
+  for (size_t i = 0; i < m.units().size(); ++i) unit_index[m.units()[i].meta.uuid] = i;
+  auto unit_col = [&](const std::string& uuid) {
+    const store::Unit* u = m.unit(uuid);
+    return u ? plot::unit_colour(u->colour, unit_index[uuid]) : plot::kInk;
+  };
+  std::map<std::string, const geo::CheckStation*> st;
+  for (const auto& s : c.data.input.stations) {
+    st[s.uuid] = &s;
+    d.stations.push_back({s.code, s.e, s.n, unit_col(s.unit), s.uuid == a.station});
+  }
+  std::map<std::string, plot::Rgba> contact_col;
+  for (const auto& k : c.data.input.contacts) {
+    const store::Contact* ct = m.contact(k.uuid);
+    contact_col[k.uuid] = ct ? unit_col(ct->upper_unit) : plot::kInk;
+    for (const auto& p : k.points) d.points.push_back({p.e, p.n, contact_col[k.uuid]});
+  }
+  for (const auto& p : c.data.input.planes) {
+    auto it = st.find(p.station);
+    if (it == st.end()) continue;
+    d.attitudes.push_back({it->second->e, it->second->n, plot::grid_azimuth(p.plane.strike, ps.convergence), p.plane.dip,
+                           plot::attitude_symbol(p.kind, p.facing == geo::CheckFacing::Overturned),
+                           unit_col(it->second->unit)});
+  }
+  // Strike lines of each fitted contact near its own points, where the fit is
+  // known: every `interval` metres, or (auto) about eight across that area.
+  ps.notes.clear();
+  for (const auto& f : c.report.fits) {
+    if (!f.usable || !f.fit) continue;
+    const geo::CheckContact* k = nullptr;
+    for (const auto& kk : c.data.input.contacts)
+      if (kk.uuid == f.contact_id) k = &kk;
+    if (!k || k->points.empty()) continue;
+    geo::MapRect b{k->points[0].e, k->points[0].n, k->points[0].e, k->points[0].n};
+    for (const auto& p : k->points) {
+      b.e_min = std::min(b.e_min, p.e), b.e_max = std::max(b.e_max, p.e);
+      b.n_min = std::min(b.n_min, p.n), b.n_max = std::max(b.n_max, p.n);
+    }
+    const double grow = std::max(100.0, 0.3 * std::max(b.e_max - b.e_min, b.n_max - b.n_min));
+    b = {b.e_min - grow, b.n_min - grow, b.e_max + grow, b.n_max + grow};
+    const double dip = f.fit->plane.dip;
+    if (dip < 0.5 || dip > 89.5) continue;
+    const double across = std::max(b.e_max - b.e_min, b.n_max - b.n_min);
+    const double tan_dip = std::tan(dip * 3.14159265358979323846 / 180.0);
+    double interval = ps.interval;
+    if (interval <= 0) interval = std::max(1.0, plot::nice_length(across * tan_dip / 8));
+    if (across * tan_dip / interval > 60) {
+      ps.notes.push_back(f.contact + ": strike lines every " + fmt("%g m", interval) + " would be too dense here");
+      continue;
+    }
+    auto lines = geo::structure_contours(*f.fit, b, interval, 80);
+    if (!lines) continue;
+    ps.notes.push_back(f.contact + ": strike lines every " + fmt("%g m", interval));
+    for (const auto& l : *lines)
+      d.strike_lines.push_back({l.e0, l.n0, l.e1, l.n1, l.elevation, contact_col.count(f.contact_id) ? contact_col[f.contact_id] : plot::kInk});
+  }
+  // Typical distance between neighbouring stations, for deciding when labels fit.
+  ps.spacing = 0;
+  if (d.stations.size() >= 2 && d.stations.size() <= 3000) {
+    std::vector<double> nn;
+    for (size_t i = 0; i < d.stations.size(); ++i) {
+      double best = 1e300;
+      for (size_t j = 0; j < d.stations.size(); ++j)
+        if (i != j) best = std::min(best, std::hypot(d.stations[i].e - d.stations[j].e, d.stations[i].n - d.stations[j].n));
+      nn.push_back(best);
+    }
+    std::nth_element(nn.begin(), nn.begin() + static_cast<long>(nn.size() / 2), nn.end());
+    ps.spacing = nn[nn.size() / 2];
+  }
+  ps.data = std::move(d);
+}
+
+}  // namespace
+
+void draw_plan_screen(App& a) {
+  Model& m = *a.model;
+  Look& lk = look();
+  PlanState& ps = a.plan;
+  auto c = m.check();
+  if (!c) {
+    text("Preparing the plan (projecting positions and fitting contacts)...");
+    return;
+  }
+  if (!c->error.empty()) {
+    error_box("The plan needs the project's positions in UTM: " + c->error);
+    return;
+  }
+  const std::string key = std::to_string(c->revision) + "|" + fmt("%g", ps.interval) + "|" + a.station;
+  if (key != ps.key) {
+    ps.key = key;
+    build(a, *c);
+  }
+
+  // Controls.
+  ImGuiIO& io = ImGui::GetIO();
+  bool zoom_in = button("Zoom in");
+  ImGui::SameLine();
+  bool zoom_out = button("Zoom out");
+  ImGui::SameLine();
+  const bool fit_all = button("Show all");
+  ImGui::SameLine();
+  ImGui::AlignTextToFramePadding();
+  text_dim("Strike lines every");
+  ImGui::SameLine();
+  {
+    const double steps[] = {0, 10, 25, 50, 100};
+    std::vector<std::string> labels{"auto", "10 m", "25 m", "50 m", "100 m"};
+    int sel = -1;
+    for (int i = 0; i < 5; ++i)
+      if (ps.interval == steps[i]) sel = i;
+    ImGui::PushID("interval");
+    const int hit = chip_row(labels, sel);
+    ImGui::PopID();
+    if (hit >= 0) ps.interval = steps[hit];
+  }
+
+  const ImVec2 origin = ImGui::GetCursorScreenPos();
+  ImVec2 size = ImGui::GetContentRegionAvail();
+  size.y = std::max(size.y, lk.m.tap * 3);
+  const plot::Rect r{origin.x, origin.y, size.x, size.y};
+  if (!ps.have_view || fit_all) {
+    ps.view = plot::fit_view(plot::plan_bounds(ps.data), r, lk.m.tap);
+    ps.have_view = true;
+  }
+  const plot::Pt centre{r.x + r.w / 2, r.y + r.h / 2};
+  if (zoom_in) ps.view = plot::zoom_about(ps.view, r, centre, 1.5);
+  if (zoom_out) ps.view = plot::zoom_about(ps.view, r, centre, 1 / 1.5);
+
+  // The map takes taps (probe), drags (pan) and two-finger pinches (zoom).
+  ImGui::InvisibleButton("plan", size);
+  this_frame().targets.push_back({"plan map", ImGui::GetItemRectMin(), ImGui::GetItemRectMax(), true});
+  const bool hovered = ImGui::IsItemHovered();
+  if (a.fingers.size() >= 2) {
+    const ImVec2 f0 = a.fingers[0].pos, f1 = a.fingers[1].pos;
+    const float dist = std::hypot(f1.x - f0.x, f1.y - f0.y);
+    const plot::Pt mid{(f0.x + f1.x) / 2, (f0.y + f1.y) / 2};
+    if (ps.pinch_distance > 0 && dist > 0) ps.view = plot::zoom_about(ps.view, r, mid, dist / ps.pinch_distance);
+    ps.pinch_distance = dist;
+    ps.dragging = true;  // a pinch is never a tap
+  } else {
+    ps.pinch_distance = 0;
+    if (ImGui::IsItemActive() && ImGui::IsMouseDragging(0)) {
+      ps.view = plot::pan_by(ps.view, io.MouseDelta.x, io.MouseDelta.y);
+      ps.dragging = true;
+    }
+    if (ImGui::IsItemDeactivated()) {
+      if (!ps.dragging) {
+        const auto [e, n] = plot::canvas_to_plan(ps.view, r, {io.MousePos.x, io.MousePos.y});
+        ps.probe = std::make_pair(e, n);
+      }
+      ps.dragging = false;
+    }
+  }
+  if (hovered && io.MouseWheel != 0)
+    ps.view = plot::zoom_about(ps.view, r, {io.MousePos.x, io.MousePos.y}, std::pow(1.2, io.MouseWheel));
+
+  // The tapped point: each fitted contact's predicted elevation there.
+  ps.data.probe.reset();
+  std::vector<std::string> probe_lines;
+  if (ps.probe) {
+    plot::PlanProbe pr;
+    pr.e = ps.probe->first;
+    pr.n = ps.probe->second;
+    for (const auto& f : c->report.fits) {
+      if (!f.usable || !f.fit) continue;
+      auto est = geo::elevation_at(*f.fit, pr.e, pr.n);
+      if (!est) continue;
+      std::string l = f.contact + ": " + fmt("%.0f m", est->elevation);
+      if (est->half_width95) l += " \xC2\xB1" + fmt("%.0f", *est->half_width95);
+      pr.lines.push_back(l);
+    }
+    if (pr.lines.empty()) pr.lines.push_back("no fitted contact");
+    probe_lines = pr.lines;
+    ps.data.probe = pr;
+  }
+
+  // Level of detail: very many symbols on screen are drawn as bare strike lines.
+  const geo::MapRect vis = plot::visible_map(ps.view, r);
+  size_t visible = 0;
+  for (const auto& at : ps.data.attitudes)
+    if (at.e >= vis.e_min && at.e <= vis.e_max && at.n >= vis.n_min && at.n <= vis.n_max) ++visible;
+  plot::PlanOptions o;
+  o.text_size = lk.m.font * 0.75;
+  o.symbol_length = lk.m.px_per_mm() * 7;
+  o.mark_size = lk.m.px_per_mm() * 2.5f;
+  o.line_width = std::max(1.5f, lk.m.px_per_mm() * 0.35f);
+  // Labels only where neighbours are far enough apart on screen for them to be read.
+  const double spacing_px = ps.spacing * ps.view.scale;
+  o.dip_values = visible < 1500 && (ps.spacing <= 0 || spacing_px > o.symbol_length * 1.3);
+  o.strike_only = visible > 6000;
+  o.station_labels = ps.spacing > 0 ? spacing_px > o.text_size * 4 : ps.data.stations.size() < 2;
+  ImDrawList* dl = ImGui::GetWindowDrawList();
+  dl->PushClipRect(ImVec2(r.x, r.y), ImVec2(r.x + r.w, r.y + r.h), true);
+  ImGuiCanvas canvas(dl, lk.fonts.small, lk.theme);
+  plot::draw_plan(canvas, r, ps.data, ps.view, o);
+  dl->PopClipRect();
+  for (const auto& l : probe_lines) this_frame().texts.push_back(l);
+  ImGui::SetCursorScreenPos(ImVec2(origin.x + lk.m.gap, origin.y + lk.m.gap));
+  text_dim("grid north; UTM " + std::to_string(c->data.zone.zone) + (c->data.zone.northp ? "N" : "S") + ", " +
+           std::to_string(ps.data.stations.size()) + " stations" +
+           (o.station_labels ? std::string() : "; zoom in for station codes"));
+  for (const auto& n : ps.notes) text_dim(n);
+}
+
+}  // namespace cairn::ui
