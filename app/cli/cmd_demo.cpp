@@ -7,6 +7,7 @@
 #include "app/cli/demo_area.h"
 #include "app/cli/project_access.h"
 #include "storage/import.h"
+#include "storage/merge.h"
 #include "storage/repository.h"
 
 namespace fs = std::filesystem;
@@ -83,19 +84,18 @@ int run_demo(const Args& in, std::ostream& out, std::ostream&) {
   write_text(dir / "notebook.csv", area.notebook_csv);
   write_text(dir / "handheld.gpx", area.gpx);
 
-  // The evening's camp file: both tablets, the notebook and the handheld's waypoints.
+  // The evening's camp file, on the camp laptop: both tablets merged, then the
+  // notebook typed in camp and the handheld's waypoints.
   store::NewProject np;
   np.name = area.project_name;
   np.utm_zone = area.utm_zone;
   np.north_default = store::North::True;
-  store::Project camp =
-      store::Project::create((dir / "camp.cairn").string(), np, demo_options(area.a.device_id, area.a.device_name));
-  write_records(camp, area.a);
-  demo::Tablet b_only = area.b;  // the shared set-up is already there
-  b_only.people.clear();
-  b_only.units.clear();
-  b_only.contacts.clear();
-  write_records(camp, b_only);
+  store::Project camp = store::Project::create((dir / "camp.cairn").string(), np,
+                                               demo_options("6c61a7b0-5e1d-4c0a-9d3e-2f8b7c4d1e90", "camp laptop"));
+  const store::MergeReport merged =
+      store::merge_files(camp, {(dir / area.a.file).string(), (dir / area.b.file).string()}, {});
+  if (!merged.conflicts.empty() || !merged.clashes.empty())
+    throw std::logic_error("the demo's tablets should merge without conflicts");
   check_import(store::import_csv(camp, store::ImportKind::Planes, area.notebook_csv, "notebook.csv"), "notebook");
   check_import(store::import_gpx(camp, area.gpx, "handheld.gpx", area.gpx_contact), "handheld waypoints");
 
@@ -106,7 +106,7 @@ int run_demo(const Args& in, std::ostream& out, std::ostream&) {
       << area.b.lines.size() << " linear readings, " << area.b.points.size() << " contact points\n"
       << "  notebook.csv    planar readings typed in camp\n"
       << "  handheld.gpx    waypoints along the " << area.gpx_contact << "\n"
-      << "  camp.cairn      all of the above in one camp file\n"
+      << "  camp.cairn      the two tablets merged, the notebook and the waypoints imported\n"
       << "Next: cairn check " << (dir / "camp.cairn").string() << "\n";
   return 0;
 }
