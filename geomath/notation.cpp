@@ -182,6 +182,22 @@ bool is_quadrant_start(Scanner& sc) {
   return (c == 'N' || c == 'S') && (std::isdigit(static_cast<unsigned char>(n)) || n == ' ' || n == '.');
 }
 
+// What follows a plane's strike: a separator, the dip, optional dip-quadrant
+// letters, and nothing else.
+struct DipTail {
+  double dip;
+  std::string letters;
+};
+Result<DipTail> read_dip_tail(Scanner& sc) {
+  sc.skip_separator();
+  auto dip = read_number(sc, "dip", 0.0, 90.0);
+  if (!dip) return Result<DipTail>::failure(dip.error());
+  sc.skip_space();
+  DipTail t{*dip, sc.letters()};
+  if (auto junk = trailing_junk(sc, "dip"); !junk.empty()) return Result<DipTail>::failure(junk);
+  return t;
+}
+
 }  // namespace
 
 Result<double> parse_angle(std::string_view text, const char* what, double lo, double hi) {
@@ -203,12 +219,10 @@ Result<Plane> parse_plane(std::string_view text, PlaneConvention convention) {
     const std::string strike_text = sc.word();
     auto line = read_quadrant_azimuth(sc, "strike");
     if (!line) return R::failure(line.error());
-    sc.skip_separator();
-    auto dip = read_number(sc, "dip", 0.0, 90.0);
-    if (!dip) return R::failure(dip.error());
-    sc.skip_space();
-    const std::string letters = sc.letters();
-    if (auto junk = trailing_junk(sc, "dip"); !junk.empty()) return R::failure(junk);
+    auto tail = read_dip_tail(sc);
+    if (!tail) return R::failure(tail.error());
+    const double* dip = &tail->dip;
+    const std::string& letters = tail->letters;
     if (letters.empty()) {
       if (*dip == 0.0 || *dip == 90.0) return plane_from_dip_direction(*line + 90.0, *dip);
       return R::failure("quadrant notation needs the dip quadrant after the dip: " + strike_text + " " +
@@ -225,12 +239,10 @@ Result<Plane> parse_plane(std::string_view text, PlaneConvention convention) {
     return R::failure("attitude " + quoted(text) + " is not understood: expected strike/dip such as 030/40, or N30E 40SE");
   auto az = read_number(sc, convention == PlaneConvention::DipDirectionDip ? "dip direction" : "strike", 0.0, 360.0);
   if (!az) return R::failure(az.error());
-  sc.skip_separator();
-  auto dip = read_number(sc, "dip", 0.0, 90.0);
-  if (!dip) return R::failure(dip.error());
-  sc.skip_space();
-  const std::string letters = sc.letters();
-  if (auto junk = trailing_junk(sc, "dip"); !junk.empty()) return R::failure(junk);
+  auto tail = read_dip_tail(sc);
+  if (!tail) return R::failure(tail.error());
+  const double* dip = &tail->dip;
+  const std::string& letters = tail->letters;
   const double a = wrap360(*az);
 
   if (!letters.empty()) {
