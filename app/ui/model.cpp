@@ -89,11 +89,29 @@ std::string Model::day_of(const store::Station& s) {
   return s.meta.created.substr(0, 10);
 }
 
-std::string Model::next_station_code() const {
+std::string Model::next_station_code(const std::string& person) const {
+  // Continue the newest code of this person (else of anyone): "BK-22" -> "BK-23".
+  const store::Station* last = nullptr;
+  for (const auto& s : stations_)
+    if (person.empty() || s.observer == person) last = &s;
+  if (!last && !stations_.empty()) last = &stations_.back();
+  std::string prefix = "S";
+  size_t width = 1;
+  if (last) {
+    size_t i = last->code.size();
+    while (i > 0 && last->code[i - 1] >= '0' && last->code[i - 1] <= '9') --i;
+    if (i < last->code.size()) {
+      prefix = last->code.substr(0, i);
+      width = last->code.size() - i;
+    }
+  }
   long best = 0;
-  for (const auto& s : stations_) best = std::max(best, trailing_number(s.code));
+  for (const auto& s : stations_)
+    if (s.code.compare(0, prefix.size(), prefix) == 0) best = std::max(best, trailing_number(s.code));
   for (long n = best + 1;; ++n) {
-    const std::string c = "S" + std::to_string(n);
+    std::string num = std::to_string(n);
+    if (num.size() < width) num.insert(0, width - num.size(), '0');
+    const std::string c = prefix + num;
     if (std::none_of(stations_.begin(), stations_.end(), [&](const store::Station& s) { return s.code == c; }))
       return c;
   }
@@ -160,6 +178,18 @@ const geo::ContactFit* Model::fit_of(const std::string& contact_uuid) const {
   return nullptr;
 }
 
+store::LocalDeclination wmm_local_declination() {
+  const geo::MagneticModel* model = nullptr;
+  try {
+    model = &cli::wmm();
+  } catch (const std::exception&) {
+    return {};  // declination-suspect is then not checked
+  }
+  return [model](double lat, double lon, double year) -> std::optional<double> {
+    return model->evaluate(lat, lon, 0.0, year).declination;
+  };
+}
+
 CheckResult run_check_on_file(const std::string& path, std::uint64_t revision,
                               const std::function<void(float, const std::string&)>& progress) {
   CheckResult r;
@@ -170,19 +200,8 @@ CheckResult run_check_on_file(const std::string& path, std::uint64_t revision,
     oo.read_only = true;
     oo.backups = false;
     store::Project p = store::Project::open(path, oo);
-    const geo::MagneticModel* model = nullptr;
-    try {
-      model = &cli::wmm();
-    } catch (const std::exception&) {
-      model = nullptr;  // declination-suspect is then not checked
-    }
-    store::LocalDeclination decl;
-    if (model)
-      decl = [model](double lat, double lon, double year) -> std::optional<double> {
-        return model->evaluate(lat, lon, 0.0, year).declination;
-      };
     progress(0.2f, "loading records");
-    r.data = store::load_check_input(p, decl);
+    r.data = store::load_check_input(p, wmm_local_declination());
     progress(0.45f, "fitting contacts and comparing readings");
     r.report = geo::run_crosscheck(r.data.input);
     progress(1.0f, "done");

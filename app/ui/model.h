@@ -70,8 +70,10 @@ public:
   // The field day of a station: the date its time was written with, else the
   // UTC date it was created.
   static std::string day_of(const store::Station& s);
-  // A code for a new station: "S" + one more than the largest number in use.
-  std::string next_station_code() const;
+  // A code for a new station: the newest code of `person` (else of anyone)
+  // with its number one higher than any in use with that prefix ("BK-22" ->
+  // "BK-23"); "S1" in an empty project.
+  std::string next_station_code(const std::string& person = "") const;
   // A notebook reference for the next planar ("P3") or linear ("L2") reading of a station.
   std::string next_ref(const std::string& station, bool linear) const;
 
@@ -116,6 +118,10 @@ private:
   std::optional<LastAction> last_;
   std::shared_ptr<const CheckResult> check_;
 };
+
+// The World Magnetic Model's declination for the cross-check's
+// declination-suspect rule; empty when the model cannot be loaded.
+store::LocalDeclination wmm_local_declination();
 
 // Loads a project file into the cross-check engine and runs it: what the
 // check job does on its worker thread, with its own read-only connection.

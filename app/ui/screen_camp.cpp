@@ -11,6 +11,7 @@
 #include "app/ui/text_util.h"
 #include "app/ui/widgets.h"
 #include "storage/import.h"
+#include "storage/export.h"
 #include "storage/merge.h"
 
 namespace cairn::ui {
@@ -176,27 +177,37 @@ void draw_camp(App& a) {
 
   ImGui::BeginChild("campright", ImVec2(0, 0), false);
   heading("Export");
-  text_wrapped("CSV files in the columns cairn import reads, one per record kind, in a folder beside the project.");
-  if (button("Export CSV folder", -1, !busy, true)) {
-    const fs::path dir = fs::absolute(fs::path(project)).parent_path() / (fs::path(project).stem().string() + "-export");
-    CampState* camp = &cs;
-    a.jobs.start("Export", [project, dir, camp](JobProgress& pr) {
-      store::OpenOptions oo = cli::cli_open_options(true);
-      oo.backups = false;
-      store::Project p = store::Project::open(project, oo);
-      fs::create_directories(dir);
-      std::vector<std::string> log;
-      for (size_t i = 0; i < kKinds.size(); ++i) {
-        pr.set(static_cast<float>(i) / static_cast<float>(kKinds.size()), "writing " + kKinds[i] + ".csv");
-        const std::string csv = store::list_csv(p, *store::parse_import_kind(kKinds[i]));
-        const fs::path out = dir / (kKinds[i] + ".csv");
-        std::ofstream f(out, std::ios::binary);
-        f << csv;
-        if (!f) throw std::runtime_error("cannot write " + out.string());
-      }
-      log.push_back("exported " + std::to_string(kKinds.size()) + " CSV files to " + dir.string());
-      return std::function<void()>([camp, log] { camp->log.insert(camp->log.end(), log.begin(), log.end()); });
-    });
+  text_wrapped("GeoPackage and GeoJSON for a GIS (with the fitted contacts and flags), or CSV files in the "
+               "columns cairn import reads; written beside the project.");
+  const fs::path base = fs::absolute(fs::path(project)).parent_path() / fs::path(project).stem();
+  const struct {
+    const char* label;
+    std::string out;
+  } outputs[] = {{"GeoPackage", base.string() + ".gpkg"},
+                 {"GeoJSON", base.string() + ".geojson"},
+                 {"CSV folder", base.string() + "-export"}};
+  for (size_t i = 0; i < 3; ++i) {
+    if (i > 0) same_line_if_fits(label_width(std::string("Export ") + outputs[i].label));
+    if (button(std::string("Export ") + outputs[i].label, 0, !busy, true)) {
+      const std::string out = outputs[i].out;
+      CampState* camp = &cs;
+      a.jobs.start("Export", [project, out, camp](JobProgress& pr) {
+        pr.set(-1.0f, "checking and writing " + fs::path(out).filename().string());
+        store::OpenOptions oo = cli::cli_open_options(true);
+        oo.backups = false;
+        store::Project p = store::Project::open(project, oo);
+        store::ExportOptions eo;
+        eo.local_declination = wmm_local_declination();
+        const store::ExportSummary sum = store::export_project(p, out, eo);
+        size_t features = 0;
+        for (const auto& l : sum.layers) features += l.count;
+        const std::string what = sum.format == store::ExportFormat::CsvFolder
+                                     ? std::to_string(sum.layers.size()) + " CSV files"
+                                     : std::to_string(sum.layers.size()) + " layers, " + std::to_string(features) + " features";
+        std::vector<std::string> log{"exported " + what + " to " + sum.path};
+        return std::function<void()>([camp, log] { camp->log.insert(camp->log.end(), log.begin(), log.end()); });
+      });
+    }
   }
   heading("Full check");
   text_wrapped("Fits every contact and compares every reading (it also runs by itself after each change).");

@@ -50,7 +50,7 @@ void new_station(App& a) {
   Model& m = *a.model;
   if (a.fix.has_position()) {
     store::Station s;
-    s.code = m.next_station_code();
+    s.code = m.next_station_code(a.person());
     s.lat = a.fix.lat;
     s.lon = a.fix.lon;
     s.elevation = a.fix.altitude;

@@ -164,13 +164,11 @@ void draw_crosscheck(App& a) {
     a.opts.flag.clear();
   }
 
-  const geo::Flag* open = nullptr;
   ImGui::BeginChild("flags", ImVec2(0, 0), true);
   std::string last_station = "\x01";
   for (size_t i = 0; i < c->report.flags.size(); ++i) {
     const auto& f = c->report.flags[i];
     const std::string key = review_key(f);
-    if (key == cs.open_key) open = &f;
     if (static_cast<int>(f.severity) < cs.min_severity) continue;
     if (f.station != last_station) {
       heading(f.station.empty() ? "Contacts" : "Station " + f.station);
@@ -209,6 +207,11 @@ void draw_crosscheck(App& a) {
   if (c->report.flags.empty()) text("No flags: every compared reading agrees with its contact's fit.");
   touch_scroll();
   ImGui::EndChild();
+  // The open flag (it may have been tapped just now); a flag that went away with
+  // a new check closes.
+  const geo::Flag* open = nullptr;
+  for (const auto& f : c->report.flags)
+    if (!cs.open_key.empty() && review_key(f) == cs.open_key) open = &f;
   if (open) flag_window(a, *open);
   else cs.open_key.clear();
 }

@@ -16,6 +16,63 @@ struct StationFlags {
   geo::Severity worst = geo::Severity::Note;
 };
 
+// One row of the list: a day heading (uuid empty) or a station.
+struct Row {
+  std::string text, uuid, code;
+};
+
+std::vector<Row> build_rows(const App& a) {
+  const Model& m = *a.model;
+  // Flags per station from the newest check.
+  std::map<std::string, StationFlags> flags;
+  if (auto c = m.check())
+    for (const auto& f : c->report.flags) {
+      if (f.station_id.empty()) continue;
+      auto& sf = flags[f.station_id];
+      ++sf.count;
+      sf.worst = std::max(sf.worst, f.severity);
+    }
+  std::map<std::string, int> readings;
+  for (const auto& p : m.planes()) ++readings[p.station];
+  for (const auto& l : m.lines()) ++readings[l.station];
+  std::map<std::string, std::string> signed_off;
+  for (const auto& s : m.signoffs()) {
+    const store::Person* p = m.person(s.person);
+    signed_off[s.day] = p ? p->initials : "?";
+  }
+  // Days, newest first; stations within a day by time.
+  std::map<std::string, std::vector<const store::Station*>, std::greater<>> days;
+  for (const auto& s : m.stations()) {
+    if (!a.logbook.person.empty() && s.observer != a.logbook.person) continue;
+    if (!a.logbook.unit.empty() && s.unit != a.logbook.unit) continue;
+    auto it = flags.find(s.meta.uuid);
+    if (a.logbook.flags == 1 && it == flags.end()) continue;
+    if (a.logbook.flags == 2 && (it == flags.end() || it->second.worst != geo::Severity::Hazard)) continue;
+    days[Model::day_of(s)].push_back(&s);
+  }
+  std::vector<Row> rows;
+  for (auto& [day, list] : days) {
+    std::sort(list.begin(), list.end(), [](const store::Station* x, const store::Station* y) {
+      return x->time != y->time ? x->time < y->time : x->code < y->code;
+    });
+    std::string head = day + "   " + std::to_string(list.size()) + " station" + (list.size() == 1 ? "" : "s");
+    if (signed_off.count(day)) head += "   signed off by " + signed_off[day];
+    rows.push_back({head, "", ""});
+    for (const store::Station* s : list) {
+      std::string line = s->code;
+      if (s->time.size() >= 16) line += "   " + s->time.substr(11, 5);
+      if (const store::Unit* u = m.unit(s->unit)) line += "   " + u->code;
+      const int n = readings[s->meta.uuid];
+      line += "   " + std::to_string(n) + " reading" + (n == 1 ? "" : "s");
+      auto it = flags.find(s->meta.uuid);
+      if (it != flags.end())
+        line += "   " + severity_label(it->second.worst) + (it->second.count > 1 ? " +" + std::to_string(it->second.count - 1) : "");
+      rows.push_back({line, s->meta.uuid, s->code});
+    }
+  }
+  return rows;
+}
+
 }  // namespace
 
 void draw_logbook(App& a) {
@@ -69,62 +126,40 @@ void draw_logbook(App& a) {
     if (hit >= 0) a.logbook.flags = hit;
   }
 
-  // Flags per station from the newest check.
-  std::map<std::string, StationFlags> flags;
-  if (auto c = m.check())
-    for (const auto& f : c->report.flags) {
-      if (f.station_id.empty()) continue;
-      auto& sf = flags[f.station_id];
-      ++sf.count;
-      sf.worst = std::max(sf.worst, f.severity);
-    }
-  std::map<std::string, int> readings;
-  for (const auto& p : m.planes()) ++readings[p.station];
-  for (const auto& l : m.lines()) ++readings[l.station];
-  std::map<std::string, std::string> signed_off;
-  for (const auto& s : m.signoffs()) {
-    const store::Person* p = m.person(s.person);
-    signed_off[s.day] = p ? p->initials : "?";
-  }
-
-  // Days, newest first; stations within a day by time.
-  std::map<std::string, std::vector<const store::Station*>, std::greater<>> days;
-  for (const auto& s : m.stations()) {
-    if (!a.logbook.person.empty() && s.observer != a.logbook.person) continue;
-    if (!a.logbook.unit.empty() && s.unit != a.logbook.unit) continue;
-    auto it = flags.find(s.meta.uuid);
-    if (a.logbook.flags == 1 && it == flags.end()) continue;
-    if (a.logbook.flags == 2 && (it == flags.end() || it->second.worst != geo::Severity::Hazard)) continue;
-    days[Model::day_of(s)].push_back(&s);
+  // The rows (day headings and stations) are built once per change of the
+  // project, the check or the filters, and drawn with a list clipper, so a
+  // frame costs only the rows on screen.
+  auto check = m.check();
+  const std::string key = std::to_string(m.revision()) + "|" + std::to_string(check ? check->revision : 0) + "|" +
+                          a.logbook.person + "|" + a.logbook.unit + "|" + std::to_string(a.logbook.flags);
+  static std::string built_for;
+  static std::vector<Row> rows;
+  if (key != built_for) {
+    built_for = key;
+    rows = build_rows(a);
   }
 
   ImGui::BeginChild("days", ImVec2(0, 0), true);
-  if (days.empty())
+  if (rows.empty())
     text_dim(m.stations().empty() ? "No stations yet. Tap \"+ New station\" at the first outcrop."
                                   : "No station matches these filters.");
-  for (auto& [day, list] : days) {
-    std::sort(list.begin(), list.end(), [](const store::Station* x, const store::Station* y) {
-      return x->time != y->time ? x->time < y->time : x->code < y->code;
-    });
-    std::string head = day + "   " + std::to_string(list.size()) + " station" + (list.size() == 1 ? "" : "s");
-    if (signed_off.count(day)) head += "   signed off by " + signed_off[day];
-    heading(head);
-    for (const store::Station* s : list) {
-      std::string line = s->code;
-      if (s->time.size() >= 16) line += "   " + s->time.substr(11, 5);
-      if (const store::Unit* u = m.unit(s->unit)) line += "   " + u->code;
-      const int n = readings[s->meta.uuid];
-      line += "   " + std::to_string(n) + " reading" + (n == 1 ? "" : "s");
-      auto it = flags.find(s->meta.uuid);
-      if (it != flags.end())
-        line += "   " + severity_label(it->second.worst) + (it->second.count > 1 ? " +" + std::to_string(it->second.count - 1) : "");
-      ImGui::PushID(s->meta.uuid.c_str());
+  ImGuiListClipper clip;
+  clip.Begin(static_cast<int>(rows.size()), lk.m.tap + ImGui::GetStyle().ItemSpacing.y);
+  while (clip.Step()) {
+    for (int i = clip.DisplayStart; i < clip.DisplayEnd; ++i) {
+      const Row& r = rows[static_cast<size_t>(i)];
+      if (r.uuid.empty()) {
+        ImGui::AlignTextToFramePadding();  // a heading row is one tap high, like a station row
+        heading(r.text);
+        continue;
+      }
+      ImGui::PushID(r.uuid.c_str());
       ImGui::PushStyleVar(ImGuiStyleVar_ButtonTextAlign, ImVec2(0.0f, 0.5f));
-      if (button(line + "##" + s->code, -1)) {
-        a.select_station(s->meta.uuid);
+      if (button(r.text + "##" + r.code, -1)) {
+        a.select_station(r.uuid);
         a.go(Screen::Station);
       }
-      also_label(s->code);
+      also_label(r.code);
       ImGui::PopStyleVar();
       ImGui::PopID();
     }

@@ -224,6 +224,7 @@ void audit_tab(App& a) {
   const float avail = ImGui::GetContentRegionAvail().x;
   const bool two = avail > lk.m.tap * 18;
   ImGui::BeginChild("rrecords", ImVec2(two ? avail * 0.4f : avail, two ? 0 : lk.m.tap * 5), true);
+  ImGui::PushStyleVar(ImGuiStyleVar_ButtonTextAlign, ImVec2(0.0f, 0.5f));
   for (const auto& s : m.stations()) {
     ImGui::PushID(s.meta.uuid.c_str());
     if (chip("station " + s.code, rs.record == s.meta.uuid, true, -1)) rs.record = s.meta.uuid;
@@ -241,6 +242,7 @@ void audit_tab(App& a) {
     ImGui::Unindent();
     ImGui::PopID();
   }
+  ImGui::PopStyleVar();
   touch_scroll();
   ImGui::EndChild();
   if (two) ImGui::SameLine();
@@ -265,14 +267,26 @@ void audit_tab(App& a) {
       std::string who = devices.count(e.device) && !devices[e.device].empty() ? devices[e.device] : e.device.substr(0, 8);
       text(e.at.substr(0, 19) + "  " + e.action + "  on " + who + (p ? " by " + p->initials : std::string()));
       const auto before = flat_json(e.old_values), after = flat_json(e.new_values);
+      // References are shown by their codes and names, not their UUIDs.
+      auto shown = [&](const std::string& k, const std::string& v) -> std::string {
+        if (k == "unit")
+          if (const store::Unit* u = m.unit(v)) return u->code;
+        if (k == "observer" || k == "person")
+          if (const store::Person* p = m.person(v)) return p->initials;
+        if (k == "contact")
+          if (const store::Contact* c = m.contact(v)) return c->name;
+        if (k == "station")
+          if (const store::Station* s = m.station(v)) return s->code;
+        return v;
+      };
       ImGui::Indent();
       for (const auto& [k, v] : after) {
         if (k == "updated" || k == "created" || k == "device" || k == "uuid") continue;
         auto it = before.find(k);
         if (e.action == "insert") {
-          if (!v.empty()) text_dim(k + ": " + v);
+          if (!v.empty()) text_dim(k + ": " + shown(k, v));
         } else if (it == before.end() || it->second != v) {
-          text_dim(k + ": " + (it == before.end() ? "" : it->second) + " \xE2\x86\x92 " + v);
+          text_dim(k + ": " + (it == before.end() ? "" : shown(k, it->second)) + " \xE2\x86\x92 " + shown(k, v));
         }
       }
       ImGui::Unindent();
@@ -289,6 +303,7 @@ void draw_review(App& a) {
   Model& m = *a.model;
   Look& lk = look();
   ReviewState& rs = a.review;
+  ImGui::AlignTextToFramePadding();
   if (!rs.unlocked) {
     text_colour(lk.pal.text_dim, "Read-only. Unlock to mark flags and sign off days.");
     ImGui::SameLine();

@@ -79,7 +79,7 @@ bool position_form(App& a, const store::Station* existing) {
   if (!e.error.empty()) error_box(e.error);
 
   const bool creating = existing == nullptr;
-  const std::string code = creating ? m.next_station_code() : existing->code;
+  const std::string code = creating ? m.next_station_code(a.person()) : existing->code;
   if (button(creating ? "Create station " + code : "Save typed position", 0, !m.project().read_only(), true)) {
     e.error.clear();
     double va = 0, vb = 0, ve = 0;
@@ -173,7 +173,7 @@ void draw_station(App& a) {
       if (button("Back to the Logbook")) a.go(Screen::Logbook);
       return;
     }
-    heading("New station " + m.next_station_code());
+    heading("New station " + m.next_station_code(a.person()));
     text_dim(a.fix.has_position() ? "A GPS fix is available: " + describe(a.fix) : describe(a.fix) + ": type the position.");
     if (a.fix.has_position() && button("Use the GPS position", 0, true, true)) {
       new_station(a);
@@ -192,6 +192,7 @@ void draw_station(App& a) {
   }
   const bool writable = !m.project().read_only();
   const store::Person* obs = m.person(s->observer);
+  ImGui::AlignTextToFramePadding();
   heading("Station " + s->code);
   ImGui::SameLine();
   ImGui::AlignTextToFramePadding();
@@ -335,8 +336,8 @@ void draw_station(App& a) {
       ImGui::SameLine();
       ImGui::AlignTextToFramePadding();
       std::string t = summary;
-      if (auto it = worst.find(uuid); it != worst.end()) t += "   " + severity_label(it->second);
-      text(t);
+      if (auto it = worst.find(uuid); it != worst.end()) t = severity_label(it->second) + "  " + t;
+      text_wrapped(t);
       ImGui::PopID();
     };
     for (const auto* p : planes) {

@@ -54,7 +54,7 @@ bool number(const std::string& s, double* v) {
 
 const std::vector<std::pair<std::string, size_t>> kArity = {
     {"tap", 1},   {"touch", 1},      {"tap-at", 2}, {"drag", 4},       {"pinch", 3}, {"type", 1},
-    {"key", 1},   {"wait", 0},       {"wait-idle", 0}, {"expect", 1}, {"expect-not", 1},
+    {"key", 1},   {"wait", 0},       {"wait-idle", 0}, {"wait-for", 1}, {"expect", 1}, {"expect-not", 1},
     {"screenshot", 1}, {"quit", 0}};
 
 }  // namespace
@@ -93,6 +93,15 @@ bool Script::fail(const Command& c, const std::string& why) {
 
 void Script::push_later(int frames, const SDL_Event& e) { delayed_.push_back({frames, e}); }
 
+// Some text or target label of the last frame contains s.
+bool Script::on_screen(const std::string& s) {
+  for (const auto& t : last_frame().texts)
+    if (t.find(s) != std::string::npos) return true;
+  for (const auto& t : last_frame().targets)
+    if (visible_label(t.label).find(s) != std::string::npos) return true;
+  return false;
+}
+
 Script::Step Script::step(App& app) {
   // Events scheduled for this frame.
   for (auto it = delayed_.begin(); it != delayed_.end();) {
@@ -113,6 +122,14 @@ Script::Step Script::step(App& app) {
   if (wait_idle_) {
     if (!app.idle() && --idle_budget_ > 0) return Step::Continue;
     wait_idle_ = false;
+  }
+  if (!wait_text_.empty()) {
+    if (!on_screen(wait_text_)) {
+      if (SDL_GetTicks() < wait_text_deadline_) return Step::Continue;
+      failure_ = path_ + ":" + std::to_string(wait_text_line_) + ": '" + wait_text_ + "' did not appear";
+      return Step::Failed;
+    }
+    wait_text_.clear();
   }
   if (done_ || next_ >= commands_.size()) return delayed_.empty() ? Step::Done : Step::Continue;
   const Command& c = commands_[next_++];
@@ -164,13 +181,6 @@ bool Script::run(App& app, const Command& c) {
         return true;
       }
     }
-    return false;
-  };
-  auto on_screen = [&](const std::string& s) {
-    for (const auto& t : last_frame().texts)
-      if (t.find(s) != std::string::npos) return true;
-    for (const auto& t : last_frame().targets)
-      if (visible_label(t.label).find(s) != std::string::npos) return true;
     return false;
   };
 
@@ -278,6 +288,13 @@ bool Script::run(App& app, const Command& c) {
     wait_idle_ = true;
     idle_budget_ = 3000;  // frames; a script that never settles still ends
     wait_frames_ = 1;
+    return true;
+  }
+  if (cmd == "wait-for") {
+    wait_text_ = c.words[1];
+    const int secs = c.words.size() > 2 ? std::max(1, std::atoi(c.words[2].c_str())) : 20;
+    wait_text_deadline_ = SDL_GetTicks() + static_cast<Uint32>(secs) * 1000u;
+    wait_text_line_ = c.line;
     return true;
   }
   if (cmd == "expect") {

@@ -12,6 +12,7 @@
 //   key NAME            key press and release (SDL key names: Return, Backspace, ...)
 //   wait [N]            let N frames pass (default 1)
 //   wait-idle           let frames pass until no job runs and the cross-check is current
+//   wait-for TEXT [S]   let frames pass until TEXT is on screen (fail after S seconds, default 20)
 //   expect TEXT         fail unless some text or target label on screen contains TEXT
 //   expect-not TEXT     fail if some text on screen contains TEXT
 //   screenshot FILE     write a PNG of the next frame
@@ -50,6 +51,7 @@ private:
   };
   bool run(App& app, const Command& c);
   bool fail(const Command& c, const std::string& why);
+  static bool on_screen(const std::string& s);
   void push_later(int frames, const SDL_Event& e);
 
   std::string path_;
@@ -58,6 +60,9 @@ private:
   int wait_frames_ = 0;
   bool wait_idle_ = false;
   int idle_budget_ = 0;
+  std::string wait_text_;  // wait-for: the text awaited
+  Uint32 wait_text_deadline_ = 0;  // SDL_GetTicks() time
+  int wait_text_line_ = 0;
   std::vector<Delayed> delayed_;
   std::string failure_;
   bool done_ = false;

@@ -14,6 +14,8 @@ int g_current = 0;
 Look g_look;
 
 void record_target(const std::string& label, bool enabled) {
+  // Only what can be seen (not scrolled or clipped away) can be tapped.
+  if (!ImGui::IsItemVisible()) return;
   this_frame().targets.push_back({label, ImGui::GetItemRectMin(), ImGui::GetItemRectMax(), enabled});
 }
 

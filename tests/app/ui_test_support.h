@@ -1,0 +1,70 @@
+// Running the real touch UI in tests: a private folder, a project made through
+// storage, and `cairn gui FILE --script EVENTS` under xvfb-run (a virtual X
+// display; Mesa's llvmpipe renders OpenGL 3 there). The script pushes SDL
+// events into SDL's own queue and checks what the screen shows
+// (app/ui/script.h); the test then reads the project file through storage.
+#pragma once
+#include <gtest/gtest.h>
+
+#include <cstdlib>
+#include <filesystem>
+#include <fstream>
+#include <sstream>
+#include <string>
+#include <sys/wait.h>
+
+#include "storage/project.h"
+
+namespace cairn::ui_test {
+
+struct GuiRun {
+  int status = -1;
+  std::string err;
+};
+
+inline std::string slurp(const std::string& path) {
+  std::ifstream f(path, std::ios::binary);
+  std::stringstream ss;
+  ss << f.rdbuf();
+  return ss.str();
+}
+
+// Whether xvfb-run is installed (scripts/install-deps.sh --test installs it).
+inline bool have_xvfb() { return std::system("command -v xvfb-run >/dev/null 2>&1") == 0; }
+
+class UiTest : public ::testing::Test {
+protected:
+  void SetUp() override {
+    std::string tmpl = (std::filesystem::temp_directory_path() / "cairn-ui-XXXXXX").string();
+    ASSERT_NE(mkdtemp(tmpl.data()), nullptr);
+    dir_ = tmpl;
+    // The UI tests need the virtual display: without it they fail, not skip.
+    ASSERT_TRUE(have_xvfb()) << "xvfb-run is missing: run scripts/install-deps.sh --test";
+  }
+  void TearDown() override {
+    if (!HasFailure()) std::filesystem::remove_all(dir_);
+    else std::cerr << "kept " << dir_ << " for a look\n";
+  }
+
+  std::string file(const std::string& name) const { return (dir_ / name).string(); }
+
+  static store::OpenOptions quiet() {
+    store::OpenOptions o;
+    o.backups = false;
+    return o;
+  }
+
+  // Runs the UI on PROJECT with the event script SCRIPT (its text) and extra arguments.
+  GuiRun gui(const std::string& project, const std::string& script, const std::string& extra = "") const {
+    std::ofstream(file("events.txt")) << script;
+    const std::string cmd = "cd '" + dir_.string() + "' && xvfb-run -a -s '-screen 0 1400x1000x24' '" +
+                            std::string(CAIRN_BINARY) + "' gui '" + project + "' --script events.txt --size 1280x800 " +
+                            extra + " >gui-out.txt 2>gui-err.txt";
+    const int rc = std::system(cmd.c_str());
+    return {WIFEXITED(rc) ? WEXITSTATUS(rc) : -1, slurp(file("gui-err.txt"))};
+  }
+
+  std::filesystem::path dir_;
+};
+
+}  // namespace cairn::ui_test
