@@ -2,6 +2,7 @@
 
 #include <algorithm>
 #include <cctype>
+#include <chrono>
 #include <cmath>
 #include <iostream>
 #include <vector>
@@ -146,9 +147,6 @@ bool App::init(std::string* error) {
                          "use xvfb-run for pictures and tests): ") + SDL_GetError();
     return false;
   }
-  SDL_GL_SetAttribute(SDL_GL_CONTEXT_FLAGS, 0);
-  SDL_GL_SetAttribute(SDL_GL_CONTEXT_MAJOR_VERSION, 3);
-  SDL_GL_SetAttribute(SDL_GL_CONTEXT_MINOR_VERSION, 0);
   SDL_GL_SetAttribute(SDL_GL_DOUBLEBUFFER, 1);
   SDL_GL_SetAttribute(SDL_GL_DEPTH_SIZE, 0);
   SDL_GL_SetAttribute(SDL_GL_STENCIL_SIZE, 8);
@@ -180,7 +178,22 @@ bool App::init(std::string* error) {
     *error = std::string("cannot open a window: ") + SDL_GetError();
     return false;
   }
+  // OpenGL 3.2 core first: from 3.2 Dear ImGui's renderer can draw lists of more
+  // than 65 536 vertices (glDrawElementsBaseVertex), which a net of 50 000 poles
+  // needs; else 3.0.
+  const char* glsl = "#version 150";
+  SDL_GL_SetAttribute(SDL_GL_CONTEXT_FLAGS, SDL_GL_CONTEXT_FORWARD_COMPATIBLE_FLAG);
+  SDL_GL_SetAttribute(SDL_GL_CONTEXT_PROFILE_MASK, SDL_GL_CONTEXT_PROFILE_CORE);
+  SDL_GL_SetAttribute(SDL_GL_CONTEXT_MAJOR_VERSION, 3);
+  SDL_GL_SetAttribute(SDL_GL_CONTEXT_MINOR_VERSION, 2);
   gl_ = SDL_GL_CreateContext(window_);
+  if (!gl_) {
+    glsl = "#version 130";
+    SDL_GL_SetAttribute(SDL_GL_CONTEXT_FLAGS, 0);
+    SDL_GL_SetAttribute(SDL_GL_CONTEXT_PROFILE_MASK, 0);
+    SDL_GL_SetAttribute(SDL_GL_CONTEXT_MINOR_VERSION, 0);
+    gl_ = SDL_GL_CreateContext(window_);
+  }
   if (!gl_) {
     *error = std::string("cannot create an OpenGL 3 context: ") + SDL_GetError();
     return false;
@@ -195,7 +208,7 @@ bool App::init(std::string* error) {
   io.ConfigWindowsMoveFromTitleBarOnly = true;
   io.ConfigInputTextCursorBlink = false;
   ImGui_ImplSDL2_InitForOpenGL(window_, gl_);
-  ImGui_ImplOpenGL3_Init("#version 130");
+  ImGui_ImplOpenGL3_Init(glsl);
 
   Look& lk = look();
   lk.m = metrics_for_dpi(dpi);
@@ -450,6 +463,7 @@ void App::draw_screen() {
 }
 
 void App::draw_frame() {
+  const auto t0 = std::chrono::steady_clock::now();
   ImGui_ImplOpenGL3_NewFrame();
   ImGui_ImplSDL2_NewFrame();
   apply_pointer();
@@ -482,6 +496,7 @@ void App::draw_frame() {
   ImGui::End();
 
   ImGui::Render();
+  build_ms_.push_back(std::chrono::duration<double, std::milli>(std::chrono::steady_clock::now() - t0).count());
   int fw = 0, fh = 0;
   SDL_GL_GetDrawableSize(window_, &fw, &fh);
   glViewport(0, 0, fw, fh);
@@ -561,6 +576,16 @@ int App::run() {
       draw_frame();
       break;
     }
+  }
+  if (opts.frame_stats && build_ms_.size() > 2) {
+    // The first frames build the caches; the last ones show what a frame costs.
+    const size_t n = std::min<size_t>(50, build_ms_.size() / 2);
+    std::vector<double> v(build_ms_.end() - static_cast<long>(n), build_ms_.end());
+    std::sort(v.begin(), v.end());
+    double sum = 0;
+    for (double x : v) sum += x;
+    std::cerr << "frame build (CPU, last " << v.size() << " frames): mean " << sum / static_cast<double>(v.size())
+              << " ms, median " << v[v.size() / 2] << " ms, max " << v.back() << " ms\n";
   }
   return code;
 }

@@ -17,6 +17,7 @@
 
 #include "app/plot/plan_scene.h"
 #include "app/plot/recording_canvas.h"
+#include "app/ui/gl_picture.h"
 #include "app/ui/gps.h"
 #include "app/ui/jobs.h"
 #include "app/ui/model.h"
@@ -45,6 +46,7 @@ struct GuiOptions {
   std::string person;   // initials of the person at the tablet
   std::string station;  // station code to select
   std::string flag;     // flag to open on the Crosscheck: its rule (the first such flag)
+  bool frame_stats = false;  // print how long frames took to build (CPU, without drawing) at exit
 };
 
 // ---- per-screen state ---------------------------------------------------------------
@@ -80,8 +82,8 @@ struct NetState {
   // Cache: the drawing recorded for this key.
   std::string key;
   plot::RecordingCanvas drawing;
+  std::unique_ptr<GlPicture> picture;  // the drawing as a texture (when this OpenGL can)
   std::vector<std::string> legend;  // summary lines under the net
-  std::vector<std::string> texts;   // the drawing's text, for event scripts
   int shown = 0;
 };
 
@@ -97,6 +99,8 @@ struct PlanState {
   double convergence = 0;
   bool dragging = false;
   float pinch_distance = 0;
+  std::string picture_key;              // what the picture below shows
+  std::unique_ptr<GlPicture> picture;   // the plan as a texture
 };
 
 struct CrosscheckState {
@@ -204,6 +208,8 @@ private:
   long long primary_finger_ = -1;
   bool want_text_ = false;
   std::string pending_screenshot_;
+  // Time to build each frame (events to ImGui::Render, no GPU work), for --frame-stats.
+  std::vector<double> build_ms_;
 };
 
 }  // namespace cairn::ui

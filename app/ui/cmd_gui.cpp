@@ -27,6 +27,7 @@ int run_gui(const Args& in, std::ostream& out, std::ostream& err) {
   o.windowed = take_flag(args, "--windowed");
   o.night = take_flag(args, "--night");
   o.no_gps = take_flag(args, "--no-gps");
+  o.frame_stats = take_flag(args, "--frame-stats");
   if (auto v = take_option(args, "--dpi")) o.dpi = parse_int("--dpi", *v, 50, 1000);
   if (auto v = take_option(args, "--size")) {
     const auto x = v->find('x');
@@ -59,7 +60,7 @@ int run_gui(const Args& in, std::ostream& out, std::ostream& err) {
 CAIRN_COMMAND(Command{"gui",
                       "cairn gui [FILE] [--fullscreen|--windowed] [--night] [--dpi N] [--gps HOST:PORT|--no-gps] "
                       "[--person INITIALS] [--station CODE] [--view SCREEN] [--flag RULE] [--size WxH] "
-                      "[--screenshot OUT.png] [--frames N] [--script EVENTS.txt]",
+                      "[--screenshot OUT.png] [--frames N] [--script EVENTS.txt] [--frame-stats]",
                       "Open the touch UI (Logbook, Station sheet, Reading pad, Net, Plan, Crosscheck, Camp, Review)",
                       run_gui});
 

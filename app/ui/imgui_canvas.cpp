@@ -4,6 +4,7 @@
 #include <cmath>
 
 #include "app/plot/symbols.h"
+#include "app/ui/widgets.h"
 
 namespace cairn::ui {
 
@@ -70,6 +71,7 @@ void ImGuiCanvas::text(Pt at, const std::string& s, Rgba colour, double size, pl
     p.x -= anchor == plot::Anchor::Middle ? ext.x / 2 : ext.x;
   }
   list_->AddText(font_, fs, p, col(colour), s.c_str());
+  this_frame().texts.push_back(s);  // what a picture says can be checked by event scripts too
 }
 
 }  // namespace cairn::ui

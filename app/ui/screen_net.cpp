@@ -8,6 +8,7 @@
 
 #include "app/plot/net_scene.h"
 #include "app/plot/symbols.h"
+#include "app/ui/gl_picture.h"
 #include "app/ui/imgui_canvas.h"
 #include "app/ui/screens.h"
 #include "app/ui/text_util.h"
@@ -141,19 +142,22 @@ void draw_net_screen(App& a) {
     o.text_size = lk.m.font * 0.8;
     ns.drawing.clear();
     plot::draw_net(ns.drawing, plot::Rect{0, 0, size.x, size.y}, d, o);
-    ns.texts.clear();
-    for (const auto& op : ns.drawing.ops())
-      if (op.kind == plot::DrawOp::Text) ns.texts.push_back(op.text);
+    if (!ns.picture) ns.picture = std::make_unique<GlPicture>();
+    if (!ns.picture->render(ns.drawing, static_cast<int>(size.x), static_cast<int>(size.y), lk.theme, lk.fonts.small,
+                            lk.pal.background))
+      ns.picture.reset();
     ns.legend.clear();
     ns.legend.push_back(std::to_string(shown) + " planar reading" + (shown == 1 ? "" : "s") + " shown");
     if (ns.display != 0 && d.planes.size() > kMaxGreatCircles)
       ns.legend.push_back("great circles hidden above " + std::to_string(kMaxGreatCircles) + " readings: poles shown");
   }
-  ImGuiCanvas canvas(ImGui::GetWindowDrawList(), lk.fonts.small, lk.theme);
-  ns.drawing.replay(canvas, origin.x, origin.y);
-  // The replayed picture's text is recorded for scripts too.
-  for (const auto& l : ns.legend) this_frame().texts.push_back(l);
-  for (const auto& t : ns.texts) this_frame().texts.push_back(t);
+  if (ns.picture && ns.picture->ready()) {
+    ns.picture->show(ImGui::GetWindowDrawList(), origin);
+    for (const auto& t : ns.picture->texts()) this_frame().texts.push_back(t);
+  } else {
+    ImGuiCanvas canvas(ImGui::GetWindowDrawList(), lk.fonts.small, lk.theme);
+    ns.drawing.replay(canvas, origin.x, origin.y);
+  }
   ImGui::EndChild();
 }
 

@@ -2,12 +2,15 @@
 // fitted contacts' strike lines in the working UTM zone; the predicted contact
 // elevation at a tapped point; drag to pan, pinch (or the wheel) to zoom.
 #include <algorithm>
+#include <cstdio>
 #include <cmath>
 #include <map>
 
 #include "app/plot/plan_scene.h"
 #include "app/plot/symbols.h"
+#include "app/ui/gl_picture.h"
 #include "app/ui/imgui_canvas.h"
+#include "app/plot/recording_canvas.h"
 #include "app/ui/screens.h"
 #include "app/ui/text_util.h"
 #include "app/ui/widgets.h"
@@ -181,7 +184,6 @@ void draw_plan_screen(App& a) {
 
   // The tapped point: each fitted contact's predicted elevation there.
   ps.data.probe.reset();
-  std::vector<std::string> probe_lines;
   if (ps.probe) {
     plot::PlanProbe pr;
     pr.e = ps.probe->first;
@@ -195,7 +197,6 @@ void draw_plan_screen(App& a) {
       pr.lines.push_back(l);
     }
     if (pr.lines.empty()) pr.lines.push_back("no fitted contact");
-    probe_lines = pr.lines;
     ps.data.probe = pr;
   }
 
@@ -214,12 +215,31 @@ void draw_plan_screen(App& a) {
   o.dip_values = visible < 1500 && (ps.spacing <= 0 || spacing_px > o.symbol_length * 1.3);
   o.strike_only = visible > 6000;
   o.station_labels = ps.spacing > 0 ? spacing_px > o.text_size * 4 : ps.data.stations.size() < 2;
+  // The picture is drawn into a texture when data, view, size or theme change
+  // (every frame of a drag or a pinch, once while the map stands still).
   ImDrawList* dl = ImGui::GetWindowDrawList();
-  dl->PushClipRect(ImVec2(r.x, r.y), ImVec2(r.x + r.w, r.y + r.h), true);
-  ImGuiCanvas canvas(dl, lk.fonts.small, lk.theme);
-  plot::draw_plan(canvas, r, ps.data, ps.view, o);
-  dl->PopClipRect();
-  for (const auto& l : probe_lines) this_frame().texts.push_back(l);
+  char view_key[160];
+  std::snprintf(view_key, sizeof view_key, "|%.6f|%.6f|%.9g|%.0fx%.0f|%d|%d%d%d%d", ps.view.centre_e, ps.view.centre_n,
+                ps.view.scale, r.w, r.h, static_cast<int>(lk.theme), o.dip_values, o.strike_only, o.station_labels,
+                ps.probe.has_value());
+  const std::string picture_key = ps.key + view_key + (ps.probe ? fmt("%.3f", ps.probe->first) + fmt("%.3f", ps.probe->second) : "");
+  if (picture_key != ps.picture_key || !ps.picture || !ps.picture->ready()) {
+    ps.picture_key = picture_key;
+    plot::RecordingCanvas rec;
+    plot::draw_plan(rec, plot::Rect{0, 0, r.w, r.h}, ps.data, ps.view, o);
+    if (!ps.picture) ps.picture = std::make_unique<GlPicture>();
+    if (!ps.picture->render(rec, static_cast<int>(r.w), static_cast<int>(r.h), lk.theme, lk.fonts.small, lk.pal.background)) {
+      ps.picture.reset();
+      dl->PushClipRect(ImVec2(r.x, r.y), ImVec2(r.x + r.w, r.y + r.h), true);
+      ImGuiCanvas canvas(dl, lk.fonts.small, lk.theme);
+      rec.replay(canvas, r.x, r.y);
+      dl->PopClipRect();
+    }
+  }
+  if (ps.picture && ps.picture->ready()) {
+    ps.picture->show(dl, origin);
+    for (const auto& t : ps.picture->texts()) this_frame().texts.push_back(t);
+  }
   ImGui::SetCursorScreenPos(ImVec2(origin.x + lk.m.gap, origin.y + lk.m.gap));
   text_dim("grid north; UTM " + std::to_string(c->data.zone.zone) + (c->data.zone.northp ? "N" : "S") + ", " +
            std::to_string(ps.data.stations.size()) + " stations" +

@@ -1,0 +1,115 @@
+#include "app/ui/gl_picture.h"
+
+#include <cstdint>
+
+#include <SDL.h>
+#include <SDL_opengl.h>
+#include <backends/imgui_impl_opengl3.h>
+
+#include "app/ui/imgui_canvas.h"
+
+namespace cairn::ui {
+
+namespace {
+
+// Framebuffer objects (OpenGL 3.0 core), loaded through SDL.
+struct FboApi {
+  PFNGLGENFRAMEBUFFERSPROC gen = nullptr;
+  PFNGLDELETEFRAMEBUFFERSPROC del = nullptr;
+  PFNGLBINDFRAMEBUFFERPROC bind = nullptr;
+  PFNGLFRAMEBUFFERTEXTURE2DPROC texture2d = nullptr;
+  PFNGLCHECKFRAMEBUFFERSTATUSPROC status = nullptr;
+  bool ok() const { return gen && del && bind && texture2d && status; }
+};
+
+const FboApi& fbo() {
+  static const FboApi api = [] {
+    FboApi a;
+    a.gen = reinterpret_cast<PFNGLGENFRAMEBUFFERSPROC>(SDL_GL_GetProcAddress("glGenFramebuffers"));
+    a.del = reinterpret_cast<PFNGLDELETEFRAMEBUFFERSPROC>(SDL_GL_GetProcAddress("glDeleteFramebuffers"));
+    a.bind = reinterpret_cast<PFNGLBINDFRAMEBUFFERPROC>(SDL_GL_GetProcAddress("glBindFramebuffer"));
+    a.texture2d = reinterpret_cast<PFNGLFRAMEBUFFERTEXTURE2DPROC>(SDL_GL_GetProcAddress("glFramebufferTexture2D"));
+    a.status = reinterpret_cast<PFNGLCHECKFRAMEBUFFERSTATUSPROC>(SDL_GL_GetProcAddress("glCheckFramebufferStatus"));
+    return a;
+  }();
+  return api;
+}
+
+}  // namespace
+
+GlPicture::~GlPicture() {
+  if (texture_) glDeleteTextures(1, &texture_);
+  if (framebuffer_ && fbo().ok()) fbo().del(1, &framebuffer_);
+}
+
+bool GlPicture::render(const plot::RecordingCanvas& drawing, int w, int h, ThemeKind theme, ImFont* font,
+                       ImU32 background) {
+  const FboApi& f = fbo();
+  if (!f.ok() || w <= 0 || h <= 0) return false;
+  const ImVec2 scale = ImGui::GetIO().DisplayFramebufferScale;
+  const int pw = static_cast<int>(w * scale.x), ph = static_cast<int>(h * scale.y);
+
+  // The drawing as Dear ImGui geometry, in a draw list of its own.
+  ImDrawList list(ImGui::GetDrawListSharedData());
+  list._ResetForNewFrame();
+  list.Flags = ImDrawListFlags_AntiAliasedLines | ImDrawListFlags_AntiAliasedLinesUseTex | ImDrawListFlags_AntiAliasedFill |
+               ImDrawListFlags_AllowVtxOffset;
+  list.PushTextureID(ImGui::GetIO().Fonts->TexID);
+  list.PushClipRect(ImVec2(0, 0), ImVec2(static_cast<float>(w), static_cast<float>(h)));
+  ImGuiCanvas canvas(&list, font, theme);
+  drawing.replay(canvas);
+  texts_.clear();
+  for (const auto& op : drawing.ops())
+    if (op.kind == plot::DrawOp::Text) texts_.push_back(op.text);
+
+  if (!texture_ || w != w_ || h != h_) {
+    if (!texture_) glGenTextures(1, &texture_);
+    glBindTexture(GL_TEXTURE_2D, texture_);
+    glTexParameteri(GL_TEXTURE_2D, GL_TEXTURE_MIN_FILTER, GL_LINEAR);
+    glTexParameteri(GL_TEXTURE_2D, GL_TEXTURE_MAG_FILTER, GL_LINEAR);
+    glTexParameteri(GL_TEXTURE_2D, GL_TEXTURE_WRAP_S, GL_CLAMP_TO_EDGE);
+    glTexParameteri(GL_TEXTURE_2D, GL_TEXTURE_WRAP_T, GL_CLAMP_TO_EDGE);
+    glTexImage2D(GL_TEXTURE_2D, 0, GL_RGBA, pw, ph, 0, GL_RGBA, GL_UNSIGNED_BYTE, nullptr);
+    if (!framebuffer_) f.gen(1, &framebuffer_);
+    w_ = w;
+    h_ = h;
+  }
+  GLint previous = 0;
+  glGetIntegerv(GL_FRAMEBUFFER_BINDING, &previous);
+  f.bind(GL_FRAMEBUFFER, framebuffer_);
+  f.texture2d(GL_FRAMEBUFFER, GL_COLOR_ATTACHMENT0, GL_TEXTURE_2D, texture_, 0);
+  const bool complete = f.status(GL_FRAMEBUFFER) == GL_FRAMEBUFFER_COMPLETE;
+  if (complete) {
+    glViewport(0, 0, pw, ph);
+    // The screen's own background, opaque, so that edges blend as they would on screen.
+    const ImVec4 bg = ImGui::ColorConvertU32ToFloat4(background);
+    glClearColor(bg.x, bg.y, bg.z, 1.0f);
+    glClear(GL_COLOR_BUFFER_BIT);
+    ImDrawList* lists[] = {&list};
+    ImDrawData data;
+    data.Valid = true;
+    data.CmdLists = lists;
+    data.CmdListsCount = 1;
+    data.TotalVtxCount = list.VtxBuffer.Size;
+    data.TotalIdxCount = list.IdxBuffer.Size;
+    data.DisplayPos = ImVec2(0, 0);
+    data.DisplaySize = ImVec2(static_cast<float>(w), static_cast<float>(h));
+    data.FramebufferScale = scale;
+    ImGui_ImplOpenGL3_RenderDrawData(&data);
+  }
+  f.bind(GL_FRAMEBUFFER, static_cast<GLuint>(previous));
+  if (!complete) {
+    glDeleteTextures(1, &texture_);
+    texture_ = 0;
+  }
+  return complete;
+}
+
+void GlPicture::show(ImDrawList* list, ImVec2 pos) const {
+  if (!texture_) return;
+  // The texture's rows run bottom to top (OpenGL), so its v is flipped.
+  list->AddImage(reinterpret_cast<ImTextureID>(static_cast<std::intptr_t>(texture_)), pos,
+                 ImVec2(pos.x + static_cast<float>(w_), pos.y + static_cast<float>(h_)), ImVec2(0, 1), ImVec2(1, 0));
+}
+
+}  // namespace cairn::ui
