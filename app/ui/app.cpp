@@ -363,9 +363,9 @@ void App::draw_top_bar() {
   text(model ? model->name() : std::string("Cairn"));
   ImGui::PopFont();
   if (model) {
-    ImGui::SameLine();
     const store::Person* who = model->person(person_);
     const std::string me = who ? "Person: " + who->initials : std::string("Person: choose");
+    same_line_if_fits(label_width(me));
     if (button(me + "##person")) ImGui::OpenPopup("person");
     if (ImGui::BeginPopup("person")) {
       text("Who is using this tablet?");
@@ -380,26 +380,25 @@ void App::draw_top_bar() {
       if (model->people().empty()) text_dim("No people in this project yet (add them with cairn import).");
       ImGui::EndPopup();
     }
-    ImGui::SameLine();
-    const std::string g = describe(fix);
-    const ImU32 gc = fix.has_position() ? lk.pal.ok : lk.pal.text_dim;
-    ImGui::AlignTextToFramePadding();
-    text_colour(gc, fix.has_position() ? "GPS: " + g : g.rfind("no GPS", 0) == 0 ? "no GPS: type positions" : g);
-
     // Hazard flags are announced on every screen.
     int hazards = 0;
     if (auto c = model->check())
       for (const auto& f : c->report.flags)
         if (f.severity == geo::Severity::Hazard) ++hazards;
     if (hazards > 0) {
-      ImGui::SameLine();
+      const std::string label = "\xE2\x96\xB2 " + std::to_string(hazards) + " hazard" + (hazards == 1 ? "" : "s");
+      same_line_if_fits(label_width(label));
       ImGui::PushStyleColor(ImGuiCol_Button, ImGui::ColorConvertU32ToFloat4(lk.pal.caution_bg));
       ImGui::PushStyleColor(ImGuiCol_ButtonHovered, ImGui::ColorConvertU32ToFloat4(lk.pal.caution_bg));
       ImGui::PushStyleColor(ImGuiCol_Text, ImGui::ColorConvertU32ToFloat4(lk.pal.caution_text));
-      if (button("\xE2\x96\xB2 " + std::to_string(hazards) + " hazard" + (hazards == 1 ? "" : "s") + "##hazards"))
-        go(Screen::Crosscheck);
+      if (button(label + "##hazards")) go(Screen::Crosscheck);
       ImGui::PopStyleColor(3);
     }
+    const std::string g = describe(fix);
+    const std::string gps_text = fix.has_position() ? "GPS: " + g : g.rfind("no GPS", 0) == 0 ? "no GPS: type positions" : g;
+    same_line_if_fits(ImGui::CalcTextSize(gps_text.c_str()).x);
+    ImGui::AlignTextToFramePadding();
+    text_colour(fix.has_position() ? lk.pal.ok : lk.pal.text_dim, gps_text);
   }
   // Right side: undo and the theme.
   const std::string theme_label = lk.theme == ThemeKind::Outdoor ? "Night" : "Day";
@@ -407,7 +406,8 @@ void App::draw_top_bar() {
   float right_w = label_width(theme_label) + ImGui::GetStyle().ItemSpacing.x;
   float undo_w = std::min(label_width(undo_label), tap * 7);
   right_w += undo_w;
-  ImGui::SameLine();
+  // At the right end of the line, or of a line of their own when there is no room.
+  same_line_if_fits(right_w);
   ImGui::SetCursorPosX(std::max(ImGui::GetCursorPosX(), ImGui::GetWindowContentRegionMax().x - right_w));
   if (button(undo_label + "##undo", undo_w, model && model->can_undo())) {
     std::string err;
@@ -426,20 +426,41 @@ void App::draw_top_bar() {
   if (jobs.busy()) progress(jobs.progress().fraction(), jobs.name() + ": " + jobs.progress().message());
 }
 
+int App::nav_per_row(float avail) const {
+  const float sp = ImGui::GetStyle().ItemSpacing.x;
+  float widest = 0;
+  for (Screen s : {Screen::Logbook, Screen::Station, Screen::Pad, Screen::Net, Screen::Plan, Screen::Crosscheck,
+                   Screen::Camp, Screen::Review})
+    widest = std::max(widest, label_width(screen_title(s)));
+  return (widest + sp) * 8 <= avail + sp ? 8 : 4;
+}
+
 void App::draw_navigation() {
   Look& lk = look();
   const Screen order[] = {Screen::Logbook, Screen::Station, Screen::Pad, Screen::Net,
                           Screen::Plan, Screen::Crosscheck, Screen::Camp, Screen::Review};
   const float avail = ImGui::GetContentRegionAvail().x;
   const float sp = ImGui::GetStyle().ItemSpacing.x;
-  float widest = 0;
-  for (Screen s : order) widest = std::max(widest, label_width(screen_title(s)));
-  const int per_row = (widest + sp) * 8 <= avail + sp ? 8 : 4;
+  const int per_row = nav_per_row(avail);
   const float w = (avail - sp * static_cast<float>(per_row - 1)) / static_cast<float>(per_row);
   for (int i = 0; i < 8; ++i) {
     if (i % per_row != 0) ImGui::SameLine();
     const bool here = screen == order[i];
-    if (chip(screen_title(order[i]), here, model != nullptr, w, false)) go(order[i]);
+    // A title too wide for its button goes on two lines in the small font.
+    std::string title = screen_title(order[i]);
+    const bool squeeze = label_width(title) > w;
+    if (squeeze) {
+      const auto sp_at = title.find(' ');
+      if (sp_at != std::string::npos) title[sp_at] = '\n';
+      ImGui::PushFont(lk.fonts.small);
+      ImGui::PushStyleVar(ImGuiStyleVar_FramePadding, ImVec2(ImGui::GetStyle().FramePadding.x, 0));
+    }
+    if (chip(title + "##" + screen_title(order[i]), here, model != nullptr, w, false)) go(order[i]);
+    also_label(screen_title(order[i]));
+    if (squeeze) {
+      ImGui::PopStyleVar();
+      ImGui::PopFont();
+    }
     if (here) {
       // The current screen is marked by a bar under it as well as by colour.
       const ImVec2 a = ImGui::GetItemRectMin(), b = ImGui::GetItemRectMax();
@@ -478,9 +499,10 @@ void App::draw_frame() {
                    ImGuiWindowFlags_NoScrollWithMouse);
   draw_top_bar();
   ImGui::Separator();
-  // The navigation's height: one or two rows of tap-high chips.
-  const float nav_rows = frame_width() < look().m.tap * 20 ? 2.0f : 1.0f;
-  const float nav_h = (look().m.tap + ImGui::GetStyle().ItemSpacing.y) * nav_rows + ImGui::GetStyle().ItemSpacing.y;
+  // The navigation's height: one or two rows of tap-high chips, and the separator above them.
+  const float nav_rows = nav_per_row(ImGui::GetContentRegionAvail().x) == 8 ? 1.0f : 2.0f;
+  const ImGuiStyle& st = ImGui::GetStyle();
+  const float nav_h = look().m.tap * nav_rows + st.ItemSpacing.y * (nav_rows + 1) + 2 + st.WindowPadding.y;
   const float body_h = std::max(look().m.tap, ImGui::GetContentRegionAvail().y - nav_h);
   canvas_min = ImGui::GetCursorScreenPos();
   ImGui::BeginChild("screen", ImVec2(0, body_h), false, ImGuiWindowFlags_NoScrollbar | ImGuiWindowFlags_NoScrollWithMouse);

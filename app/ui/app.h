@@ -193,6 +193,7 @@ private:
   void draw_frame();
   void draw_top_bar();
   void draw_navigation();
+  int nav_per_row(float avail) const;  // 8 screens in one row, or 4 in two
   void draw_screen();
   bool write_screenshot(const std::string& path, std::string* error);
 

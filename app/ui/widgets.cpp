@@ -215,6 +215,8 @@ void touch_scroll() {
 std::string keypad(const std::vector<std::string>& keys, int columns, float key_w, float key_h) {
   std::string hit;
   ImGui::PushFont(g_look.fonts.big);
+  // The big key labels are taller than a framed widget's text: no vertical padding.
+  ImGui::PushStyleVar(ImGuiStyleVar_FramePadding, ImVec2(ImGui::GetStyle().FramePadding.x, 0));
   for (size_t i = 0; i < keys.size(); ++i) {
     if (i % static_cast<size_t>(columns) != 0) ImGui::SameLine();
     ImGui::PushID(static_cast<int>(i));
@@ -227,6 +229,7 @@ std::string keypad(const std::vector<std::string>& keys, int columns, float key_
     }
     ImGui::PopID();
   }
+  ImGui::PopStyleVar();
   ImGui::PopFont();
   return hit;
 }
