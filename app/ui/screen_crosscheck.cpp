@@ -44,6 +44,11 @@ void flag_window(App& a, const geo::Flag& f) {
   if (!ImGui::BeginPopupModal("Flag", nullptr, ImGuiWindowFlags_NoTitleBar | ImGuiWindowFlags_NoMove |
                                                     ImGuiWindowFlags_NoResize | ImGuiWindowFlags_AlwaysAutoResize))
     return;
+  {
+    // A heavy frame sets the flag apart from the dimmed screen behind it.
+    const ImVec2 p = ImGui::GetWindowPos(), sz = ImGui::GetWindowSize();
+    ImGui::GetForegroundDrawList()->AddRect(p, ImVec2(p.x + sz.x, p.y + sz.y), lk.pal.border, 0, 0, 4);
+  }
   ImGui::PushFont(lk.fonts.bold);
   text(severity_label(f.severity) + "   " + f.rule);
   ImGui::PopFont();

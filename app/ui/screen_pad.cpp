@@ -239,6 +239,20 @@ void draw_pad(App& a) {
     ImGui::PopID();
     if (hit >= 0) pad.kind = kinds[static_cast<size_t>(hit)];
   }
+  // The contact first: it decides the live check.
+  if (!pad.linear) {
+    text_dim("Contact");
+    std::vector<std::string> contacts{"none"};
+    int csel = 0;
+    for (size_t i = 0; i < m.contacts().size(); ++i) {
+      contacts.push_back(m.contacts()[i].name);
+      if (m.contacts()[i].meta.uuid == pad.contact) csel = static_cast<int>(i) + 1;
+    }
+    ImGui::PushID("contact");
+    const int c = chip_row(contacts, csel);
+    ImGui::PopID();
+    if (c >= 0) pad.contact = c == 0 ? "" : m.contacts()[static_cast<size_t>(c - 1)].meta.uuid;
+  }
   {
     text_dim("North reference");
     ImGui::PushID("north");
@@ -269,17 +283,6 @@ void draw_pad(App& a) {
     const int f = chip_row({"unknown", "upright", "overturned"}, static_cast<int>(pad.facing));
     ImGui::PopID();
     if (f >= 0) pad.facing = static_cast<store::Facing>(f);
-    text_dim("Contact");
-    std::vector<std::string> contacts{"none"};
-    int csel = 0;
-    for (size_t i = 0; i < m.contacts().size(); ++i) {
-      contacts.push_back(m.contacts()[i].name);
-      if (m.contacts()[i].meta.uuid == pad.contact) csel = static_cast<int>(i) + 1;
-    }
-    ImGui::PushID("contact");
-    const int c = chip_row(contacts, csel);
-    ImGui::PopID();
-    if (c >= 0) pad.contact = c == 0 ? "" : m.contacts()[static_cast<size_t>(c - 1)].meta.uuid;
   } else if (pad.notation == 1) {
     text_dim("Host plane");
     std::vector<std::string> hosts;
