@@ -1,9 +1,9 @@
 // The `cairn` command: a field logbook for structural geologists.
-#include <cstdlib>
 #include <iostream>
 #include <stdexcept>
 
 #include "app/cli/command.h"
+#include "app/cli/display.h"
 
 using cairn::cli::Args;
 
@@ -13,22 +13,11 @@ static void print_help(std::ostream& os) {
   os << "\nRun 'cairn help VERB' for one verb.\n";
 }
 
-// Whether a window can be opened: on Linux an X11 or Wayland display must be named.
-static bool have_display() {
-#if defined(__linux__) || defined(__FreeBSD__)
-  const char* x = std::getenv("DISPLAY");
-  const char* w = std::getenv("WAYLAND_DISPLAY");
-  return (x && *x) || (w && *w);
-#else
-  return true;
-#endif
-}
-
 int main(int argc, char** argv) {
   Args args(argv + 1, argv + argc);
   if (args.empty()) {
     // With a display, no arguments opens the touch UI (when built); otherwise help.
-    if (const auto* gui = cairn::cli::find_command("gui"); gui && have_display()) return gui->run({}, std::cout, std::cerr);
+    if (const auto* gui = cairn::cli::find_command("gui"); gui && cairn::cli::have_display()) return gui->run({}, std::cout, std::cerr);
     print_help(std::cout);
     return 0;
   }

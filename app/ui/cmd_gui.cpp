@@ -4,6 +4,7 @@
 #include <stdexcept>
 
 #include "app/cli/command.h"
+#include "app/cli/display.h"
 #include "app/ui/app.h"
 
 namespace cairn::cli {
@@ -20,7 +21,6 @@ int parse_int(const std::string& opt, const std::string& v, int lo, int hi) {
 
 int run_gui(const Args& in, std::ostream& out, std::ostream& err) {
   (void)out;
-  (void)err;
   Args args = in;
   ui::GuiOptions o;
   o.fullscreen = take_flag(args, "--fullscreen");
@@ -51,6 +51,11 @@ int run_gui(const Args& in, std::ostream& out, std::ostream& err) {
   reject_unknown_options(args);
   if (args.size() > 1) throw std::invalid_argument("expected at most one project file");
   if (!args.empty()) o.file = args[0];
+  if (!have_display()) {
+    err << "cairn gui: no display: neither DISPLAY nor WAYLAND_DISPLAY is set (run it on the tablet's screen, "
+           "or under xvfb-run for pictures and tests)\n";
+    return 1;
+  }
   ui::App app(o);
   return app.run();
 }

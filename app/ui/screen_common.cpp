@@ -99,6 +99,7 @@ void draw_open(App& a) {
   touch_scroll();
   ImGui::EndChild();
   if (!a.open_error.empty()) error_box(a.open_error);
+  ImGui::AlignTextToFramePadding();
   text("New project: name");
   ImGui::SameLine();
   ImGui::SetNextItemWidth(lk.m.tap * 8);

@@ -81,6 +81,9 @@ TEST_F(UiTest, NewStationAndReadingsFromTheKeypad) {
   s += "tap \"Record reading\"\nwait-for \"Recorded P2\"\n";
   s += "tap \"dip direction/dip\"\n" + keys("120/40");
   s += "tap \"Record reading\"\nwait-for \"Recorded P3\"\n";
+  s += "tap \"line\"\ntap \"fold axis\"\n" + keys("120/35");
+  s += "expect \"trend 120, plunge 35\"\n";
+  s += "tap \"Record reading\"\nwait-for \"Recorded L1\"\n";
   const auto r = gui(m.path, s, "--person AQ");
   ASSERT_EQ(r.status, 0) << r.err;
 
@@ -112,6 +115,13 @@ TEST_F(UiTest, NewStationAndReadingsFromTheKeypad) {
     EXPECT_EQ(planes[i].kind, store::PlaneKind::Bedding);
     EXPECT_EQ(planes[i].observer, m.person);
   }
+  // A line as trend/plunge: 120/35 is trend 120, plunge 35.
+  const auto lines = store::list_lines(p, lo);
+  ASSERT_EQ(lines.size(), 1u);
+  EXPECT_EQ(lines[0].kind, store::LineKind::FoldAxis);
+  EXPECT_NEAR(lines[0].trend, 120.0, 1e-9);
+  EXPECT_NEAR(lines[0].plunge, 35.0, 1e-9);
+  EXPECT_EQ(lines[0].ref, "L1");
 }
 
 TEST_F(UiTest, InvalidReadingShowsTheParsersErrorAndWritesNothing) {
