@@ -5,7 +5,10 @@
 // Accuracy: gpsd's epx/epy/epv are the receiver's (or gpsd's own) error
 // estimates in metres; gps.h says of them "try for 1-sigma if we can", so
 // Cairn stores them as the 1-sigma accuracies its records ask for and shows
-// them as "±" values, naming gpsd as their source.
+// them as "±" values. When gpsd gives no per-axis estimate (an NMEA receiver
+// without GST sentences) its horizontal estimate eph is used, which gps.h calls
+// "maybe 50%, maybe 95%": larger than a 1-sigma value, so such points weigh less
+// in a fit rather than more.
 #pragma once
 #include <atomic>
 #include <chrono>
@@ -22,7 +25,7 @@ struct GpsFix {
   int status = 0;          // gpsd's STATUS_*: 1 GPS, 2 DGPS, 3 RTK fixed, 4 RTK float, ...
   double lat = 0, lon = 0;
   std::optional<double> altitude;            // metres above mean sea level (or the ellipsoid when gpsd gives no MSL)
-  std::optional<double> h_accuracy;          // metres, larger of epx and epy
+  std::optional<double> h_accuracy;          // metres, larger of epx and epy (else eph)
   std::optional<double> v_accuracy;          // metres, epv
   int satellites = 0;                        // used in the solution
   double age_s = 1e9;                        // seconds since the fix arrived

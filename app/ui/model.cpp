@@ -54,7 +54,10 @@ void Model::reload() {
   index_by_uuid(contacts_, contact_ix_);
   index_by_uuid(people_, person_ix_);
   index_by_uuid(planes_, plane_ix_);
-  ++revision_;
+  // Revisions are unique across every project opened in this session, so that
+  // caches keyed by a revision never mistake one project for another.
+  static std::uint64_t last = 0;
+  revision_ = ++last;
 }
 
 const store::Station* Model::station(const std::string& u) const { return lookup(stations_, station_ix_, u); }

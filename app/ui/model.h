@@ -2,8 +2,9 @@
 // change (not every frame), the newest cross-check result, and the actions
 // the user confirms, each saved at once and the last one undoable.
 //
-// Every change goes through act(); it bumps revision(), which is the key the
-// screens cache derived data (nets, plans, groupings) under.
+// Every change goes through act(); it bumps revision() (unique in the session,
+// across projects), which is the key the screens cache derived data (nets,
+// plans, groupings) under.
 #pragma once
 #include <cstdint>
 #include <functional>
