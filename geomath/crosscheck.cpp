@@ -338,6 +338,7 @@ CheckReport run_crosscheck(const CheckInput& in, const CheckOptions& o) {
       f.rule = "reversed-dip";
       f.severity = Severity::Conflict;
       f.misfit_corrected = m_rev;
+      f.corrected = reversed;
       f.message = what + " is " + fmt("%.0f", misfit) + " degrees" + against + ", but dipping the other way (" +
                   plane_text(reversed) + ") it fits within " + fmt("%.0f", m_rev) +
                   ": a right-hand-rule slip or a wrong dip-quadrant letter?";
@@ -347,6 +348,7 @@ CheckReport run_crosscheck(const CheckInput& in, const CheckOptions& o) {
       f.rule = "declination-suspect";
       f.severity = Severity::Query;
       f.misfit_corrected = decl->first;
+      f.corrected = decl->second;
       const double applied = azimuth_difference(decl->second.strike, r.plane.strike);
       f.message = what + " is " + fmt("%.0f", misfit) + " degrees" + against + "; turned by " +
                   fmt("%+.1f", applied) + " degrees (the local declination) it fits within " +

@@ -98,6 +98,7 @@ struct Flag {
   std::string contact;              // contact name ("" when none)
   std::optional<double> misfit;            // degrees between poles, as recorded
   std::optional<double> misfit_corrected;  // degrees after the suggested correction
+  std::optional<Plane> corrected;          // the reading as the suggested correction has it (true north)
   std::string message;              // one line, in the field's words
   std::string action;               // what to do next
   std::string caution;              // field-safety caution, "" when none

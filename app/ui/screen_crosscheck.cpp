@@ -10,6 +10,7 @@
 #include "app/ui/screens.h"
 #include "app/ui/text_util.h"
 #include "app/ui/widgets.h"
+#include "storage/corrections.h"
 #include "storage/reviews.h"
 
 namespace cairn::ui {
@@ -98,6 +99,29 @@ void flag_window(App& a, const geo::Flag& f) {
     }
   }
   const bool may_leave = !has_caution || acked || cs.acknowledged;
+  if (store::has_correction(f)) {
+    // One tap applies the suggested correction as an audited update (undoable);
+    // the check then runs again on the changed file.
+    if (button("Apply the correction", 0, may_leave)) {
+      std::string err;
+      auto result = std::make_shared<std::string>();
+      if (a.act("correct " + (f.ref.empty() ? f.rule : f.ref),
+                [&f, result](store::Project& p) {
+                  auto r = store::apply_correction(p, f);
+                  if (!r) throw std::runtime_error(r.error());
+                  *result = r.value();
+                },
+                &err)) {
+        a.notify("Corrected " + *result);
+        cs.open_key.clear();
+        ImGui::CloseCurrentPopup();
+        ImGui::EndPopup();
+        return;
+      }
+      a.notify("Not corrected: " + err);
+    }
+    ImGui::SameLine();
+  }
   if (!f.reading.empty()) {
     if (button("Open reading", 0, may_leave)) {
       a.select_station(f.station_id);

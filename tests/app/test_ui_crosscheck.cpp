@@ -81,3 +81,54 @@ TEST_F(UiTest, HazardFlagShowsItsCautionAndNeedsAnAcknowledgement) {
   ASSERT_TRUE(store::find_person(p, "AQ"));
   EXPECT_EQ(reviews[0].person, store::find_person(p, "AQ")->meta.uuid);
 }
+
+// The demo's right-hand-rule slip (demo_project/README.md): bedding RO-07a typed
+// with the strike's other end. Opening its reversed-dip flag offers the
+// correction; one tap re-enters it dipping the other way (strike + 180, the
+// right-hand rule; common practice), and the flag is gone from the next check.
+TEST_F(UiTest, ReversedDipIsCorrectedWithOneTap) {
+  const std::string dir = file("auska");
+  ASSERT_EQ(std::system((std::string(CAIRN_BINARY) + " demo " + dir + " > /dev/null").c_str()), 0);
+  const std::string path = dir + "/camp.cairn";
+  std::string before;
+  {
+    store::OpenOptions o;
+    o.read_only = true;
+    store::Project p = store::Project::open(path, o);
+    const auto st = store::find_station(p, "RO-07");
+    ASSERT_TRUE(st);
+    const auto r = store::find_plane_by_ref(p, st->meta.uuid, "RO-07a");
+    ASSERT_TRUE(r);
+    before = r->typed;
+  }
+  std::string s = "wait 3\nwait-idle\n";
+  s += "wait-for \"Apply the correction\"\n";
+  s += "expect \"RO-07a\"\n";
+  s += "tap \"Apply the correction\"\n";
+  s += "wait-for \"Corrected RO-07a\"\n";
+  s += "wait-idle\n";
+  const auto run = gui(path, s, "--person RO --view crosscheck --flag reversed-dip");
+  ASSERT_EQ(run.status, 0) << run.err;
+  // The next check no longer raises it.
+  std::string out;
+  {
+    FILE* f = ::popen((std::string(CAIRN_BINARY) + " check " + path + " --json").c_str(), "r");
+    ASSERT_TRUE(f);
+    char buf[4096];
+    size_t n;
+    while ((n = std::fread(buf, 1, sizeof buf, f)) > 0) out.append(buf, n);
+    ASSERT_EQ(::pclose(f), 0);
+  }
+  EXPECT_NE(out.find("\"rule\":\"misfit\""), std::string::npos);  // the other flags are still there
+  EXPECT_EQ(out.find("reversed-dip"), std::string::npos);
+
+  store::OpenOptions o;
+  o.read_only = true;
+  store::Project p = store::Project::open(path, o);
+  const auto st = store::find_station(p, "RO-07");
+  const auto r = store::find_plane_by_ref(p, st->meta.uuid, "RO-07a");
+  ASSERT_TRUE(r);
+  const int b_strike = std::stoi(before.substr(0, 3)), a_strike = std::stoi(r->typed.substr(0, 3));
+  EXPECT_EQ((b_strike + 180) % 360, a_strike) << before << " -> " << r->typed;
+  EXPECT_EQ(before.substr(3), r->typed.substr(3));  // the dip is unchanged
+}

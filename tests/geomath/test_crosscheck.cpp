@@ -123,6 +123,9 @@ TEST(Crosscheck, ReversedDip) {
   EXPECT_EQ(r[0].reading, "a");
   EXPECT_GT(*r[0].misfit, 60);
   EXPECT_LT(*r[0].misfit_corrected, 3);
+  ASSERT_TRUE(r[0].corrected);
+  EXPECT_NEAR(angle_between_planes(*r[0].corrected, Plane{120, 35}), 0, 1e-9);
+  EXPECT_NEAR(r[0].corrected->strike, 120, 1e-9);
   auto m = flags_of(rep, "misfit");
   ASSERT_EQ(m.size(), 1u);
   EXPECT_EQ(m[0].reading, "b");
@@ -145,6 +148,8 @@ TEST(Crosscheck, DeclinationSuspect) {
   ASSERT_EQ(d.size(), 1u);
   EXPECT_EQ(d[0].reading, "a");
   EXPECT_LT(*d[0].misfit_corrected, 3);
+  ASSERT_TRUE(d[0].corrected);
+  EXPECT_NEAR(d[0].corrected->strike, 48 + 22, 1e-9);  // the declination added back
   ASSERT_EQ(flags_of(rep, "misfit").size(), 1u);
   EXPECT_EQ(flags_of(rep, "misfit")[0].reading, "b");
 }

@@ -1,0 +1,125 @@
+// Applying a flag's suggested correction to its reading. The expected attitudes
+// follow from the right-hand rule (a reading dipping the other way has its strike
+// turned by 180 degrees; common practice) and from the sign of the declination
+// (true azimuth = magnetic azimuth + east declination; NOAA's definition, as in
+// the World Magnetic Model reports).
+#include <gtest/gtest.h>
+
+#include <filesystem>
+
+#include "geomath/angles.h"
+#include "storage/corrections.h"
+#include "storage/repository.h"
+
+using namespace cairn;
+
+namespace {
+
+struct Fixture {
+  std::string dir, path;
+  Fixture() {
+    dir = (std::filesystem::temp_directory_path() / ("cairn-corr-" + std::to_string(::getpid()))).string();
+    std::filesystem::remove_all(dir);
+    std::filesystem::create_directories(dir);
+    path = dir + "/c.cairn";
+  }
+  ~Fixture() { std::filesystem::remove_all(dir); }
+  store::OpenOptions opts() const {
+    store::OpenOptions o;
+    o.backups = false;
+    // A fixed declination of 15 degrees east stands in for the magnetic model.
+    o.declination = [](double, double, double) { return store::Declination{15.0, "given"}; };
+    return o;
+  }
+};
+
+std::string add_reading(store::Project& p, const std::string& typed, store::North north, std::string* station = nullptr) {
+  store::Station s;
+  s.code = "S" + std::to_string(store::list_stations(p).size() + 1);
+  s.lat = 61.2;
+  s.lon = -135.6;
+  const std::string st = store::add(p, s);
+  if (station) *station = st;
+  store::PlanarReading r;
+  r.station = st;
+  r.kind = store::PlaneKind::Bedding;
+  r.typed = typed;
+  r.notation = store::PlaneNotation::StrikeDip;
+  r.north = north;
+  r.ref = "R1";
+  r.time = "2026-07-06T10:00:00-07:00";
+  return store::add(p, r);
+}
+
+geo::Flag flag(const std::string& rule, const std::string& reading, geo::Plane corrected) {
+  geo::Flag f;
+  f.rule = rule;
+  f.reading = reading;
+  f.ref = "R1";
+  f.corrected = corrected;
+  return f;
+}
+
+}  // namespace
+
+TEST(Corrections, ReversedDipTurnsTheStrikeAndIsAudited) {
+  Fixture fx;
+  store::Project p = store::Project::create(fx.path, {"C", "8N", store::North::True, 0}, fx.opts());
+  const std::string id = add_reading(p, "218/37", store::North::True);
+  auto done = store::apply_correction(p, flag("reversed-dip", id, geo::Plane{38, 37}));
+  ASSERT_TRUE(done.ok()) << done.error();
+  auto r = store::get_plane(p, id);
+  EXPECT_EQ(r->typed, "038/37");
+  EXPECT_NEAR(r->strike, 38, 1e-9);
+  EXPECT_NEAR(r->dip, 37, 1e-9);
+  EXPECT_NE(r->notes.find("reversed-dip"), std::string::npos);
+  EXPECT_EQ(store::audit_trail(p, id).back().action, "update");
+  // Applied twice: the stored reading no longer matches the flag, nothing is written.
+  auto again = store::apply_correction(p, flag("reversed-dip", id, geo::Plane{38, 37}));
+  EXPECT_FALSE(again.ok());
+  EXPECT_EQ(again.error(), "reading R1 has changed since the check; run it again");
+  EXPECT_EQ(store::get_plane(p, id)->typed, "038/37");
+}
+
+TEST(Corrections, DeclinationNotAppliedBecomesMagnetic) {
+  Fixture fx;
+  store::Project p = store::Project::create(fx.path, {"C", "8N", store::North::True, 0}, fx.opts());
+  // Read 020/50 off a compass without declination but recorded as true north.
+  const std::string id = add_reading(p, "020/50", store::North::True);
+  auto done = store::apply_correction(p, flag("declination-suspect", id, geo::Plane{35, 50}));
+  ASSERT_TRUE(done.ok()) << done.error();
+  auto r = store::get_plane(p, id);
+  EXPECT_EQ(r->north, store::North::Magnetic);
+  EXPECT_NEAR(r->declination, 15, 1e-9);
+  EXPECT_NEAR(r->strike, 35, 1e-9);  // 020 magnetic + 15 east = 035 true
+  EXPECT_NEAR(r->measured_strike, 20, 1e-9);
+}
+
+TEST(Corrections, DeclinationAppliedTwiceBecomesTrue) {
+  Fixture fx;
+  store::Project p = store::Project::create(fx.path, {"C", "8N", store::North::True, 0}, fx.opts());
+  // The compass already had the declination set; recorded as magnetic, so applied twice.
+  const std::string id = add_reading(p, "035/50", store::North::Magnetic);
+  EXPECT_NEAR(store::get_plane(p, id)->strike, 50, 1e-9);
+  auto done = store::apply_correction(p, flag("declination-suspect", id, geo::Plane{35, 50}));
+  ASSERT_TRUE(done.ok()) << done.error();
+  auto r = store::get_plane(p, id);
+  EXPECT_EQ(r->north, store::North::True);
+  EXPECT_NEAR(r->strike, 35, 1e-9);
+  EXPECT_NEAR(r->declination, 0, 1e-12);
+}
+
+TEST(Corrections, OtherRulesAndMismatchesWriteNothing) {
+  Fixture fx;
+  store::Project p = store::Project::create(fx.path, {"C", "8N", store::North::True, 0}, fx.opts());
+  const std::string id = add_reading(p, "020/50", store::North::True);
+  geo::Flag m = flag("misfit", id, geo::Plane{35, 50});
+  EXPECT_FALSE(store::has_correction(m));
+  EXPECT_EQ(store::apply_correction(p, m).error(), "flag misfit suggests no correction to apply");
+  // A true-north reading cannot have had the declination applied twice.
+  auto wrong = store::apply_correction(p, flag("declination-suspect", id, geo::Plane{5, 50}));
+  EXPECT_FALSE(wrong.ok());
+  EXPECT_EQ(wrong.error(), "the suggested turn of -15.0 degrees does not match the reading's north reference");
+  EXPECT_EQ(store::get_plane(p, id)->typed, "020/50");
+  EXPECT_EQ(store::audit_trail(p, id).size(), 1u);  // the insert only
+}
