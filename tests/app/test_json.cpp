@@ -1,4 +1,4 @@
-// app/cli/json.h against RFC 8259 (The JSON Data Interchange Format):
+// app/cli/json.h against the standard RFC 8259 (The JSON Data Interchange Format):
 // section 7 (strings: quotation mark, reverse solidus and control characters
 // U+0000..U+001F must be escaped; the two-character forms \" \\ \b \f \n \r \t
 // may be used), section 6 (numbers: no NaN or Infinity, so those become null),

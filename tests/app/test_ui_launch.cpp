@@ -2,7 +2,8 @@
 // is a display (the issue: "cairn gui [FILE] (and cairn with no arguments on a
 // machine with a display) opens it"); without one it prints the help, and
 // `cairn gui` says why it cannot open a window. Exit statuses as the other
-// verbs use them: 0 success, 1 failure, 2 usage error (BSD sysexits, GNU practice).
+// verbs use them: 0 success, 1 failure, 2 usage error (BSD sysexits, GNU practice;
+// common practice, no published source).
 #include <gtest/gtest.h>
 
 #include <cstdlib>

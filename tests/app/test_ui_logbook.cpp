@@ -1,7 +1,9 @@
 // The Logbook with more stations than fit on the screen: a finger drag scrolls
 // the list (and is not taken as a tap on the row it started on), and a tap on a
 // station then opens its Station sheet. Stations are listed by day and, within
-// a day, by time (ISO 8601 times of one day sort in time order as text).
+// a day, by time (ISO 8601 times of one day sort in time order as text: the
+// standard's fixed-width fields). Drag-to-scroll is common practice for touch
+// lists, no published source.
 #include "storage/repository.h"
 #include "tests/app/ui_test_support.h"
 

@@ -7,7 +7,7 @@
 // of its points (Pearson, 1901, "On lines and planes of closest fit"), here the
 // square's centre at 1000 m, and the Plan shows the data's bounds centred, so a
 // tap at the middle of the map must read 1000 m. The scale bar's length is a
-// 1, 2 or 5 times a power of ten (common cartographic practice): a pinch
+// 1, 2 or 5 times a power of ten (common practice in cartography): a pinch
 // that doubles the scale halves it from 100 m to 50 m.
 #include "geomath/geodesy.h"
 #include "storage/repository.h"

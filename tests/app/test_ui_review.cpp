@@ -5,7 +5,7 @@
 //  - a duplicate reading as the issue defines it (same station and kind,
 //    attitude within 2 degrees, time within 10 minutes): bedding 030/40 at 10:00
 //    and 031/40 at 10:05 at one station are a duplicate;
-//  - ISO 8601: the field day of "2026-07-05T10:00:00-07:00" is 2026-07-05 (the
+//  - the ISO 8601 standard: the field day of "2026-07-05T10:00:00-07:00" is 2026-07-05 (the
 //    date as written, in the station's local time).
 #include "storage/repository.h"
 #include "storage/reviews.h"

@@ -3,6 +3,8 @@
 // display; Mesa's llvmpipe renders OpenGL 3 there). The script pushes SDL
 // events into SDL's own queue and checks what the screen shows
 // (app/ui/script.h); the test then reads the project file through storage.
+// It holds no checks of its own: each test names its outside source (the
+// Markland test, the ISO 8601 standard, the right-hand rule, ...).
 #pragma once
 #include <gtest/gtest.h>
 

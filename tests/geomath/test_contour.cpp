@@ -2,7 +2,8 @@
 //
 // Outside sources: analytic fields whose level sets are known in closed form
 // (x^2 + y^2 = c is a circle of radius sqrt c and area pi c; x = c a straight line;
-// x y = 0 the two axes) and the line-circle intersection x^2 + y^2 = 1 (plane geometry).
+// x y = 0 the two axes) and the line-circle intersection x^2 + y^2 = 1 (plane geometry;
+// standard closed forms, value from memory).
 #include <gtest/gtest.h>
 
 #include <cmath>

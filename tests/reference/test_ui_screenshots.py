@@ -3,7 +3,7 @@
 `cairn demo` builds the invented field area; `cairn gui camp.cairn --view V
 --screenshot OUT --size WxH` is run under xvfb-run for each screen, outdoors
 and at night. Each PNG is decoded here with Python's zlib by the rules of the
-PNG specification (W3C, Portable Network Graphics (PNG) Specification, 2nd
+PNG standard (W3C, Portable Network Graphics (PNG) Specification, 2nd
 edition: signature, IHDR, IDAT, filter types 0-4 of section 9), independently
 of stb_image_write that wrote it, and checked:
   - the image is the size asked for, 8-bit RGBA;

@@ -1,6 +1,8 @@
 // Shared by the merge tests: a camp file with a small legend, tablets copied
 // from it (as a field camp hands out copies of the camp file each morning),
 // and an exact dump of a project file for record-for-record comparisons.
+// It holds no checks of its own: the merge tests name their outside sources
+// (the SQLite documentation, the GeoPackage standard, Snyder (1987)).
 #pragma once
 #include <sqlite3.h>
 

@@ -1,4 +1,6 @@
 // Helpers shared by the storage tests: a private temporary folder per test.
+// No checks of their own: each test names its outside source (SQLite
+// documentation, the GPX 1.1 schema, the ISO 8601 standard, common practice).
 #pragma once
 #include <cstdlib>
 #include <filesystem>

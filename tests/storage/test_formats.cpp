@@ -1,5 +1,5 @@
 // Text formats storage relies on: SHA-256 digests and ISO 8601 times.
-// Sources: FIPS 180-2, Appendix B (SHA-256 examples "abc", the 448-bit message
+// Sources: the FIPS 180-2 standard, Appendix B (SHA-256 examples "abc", the 448-bit message
 // and one million 'a'), the empty-message digest as listed by NIST's example
 // values; ISO 8601-1:2019 (calendar dates, extended format, UTC designator and
 // offsets), the Gregorian leap-year rule, and RFC 3339 section 5.6 (space for T).
