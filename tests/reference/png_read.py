@@ -1,16 +1,16 @@
 """Decoding a PNG file with Python's zlib alone, by the rules of the PNG
-specification (W3C, Portable Network Graphics (PNG) Specification, 2nd edition:
-signature, chunks with CRC-32, IHDR, IDAT, the filter types 0-4 of section 9),
-so that checks of Cairn's pictures do not rely on the library that wrote them.
-Imported by the reference checks; never run by ctest (not a test_*.py).
+standard (W3C, Portable Network Graphics (PNG) Specification, 2nd edition, also
+ISO/IEC 15948: signature, chunks with CRC-32, IHDR, IDAT, the filter types 0-4
+of section 9), so that checks of Cairn's pictures do not rely on the library
+that wrote them. Imported by the reference checks; never run by ctest (not a
+test_*.py).
 """
 import struct
 import zlib
 
 
-def read_png(path):
-    """(width, height, rows of RGBA bytes) of an 8-bit RGBA, non-interlaced PNG."""
-    data = open(path, "rb").read()
+def decode_png(data):
+    """(width, height, channels, pixel bytes) of an 8-bit RGB or RGBA, non-interlaced PNG."""
     assert data[:8] == b"\x89PNG\r\n\x1a\n", "not a PNG signature"
     pos, idat, ihdr = 8, b"", None
     while pos < len(data):
@@ -23,14 +23,17 @@ def read_png(path):
             ihdr = struct.unpack(">IIBBBBB", body)
         elif kind == b"IDAT":
             idat += body
+        elif kind == b"IEND":
+            break
         pos += 12 + length
     w, h, depth, colour, _, _, interlace = ihdr
-    assert depth == 8 and colour == 6 and interlace == 0, "expected 8-bit RGBA, not interlaced: %r" % (ihdr,)
+    assert depth == 8 and colour in (2, 6) and interlace == 0, "expected 8-bit RGB/RGBA, not interlaced: %r" % (ihdr,)
+    bpp = 3 if colour == 2 else 4
     raw = zlib.decompress(idat)
-    bpp, stride = 4, w * 4
-    rows, prev = [], bytearray(stride)
+    stride = w * bpp
+    out, prev = bytearray(h * stride), bytearray(stride)
     i = 0
-    for _ in range(h):
+    for y in range(h):
         f = raw[i]
         line = bytearray(raw[i + 1:i + 1 + stride])
         i += 1 + stride
@@ -49,6 +52,14 @@ def read_png(path):
                 pa, pb, pc = abs(p - a), abs(p - b), abs(p - c)
                 pred = a if pa <= pb and pa <= pc else (b if pb <= pc else c)
                 line[x] = (line[x] + pred) & 0xFF
-        rows.append(bytes(line))
+        out[y * stride:(y + 1) * stride] = line
         prev = line
-    return w, h, rows
+    return w, h, bpp, bytes(out)
+
+
+def read_png(path):
+    """(width, height, rows of RGBA bytes) of an 8-bit RGBA, non-interlaced PNG."""
+    w, h, bpp, px = decode_png(open(path, "rb").read())
+    assert bpp == 4, "expected RGBA"
+    stride = w * 4
+    return w, h, [px[y * stride:(y + 1) * stride] for y in range(h)]

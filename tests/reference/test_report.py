@@ -17,12 +17,13 @@ import html.parser
 import os
 import re
 import shutil
-import struct
 import subprocess
 import sys
 import tempfile
 import xml.etree.ElementTree as ET
-import zlib
+
+sys.path.insert(0, os.path.dirname(os.path.abspath(__file__)))
+from png_read import decode_png  # noqa: E402  (the PNG standard, decoded with zlib)
 
 FAILS = []
 SVG_NS = "{http://www.w3.org/2000/svg}"
@@ -37,56 +38,6 @@ def check(ok, what):
 
 def run(cmd, **kw):
     return subprocess.run(cmd, capture_output=True, text=True, **kw)
-
-
-# ---------------------------------------------------------------- PNG (ISO 15948)
-
-def decode_png(data):
-    """Returns (width, height, channels, bytes) of an 8-bit RGB/RGBA, non-interlaced PNG."""
-    if data[:8] != b"\x89PNG\r\n\x1a\n":
-        raise ValueError("not a PNG")
-    pos, idat, ihdr = 8, b"", None
-    while pos < len(data):
-        length, kind = struct.unpack(">I4s", data[pos:pos + 8])
-        body = data[pos + 8:pos + 8 + length]
-        pos += 12 + length
-        if kind == b"IHDR":
-            ihdr = struct.unpack(">IIBBBBB", body)
-        elif kind == b"IDAT":
-            idat += body
-        elif kind == b"IEND":
-            break
-    width, height, depth, colour, _, _, interlace = ihdr
-    if depth != 8 or colour not in (2, 6) or interlace != 0:
-        raise ValueError("unsupported PNG layout %r" % (ihdr,))
-    ch = 3 if colour == 2 else 4
-    raw = zlib.decompress(idat)
-    stride = width * ch
-    out = bytearray(height * stride)
-    prev = bytearray(stride)
-    i = 0
-    for y in range(height):
-        f = raw[i]
-        line = bytearray(raw[i + 1:i + 1 + stride])
-        i += 1 + stride
-        for x in range(stride):  # filters 0-4, PNG specification section 9
-            a = line[x - ch] if x >= ch else 0
-            b = prev[x]
-            c = prev[x - ch] if x >= ch else 0
-            if f == 1:
-                line[x] = (line[x] + a) & 255
-            elif f == 2:
-                line[x] = (line[x] + b) & 255
-            elif f == 3:
-                line[x] = (line[x] + (a + b) // 2) & 255
-            elif f == 4:
-                p = a + b - c
-                pa, pb, pc = abs(p - a), abs(p - b), abs(p - c)
-                pr = a if pa <= pb and pa <= pc else (b if pb <= pc else c)
-                line[x] = (line[x] + pr) & 255
-        out[y * stride:(y + 1) * stride] = line
-        prev = line
-    return width, height, ch, bytes(out)
 
 
 # ---------------------------------------------------------------- HTML helpers
