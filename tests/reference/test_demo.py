@@ -10,6 +10,7 @@ within 2 degrees of the planes the scenario laid out. Counts are the issue's
 """
 import json
 import os
+import shutil
 import subprocess
 import sys
 import tempfile
@@ -120,6 +121,15 @@ with tempfile.TemporaryDirectory() as tmp:
         a = run("list", camp, kind).stdout
         b = run("list", os.path.join(d2, "camp.cairn"), kind).stdout
         t.check(a == b, "demo is deterministic (%s)" % kind)
+    # The bundled project files hold the same records as a fresh build (read through
+    # a copy, so the bundled files are not touched).
+    bundled = os.path.join(tmp, "bundled")
+    shutil.copytree(os.path.join(args.source, "demo_project"), bundled)
+    for f in ("camp.cairn", "tablet-a.cairn", "tablet-b.cairn"):
+        for kind in ("units", "contacts", "stations", "planes", "lines", "points"):
+            a = run("list", os.path.join(d1, f), kind).stdout
+            b = run("list", os.path.join(bundled, f), kind).stdout
+            t.check(a == b and a, "bundled demo_project/%s is the current demo (%s)" % (f, kind))
     for name in ("notebook.csv", "handheld.gpx"):
         with open(os.path.join(d1, name)) as fa, open(os.path.join(args.source, "demo_project", name)) as fb:
             t.check(fa.read() == fb.read(), "bundled demo_project/%s is the current demo" % name)
