@@ -289,3 +289,22 @@ TEST(Girdle, FailsWithReasons) {
 
 }  // namespace
 }  // namespace cairn::geo
+
+TEST(Fisher, PublishedWorkedExample) {
+  // Worked example published with PmagPy (Tauxe et al., 2016, G-cubed 17, 2450:
+  // ipmag.fisher_mean documentation): four directions, declination / inclination
+  // 140/21, 127/23, 142/19, 136/22 give the mean 136.308/21.348, R = 3.98121,
+  // k = 159.69 and a95 = 7.2929 degrees. Downward inclinations are lower-hemisphere
+  // lines (trend = declination, plunge = inclination).
+  const double dec[] = {140, 127, 142, 136}, inc[] = {21, 23, 19, 22};
+  std::vector<cairn::geo::Vec3> v;
+  for (int i = 0; i < 4; ++i) v.push_back(cairn::geo::line_vector({dec[i], inc[i]}));
+  auto f = cairn::geo::fisher_mean_directions(v);
+  ASSERT_TRUE(f.ok()) << f.error();
+  EXPECT_NEAR(f->mean.trend, 136.30838974272072, 1e-9);
+  EXPECT_NEAR(f->mean.plunge, 21.34778402689999, 1e-9);
+  EXPECT_NEAR(f->resultant, 3.9812138971889026, 1e-12);
+  EXPECT_NEAR(f->kappa, 159.69251473636305, 1e-8);
+  ASSERT_TRUE(f->alpha95);
+  EXPECT_NEAR(*f->alpha95, 7.292891411309177, 1e-9);
+}
