@@ -116,6 +116,16 @@ void GpsClient::run(std::string host, std::string port) {
       f.satellites = data.satellites_used;
       {
         std::lock_guard<std::mutex> l(mu_);
+        // A receiver's cycle can report the position (NMEA RMC) before the altitude
+        // (GGA): within a 3D fix, keep the altitude of the previous report for up to
+        // two seconds rather than forget it between two sentences.
+        if (f.mode >= MODE_3D && !f.altitude && fix_.altitude && fix_.mode >= MODE_3D &&
+            std::chrono::steady_clock::now() - at_ < std::chrono::seconds(2)) {
+          f.altitude = fix_.altitude;
+          f.v_accuracy = fix_.v_accuracy;
+        }
+        // A 3D fix whose altitude has not come yet is, for a station, a 2D fix.
+        if (f.mode >= MODE_3D && !f.altitude) f.mode = MODE_2D;
         fix_ = f;
         at_ = std::chrono::steady_clock::now();
       }
