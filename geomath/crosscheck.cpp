@@ -229,7 +229,6 @@ CheckReport run_crosscheck(const CheckInput& in, const CheckOptions& o) {
         worst = "#" + std::to_string(f->worst_index + 1) + " (" + fmt("%+.1f m", f->worst_residual) + ")";
         cf.worst_points.push_back(f->worst_index);
       }
-      flag.misfit = f->rms;
       flag.message = c.name + " does not lie on one plane (rms " + fmt("%.1f m", f->rms) +
                      "); worst points " + worst + ". Readings on it are not compared.";
       flag.action = "Check the worst points' positions; if the contact is folded or faulted, split it "

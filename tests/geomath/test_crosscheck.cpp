@@ -195,6 +195,7 @@ TEST(Crosscheck, NotPlanarFoldedAndMislocated) {
   ASSERT_EQ(np.size(), 2u);
   EXPECT_EQ(np[0].contact, "folded");
   EXPECT_EQ(np[1].contact, "mislocated");
+  EXPECT_FALSE(np[0].misfit);  // misfit is an angle between poles; a contact-wide flag has none
   ASSERT_FALSE(rep.fits[1].worst_points.empty());
   EXPECT_EQ(rep.fits[1].worst_points, std::vector<size_t>{7u});  // only the moved point
   EXPECT_TRUE(rep.fits[2].usable);
