@@ -104,12 +104,6 @@ std::vector<Outlier> leave_one_out(const std::vector<FitPoint>& all) {
   return out;
 }
 
-const CheckContact* find_contact(const CheckInput& in, const std::string& id) {
-  for (const auto& c : in.contacts)
-    if (c.uuid == id) return &c;
-  return nullptr;
-}
-
 std::string plane_text(const Plane& p) { return format_strike_dip(p); }
 
 }  // namespace
@@ -290,7 +284,11 @@ CheckReport run_crosscheck(const CheckInput& in, const CheckOptions& o) {
   }
   for (const auto& r : in.planes) {
     if (r.kind != "bedding" && r.kind != "contact") continue;
-    const CheckContact* contact = r.contact.empty() ? nullptr : find_contact(in, r.contact);
+    const CheckContact* contact = nullptr;
+    if (!r.contact.empty()) {
+      auto it = fit_of.find(r.contact);  // fits are in the contacts' order
+      if (it != fit_of.end()) contact = &in.contacts[it->second];
+    }
     if (!contact && r.contact.empty() && o.nearby_radius > 0) {
       auto st = station_of.find(r.station);
       if (st != station_of.end()) {
