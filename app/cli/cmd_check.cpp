@@ -196,11 +196,17 @@ int run_check(const Args& in, std::ostream& out, std::ostream& err) {
     err << "warning: no magnetic model (" << e.what() << "); declination-suspect is not checked\n";
   }
   store::LocalDeclination decl;
+  int outside = 0;  // readings dated outside the model's validity
   if (model)
-    decl = [model](double lat, double lon, double year) -> std::optional<double> {
+    decl = [model, &outside](double lat, double lon, double year) -> std::optional<double> {
+      if (!model->in_validity(year)) ++outside;
       return model->evaluate(lat, lon, 0.0, year).declination;
     };
   const store::CheckData data = store::load_check_input(p, decl);
+  if (outside > 0)
+    err << "warning: " << outside << " reading" << (outside == 1 ? " is" : "s are") << " dated outside "
+        << model->name() << "'s validity (" << model->valid_from() << " to " << model->valid_to()
+        << "); " << (outside == 1 ? "its" : "their") << " declination is extrapolated and less certain\n";
   const geo::CheckReport rep = geo::run_crosscheck(data.input, o);
   if (json) write_json(out, data, rep, min);
   else write_text(out, data, rep, min);
