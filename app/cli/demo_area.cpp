@@ -213,7 +213,7 @@ Area build_area() {
   // Colours from the Okabe & Ito (2008) palette.
   const UnitDef unit_defs[] = {{"Vg", "Vell gneiss", "#CC79A7"},        {"Sq", "Skarra quartzite", "#E69F00"},
                                {"Ss", "Skarra slate", "#56B4E9"},       {"Tc", "Tolm conglomerate", "#009E73"},
-                               {"Ts", "Tolm sandstone", "#F0E442"},     {"Hg", "Heddle granite", "#D55E00"}};
+                               {"Ts", "Tolm sandstone", "#F0E442"},     {"Hg", "Hvalt granite", "#D55E00"}};
   std::vector<store::Unit> units;
   for (int i = 0; i < 6; ++i) {
     store::Unit u;
