@@ -323,15 +323,23 @@ ProjectInfo Project::info() {
   i.local_device = s.text(5);
   i.created = s.text(6);
   i.updated = s.text(7);
+  // A file read without migrating it may predate the setting (schema version 4).
+  if (schema_version() >= 4) {
+    Stmt n(impl_->db, "SELECT nearby_radius FROM project WHERE id = 1");
+    if (n.step()) i.nearby_radius = n.real(0);
+  }
   return i;
 }
 
 void Project::update_info(const ProjectInfo& i) {
   const std::string zone = checked_settings(i.name, i.utm_zone, i.declination);
+  if (!std::isfinite(i.nearby_radius) || i.nearby_radius < 0 || i.nearby_radius > 100000)
+    throw ValidationError("nearby_radius", "nearby-range", "the nearby radius must be within 0..100000 metres");
   write([&] {
-    Stmt s(impl_->db, "UPDATE project SET name=?, utm_zone=?, north_default=?, declination=?, updated=? WHERE id=1");
+    Stmt s(impl_->db, "UPDATE project SET name=?, utm_zone=?, north_default=?, declination=?, nearby_radius=?, "
+                      "updated=? WHERE id=1");
     s.bind(1, i.name).bind_text_or_null(2, zone).bind(3, to_string(i.north_default));
-    s.bind(4, i.declination).bind(5, utc_now());
+    s.bind(4, i.declination).bind(5, i.nearby_radius).bind(6, utc_now());
     s.run();
   });
 }

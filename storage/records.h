@@ -73,6 +73,9 @@ struct ProjectInfo {
   North north_default = North::True;  // north reference of readings that do not say
   double declination = 0;     // project setting: declination (degrees, east positive) used
                               // for magnetic readings when no magnetic model is supplied
+  // Compare bedding/contact readings that name no contact with the nearest
+  // contact whose points lie within this many metres (0: off).
+  double nearby_radius = 0;
   std::string local_device;   // device recorded when the file was created
   std::string created;
   std::string updated;

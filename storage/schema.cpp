@@ -261,6 +261,14 @@ CREATE TABLE key_clashes (
 );
 )SQL";
 
+// Version 4: the project's option to compare bedding and contact readings that
+// name no contact with the nearest contact whose points lie within this many
+// metres (0: off), so that every check of the file uses the same setting.
+const char* const kMigrate3to4 = R"SQL(
+ALTER TABLE project ADD COLUMN nearby_radius REAL NOT NULL DEFAULT 0
+  CHECK (nearby_radius BETWEEN 0 AND 100000);
+)SQL";
+
 const char* const kRecordTables[] = {"devices", "people", "units",  "contacts", "stations",
                                      "planes",  "lines",  "points", "photos",   nullptr};
 
@@ -278,7 +286,7 @@ void create_schema(Db& db) {
 void migrate(Db& db, int from) {
   if (from < 1 || from > kSchemaVersion)
     throw std::logic_error("no migration from schema version " + std::to_string(from));
-  static const char* const steps[] = {nullptr, kMigrate1to2, kMigrate2to3};  // steps[v]: v -> v+1
+  static const char* const steps[] = {nullptr, kMigrate1to2, kMigrate2to3, kMigrate3to4};  // steps[v]: v -> v+1
   for (int v = from; v < kSchemaVersion; ++v) {
     db.exec(steps[v]);
     db.exec("PRAGMA user_version = " + std::to_string(v + 1));

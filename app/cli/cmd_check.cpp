@@ -178,7 +178,7 @@ int run_check(const Args& in, std::ostream& out, std::ostream& err) {
     min = *v;
   }
   geo::CheckOptions o;
-  o.nearby_radius = option_number(args, "--nearby", 0, 0, 100000);
+  const double nearby = option_number(args, "--nearby", -1, 0, 100000);  // -1: the project's setting
   o.friction_angle = option_number(args, "--friction", o.friction_angle, 0, 89);
   o.confidence = option_number(args, "--confidence", o.confidence, 0.5, 0.9999);
   reject_unknown_options(args);
@@ -189,6 +189,7 @@ int run_check(const Args& in, std::ostream& out, std::ostream& err) {
   oo.backups = false;
   store::Project p = store::Project::open(args[0], oo);
   if (!p.problem().empty()) err << "warning: " << p.problem() << "\n";
+  o.nearby_radius = nearby >= 0 ? nearby : p.info().nearby_radius;
   const geo::MagneticModel* model = nullptr;
   try {
     model = &wmm();
@@ -215,7 +216,7 @@ int run_check(const Args& in, std::ostream& out, std::ostream& err) {
 
 }  // namespace
 
-CAIRN_COMMAND(Command{"check", "cairn check FILE [--json] [--min-severity note|query|conflict|hazard] [--nearby METRES] [--friction DEG] [--confidence P]",
+CAIRN_COMMAND(Command{"check", "cairn check FILE [--json] [--min-severity note|query|conflict|hazard] [--nearby METRES (default: the project's)] [--friction DEG] [--confidence P]",
                       "Fit every contact and cross-check the readings against the fits", run_check});
 
 }  // namespace cairn::cli

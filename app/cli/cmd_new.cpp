@@ -1,5 +1,6 @@
-// `cairn new FILE --name NAME [--utm ZONE] [--north true|magnetic] [--declination DEG]`:
+// `cairn new FILE --name NAME [--utm ZONE] [--north true|magnetic] [--declination DEG] [--nearby METRES]`:
 // makes an empty project file.
+#include <optional>
 #include <ostream>
 #include <stdexcept>
 
@@ -16,6 +17,7 @@ int run(const Args& in, std::ostream& out, std::ostream&) {
   const auto utm = take_option(args, "--utm");
   const auto north = take_option(args, "--north");
   const auto decl = take_option(args, "--declination");
+  const auto nearby = take_option(args, "--nearby");
   reject_unknown_options(args);
   if (args.size() != 1) throw std::invalid_argument("expected one FILE");
   if (!name || name->empty()) throw std::invalid_argument("--name NAME is required");
@@ -32,12 +34,25 @@ int run(const Args& in, std::ostream& out, std::ostream&) {
     if (!d) throw std::invalid_argument("--declination '" + *decl + "' is not a number (degrees, east positive)");
     np.declination = *d;
   }
+  std::optional<double> radius;
+  if (nearby) {
+    radius = store::parse_decimal(*nearby);
+    if (!radius || *radius < 0 || *radius > 100000)
+      throw std::invalid_argument("--nearby '" + *nearby + "' must be a distance from 0 to 100000 metres");
+  }
   try {
     auto p = store::Project::create(args[0], np, cli_open_options(false));
+    if (radius) {
+      auto i = p.info();
+      i.nearby_radius = *radius;
+      p.update_info(i);
+    }
     const auto info = p.info();
     out << "created " << args[0] << ": project '" << info.name << "'"
         << (info.utm_zone.empty() ? std::string(", no UTM zone") : ", UTM zone " + info.utm_zone)
-        << ", readings default to " << store::to_string(info.north_default) << " north\n";
+        << ", readings default to " << store::to_string(info.north_default) << " north"
+        << (info.nearby_radius > 0 ? ", unnamed readings compared within " + std::to_string(static_cast<int>(info.nearby_radius)) + " m of a contact" : std::string())
+        << "\n";
   } catch (const store::ValidationError& e) {
     throw std::invalid_argument(e.what());
   }
@@ -47,7 +62,7 @@ int run(const Args& in, std::ostream& out, std::ostream&) {
 }  // namespace
 
 CAIRN_COMMAND(Command{"new",
-                      "cairn new FILE --name NAME [--utm ZONE] [--north true|magnetic] [--declination DEGREES]",
+                      "cairn new FILE --name NAME [--utm ZONE] [--north true|magnetic] [--declination DEGREES] [--nearby METRES]",
                       "make a new, empty project file (NAME.cairn)", run});
 
 }  // namespace cairn::cli

@@ -54,3 +54,38 @@ TEST(CmdCheck, WarnsForReadingsOutsideTheModelsValidity) {
   EXPECT_NE(now.out.find("0 flags"), std::string::npos) << now.out;
   std::filesystem::remove_all(dir);
 }
+
+TEST(CmdCheck, NearbyComparisonIsAProjectSetting) {
+  // A bedding reading that names no contact, at demo station MT-18 beside the Tolm
+  // unconformity (laid out 200/20, demo_project/README.md), dipping 60 degrees to
+  // 190: 45 degrees or more from the contact's plane, so once compared it is a misfit.
+  // The setting is stored in the project file, so a camp file made with it checks
+  // the same as `--nearby`.
+  const auto dir = std::filesystem::temp_directory_path() / ("cairn-nearby-" + std::to_string(::getpid()));
+  std::filesystem::create_directories(dir);
+  const std::string bin = CAIRN_BINARY, d = dir.string();
+  ASSERT_EQ(sh(bin + " demo " + d + "/demo").status, 0);
+  std::ofstream(d + "/odd.csv") << "station,kind,strike,dip,ref\nMT-18,bedding,100,60,MT-18x\n";
+  ASSERT_EQ(sh(bin + " import " + d + "/demo/camp.cairn planes " + d + "/odd.csv").status, 0);
+  ASSERT_EQ(sh(bin + " new " + d + "/camp.cairn --name camp --utm 8N --nearby 300").status, 0);
+  ASSERT_EQ(sh(bin + " merge " + d + "/camp.cairn " + d + "/demo/camp.cairn").status, 0);
+  const ShellRun off = sh(bin + " check " + d + "/demo/camp.cairn --json");
+  const ShellRun on = sh(bin + " check " + d + "/demo/camp.cairn --json --nearby 300");
+  const ShellRun setting = sh(bin + " check " + d + "/camp.cairn --json");
+  // The flags part of the JSON (the fits and where-next lists follow the files' record order).
+  auto flags = [](const std::string& j) {
+    const size_t a = j.find("\"flags\":"), b = j.find("\"where_next\":");
+    return a == std::string::npos || b == std::string::npos ? std::string() : j.substr(a, b - a);
+  };
+  EXPECT_EQ(off.out.find("MT-18x"), std::string::npos);
+  EXPECT_NE(on.out.find("\"rule\":\"misfit\",\"severity\":\"conflict\",\"station\":\"MT-18\",\"ref\":\"MT-18x\""),
+            std::string::npos);
+  EXPECT_FALSE(flags(on.out).empty());
+  EXPECT_EQ(flags(setting.out), flags(on.out));
+  // A bad radius is refused and nothing is made.
+  const ShellRun bad = sh(bin + " new " + d + "/bad.cairn --name bad --nearby -5");
+  EXPECT_EQ(bad.status, 2);
+  EXPECT_NE(bad.out.find("--nearby '-5' must be a distance from 0 to 100000 metres"), std::string::npos) << bad.out;
+  EXPECT_FALSE(std::filesystem::exists(d + "/bad.cairn"));
+  std::filesystem::remove_all(dir);
+}

@@ -533,7 +533,9 @@ TEST(Merge, AnOlderTabletFileIsMergedAndLeftUntouched) {
   }
   {
     Db db(a, SQLITE_OPEN_READWRITE);
-    db.exec("DROP TABLE conflict_values; DROP TABLE conflicts; DROP TABLE key_clashes; PRAGMA user_version = 2");
+    // Back to version 2: without the v3 tables and the v4 project setting.
+    db.exec("DROP TABLE conflict_values; DROP TABLE conflicts; DROP TABLE key_clashes; "
+            "ALTER TABLE project DROP COLUMN nearby_radius; PRAGMA user_version = 2");
     db.exec("PRAGMA journal_mode = DELETE");
   }
   const std::string bytes = read_file(a);
