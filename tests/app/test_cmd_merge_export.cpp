@@ -3,7 +3,7 @@
 // a failure, 2 for a usage error (common practice for command-line tools, as in
 // BSD sysexits and GNU tools); RFC 8259 for the shape of the --json output; the
 // GeoPackage 1.3 standard (OGC 12-128r18) for the EPSG code of the UTM layers.
-#include <gtest/gtest.h>
+#include "tests/app/cli_test_support.h"
 
 #include <cstdlib>
 #include <filesystem>
@@ -12,36 +12,13 @@
 #include <string>
 #include <sys/wait.h>
 
+using cairn::cli_test::CliTest;
+using cairn::cli_test::Outcome;
+
 namespace {
 
-struct Outcome {
-  int status;
-  std::string out, err;
-};
-
-class CampVerbs : public ::testing::Test {
+class CampVerbs : public CliTest {
 protected:
-  void SetUp() override {
-    std::string tmpl = (std::filesystem::temp_directory_path() / "cairn-camp-XXXXXX").string();
-    ASSERT_NE(mkdtemp(tmpl.data()), nullptr);
-    dir_ = tmpl;
-  }
-  void TearDown() override { std::filesystem::remove_all(dir_); }
-
-  std::string file(const std::string& name) const { return (dir_ / name).string(); }
-  void write(const std::string& name, const std::string& text) const { std::ofstream(file(name)) << text; }
-  static std::string slurp(const std::string& path) {
-    std::ifstream f(path, std::ios::binary);
-    std::stringstream ss;
-    ss << f.rdbuf();
-    return ss.str();
-  }
-  Outcome cairn(const std::string& args, const std::string& env = "") const {
-    const std::string cmd = "cd '" + dir_.string() + "' && " + env + " '" + std::string(CAIRN_BINARY) + "' " + args +
-                            " >stdout.txt 2>stderr.txt";
-    const int rc = std::system(cmd.c_str());
-    return {WIFEXITED(rc) ? WEXITSTATUS(rc) : -1, slurp(file("stdout.txt")), slurp(file("stderr.txt"))};
-  }
   // A camp file with a legend, and two tablets copied from it with a station each.
   void camp_and_tablets() {
     ASSERT_EQ(cairn("new camp.cairn --name 'Quartz Gully' --utm 33N").status, 0);
@@ -54,8 +31,6 @@ protected:
     ASSERT_EQ(cairn("import tabletA.cairn stations a.csv").status, 0);
     ASSERT_EQ(cairn("import tabletB.cairn stations b.csv").status, 0);
   }
-
-  std::filesystem::path dir_;
 };
 
 }  // namespace

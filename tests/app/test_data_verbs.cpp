@@ -2,7 +2,7 @@
 // Sources: the command descriptions; exit status 0 for success, 1 for
 // a failure, 2 for a usage error (common practice for command-line tools, as
 // in BSD sysexits and GNU tools); GPX 1.1 schema for the waypoint file.
-#include <gtest/gtest.h>
+#include "tests/app/cli_test_support.h"
 
 #include <array>
 #include <cstdio>
@@ -13,40 +13,12 @@
 #include <string>
 #include <sys/wait.h>
 
+using cairn::cli_test::CliTest;
+using cairn::cli_test::Outcome;
+
 namespace {
 
-struct Outcome {
-  int status;
-  std::string out, err;
-};
-
-class Verbs : public ::testing::Test {
-protected:
-  void SetUp() override {
-    std::string tmpl = (std::filesystem::temp_directory_path() / "cairn-verbs-XXXXXX").string();
-    ASSERT_NE(mkdtemp(tmpl.data()), nullptr);
-    dir_ = tmpl;
-  }
-  void TearDown() override { std::filesystem::remove_all(dir_); }
-
-  std::string file(const std::string& name) const { return (dir_ / name).string(); }
-  void write(const std::string& name, const std::string& text) const { std::ofstream(file(name)) << text; }
-  static std::string slurp(const std::string& path) {
-    std::ifstream f(path);
-    std::stringstream ss;
-    ss << f.rdbuf();
-    return ss.str();
-  }
-  // Runs `cairn ARGS` in the temporary folder.
-  Outcome cairn(const std::string& args) const {
-    const std::string cmd = "cd '" + dir_.string() + "' && '" + std::string(CAIRN_BINARY) + "' " + args +
-                            " >stdout.txt 2>stderr.txt";
-    const int rc = std::system(cmd.c_str());
-    return {WIFEXITED(rc) ? WEXITSTATUS(rc) : -1, slurp(file("stdout.txt")), slurp(file("stderr.txt"))};
-  }
-
-  std::filesystem::path dir_;
-};
+class Verbs : public CliTest {};
 
 }  // namespace
 
