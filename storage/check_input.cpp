@@ -2,10 +2,12 @@
 
 #include <stdexcept>
 
-#include "storage/iso8601.h"
+#include "formats/iso8601.h"
 #include "storage/repository.h"
 
 namespace cairn::store {
+
+using namespace cairn::formats;  // file formats and value rules (formats/)
 
 namespace {
 

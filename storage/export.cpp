@@ -5,12 +5,14 @@
 #include <stdexcept>
 
 #include "storage/export_layers.h"
-#include "storage/csv.h"
+#include "formats/csv.h"
 #include "storage/import.h"
 
 namespace fs = std::filesystem;
 
 namespace cairn::store {
+
+using namespace cairn::formats;  // file formats and value rules (formats/)
 
 namespace {
 

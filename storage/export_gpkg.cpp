@@ -10,12 +10,14 @@
 
 #include "storage/export.h"
 #include "storage/export_layers.h"
-#include "storage/ids.h"
+#include "formats/ids.h"
 #include "storage/sqlite.h"
 
 namespace fs = std::filesystem;
 
 namespace cairn::store {
+
+using namespace cairn::formats;  // file formats and value rules (formats/)
 
 namespace {
 

@@ -8,12 +8,14 @@
 #include <unordered_map>
 
 #include "geomath/angles.h"
-#include "storage/ids.h"
+#include "formats/ids.h"
 #include "storage/repository.h"
 
 namespace fs = std::filesystem;
 
 namespace cairn::store {
+
+using namespace cairn::formats;  // file formats and value rules (formats/)
 
 namespace {
 

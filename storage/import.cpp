@@ -7,13 +7,15 @@
 
 #include "geomath/geodesy.h"
 #include "geomath/notation.h"
-#include "storage/csv.h"
-#include "storage/gpx.h"
+#include "formats/csv.h"
+#include "formats/gpx.h"
 #include "storage/repository.h"
-#include "storage/sha256.h"
-#include "storage/validate.h"
+#include "formats/sha256.h"
+#include "formats/validate.h"
 
 namespace cairn::store {
+
+using namespace cairn::formats;  // file formats and value rules (formats/)
 
 namespace {
 

@@ -9,17 +9,31 @@
 #include <stdexcept>
 
 #include "geomath/geodesy.h"
-#include "storage/ids.h"
+#include "formats/ids.h"
 #include "storage/schema.h"
-#include "storage/sha256.h"
+#include "formats/sha256.h"
 #include "storage/sqlite.h"
-#include "storage/validate.h"
+#include "formats/validate.h"
 
 namespace fs = std::filesystem;
 
 namespace cairn::store {
 
+using namespace cairn::formats;  // file formats and value rules (formats/)
+
 namespace {
+
+// What the merges table keeps of a source file's path: the path relative to the
+// camp file's folder when the source lies inside it, otherwise its file name, so
+// a bundled or copied camp file carries no machine's absolute paths.
+std::string relative_peer_path(const std::string& camp_file, const std::string& source) {
+  std::error_code ec;
+  const fs::path camp_dir = fs::absolute(fs::path(camp_file), ec).parent_path();
+  const fs::path src = fs::absolute(fs::path(source), ec).lexically_normal();
+  const fs::path rel = src.lexically_relative(camp_dir.lexically_normal());
+  if (!rel.empty() && *rel.begin() != "..") return rel.generic_string();
+  return fs::path(source).filename().string();
+}
 
 // ---- rows as typed values ------------------------------------------------------
 
@@ -417,7 +431,7 @@ public:
       rep_.changed = true;
       Stmt m(db_, "INSERT INTO merges(uuid, peer_file_uuid, peer_name, peer_path, merged_at, device, added, skipped, "
                   "conflicts) VALUES (?,?,?,?,?,?,?,?,?)");
-      m.bind(1, new_uuid()).bind(2, sm.file_uuid).bind(3, sm.name).bind(4, path).bind(5, utc_now());
+      m.bind(1, new_uuid()).bind(2, sm.file_uuid).bind(3, sm.name).bind(4, relative_peer_path(p_.path(), path)).bind(5, utc_now());
       m.bind(6, p_.device()).bind(7, sm.counts.added + sm.counts.updated).bind(8, sm.counts.skipped);
       m.bind(9, sm.counts.conflicts);
       m.run();

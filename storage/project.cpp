@@ -12,13 +12,15 @@
 
 #include "geomath/geodesy.h"
 #include "geomath/magnetic.h"
-#include "storage/ids.h"
-#include "storage/iso8601.h"
+#include "formats/ids.h"
+#include "formats/iso8601.h"
 #include "storage/schema.h"
 
 namespace fs = std::filesystem;
 
 namespace cairn::store {
+
+using namespace cairn::formats;  // file formats and value rules (formats/)
 
 struct Project::Impl {
   std::string path;

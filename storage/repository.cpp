@@ -8,10 +8,12 @@
 #include "geomath/angles.h"
 #include "geomath/notation.h"
 #include "geomath/orientation.h"
-#include "storage/ids.h"
-#include "storage/validate.h"
+#include "formats/ids.h"
+#include "formats/validate.h"
 
 namespace cairn::store {
+
+using namespace cairn::formats;  // file formats and value rules (formats/)
 
 namespace {
 

@@ -1,10 +1,12 @@
 #include "storage/reviews.h"
 
-#include "storage/ids.h"
-#include "storage/iso8601.h"
+#include "formats/ids.h"
+#include "formats/iso8601.h"
 #include "storage/sqlite.h"
 
 namespace cairn::store {
+
+using namespace cairn::formats;  // file formats and value rules (formats/)
 
 namespace {
 

@@ -32,9 +32,6 @@ std::vector<std::string> asset_dirs() {
     dirs.push_back((exe_dir / ".." / "share" / "cairn").lexically_normal().string());
     dirs.push_back((exe_dir / ".." / "assets").lexically_normal().string());
   }
-#ifdef CAIRN_ASSETS_DIR
-  dirs.emplace_back(CAIRN_ASSETS_DIR);
-#endif
   return dirs;
 }
 

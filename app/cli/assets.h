@@ -8,8 +8,9 @@ namespace cairn::cli {
 
 // The folders searched for an asset, in order:
 //   1. $CAIRN_ASSETS (when set and not empty),
-//   2. next to the executable: ../share/cairn and ../assets,
-//   3. the folder compiled in as CAIRN_ASSETS_DIR (the source tree's assets/).
+//   2. next to the executable: ../share/cairn (an install: bin/cairn) and
+//      ../assets (the build tree: build/app/cairn, with build/assets copied
+//      there by the build). No path of the source tree is compiled in.
 std::vector<std::string> asset_dirs();
 
 // Full path of the first existing file NAME in asset_dirs(); "" when none has it.

@@ -19,9 +19,11 @@
 #include "geomath/notation.h"
 #include "geomath/plane_fit.h"
 #include "geomath/strike_lines.h"
-#include "storage/csv.h"
+#include "formats/csv.h"
 
 namespace cairn::cli {
+
+using namespace cairn::formats;  // file formats and value rules (formats/)
 namespace {
 
 using geo::FitPoint;
@@ -71,7 +73,7 @@ Result<Input> read_points(const std::string& path, std::optional<geo::UtmZoneSpe
   if (!f) return R::failure(path + ": cannot open the file");
   std::stringstream ss;
   ss << f.rdbuf();
-  auto table = store::parse_csv(ss.str(), path);
+  auto table = formats::parse_csv(ss.str(), path);
   if (!table) return R::failure(table.error());
   const auto& t = *table;
 

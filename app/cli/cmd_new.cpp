@@ -6,9 +6,11 @@
 
 #include "app/cli/command.h"
 #include "app/cli/project_access.h"
-#include "storage/validate.h"
+#include "formats/validate.h"
 
 namespace cairn::cli {
+
+using namespace cairn::formats;  // file formats and value rules (formats/)
 namespace {
 
 int run(const Args& in, std::ostream& out, std::ostream&) {
@@ -30,13 +32,13 @@ int run(const Args& in, std::ostream& out, std::ostream&) {
     np.north_default = *n;
   }
   if (decl) {
-    auto d = store::parse_decimal(*decl);
+    auto d = formats::parse_decimal(*decl);
     if (!d) throw std::invalid_argument("--declination '" + *decl + "' is not a number (degrees, east positive)");
     np.declination = *d;
   }
   std::optional<double> radius;
   if (nearby) {
-    radius = store::parse_decimal(*nearby);
+    radius = formats::parse_decimal(*nearby);
     if (!radius || *radius < 0 || *radius > 100000)
       throw std::invalid_argument("--nearby '" + *nearby + "' must be a distance from 0 to 100000 metres");
   }

@@ -9,7 +9,7 @@
 #include "geomath/geodesy.h"
 #include "geomath/notation.h"
 #include "geomath/orientation.h"
-#include "storage/csv.h"
+#include "formats/csv.h"
 
 namespace cairn::cli::demo {
 
@@ -562,7 +562,7 @@ Area build_area() {
         contact_name = C1.name;
         note = "channel fill, top of bed";
       }
-      csv += store::csv_record({code, kind, fmt("%.0f", p.strike), fmt("%.0f", p.dip), "true", contact_name, "5",
+      csv += formats::csv_record({code, kind, fmt("%.0f", p.strike), fmt("%.0f", p.dip), "true", contact_name, "5",
                                 "unknown", code + "n", clk.local(), note});
     }
     area.notebook_csv = csv;

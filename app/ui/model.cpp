@@ -4,10 +4,12 @@
 #include <cstdlib>
 
 #include "app/cli/magnetic_source.h"
-#include "storage/ids.h"
+#include "formats/ids.h"
 #include "storage/repository.h"
 
 namespace cairn::ui {
+
+using namespace cairn::formats;  // file formats and value rules (formats/)
 
 Model::Model(store::Project p) : project_(std::move(p)) {
   path_ = project_.path();
@@ -138,7 +140,7 @@ bool Model::act(const std::string& label, const std::function<void(store::Projec
 
 bool Model::act_custom(const std::string& label, const std::function<void(store::Project&)>& f,
                        std::function<void(store::Project&)> undo, std::string* error) {
-  const std::string since = store::utc_now();
+  const std::string since = formats::utc_now();
   try {
     f(project_);
   } catch (const std::exception& e) {

@@ -17,9 +17,11 @@
 #include "geomath/notation.h"
 #include "geomath/strike_lines.h"
 #include "storage/repository.h"
-#include "storage/sha256.h"
+#include "formats/sha256.h"
 
 namespace cairn::ui {
+
+using namespace cairn::formats;  // file formats and value rules (formats/)
 
 namespace {
 
@@ -295,7 +297,7 @@ void draw_station(App& a) {
         store::Photo ph;
         ph.station = s->meta.uuid;
         ph.path = path;
-        ph.sha256 = store::sha256_hex(ss.str());
+        ph.sha256 = formats::sha256_hex(ss.str());
         ph.time = now_local_iso();
         std::string err;
         if (a.act("photo " + path, [&](store::Project& p) { store::add(p, ph); }, &err)) a.edit.photo_path.clear();

@@ -1,7 +1,7 @@
 // `cairn check` from the shell: exit status, the warning for readings dated
 // outside the magnetic model's validity (WMM2025 is valid from 2025.0 to 2030.0,
 // as the WMM2025 technical report states; the same range is in
-// ../shared/reference/README.md), and the project's nearby setting.
+// tests/reference/data/README.md), and the project's nearby setting.
 #include "tests/app/cli_test_support.h"
 
 using cairn::cli_test::CliTest;

@@ -1,6 +1,6 @@
 // `cairn declination`: the real binary against the WMM2025 test values.
 //
-// Outside source: shared/reference/wmm2025_test_values.csv, the WMM2025 test
+// Outside source: tests/reference/data/wmm2025_test_values.csv, the WMM2025 test
 // points carried by the npm package `geomagnetism` 0.2.0 (declinations
 // confirmed by `magvar` 2.2.0; see shared/reference/README.md).
 #include <sys/wait.h>
@@ -54,7 +54,7 @@ std::string json_string(const std::string& json, const std::string& key) {
 }
 
 std::vector<std::vector<std::string>> reference_rows() {
-  std::ifstream in(std::string(CAIRN_SHARED_DIR) + "/reference/wmm2025_test_values.csv");
+  std::ifstream in(std::string(CAIRN_REFERENCE_DIR) + "/wmm2025_test_values.csv");
   EXPECT_TRUE(in.good());
   std::vector<std::vector<std::string>> rows;
   std::string line;
@@ -171,7 +171,7 @@ TEST(CmdDeclination, BadCoefficientFileIsReportedWithItsLine) {
   const std::string dir = testing::TempDir() + "cairn_wmm_bad";
   std::system(("mkdir -p '" + dir + "'").c_str());
   {
-    std::ifstream in(std::string(CAIRN_SHARED_DIR) + "/reference/wmm2025.cof");
+    std::ifstream in(std::string(CAIRN_REFERENCE_DIR) + "/wmm2025.cof");
     std::ofstream out(dir + "/wmm2025.cof");
     std::string line;
     int n = 0;

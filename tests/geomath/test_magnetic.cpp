@@ -1,7 +1,7 @@
 // World Magnetic Model evaluator against the published WMM2025 test values.
 //
 // Outside sources:
-//  - wmm2025_test_values.csv (shared/reference): 50 test points for WMM2025 as
+//  - wmm2025_test_values.csv (tests/reference/data): 50 test points for WMM2025 as
 //    carried by the npm package `geomagnetism` 0.2.0, declinations confirmed by
 //    `magvar` 2.2.0 (see shared/reference/README.md).
 //  - wmm2025.cof: the WMM2025 coefficients (NOAA NCEI / BGS, public domain).
@@ -30,7 +30,7 @@ std::string slurp(const std::string& path) {
   return os.str();
 }
 
-const std::string kReference = std::string(CAIRN_SHARED_DIR) + "/reference/";
+const std::string kReference = std::string(CAIRN_REFERENCE_DIR) + "/";
 
 const MagneticModel& shipped_model() {
   static const MagneticModel model = [] {

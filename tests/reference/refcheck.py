@@ -12,9 +12,9 @@ import argparse
 
 
 def parse_args(required=("cairn",)):
-    """--cairn PATH --tools DIR --source DIR --shared DIR; unknown arguments are ignored."""
+    """--cairn PATH --tools DIR --source DIR --build DIR; unknown arguments are ignored."""
     parser = argparse.ArgumentParser()
-    for name in ("cairn", "tools", "source", "shared"):
+    for name in ("cairn", "tools", "source", "build"):
         parser.add_argument("--" + name, required=name in required)
     args, _ = parser.parse_known_args()
     return args

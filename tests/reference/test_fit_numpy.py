@@ -11,7 +11,7 @@ Outside references:
   - Strike-line fact of the trade (common practice): strike lines 100 m apart in
     elevation and 538.5 m apart horizontally give a true dip of
     atan(100/538.5) = 10.52 degrees.
-Args: --cairn PATH --tools DIR --source DIR --shared DIR (unknown ones ignored).
+Args: --cairn PATH --tools DIR --source DIR (unknown ones ignored).
 """
 import json
 import math

@@ -85,7 +85,7 @@ def main():
     ap.add_argument("--cairn", required=True)
     ap.add_argument("--tools", required=True)
     ap.add_argument("--source")
-    ap.add_argument("--shared")
+    ap.add_argument("--build")
     a = ap.parse_args()
 
     tmp = tempfile.mkdtemp(prefix="cairn-report-")

@@ -185,7 +185,7 @@ def main():
     ap.add_argument("--cairn")
     ap.add_argument("--tools", required=True)
     ap.add_argument("--source")
-    ap.add_argument("--shared")
+    ap.add_argument("--build")
     args = ap.parse_args()
     rng = np.random.default_rng(1959)
     sets = datasets(rng)

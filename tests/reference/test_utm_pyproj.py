@@ -11,7 +11,7 @@ Outside references:
     computed here independently of GeographicLib.
   - `cairn fit` on lat/lon points laid out with geodesics on a known plane must
     give that plane against true north (hand-built; PROJ for the layout).
-Args: --cairn PATH --tools DIR --source DIR --shared DIR (unknown ones ignored).
+Args: --cairn PATH --tools DIR --source DIR (unknown ones ignored).
 """
 import json
 import math

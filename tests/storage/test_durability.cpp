@@ -14,11 +14,12 @@
 #include "storage/project.h"
 #include "storage/repository.h"
 #include "storage/schema.h"
-#include "storage/sha256.h"
+#include "formats/sha256.h"
 #include "storage/sqlite.h"
 #include "storage_test_util.h"
 
 using namespace cairn::store;
+using namespace cairn::formats;
 using cairn::store::testing::quiet;
 using cairn::store::testing::read_file;
 using cairn::store::testing::TempDir;

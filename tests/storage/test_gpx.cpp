@@ -6,13 +6,14 @@
 // rules from W3C XML 1.0 (Fifth Edition) and Namespaces in XML 1.0.
 #include <gtest/gtest.h>
 
-#include "storage/gpx.h"
+#include "formats/gpx.h"
 #include "storage/import.h"
 #include "storage/repository.h"
-#include "storage/xml.h"
+#include "formats/xml.h"
 #include "storage_test_util.h"
 
 using namespace cairn::store;
+using namespace cairn::formats;
 using cairn::store::testing::read_file;
 using cairn::store::testing::TempDir;
 

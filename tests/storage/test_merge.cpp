@@ -20,10 +20,11 @@
 #include <cmath>
 
 #include "merge_test_support.h"
-#include "storage/ids.h"
+#include "formats/ids.h"
 #include "storage/merge.h"
 
 using namespace cairn::store;
+using namespace cairn::formats;
 using namespace cairn::store::testing;
 
 namespace {

@@ -13,12 +13,13 @@
 
 #include <cmath>
 
-#include "storage/ids.h"
+#include "formats/ids.h"
 #include "storage/project.h"
 #include "storage/repository.h"
 #include "storage_test_util.h"
 
 using namespace cairn::store;
+using namespace cairn::formats;
 using cairn::store::testing::TempDir;
 
 namespace {

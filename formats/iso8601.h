@@ -6,7 +6,7 @@
 
 #include "geomath/result.h"
 
-namespace cairn::store {
+namespace cairn::formats {
 
 struct FieldTime {
   // Normalised text: "YYYY-MM-DD" for a date alone, else
@@ -22,4 +22,4 @@ struct FieldTime {
 // allows. Fails for anything else and for dates or times that do not exist.
 Result<FieldTime> parse_iso8601(std::string_view text);
 
-}  // namespace cairn::store
+}  // namespace cairn::formats

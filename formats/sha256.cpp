@@ -1,9 +1,9 @@
-#include "storage/sha256.h"
+#include "formats/sha256.h"
 
 #include <cstdint>
 #include <cstdio>
 
-namespace cairn::store {
+namespace cairn::formats {
 
 namespace {
 
@@ -82,4 +82,4 @@ std::string sha256_hex(std::string_view data) {
   return std::string(out, 64);
 }
 
-}  // namespace cairn::store
+}  // namespace cairn::formats

@@ -1,13 +1,13 @@
-#include "storage/validate.h"
+#include "formats/validate.h"
 
 #include <cctype>
 #include <charconv>
 #include <cmath>
 #include <cstdio>
 
-#include "storage/iso8601.h"
+#include "formats/iso8601.h"
 
-namespace cairn::store {
+namespace cairn::formats {
 
 std::string format_number(double v) {
   // %.15g prints any decimal of up to 15 significant digits back exactly
@@ -106,4 +106,4 @@ std::string default_unit_colour(int age_rank) {
   return kPalette[i];
 }
 
-}  // namespace cairn::store
+}  // namespace cairn::formats

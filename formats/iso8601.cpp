@@ -1,11 +1,11 @@
-#include "storage/iso8601.h"
+#include "formats/iso8601.h"
 
 #include <cctype>
 #include <cstdio>
 
 #include "geomath/magnetic.h"
 
-namespace cairn::store {
+namespace cairn::formats {
 
 namespace {
 
@@ -99,4 +99,4 @@ Result<FieldTime> parse_iso8601(std::string_view in) {
   return bad();
 }
 
-}  // namespace cairn::store
+}  // namespace cairn::formats

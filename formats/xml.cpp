@@ -1,10 +1,10 @@
-#include "storage/xml.h"
+#include "formats/xml.h"
 
 #include <cstdint>
 #include <map>
 #include <stdexcept>
 
-namespace cairn::store {
+namespace cairn::formats {
 
 const XmlElement* XmlElement::child(std::string_view n, std::string_view l) const {
   for (const auto& c : children)
@@ -287,4 +287,4 @@ Result<XmlElement> parse_xml(std::string_view text, const std::string& filename)
   }
 }
 
-}  // namespace cairn::store
+}  // namespace cairn::formats

@@ -1,9 +1,9 @@
-#include "storage/gpx.h"
+#include "formats/gpx.h"
 
-#include "storage/validate.h"
-#include "storage/xml.h"
+#include "formats/validate.h"
+#include "formats/xml.h"
 
-namespace cairn::store {
+namespace cairn::formats {
 
 namespace {
 const char* const kGpx11 = "http://www.topografix.com/GPX/1/1";
@@ -75,4 +75,4 @@ GpxFile parse_gpx(std::string_view text, const std::string& filename) {
   return out;
 }
 
-}  // namespace cairn::store
+}  // namespace cairn::formats

@@ -6,7 +6,7 @@
 #include <string>
 #include <string_view>
 
-namespace cairn::store {
+namespace cairn::formats {
 
 // A broken rule: its id and a sentence naming the value.
 struct Broken {
@@ -40,4 +40,4 @@ Check check_time(const std::string& v, std::string* normalised);
 // black, cycled by age rank: the default colour of a unit.
 std::string default_unit_colour(int age_rank);
 
-}  // namespace cairn::store
+}  // namespace cairn::formats

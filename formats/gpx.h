@@ -11,7 +11,7 @@
 #include <string_view>
 #include <vector>
 
-namespace cairn::store {
+namespace cairn::formats {
 
 struct GpxWaypoint {
   double lat = 0, lon = 0;
@@ -33,4 +33,4 @@ struct GpxFile {
 // Parses GPX text. XML errors and a wrong root are reported in `errors` too.
 GpxFile parse_gpx(std::string_view text, const std::string& filename);
 
-}  // namespace cairn::store
+}  // namespace cairn::formats

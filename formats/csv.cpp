@@ -1,8 +1,8 @@
-#include "storage/csv.h"
+#include "formats/csv.h"
 
 #include <set>
 
-namespace cairn::store {
+namespace cairn::formats {
 
 int CsvTable::column(std::string_view name) const {
   for (size_t i = 0; i < header.size(); ++i)
@@ -129,4 +129,4 @@ std::string csv_record(const std::vector<std::string>& fields) {
   return out;
 }
 
-}  // namespace cairn::store
+}  // namespace cairn::formats

@@ -8,7 +8,7 @@
 
 #include "geomath/result.h"
 
-namespace cairn::store {
+namespace cairn::formats {
 
 struct CsvTable {
   std::vector<std::string> header;             // trimmed header names
@@ -28,4 +28,4 @@ std::string csv_field(std::string_view value);
 // A whole record with CRLF-free "\n" line end.
 std::string csv_record(const std::vector<std::string>& fields);
 
-}  // namespace cairn::store
+}  // namespace cairn::formats

@@ -4,9 +4,9 @@
 #include <string>
 #include <string_view>
 
-namespace cairn::store {
+namespace cairn::formats {
 
 // The digest of `data` as 64 lower-case hexadecimal digits.
 std::string sha256_hex(std::string_view data);
 
-}  // namespace cairn::store
+}  // namespace cairn::formats

@@ -11,7 +11,7 @@
 
 #include "geomath/result.h"
 
-namespace cairn::store {
+namespace cairn::formats {
 
 struct XmlAttribute {
   std::string ns;     // namespace URI ("" for an unprefixed attribute)
@@ -36,4 +36,4 @@ struct XmlElement {
 // Parses a whole document. Errors read "FILE:LINE:COLUMN: message".
 Result<XmlElement> parse_xml(std::string_view text, const std::string& filename);
 
-}  // namespace cairn::store
+}  // namespace cairn::formats

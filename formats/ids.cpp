@@ -1,11 +1,11 @@
-#include "storage/ids.h"
+#include "formats/ids.h"
 
 #include <chrono>
 #include <cstdio>
 #include <ctime>
 #include <random>
 
-namespace cairn::store {
+namespace cairn::formats {
 
 std::string new_uuid() {
   // std::random_device reads the kernel's random source on Linux (getrandom or
@@ -55,4 +55,4 @@ std::string utc_now() {
   return buf;
 }
 
-}  // namespace cairn::store
+}  // namespace cairn::formats

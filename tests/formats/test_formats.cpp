@@ -5,10 +5,10 @@
 // offsets), the Gregorian leap-year rule, and RFC 3339 section 5.6 (space for T).
 #include <gtest/gtest.h>
 
-#include "storage/iso8601.h"
-#include "storage/sha256.h"
+#include "formats/iso8601.h"
+#include "formats/sha256.h"
 
-using namespace cairn::store;
+using namespace cairn::formats;
 
 TEST(Sha256, Fips180Examples) {
   EXPECT_EQ(sha256_hex("abc"), "ba7816bf8f01cfea414140de5dae2223b00361a396177a9cb410ff61f20015ad");

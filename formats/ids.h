@@ -4,7 +4,7 @@
 #include <string>
 #include <string_view>
 
-namespace cairn::store {
+namespace cairn::formats {
 
 // A random (version 4) UUID in its canonical lower-case 8-4-4-4-12 form
 // (RFC 4122, section 4.4), from the operating system's random source.
@@ -16,4 +16,4 @@ bool is_uuid(std::string_view s);
 // Text of this form sorts in time order.
 std::string utc_now();
 
-}  // namespace cairn::store
+}  // namespace cairn::formats
