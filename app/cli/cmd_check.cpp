@@ -6,14 +6,16 @@
 #include <sstream>
 
 #include "app/cli/command.h"
-#include "app/cli/json.h"
+#include "formats/json.h"
 #include "app/cli/magnetic_source.h"
 #include "geomath/crosscheck.h"
 #include "geomath/notation.h"
 #include "geomath/strike_lines.h"
-#include "storage/check_input.h"
+#include "app/core/check_input.h"
 
 namespace cairn::cli {
+
+using formats::JsonWriter;
 namespace {
 
 std::string num(std::optional<double> v, const char* f = "%.1f") {
@@ -34,7 +36,7 @@ double option_number(Args& args, const std::string& opt, double fallback, double
   return d;
 }
 
-void write_json(std::ostream& out, const store::CheckData& data, const geo::CheckReport& rep, geo::Severity min) {
+void write_json(std::ostream& out, const core::CheckData& data, const geo::CheckReport& rep, geo::Severity min) {
   JsonWriter j(out);
   j.begin_object();
   j.key("fits").begin_array();
@@ -97,7 +99,7 @@ void write_json(std::ostream& out, const store::CheckData& data, const geo::Chec
   out << "\n";
 }
 
-void write_text(std::ostream& out, const store::CheckData& data, const geo::CheckReport& rep, geo::Severity min) {
+void write_text(std::ostream& out, const core::CheckData& data, const geo::CheckReport& rep, geo::Severity min) {
   out << "Contact fits (strike by the right-hand rule, true north; cone at 95%)\n";
   out << "  " << std::left << std::setw(24) << "contact" << std::right << std::setw(6) << "points" << "  "
       << std::left << std::setw(11) << "strike/dip" << std::setw(13) << "quadrant" << std::right << std::setw(7)
@@ -196,14 +198,14 @@ int run_check(const Args& in, std::ostream& out, std::ostream& err) {
   } catch (const std::exception& e) {
     err << "warning: no magnetic model (" << e.what() << "); declination-suspect is not checked\n";
   }
-  store::LocalDeclination decl;
+  core::LocalDeclination decl;
   int outside = 0;  // readings dated outside the model's validity
   if (model)
     decl = [model, &outside](double lat, double lon, double year) -> std::optional<double> {
       if (!model->in_validity(year)) ++outside;
       return model->evaluate(lat, lon, 0.0, year).declination;
     };
-  const store::CheckData data = store::load_check_input(p, decl);
+  const core::CheckData data = core::load_check_input(p, decl);
   if (outside > 0)
     err << "warning: " << outside << " reading" << (outside == 1 ? " is" : "s are") << " dated outside "
         << model->name() << "'s validity (" << model->valid_from() << " to " << model->valid_to()

@@ -1,17 +1,19 @@
 // `cairn export FILE OUT`: a GeoPackage (OUT.gpkg), a GeoJSON file
 // (OUT.geojson) or a folder of CSV files in `cairn import`'s columns
-// (storage/export.h). The fitted contacts and flags come from the same
+// (app/core/export.h). The fitted contacts and flags come from the same
 // cross-check as `cairn check`, with the World Magnetic Model's declination.
 #include <ostream>
 #include <stdexcept>
 
 #include "app/cli/command.h"
-#include "app/cli/json.h"
+#include "formats/json.h"
 #include "app/cli/magnetic_source.h"
 #include "app/cli/project_access.h"
-#include "storage/export.h"
+#include "app/core/export.h"
 
 namespace cairn::cli {
+
+using formats::JsonWriter;
 namespace {
 
 int run(const Args& in, std::ostream& out, std::ostream& err) {
@@ -21,12 +23,12 @@ int run(const Args& in, std::ostream& out, std::ostream& err) {
   if (args.size() != 2) throw std::invalid_argument("expected FILE and OUT");
   const std::string& file = args[0];
   const std::string& target = args[1];
-  auto format = store::export_format_for(target);
+  auto format = core::export_format_for(target);
   if (!format) throw std::invalid_argument(format.error());
 
   auto project = open_project(file, true, err);
-  store::ExportOptions o;
-  if (*format != store::ExportFormat::CsvFolder) {
+  core::ExportOptions o;
+  if (*format != core::ExportFormat::CsvFolder) {
     try {
       const geo::MagneticModel* model = &wmm();
       o.local_declination = [model](double lat, double lon, double year) -> std::optional<double> {
@@ -36,9 +38,9 @@ int run(const Args& in, std::ostream& out, std::ostream& err) {
       err << "warning: no magnetic model (" << e.what() << "); declination-suspect is not checked\n";
     }
   }
-  const store::ExportSummary s = store::export_project(project, target, o);
-  const char* what = s.format == store::ExportFormat::GeoPackage ? "GeoPackage"
-                     : s.format == store::ExportFormat::GeoJson  ? "GeoJSON"
+  const core::ExportSummary s = core::export_project(project, target, o);
+  const char* what = s.format == core::ExportFormat::GeoPackage ? "GeoPackage"
+                     : s.format == core::ExportFormat::GeoJson  ? "GeoJSON"
                                                                  : "CSV folder";
   if (json) {
     JsonWriter j(out);

@@ -13,7 +13,7 @@
 #include <vector>
 
 #include "app/cli/command.h"
-#include "app/cli/json.h"
+#include "formats/json.h"
 #include "geomath/angles.h"
 #include "geomath/geodesy.h"
 #include "geomath/notation.h"

@@ -16,11 +16,13 @@
 #include <stdexcept>
 
 #include "app/cli/command.h"
-#include "app/cli/json.h"
+#include "formats/json.h"
 #include "app/cli/project_access.h"
 #include "storage/merge.h"
 
 namespace cairn::cli {
+
+using formats::JsonWriter;
 namespace {
 
 constexpr size_t kLongMerge = 2000;

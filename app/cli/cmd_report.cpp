@@ -12,8 +12,9 @@
 #include "app/cli/command.h"
 #include "app/cli/magnetic_source.h"
 #include "app/cli/report_html.h"
+#include "formats/atomic_file.h"
 #include "geomath/crosscheck.h"
-#include "storage/check_input.h"
+#include "app/core/check_input.h"
 #include "storage/project.h"
 #include "storage/repository.h"
 
@@ -62,38 +63,13 @@ DeclinationSummary summarise_declination(const geo::MagneticModel& m, const Repo
     lo = hi = utc_now("%Y-%m-%d");
   }
   s.first_date = lo, s.last_date = hi;
-  const auto y0 = store::decimal_year_of(lo), y1 = store::decimal_year_of(hi);
+  const auto y0 = core::decimal_year_of(lo), y1 = core::decimal_year_of(hi);
   if (!y0 || !y1) throw std::runtime_error("cannot read the dates " + lo + " and " + hi);
   s.first = m.evaluate(s.lat, s.lon, 0.0, *y0).declination;
   s.last = m.evaluate(s.lat, s.lon, 0.0, *y1).declination;
   s.in_validity = m.in_validity(*y0) && m.in_validity(*y1);
   s.valid_from = m.valid_from(), s.valid_to = m.valid_to();
   return s;
-}
-
-// Writes `text` to `path` through a temporary file beside it, so a failure leaves
-// no half-written report (and an existing one untouched).
-void write_file_atomically(const std::string& path, const std::string& text) {
-  const fs::path target(path);
-  const fs::path dir = target.has_parent_path() ? target.parent_path() : fs::path(".");
-  std::error_code ec;
-  if (!fs::is_directory(dir, ec)) throw std::runtime_error("cannot write " + path + ": no folder " + dir.string());
-  const fs::path tmp = dir / ("." + target.filename().string() + ".tmp");
-  {
-    std::ofstream f(tmp, std::ios::binary | std::ios::trunc);
-    if (!f) throw std::runtime_error("cannot write " + tmp.string() + ": " + std::strerror(errno));
-    f << text;
-    f.flush();
-    if (!f) {
-      fs::remove(tmp, ec);
-      throw std::runtime_error("cannot write " + tmp.string() + ": " + std::strerror(errno));
-    }
-  }
-  fs::rename(tmp, target, ec);
-  if (ec) {
-    fs::remove(tmp, ec);
-    throw std::runtime_error("cannot write " + path + ": " + ec.message());
-  }
 }
 
 int run_report(const Args& in, std::ostream& out, std::ostream& err) {
@@ -141,7 +117,7 @@ int run_report(const Args& in, std::ostream& out, std::ostream& err) {
     d.declination_problem = std::string("no magnetic model (") + e.what() + ")";
     err << "warning: no magnetic model (" << e.what() << "); declination-suspect is not checked\n";
   }
-  store::LocalDeclination decl;
+  core::LocalDeclination decl;
   if (model) {
     decl = [model](double lat, double lon, double year) -> std::optional<double> {
       return model->evaluate(lat, lon, 0.0, year).declination;
@@ -152,10 +128,10 @@ int run_report(const Args& in, std::ostream& out, std::ostream& err) {
       d.declination_problem = e.what();
     }
   }
-  d.check = store::load_check_input(p, decl);
+  d.check = core::load_check_input(p, decl);
   d.result = geo::run_crosscheck(d.check.input);
 
-  write_file_atomically(*output, render_report_html(d));
+  formats::write_file_atomically(*output, render_report_html(d));
   out << "wrote " << *output << ": " << d.stations.size() << " stations, " << d.result.fits.size() << " contacts, "
       << d.result.flags.size() << " flags\n";
   return 0;

@@ -13,7 +13,7 @@
 
 #include "geomath/crosscheck.h"
 #include "geomath/stereonet.h"
-#include "storage/check_input.h"
+#include "app/core/check_input.h"
 #include "storage/records.h"
 
 namespace cairn::cli {
@@ -40,7 +40,7 @@ struct ReportData {
   std::vector<store::PlanarReading> planes;
   std::vector<store::LinearReading> lines;
   std::vector<store::ContactPoint> points;
-  store::CheckData check;     // positions in UTM metres, as the engine saw them
+  core::CheckData check;     // positions in UTM metres, as the engine saw them
   geo::CheckReport result;    // fits and flags
   std::optional<DeclinationSummary> declination;
   std::string declination_problem;  // why there is no summary ("" when there is one)

@@ -183,7 +183,7 @@ const geo::ContactFit* Model::fit_of(const std::string& contact_uuid) const {
   return nullptr;
 }
 
-store::LocalDeclination wmm_local_declination() {
+core::LocalDeclination wmm_local_declination() {
   const geo::MagneticModel* model = nullptr;
   try {
     model = &cli::wmm();
@@ -206,7 +206,7 @@ CheckResult run_check_on_file(const std::string& path, std::uint64_t revision,
     oo.backups = false;
     store::Project p = store::Project::open(path, oo);
     progress(0.2f, "loading records");
-    r.data = store::load_check_input(p, wmm_local_declination());
+    r.data = core::load_check_input(p, wmm_local_declination());
     progress(0.45f, "fitting contacts and comparing readings");
     r.report = geo::run_crosscheck(r.data.input);
     progress(1.0f, "done");

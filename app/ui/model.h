@@ -15,7 +15,7 @@
 #include <vector>
 
 #include "geomath/crosscheck.h"
-#include "storage/check_input.h"
+#include "app/core/check_input.h"
 #include "storage/project.h"
 #include "storage/records.h"
 #include "storage/reviews.h"
@@ -25,7 +25,7 @@ namespace cairn::ui {
 // One run of the cross-check engine over a revision of the project.
 struct CheckResult {
   std::uint64_t revision = 0;
-  store::CheckData data;
+  core::CheckData data;
   geo::CheckReport report;
   std::string error;  // when the check could not run
 };
@@ -122,7 +122,7 @@ private:
 
 // The World Magnetic Model's declination for the cross-check's
 // declination-suspect rule; empty when the model cannot be loaded.
-store::LocalDeclination wmm_local_declination();
+core::LocalDeclination wmm_local_declination();
 
 // Loads a project file into the cross-check engine and runs it: what the
 // check job does on its worker thread, with its own read-only connection.

@@ -11,7 +11,7 @@
 #include "app/ui/text_util.h"
 #include "app/ui/widgets.h"
 #include "storage/import.h"
-#include "storage/export.h"
+#include "app/core/export.h"
 #include "storage/merge.h"
 
 namespace cairn::ui {
@@ -196,12 +196,12 @@ void draw_camp(App& a) {
         store::OpenOptions oo = cli::cli_open_options(true);
         oo.backups = false;
         store::Project p = store::Project::open(project, oo);
-        store::ExportOptions eo;
+        core::ExportOptions eo;
         eo.local_declination = wmm_local_declination();
-        const store::ExportSummary sum = store::export_project(p, out, eo);
+        const core::ExportSummary sum = core::export_project(p, out, eo);
         size_t features = 0;
         for (const auto& l : sum.layers) features += l.count;
-        const std::string what = sum.format == store::ExportFormat::CsvFolder
+        const std::string what = sum.format == core::ExportFormat::CsvFolder
                                      ? std::to_string(sum.layers.size()) + " CSV files"
                                      : std::to_string(sum.layers.size()) + " layers, " + std::to_string(features) + " features";
         std::vector<std::string> log{"exported " + what + " to " + sum.path};

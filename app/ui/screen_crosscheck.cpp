@@ -10,7 +10,7 @@
 #include "app/ui/screens.h"
 #include "app/ui/text_util.h"
 #include "app/ui/widgets.h"
-#include "storage/corrections.h"
+#include "app/core/corrections.h"
 #include "storage/reviews.h"
 
 namespace cairn::ui {
@@ -99,7 +99,7 @@ void flag_window(App& a, const geo::Flag& f) {
     }
   }
   const bool may_leave = !has_caution || acked || cs.acknowledged;
-  if (store::has_correction(f)) {
+  if (core::has_correction(f)) {
     // One tap applies the suggested correction as an audited update (undoable);
     // the check then runs again on the changed file.
     if (button("Apply the correction", 0, may_leave)) {
@@ -107,7 +107,7 @@ void flag_window(App& a, const geo::Flag& f) {
       auto result = std::make_shared<std::string>();
       if (a.act("correct " + (f.ref.empty() ? f.rule : f.ref),
                 [&f, result](store::Project& p) {
-                  auto r = store::apply_correction(p, f);
+                  auto r = core::apply_correction(p, f);
                   if (!r) throw std::runtime_error(r.error());
                   *result = r.value();
                 },

@@ -12,61 +12,12 @@
 #include "app/ui/text_util.h"
 #include "app/ui/widgets.h"
 #include "storage/repository.h"
+#include "formats/json.h"
 #include "storage/reviews.h"
 
 namespace cairn::ui {
 
 namespace {
-
-// The fields of a flat JSON object as SQLite's json_object writes an audit
-// row (RFC 8259: strings, numbers, null): name -> value as text.
-std::map<std::string, std::string> flat_json(const std::string& s) {
-  std::map<std::string, std::string> out;
-  size_t i = 0;
-  auto ws = [&] {
-    while (i < s.size() && (s[i] == ' ' || s[i] == '\n' || s[i] == '\t' || s[i] == '\r')) ++i;
-  };
-  auto str = [&](std::string* v) -> bool {
-    if (i >= s.size() || s[i] != '"') return false;
-    ++i;
-    while (i < s.size() && s[i] != '"') {
-      if (s[i] == '\\' && i + 1 < s.size()) {
-        const char e = s[i + 1];
-        *v += e == 'n' ? '\n' : e == 't' ? '\t' : e;
-        i += 2;
-        if (e == 'u') i += 4;  // rare in field data: dropped
-      } else {
-        *v += s[i++];
-      }
-    }
-    ++i;
-    return true;
-  };
-  ws();
-  if (i >= s.size() || s[i] != '{') return out;
-  ++i;
-  while (i < s.size()) {
-    ws();
-    std::string k, v;
-    if (!str(&k)) break;
-    ws();
-    if (i >= s.size() || s[i] != ':') break;
-    ++i;
-    ws();
-    if (i < s.size() && s[i] == '"') {
-      str(&v);
-    } else {
-      while (i < s.size() && s[i] != ',' && s[i] != '}') v += s[i++];
-      while (!v.empty() && v.back() == ' ') v.pop_back();
-      if (v == "null") v.clear();
-    }
-    out[k] = v;
-    ws();
-    if (i < s.size() && s[i] == ',') ++i;
-    else break;
-  }
-  return out;
-}
 
 void flags_tab(App& a) {
   Model& m = *a.model;
@@ -266,7 +217,7 @@ void audit_tab(App& a) {
       const store::Person* p = m.person(e.person);
       std::string who = devices.count(e.device) && !devices[e.device].empty() ? devices[e.device] : e.device.substr(0, 8);
       text(e.at.substr(0, 19) + "  " + e.action + "  on " + who + (p ? " by " + p->initials : std::string()));
-      const auto before = flat_json(e.old_values), after = flat_json(e.new_values);
+      const auto before = formats::flat_json_object(e.old_values), after = formats::flat_json_object(e.new_values);
       // References are shown by their codes and names, not their UUIDs.
       auto shown = [&](const std::string& k, const std::string& v) -> std::string {
         if (k == "unit")

@@ -8,8 +8,7 @@
 #include <limits>
 #include <stdexcept>
 
-#include "storage/export.h"
-#include "storage/export_layers.h"
+#include "storage/gpkg.h"
 #include "formats/ids.h"
 #include "storage/sqlite.h"
 
@@ -158,7 +157,9 @@ std::string sql_type(FieldType t) {
 
 std::string quoted(const std::string& s) { return "\"" + s + "\""; }
 
-void write_gpkg(const std::string& path, const LayerSet& set, int epsg) {
+}  // namespace
+
+void write_geopackage(const std::string& path, const LayerSet& set, int epsg) {
   Db db(path, SQLITE_OPEN_READWRITE | SQLITE_OPEN_CREATE);
   db.exec("PRAGMA application_id = " + std::to_string(kGpkgApplicationId));
   db.exec("PRAGMA user_version = " + std::to_string(kGpkgUserVersion));
@@ -224,35 +225,6 @@ void write_gpkg(const std::string& path, const LayerSet& set, int epsg) {
     g.run();
   }
   db.exec("COMMIT");
-}
-
-}  // namespace
-
-ExportSummary export_geopackage(Project& p, const std::string& path, const ExportOptions& o) {
-  const LayerSet set = build_layers(p, o, RotationFrame::Grid);
-  const int epsg = utm_epsg(set.zone);
-  const fs::path target(path);
-  const fs::path tmp = target.parent_path() / ("." + target.filename().string() + "." + new_uuid().substr(0, 8) + ".tmp");
-  try {
-    write_gpkg(tmp.string(), set, epsg);
-  } catch (const std::exception& e) {
-    std::error_code ec;
-    fs::remove(tmp, ec);
-    fs::remove(tmp.string() + "-journal", ec);
-    throw std::runtime_error("cannot write " + path + ": " + e.what());
-  }
-  std::error_code ec;
-  fs::rename(tmp, target, ec);
-  if (ec) {
-    fs::remove(tmp, ec);
-    throw std::runtime_error("cannot write " + path + ": " + ec.message());
-  }
-  ExportSummary s;
-  s.format = ExportFormat::GeoPackage;
-  s.path = path;
-  s.epsg = epsg;
-  for (const auto& l : set.layers) s.layers.push_back({l.name, l.features.size()});
-  return s;
 }
 
 }  // namespace cairn::store

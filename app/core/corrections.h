@@ -15,7 +15,9 @@
 #include "geomath/result.h"
 #include "storage/project.h"
 
-namespace cairn::store {
+namespace cairn::core {
+
+using store::Project;
 
 // True when the flag carries a correction this module can apply.
 bool has_correction(const geo::Flag& f);
@@ -25,4 +27,4 @@ bool has_correction(const geo::Flag& f);
 // (its stored attitude no longer matches the flag's), or the file is read-only.
 Result<std::string> apply_correction(Project& p, const geo::Flag& f);
 
-}  // namespace cairn::store
+}  // namespace cairn::core

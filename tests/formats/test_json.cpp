@@ -1,4 +1,4 @@
-// app/cli/json.h against the standard RFC 8259 (The JSON Data Interchange Format):
+// formats/json.h against the standard RFC 8259 (The JSON Data Interchange Format):
 // section 7 (strings: quotation mark, reverse solidus and control characters
 // U+0000..U+001F must be escaped; the two-character forms \" \\ \b \f \n \r \t
 // may be used), section 6 (numbers: no NaN or Infinity, so those become null),
@@ -9,9 +9,10 @@
 #include <optional>
 #include <sstream>
 
-#include "app/cli/json.h"
+#include "formats/json.h"
 
-using cairn::cli::JsonWriter;
+using cairn::formats::JsonWriter;
+using cairn::formats::flat_json_object;
 
 TEST(JsonWriter, EscapesStringsPerRfc8259) {
   EXPECT_EQ(JsonWriter::escape("plain"), "plain");
@@ -50,4 +51,32 @@ TEST(JsonWriter, TwelveSignificantDigitsByDefault) {
   JsonWriter j(s);
   j.begin_array().value(10.519940383).value(1.0 / 3.0).value(5200000.123456).end_array();
   EXPECT_EQ(s.str(), "[10.519940383,0.333333333333,5200000.12346]");
+}
+
+// RFC 8259 section 8.1: JSON text exchanged between systems is UTF-8. Text from a
+// file that is not valid UTF-8 (here Latin-1 "é", 0xE9, and a lone continuation
+// byte) must not make the output invalid: each bad byte becomes U+FFFD (the
+// replacement character, The Unicode Standard, section 3.9, "U+FFFD Substitution").
+TEST(JsonWriter, InvalidUtf8BecomesReplacementCharacter) {
+  EXPECT_EQ(JsonWriter::escape(std::string("caf\xe9", 4)), "caf\xef\xbf\xbd");
+  EXPECT_EQ(JsonWriter::escape(std::string("a\x80z", 3)), "a\xef\xbf\xbdz");
+  EXPECT_EQ(JsonWriter::quote("x"), "\"x\"");
+}
+
+// RFC 8259 section 7: "\r" is carriage return and "\u0001" is U+0001 inside a
+// string; an audit row written by SQLite's json_object (SQLite documentation,
+// "JSON Functions") must read back with both intact.
+TEST(FlatJsonObject, ReadsEscapesAsRfc8259Defines) {
+  auto m = flat_json_object(R"({"notes":"a\rb\u0001c\u00e9","dip":40.5,"unit":null,"ok":true})");
+  EXPECT_EQ(m["notes"], std::string("a\rb\x01" "c\xc3\xa9"));
+  EXPECT_EQ(m["dip"], "40.5");
+  EXPECT_EQ(m["unit"], "");
+  EXPECT_EQ(m["ok"], "true");
+}
+
+TEST(FlatJsonObject, RefusesWhatIsNotOneObject) {
+  EXPECT_TRUE(flat_json_object("[1,2]").empty());
+  EXPECT_TRUE(flat_json_object("{\"a\":").empty());
+  EXPECT_TRUE(flat_json_object(std::string(100, '{')).empty());
+  EXPECT_TRUE(flat_json_object("{\"a\":1}", 3).empty());  // over the size bound
 }

@@ -1,4 +1,4 @@
-#include "storage/corrections.h"
+#include "app/core/corrections.h"
 
 #include <cmath>
 #include <cstdio>
@@ -7,7 +7,9 @@
 #include "geomath/notation.h"
 #include "storage/repository.h"
 
-namespace cairn::store {
+namespace cairn::core {
+
+using namespace cairn::store;  // the project file and its records (storage/)
 
 namespace {
 // Two attitudes this close (degrees between poles) are the same reading.
@@ -61,4 +63,4 @@ Result<std::string> apply_correction(Project& p, const geo::Flag& f) {
   return label + change;
 }
 
-}  // namespace cairn::store
+}  // namespace cairn::core

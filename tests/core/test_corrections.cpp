@@ -8,7 +8,7 @@
 #include <filesystem>
 
 #include "geomath/angles.h"
-#include "storage/corrections.h"
+#include "app/core/corrections.h"
 #include "storage/repository.h"
 
 using namespace cairn;
@@ -66,7 +66,7 @@ TEST(Corrections, ReversedDipTurnsTheStrikeAndIsAudited) {
   Fixture fx;
   store::Project p = store::Project::create(fx.path, {"C", "8N", store::North::True, 0}, fx.opts());
   const std::string id = add_reading(p, "218/37", store::North::True);
-  auto done = store::apply_correction(p, flag("reversed-dip", id, geo::Plane{38, 37}));
+  auto done = core::apply_correction(p, flag("reversed-dip", id, geo::Plane{38, 37}));
   ASSERT_TRUE(done.ok()) << done.error();
   auto r = store::get_plane(p, id);
   EXPECT_EQ(r->typed, "038/37");
@@ -75,7 +75,7 @@ TEST(Corrections, ReversedDipTurnsTheStrikeAndIsAudited) {
   EXPECT_NE(r->notes.find("reversed-dip"), std::string::npos);
   EXPECT_EQ(store::audit_trail(p, id).back().action, "update");
   // Applied twice: the stored reading no longer matches the flag, nothing is written.
-  auto again = store::apply_correction(p, flag("reversed-dip", id, geo::Plane{38, 37}));
+  auto again = core::apply_correction(p, flag("reversed-dip", id, geo::Plane{38, 37}));
   EXPECT_FALSE(again.ok());
   EXPECT_EQ(again.error(), "reading R1 has changed since the check; run it again");
   EXPECT_EQ(store::get_plane(p, id)->typed, "038/37");
@@ -86,7 +86,7 @@ TEST(Corrections, DeclinationNotAppliedBecomesMagnetic) {
   store::Project p = store::Project::create(fx.path, {"C", "8N", store::North::True, 0}, fx.opts());
   // Read 020/50 off a compass without declination but recorded as true north.
   const std::string id = add_reading(p, "020/50", store::North::True);
-  auto done = store::apply_correction(p, flag("declination-suspect", id, geo::Plane{35, 50}));
+  auto done = core::apply_correction(p, flag("declination-suspect", id, geo::Plane{35, 50}));
   ASSERT_TRUE(done.ok()) << done.error();
   auto r = store::get_plane(p, id);
   EXPECT_EQ(r->north, store::North::Magnetic);
@@ -101,7 +101,7 @@ TEST(Corrections, DeclinationAppliedTwiceBecomesTrue) {
   // The compass already had the declination set; recorded as magnetic, so applied twice.
   const std::string id = add_reading(p, "035/50", store::North::Magnetic);
   EXPECT_NEAR(store::get_plane(p, id)->strike, 50, 1e-9);
-  auto done = store::apply_correction(p, flag("declination-suspect", id, geo::Plane{35, 50}));
+  auto done = core::apply_correction(p, flag("declination-suspect", id, geo::Plane{35, 50}));
   ASSERT_TRUE(done.ok()) << done.error();
   auto r = store::get_plane(p, id);
   EXPECT_EQ(r->north, store::North::True);
@@ -114,10 +114,10 @@ TEST(Corrections, OtherRulesAndMismatchesWriteNothing) {
   store::Project p = store::Project::create(fx.path, {"C", "8N", store::North::True, 0}, fx.opts());
   const std::string id = add_reading(p, "020/50", store::North::True);
   geo::Flag m = flag("misfit", id, geo::Plane{35, 50});
-  EXPECT_FALSE(store::has_correction(m));
-  EXPECT_EQ(store::apply_correction(p, m).error(), "flag misfit suggests no correction to apply");
+  EXPECT_FALSE(core::has_correction(m));
+  EXPECT_EQ(core::apply_correction(p, m).error(), "flag misfit suggests no correction to apply");
   // A true-north reading cannot have had the declination applied twice.
-  auto wrong = store::apply_correction(p, flag("declination-suspect", id, geo::Plane{5, 50}));
+  auto wrong = core::apply_correction(p, flag("declination-suspect", id, geo::Plane{5, 50}));
   EXPECT_FALSE(wrong.ok());
   EXPECT_EQ(wrong.error(), "the suggested turn of -15.0 degrees does not match the reading's north reference");
   EXPECT_EQ(store::get_plane(p, id)->typed, "020/50");

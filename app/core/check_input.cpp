@@ -1,11 +1,13 @@
-#include "storage/check_input.h"
+#include "app/core/check_input.h"
 
 #include <stdexcept>
 
 #include "formats/iso8601.h"
 #include "storage/repository.h"
 
-namespace cairn::store {
+namespace cairn::core {
+
+using namespace cairn::store;  // the project file and its records (storage/)
 
 using namespace cairn::formats;  // file formats and value rules (formats/)
 
@@ -169,4 +171,4 @@ CheckData load_check_input(Project& p, const LocalDeclination& local_declination
   return out;
 }
 
-}  // namespace cairn::store
+}  // namespace cairn::core

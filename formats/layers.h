@@ -1,6 +1,7 @@
-// The features an export writes, built once from a project and its
-// cross-check and written by the GeoPackage and GeoJSON writers
-// (storage/export.h describes the layers and the symbol rotation).
+// The features an export writes, as plain data: layers of fields and
+// features with a WGS84 position and the same place in a UTM zone. Built by
+// app/core/export_layers.h, written by the GeoPackage writer (storage/gpkg.h)
+// and the GeoJSON writer (formats/geojson.h).
 #pragma once
 #include <cstdint>
 #include <optional>
@@ -9,9 +10,8 @@
 #include <vector>
 
 #include "geomath/geodesy.h"
-#include "storage/export.h"
 
-namespace cairn::store {
+namespace cairn::formats {
 
 enum class FieldType { Text, Real, Integer, Boolean };
 
@@ -45,10 +45,9 @@ struct LayerSet {
   std::vector<Layer> layers;
 };
 
-// Throws std::runtime_error naming the record when a position cannot be projected.
-LayerSet build_layers(Project& p, const ExportOptions& o, RotationFrame frame);
+// EPSG code of a WGS84 / UTM zone: 32600 + zone (north), 32700 + zone (south).
+int utm_epsg(const geo::UtmZone& zone);
+// OGC WKT (version 1, as in the EPSG registry's export) of a WGS84 / UTM zone.
+std::string utm_wkt(const geo::UtmZone& zone);
 
-// Writes `text` to PATH through a temporary file in the same folder and a rename.
-void write_file_atomically(const std::string& path, const std::string& text);
-
-}  // namespace cairn::store
+}  // namespace cairn::formats

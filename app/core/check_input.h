@@ -12,7 +12,9 @@
 #include "geomath/geodesy.h"
 #include "storage/project.h"
 
-namespace cairn::store {
+namespace cairn::core {
+
+using store::Project;
 
 // Declination (degrees east) of a magnetic model at a place and decimal year, or nothing.
 using LocalDeclination = std::function<std::optional<double>(double lat, double lon, double decimal_year)>;
@@ -32,4 +34,4 @@ std::optional<double> minutes_since_epoch(const std::string& iso);
 // Decimal year of an ISO 8601 date or time (the WMM's convention, via the calendar date).
 std::optional<double> decimal_year_of(const std::string& iso);
 
-}  // namespace cairn::store
+}  // namespace cairn::core

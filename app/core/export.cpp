@@ -1,16 +1,20 @@
-#include "storage/export.h"
+#include "app/core/export.h"
 
 #include <cctype>
 #include <filesystem>
 #include <stdexcept>
 
-#include "storage/export_layers.h"
+#include "app/core/export_layers.h"
+#include "formats/atomic_file.h"
 #include "formats/csv.h"
+#include "storage/gpkg.h"
 #include "storage/import.h"
 
 namespace fs = std::filesystem;
 
-namespace cairn::store {
+namespace cairn::core {
+
+using namespace cairn::store;  // the project file and its records (storage/)
 
 using namespace cairn::formats;  // file formats and value rules (formats/)
 
@@ -35,27 +39,6 @@ Result<ExportFormat> export_format_for(const std::string& out) {
                                        "': name a .gpkg or .geojson file, or a folder for CSV files");
 }
 
-int utm_epsg(const geo::UtmZone& z) { return (z.northp ? 32600 : 32700) + z.zone; }
-
-// The EPSG definition of WGS 84 / UTM zone N|S: Transverse Mercator with
-// latitude of origin 0, central meridian 6*zone - 183 degrees, scale factor
-// 0.9996, false easting 500 000 m and false northing 0 (north) or 10 000 000 m
-// (south) (DMA Technical Manual 8358.2, "The Universal Grids", 1989).
-std::string utm_wkt(const geo::UtmZone& z) {
-  const std::string name = "WGS 84 / UTM zone " + std::to_string(z.zone) + (z.northp ? "N" : "S");
-  return "PROJCS[\"" + name +
-         "\",GEOGCS[\"WGS 84\",DATUM[\"WGS_1984\",SPHEROID[\"WGS 84\",6378137,298.257223563,AUTHORITY[\"EPSG\","
-         "\"7030\"]],AUTHORITY[\"EPSG\",\"6326\"]],PRIMEM[\"Greenwich\",0,AUTHORITY[\"EPSG\",\"8901\"]],UNIT["
-         "\"degree\",0.0174532925199433,AUTHORITY[\"EPSG\",\"9122\"]],AUTHORITY[\"EPSG\",\"4326\"]],"
-         "PROJECTION[\"Transverse_Mercator\"],PARAMETER[\"latitude_of_origin\",0],PARAMETER[\"central_meridian\"," +
-         std::to_string(6 * z.zone - 183) +
-         "],PARAMETER[\"scale_factor\",0.9996],PARAMETER[\"false_easting\",500000],PARAMETER[\"false_northing\"," +
-         (z.northp ? "0" : "10000000") +
-         "],UNIT[\"metre\",1,AUTHORITY[\"EPSG\",\"9001\"]],AXIS[\"Easting\",EAST],AXIS[\"Northing\",NORTH],"
-         "AUTHORITY[\"EPSG\",\"" +
-         std::to_string(utm_epsg(z)) + "\"]]";
-}
-
 ExportSummary export_csv_folder(Project& p, const std::string& dir) {
   const ImportKind kinds[] = {ImportKind::Units,    ImportKind::Contacts, ImportKind::Stations,
                               ImportKind::Planes,   ImportKind::Lines,    ImportKind::Points};
@@ -74,7 +57,7 @@ ExportSummary export_csv_folder(Project& p, const std::string& dir) {
   std::error_code ec;
   fs::create_directories(dir, ec);
   if (ec || !fs::is_directory(dir)) throw std::runtime_error("cannot make the folder " + dir + (ec ? ": " + ec.message() : ""));
-  for (const auto& [name, text] : files) write_file_atomically((fs::path(dir) / name).string(), text);
+  for (const auto& [name, text] : files) formats::write_file_atomically((fs::path(dir) / name).string(), text);
   return s;
 }
 
@@ -89,4 +72,16 @@ ExportSummary export_project(Project& p, const std::string& out, const ExportOpt
   throw std::logic_error("unknown export format");
 }
 
-}  // namespace cairn::store
+ExportSummary export_geopackage(Project& p, const std::string& path, const ExportOptions& o) {
+  const LayerSet set = build_layers(p, o, RotationFrame::Grid);
+  const int epsg = formats::utm_epsg(set.zone);
+  formats::replace_file_atomically(path, [&](const std::string& tmp) { store::write_geopackage(tmp, set, epsg); });
+  ExportSummary s;
+  s.format = ExportFormat::GeoPackage;
+  s.path = path;
+  s.epsg = epsg;
+  for (const auto& l : set.layers) s.layers.push_back({l.name, l.features.size()});
+  return s;
+}
+
+}  // namespace cairn::core

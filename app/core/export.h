@@ -36,10 +36,12 @@
 
 #include "geomath/crosscheck.h"
 #include "geomath/result.h"
-#include "storage/check_input.h"
+#include "app/core/check_input.h"
 #include "storage/project.h"
 
-namespace cairn::store {
+namespace cairn::core {
+
+using store::Project;
 
 enum class ExportFormat { GeoPackage, GeoJson, CsvFolder };
 
@@ -73,9 +75,4 @@ ExportSummary export_geopackage(Project& p, const std::string& path, const Expor
 ExportSummary export_geojson(Project& p, const std::string& path, const ExportOptions& o = {});
 ExportSummary export_csv_folder(Project& p, const std::string& dir);
 
-// EPSG code of a WGS84 / UTM zone: 32600 + zone (north), 32700 + zone (south).
-int utm_epsg(const geo::UtmZone& zone);
-// OGC WKT (version 1, as in the EPSG registry's export) of a WGS84 / UTM zone.
-std::string utm_wkt(const geo::UtmZone& zone);
-
-}  // namespace cairn::store
+}  // namespace cairn::core

@@ -1,4 +1,4 @@
-// Export (storage/export.h): the choice of format, the GeoPackage's fixed
+// Export (app/core/export.h): the choice of format, the GeoPackage's fixed
 // structure, the UTM definitions, and the CSV round trip through `import`.
 //
 // Outside sources named beside the checks:
@@ -19,13 +19,16 @@
 #include <cstring>
 #include <filesystem>
 
-#include "storage/export.h"
+#include "app/core/export.h"
+#include "formats/layers.h"
 #include "storage/import.h"
 #include "storage/repository.h"
 #include "storage/sqlite.h"
-#include "storage_test_util.h"
+#include "tests/storage/storage_test_util.h"
 
 using namespace cairn::store;
+using namespace cairn::core;
+using namespace cairn::formats;
 using cairn::store::testing::read_file;
 using cairn::store::testing::TempDir;
 namespace fs = std::filesystem;

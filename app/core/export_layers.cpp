@@ -1,4 +1,4 @@
-#include "storage/export_layers.h"
+#include "app/core/export_layers.h"
 
 #include <algorithm>
 #include <filesystem>
@@ -13,7 +13,9 @@
 
 namespace fs = std::filesystem;
 
-namespace cairn::store {
+namespace cairn::core {
+
+using namespace cairn::store;  // the project file and its records (storage/)
 
 using namespace cairn::formats;  // file formats and value rules (formats/)
 
@@ -347,25 +349,4 @@ private:
 
 LayerSet build_layers(Project& p, const ExportOptions& o, RotationFrame frame) { return Builder(p, o, frame).build(); }
 
-void write_file_atomically(const std::string& path, const std::string& text) {
-  const fs::path target(path);
-  const fs::path tmp = target.parent_path() / ("." + target.filename().string() + "." + new_uuid().substr(0, 8) + ".tmp");
-  {
-    std::ofstream f(tmp, std::ios::binary | std::ios::trunc);
-    f << text;
-    f.flush();
-    if (!f) {
-      std::error_code ec;
-      fs::remove(tmp, ec);
-      throw std::runtime_error("cannot write " + path);
-    }
-  }
-  std::error_code ec;
-  fs::rename(tmp, target, ec);
-  if (ec) {
-    fs::remove(tmp, ec);
-    throw std::runtime_error("cannot write " + path + ": " + ec.message());
-  }
-}
-
-}  // namespace cairn::store
+}  // namespace cairn::core

@@ -1,0 +1,66 @@
+// GeoJSON as RFC 7946 defines it: one FeatureCollection (section 3.3) of Point
+// features (3.1.2) in WGS84 longitude, latitude (section 4; no "crs" member),
+// each feature's layer in its "layer" property (RFC 7946 has no layers).
+#include "formats/geojson.h"
+
+#include <cmath>
+
+#include "formats/json.h"
+
+namespace cairn::formats {
+
+namespace {
+
+void put_value(JsonWriter& j, const FieldValue& v) {
+  if (std::holds_alternative<std::monostate>(v)) j.null();
+  else if (auto s = std::get_if<std::string>(&v)) j.value(*s);
+  else if (auto d = std::get_if<double>(&v)) j.value(*d);
+  else if (auto n = std::get_if<int64_t>(&v)) j.value(static_cast<long long>(*n));
+  else if (auto b = std::get_if<bool>(&v)) j.value(*b);
+}
+
+// Coordinates rounded to 7 decimals (about 1 cm), beyond what RFC 7946 section
+// 11.2 suggests (6 decimals, about 10 cm) and below any field GPS's accuracy.
+double coordinate(double v) { return std::round(v * 1e7) / 1e7; }
+
+}  // namespace
+
+void write_geojson(std::ostream& out, const LayerSet& set) {
+  JsonWriter j(out, 15);
+  j.begin_object().key("type").value("FeatureCollection").key("features").begin_array();
+  for (const Layer& l : set.layers) {
+    const int uuid_field = [&] {
+      for (size_t i = 0; i < l.fields.size(); ++i)
+        if (l.fields[i].name == "uuid") return static_cast<int>(i);
+      return -1;
+    }();
+    for (const Feature& f : l.features) {
+      out << '\n';
+      j.begin_object().key("type").value("Feature");
+      // RFC 7946 section 3.2: a commonly used identifier goes in "id".
+      if (uuid_field >= 0) {
+        j.key("id");
+        put_value(j, f.values[static_cast<size_t>(uuid_field)]);
+      }
+      j.key("geometry");
+      if (f.where) {
+        // section 3.1.1: longitude first
+        j.begin_object().key("type").value("Point").key("coordinates").begin_array();
+        j.value(coordinate(f.where->lon)).value(coordinate(f.where->lat)).end_array().end_object();
+      } else {
+        j.null();  // section 3.2: a feature without a place has a null geometry
+      }
+      j.key("properties").begin_object().key("layer").value(l.name);
+      for (size_t i = 0; i < l.fields.size(); ++i) {
+        j.key(l.fields[i].name);
+        put_value(j, f.values[i]);
+      }
+      j.end_object().end_object();
+    }
+  }
+  out << '\n';
+  j.end_array().end_object();
+  out << '\n';
+}
+
+}  // namespace cairn::formats
