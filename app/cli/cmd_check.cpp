@@ -4,6 +4,7 @@
 #include <iostream>
 #include <map>
 #include <sstream>
+#include <fmt/printf.h>
 
 #include "app/cli/command.h"
 #include "formats/json.h"
@@ -20,9 +21,7 @@ namespace {
 
 std::string num(std::optional<double> v, const char* f = "%.1f") {
   if (!v) return "-";
-  char buf[32];
-  std::snprintf(buf, sizeof buf, f, *v);
-  return buf;
+  return fmt::sprintf(f, *v);
 }
 
 double option_number(Args& args, const std::string& opt, double fallback, double lo, double hi) {

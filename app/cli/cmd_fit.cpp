@@ -11,6 +11,7 @@
 #include <sstream>
 #include <string>
 #include <vector>
+#include <fmt/printf.h>
 
 #include "app/cli/command.h"
 #include "formats/json.h"
@@ -44,12 +45,6 @@ struct Input {
 std::string lower(std::string s) {
   for (auto& c : s) c = static_cast<char>(std::tolower(static_cast<unsigned char>(c)));
   return s;
-}
-
-std::string fmt(const char* f, double v) {
-  char buf[64];
-  std::snprintf(buf, sizeof buf, f, v);
-  return buf;
 }
 
 // A finite decimal number taking the whole field.
@@ -127,10 +122,10 @@ Result<Input> read_points(const std::string& path, std::optional<geo::UtmZoneSpe
     if (auto e = number("elevation", p.z)) return R::failure(*e);
     if (ll) {
       if (a < -90 || a > 90)
-        return R::failure(path + ":" + std::to_string(line) + ": column lat: " + fmt("%g", a) +
+        return R::failure(path + ":" + std::to_string(line) + ": column lat: " + fmt::sprintf("%g", a) +
                           " is outside -90..90");
       if (b < -180 || b > 180)
-        return R::failure(path + ":" + std::to_string(line) + ": column lon: " + fmt("%g", b) +
+        return R::failure(path + ":" + std::to_string(line) + ": column lon: " + fmt::sprintf("%g", b) +
                           " is outside -180..180");
       in.geo.push_back(geo::LatLon{a, b});
     } else {
@@ -148,7 +143,7 @@ Result<Input> read_points(const std::string& path, std::optional<geo::UtmZoneSpe
           if (auto e = number(name, v)) return R::failure(*e);
           if (v <= 0)
             return R::failure(path + ":" + std::to_string(line) + ": column " + name +
-                              ": must be greater than 0 metres, not " + fmt("%g", v));
+                              ": must be greater than 0 metres, not " + fmt::sprintf("%g", v));
           (std::string(name) == "h_accuracy" ? p.h_acc : p.v_acc) = v;
         }
         if (!given_line) given_line = line;
@@ -334,41 +329,38 @@ int run_fit(const Args& args_in, std::ostream& out, std::ostream& err) {
   if (fit.cone95) {
     const std::string from = fit.cone_source == geo::ConeSource::Accuracies
                                  ? "from the stated accuracies"
-                                 : "from the residual scatter, " + fmt("%.3g", *fit.sigma_normal) + " m";
-    row("95% confidence cone", fmt("%.2f", *fit.cone95) + "° (Monte Carlo, " +
+                                 : "from the residual scatter, " + fmt::sprintf("%.3g", *fit.sigma_normal) + " m";
+    row("95% confidence cone", fmt::sprintf("%.2f", *fit.cone95) + "° (Monte Carlo, " +
                                    std::to_string(fit.draws.size()) + " draws, " + from + ")");
   } else {
     row("95% confidence cone", "unknown (the points fit exactly and carry no accuracies)");
   }
-  row("Fernández M, K", (fit.M ? fmt("%.2f", *fit.M) : std::string("unbounded")) + ", " +
-                            (fit.K ? fmt("%.2f", *fit.K) : std::string("-")) +
+  row("Fernández M, K", (fit.M ? fmt::sprintf("%.2f", *fit.M) : std::string("unbounded")) + ", " +
+                            (fit.K ? fmt::sprintf("%.2f", *fit.K) : std::string("-")) +
                             (fit.M ? "" : " (points exactly coplanar)"));
   row("Verdict", fit.verdict);
-  row("RMS residual", fmt("%.3f", fit.rms) + " m");
-  if (fit.misfit_ratio) row("Residuals / stated accuracy", fmt("%.2f", *fit.misfit_ratio));
+  row("RMS residual", fmt::sprintf("%.3f", fit.rms) + " m");
+  if (fit.misfit_ratio) row("Residuals / stated accuracy", fmt::sprintf("%.2f", *fit.misfit_ratio));
   if (fit.weakness) out << "  " << *fit.weakness << "\n";
   if (in.zone)
     out << "  Azimuths against true north (UTM zone " << in.zone->zone << (in.zone->northp ? "N" : "S")
-        << ", grid convergence " << fmt("%+.4f", factors->convergence) << "°, scale "
-        << fmt("%.6f", factors->scale) << ").\n";
+        << ", grid convergence " << fmt::sprintf("%+.4f", factors->convergence) << "°, scale "
+        << fmt::sprintf("%.6f", factors->scale) << ").\n";
   else
     out << "  Azimuths against grid north (the file gives easting/northing).\n";
 
   out << "\nResiduals (perpendicular distance to the plane, + above it, metres):\n";
-  char buf[160];
-  std::snprintf(buf, sizeof buf, "  %5s %5s %14s %14s %10s %9s\n", "point", "line", "easting", "northing",
-                "elevation", "residual");
-  out << buf;
+  out << fmt::sprintf("  %5s %5s %14s %14s %10s %9s\n", "point", "line", "easting", "northing", "elevation",
+                      "residual");
   for (size_t i = 0; i < N; ++i) {
     const auto& p = in.points[i];
-    std::snprintf(buf, sizeof buf, "  %5zu %5d %14.3f %14.3f %10.3f %+9.3f%s\n", i + 1, in.lines[i], p.e, p.n, p.z,
-                  fit.residuals[i], i == fit.worst_index && N > 3 ? "  worst" : "");
-    out << buf;
+    out << fmt::sprintf("  %5d %5d %14.3f %14.3f %10.3f %+9.3f%s\n", i + 1, in.lines[i], p.e, p.n, p.z,
+                        fit.residuals[i], i == fit.worst_index && N > 3 ? "  worst" : "");
   }
   out << "\nStrike lines: ";
   if (spacing && strike_az)
-    out << "azimuth " << geo::format_quadrant_azimuth(*strike_az) << " (" << fmt("%05.1f", *strike_az) << "), "
-        << fmt("%.1f", *spacing) << " m apart horizontally for a " << fmt("%g", interval)
+    out << "azimuth " << geo::format_quadrant_azimuth(*strike_az) << " (" << fmt::sprintf("%05.1f", *strike_az) << "), "
+        << fmt::sprintf("%.1f", *spacing) << " m apart horizontally for a " << fmt::sprintf("%g", interval)
         << " m contour interval\n";
   else
     out << (spacing ? strike_az.error() : spacing.error()) << "\n";

@@ -14,6 +14,7 @@
 #include <ostream>
 #include <sstream>
 #include <stdexcept>
+#include <fmt/format.h>
 
 #include "app/cli/command.h"
 #include "formats/json.h"
@@ -91,9 +92,7 @@ void write_text(std::ostream& out, const std::string& target, const store::Merge
       out << ": kept by the record from " << k.kept_device << "; the one from " << k.renamed_device
           << " is stored as " << k.stored_as;
       if (k.distance_m) {
-        char buf[32];
-        std::snprintf(buf, sizeof buf, "%.0f", *k.distance_m);
-        out << " (" << buf << " m apart)";
+        out << fmt::format(" ({:.0f} m apart)", *k.distance_m);
       }
       out << "; suggested new code: " << k.suggestion << "\n";
     }

@@ -2,6 +2,7 @@
 
 #include <cmath>
 #include <cstdio>
+#include <fmt/format.h>
 
 #include "geomath/angles.h"
 #include "geomath/notation.h"
@@ -52,10 +53,8 @@ Result<std::string> apply_correction(Project& p, const geo::Flag& f) {
       u.declination_source.clear();
       change = "north reference magnetic -> true (declination was already set on the compass)";
     } else {
-      char buf[160];
-      std::snprintf(buf, sizeof buf, "the suggested turn of %+.1f degrees does not match the reading's north reference",
-                    turn);
-      return R::failure(buf);
+      return R::failure(
+          fmt::format("the suggested turn of {:+.1f} degrees does not match the reading's north reference", turn));
     }
   }
   u.notes = r->notes + (r->notes.empty() ? "" : " ") + "[corrected after " + f.rule + ": " + change + "]";

@@ -3,6 +3,7 @@
 #include <algorithm>
 #include <cmath>
 #include <cstdio>
+#include <fmt/format.h>
 
 #include "app/plot/symbols.h"
 
@@ -30,9 +31,7 @@ std::string svg_number(double v, int decimals) {
   if (!std::isfinite(v)) return "0";
   if (decimals < 0) decimals = 0;
   if (decimals > 9) decimals = 9;
-  char buf[64];
-  std::snprintf(buf, sizeof buf, "%.*f", decimals, v);
-  std::string s = buf;
+  std::string s = fmt::format("{:.{}f}", v, decimals);
   if (s.find('.') != std::string::npos) {
     while (s.back() == '0') s.pop_back();
     if (s.back() == '.') s.pop_back();
@@ -42,9 +41,7 @@ std::string svg_number(double v, int decimals) {
 }
 
 std::string svg_colour(Rgba c) {
-  char buf[8];
-  std::snprintf(buf, sizeof buf, "#%02x%02x%02x", c.r, c.g, c.b);
-  return buf;
+  return fmt::format("#{:02x}{:02x}{:02x}", c.r, c.g, c.b);
 }
 
 std::string xml_escape(std::string_view text) {
