@@ -19,17 +19,6 @@ std::string format_number(double v) {
   return s;
 }
 
-std::optional<double> parse_decimal(std::string_view t) {
-  while (!t.empty() && std::isspace(static_cast<unsigned char>(t.front()))) t.remove_prefix(1);
-  while (!t.empty() && std::isspace(static_cast<unsigned char>(t.back()))) t.remove_suffix(1);
-  if (!t.empty() && t.front() == '+') t.remove_prefix(1);
-  if (t.empty()) return std::nullopt;
-  double v = 0;
-  auto [p, ec] = std::from_chars(t.data(), t.data() + t.size(), v, std::chars_format::fixed);
-  if (ec != std::errc() || p != t.data() + t.size() || !std::isfinite(v)) return std::nullopt;
-  return v;
-}
-
 Check check_number_text(std::string_view text, const std::string& what, double* out) {
   auto v = parse_decimal(text);
   if (!v) return Broken{"number", what + " '" + std::string(text) + "' is not a number"};

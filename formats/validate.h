@@ -5,6 +5,7 @@
 #include <optional>
 #include <string>
 #include <string_view>
+#include "geomath/decimal.h"
 
 namespace cairn::formats {
 
@@ -18,8 +19,8 @@ using Check = std::optional<Broken>;
 // Shortest decimal text of a number as it appears in messages and CSV ("30", "40.5").
 std::string format_number(double v);
 
-// A whole text as a finite decimal number (leading '+' allowed, no hex, no inf/nan).
-std::optional<double> parse_decimal(std::string_view text);
+// The one number reader (geomath/decimal.h has its rules).
+using geo::parse_decimal;
 // Rule "number": `what` is the quantity ("latitude").
 Check check_number_text(std::string_view text, const std::string& what, double* out);
 // Rule "integer": a whole number.

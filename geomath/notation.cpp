@@ -7,6 +7,7 @@
 #include <vector>
 
 #include "geomath/angles.h"
+#include "geomath/decimal.h"
 
 namespace cairn::geo {
 
@@ -64,9 +65,10 @@ public:
       ++j;
     }
     if (!digits) return std::nullopt;
-    const double v = std::strtod(s_.substr(i_, j - i_).c_str(), nullptr);
+    const auto v = parse_decimal(std::string_view(s_).substr(i_, j - i_));
+    if (!v) return std::nullopt;
     i_ = j;
-    return v;
+    return *v;
   }
   // The run of compass letters N, E, S, W at the cursor.
   std::string letters() {

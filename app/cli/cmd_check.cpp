@@ -13,6 +13,7 @@
 #include "geomath/notation.h"
 #include "geomath/strike_lines.h"
 #include "app/core/check_input.h"
+#include "geomath/decimal.h"
 
 namespace cairn::cli {
 
@@ -27,9 +28,9 @@ std::string num(std::optional<double> v, const char* f = "%.1f") {
 double option_number(Args& args, const std::string& opt, double fallback, double lo, double hi) {
   auto v = take_option(args, opt);
   if (!v) return fallback;
-  char* end = nullptr;
-  const double d = std::strtod(v->c_str(), &end);
-  if (end == v->c_str() || *end || !(d >= lo && d <= hi))
+  const auto parsed = geo::parse_decimal(*v);
+  const double d = parsed.value_or(NAN);
+  if (!parsed || !(d >= lo && d <= hi))
     throw std::invalid_argument(opt + " must be a number from " + num(lo, "%g") + " to " + num(hi, "%g") +
                                 ", not '" + *v + "'");
   return d;

@@ -11,6 +11,7 @@
 #include "app/cli/command.h"
 #include "app/cli/magnetic_source.h"
 #include "geomath/magnetic.h"
+#include "geomath/decimal.h"
 
 namespace cairn::cli {
 namespace {
@@ -25,11 +26,9 @@ std::string iso(const Date& d) {
 
 // A whole string as a finite number, or nothing.
 bool parse_number(const std::string& s, double& v) {
-  const char* b = s.data();
-  const char* e = b + s.size();
-  if (b != e && *b == '+') ++b;
-  auto [p, ec] = std::from_chars(b, e, v);
-  return ec == std::errc() && p == e && std::isfinite(v);
+  const auto parsed = geo::parse_decimal(s);
+  if (parsed) v = *parsed;
+  return parsed.has_value();
 }
 
 double parse_coordinate(const std::string& s, const char* what, double lo, double hi) {

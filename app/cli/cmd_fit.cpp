@@ -21,6 +21,7 @@
 #include "geomath/plane_fit.h"
 #include "geomath/strike_lines.h"
 #include "formats/csv.h"
+#include "geomath/decimal.h"
 
 namespace cairn::cli {
 
@@ -47,19 +48,8 @@ std::string lower(std::string s) {
   return s;
 }
 
-// A finite decimal number taking the whole field.
-std::optional<double> parse_number(const std::string& s) {
-  if (s.empty()) return std::nullopt;
-  for (char c : s)
-    if (!(std::isdigit(static_cast<unsigned char>(c)) || c == '.' || c == '-' || c == '+' || c == 'e' ||
-          c == 'E'))
-      return std::nullopt;
-  char* end = nullptr;
-  errno = 0;
-  const double v = std::strtod(s.c_str(), &end);
-  if (end != s.c_str() + s.size() || errno == ERANGE || !std::isfinite(v)) return std::nullopt;
-  return v;
-}
+// A decimal number taking the whole field (geomath/decimal.h has the rules).
+std::optional<double> parse_number(const std::string& s) { return geo::parse_decimal(s); }
 
 // Reads and checks the CSV; on failure returns the message ("FILE:LINE: ...").
 Result<Input> read_points(const std::string& path, std::optional<geo::UtmZoneSpec> utm) {

@@ -18,6 +18,7 @@
 #include "geomath/strike_lines.h"
 #include "storage/repository.h"
 #include "formats/sha256.h"
+#include "geomath/decimal.h"
 
 namespace cairn::ui {
 
@@ -27,12 +28,12 @@ namespace {
 
 // A number typed on the keypad, or an error naming the field.
 bool read_number(const std::string& text, const std::string& what, double* v, std::string* error) {
-  char* end = nullptr;
-  *v = std::strtod(text.c_str(), &end);
-  if (text.empty() || end == text.c_str() || *end != 0 || !std::isfinite(*v)) {
+  const auto parsed = geo::parse_decimal(text);
+  if (!parsed) {
     *error = what + " '" + text + "' is not a number";
     return false;
   }
+  *v = *parsed;
   return true;
 }
 

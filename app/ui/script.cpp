@@ -8,6 +8,7 @@
 
 #include "app/ui/app.h"
 #include "app/ui/widgets.h"
+#include "geomath/decimal.h"
 
 namespace cairn::ui {
 
@@ -47,9 +48,9 @@ std::vector<std::string> split_words(const std::string& line, bool* ok) {
 }
 
 bool number(const std::string& s, double* v) {
-  char* end = nullptr;
-  *v = std::strtod(s.c_str(), &end);
-  return end != s.c_str() && *end == 0 && std::isfinite(*v);
+  const auto parsed = geo::parse_decimal(s);
+  if (parsed) *v = *parsed;
+  return parsed.has_value();
 }
 
 const std::vector<std::pair<std::string, size_t>> kArity = {
