@@ -1,4 +1,5 @@
 // The `cairn` command: a field logbook for structural geologists.
+#include <algorithm>
 #include <iostream>
 #include <stdexcept>
 
@@ -8,16 +9,20 @@
 using cairn::cli::Args;
 
 static void print_help(std::ostream& os) {
-  os << "cairn: an offline field logbook for structural geologists\n\nUsage:\n";
-  for (const auto& c : cairn::cli::commands()) os << "  " << c.usage << "\n";
-  os << "\nRun 'cairn help VERB' for one verb.\n";
+  os << "cairn: an offline field logbook for structural geologists\n\nVerbs:\n";
+  size_t w = 0;
+  for (const auto& c : cairn::cli::commands()) w = std::max(w, c.name.size());
+  for (const auto& c : cairn::cli::commands())
+    os << "  " << c.name << std::string(w + 2 - c.name.size(), ' ') << c.summary << "\n";
+  os << "\nRun 'cairn help VERB' (or 'cairn VERB --help') for one verb's arguments.\n";
 }
 
 int main(int argc, char** argv) {
   Args args(argv + 1, argv + argc);
   if (args.empty()) {
     // With a display, no arguments opens the touch UI (when built); otherwise help.
-    if (const auto* gui = cairn::cli::find_command("gui"); gui && cairn::cli::have_display()) return gui->run({}, std::cout, std::cerr);
+    if (const auto* gui = cairn::cli::find_command("gui"); gui && cairn::cli::have_display())
+      return cairn::cli::run_command(*gui, {}, std::cout, std::cerr);
     print_help(std::cout);
     return 0;
   }
@@ -26,7 +31,7 @@ int main(int argc, char** argv) {
   if (verb == "help" || verb == "--help" || verb == "-h") {
     if (!args.empty()) {
       if (const auto* c = cairn::cli::find_command(args.front())) {
-        std::cout << c->usage << "\n  " << c->summary << "\n";
+        std::cout << cairn::cli::usage_of(*c);
         return 0;
       }
     }
@@ -39,13 +44,5 @@ int main(int argc, char** argv) {
     print_help(std::cerr);
     return 2;
   }
-  try {
-    return cmd->run(args, std::cout, std::cerr);
-  } catch (const std::invalid_argument& e) {
-    std::cerr << "cairn " << verb << ": " << e.what() << "\nusage: " << cmd->usage << "\n";
-    return 2;
-  } catch (const std::exception& e) {
-    std::cerr << "cairn " << verb << ": " << e.what() << "\n";
-    return 1;
-  }
+  return cairn::cli::run_command(*cmd, args, std::cout, std::cerr);
 }

@@ -25,17 +25,6 @@ std::string num(std::optional<double> v, const char* f = "%.1f") {
   return fmt::sprintf(f, *v);
 }
 
-double option_number(Args& args, const std::string& opt, double fallback, double lo, double hi) {
-  auto v = take_option(args, opt);
-  if (!v) return fallback;
-  const auto parsed = geo::parse_decimal(*v);
-  const double d = parsed.value_or(NAN);
-  if (!parsed || !(d >= lo && d <= hi))
-    throw std::invalid_argument(opt + " must be a number from " + num(lo, "%g") + " to " + num(hi, "%g") +
-                                ", not '" + *v + "'");
-  return d;
-}
-
 void write_json(std::ostream& out, const core::CheckData& data, const geo::CheckReport& rep, geo::Severity min) {
   JsonWriter j(out);
   j.begin_object();
@@ -170,21 +159,22 @@ void write_text(std::ostream& out, const core::CheckData& data, const geo::Check
   out << "\n";
 }
 
-int run_check(const Args& in, std::ostream& out, std::ostream& err) {
-  Args args = in;
-  const bool json = take_flag(args, "--json");
+struct CheckArgs {
+  std::string file;
+  bool json = false;
+  std::optional<std::string> min_severity;
+  std::optional<double> nearby, friction, confidence;
+};
+
+int run_check(const CheckArgs& a, std::ostream& out, std::ostream& err) {
+  const std::vector<std::string> args{a.file};
+  const bool json = a.json;
   geo::Severity min = geo::Severity::Note;
-  if (auto s = take_option(args, "--min-severity")) {
-    auto v = geo::parse_severity(*s);
-    if (!v) throw std::invalid_argument("--min-severity must be one of note, query, conflict, hazard, not '" + *s + "'");
-    min = *v;
-  }
+  if (a.min_severity) min = *geo::parse_severity(*a.min_severity);  // one of the choices
   geo::CheckOptions o;
-  const double nearby = option_number(args, "--nearby", -1, 0, 100000);  // -1: the project's setting
-  o.friction_angle = option_number(args, "--friction", o.friction_angle, 0, 89);
-  o.confidence = option_number(args, "--confidence", o.confidence, 0.5, 0.9999);
-  reject_unknown_options(args);
-  if (args.size() != 1) throw std::invalid_argument("expected one project file");
+  const double nearby = a.nearby.value_or(-1);  // -1: the project's setting
+  o.friction_angle = a.friction.value_or(o.friction_angle);
+  o.confidence = a.confidence.value_or(o.confidence);
 
   store::OpenOptions oo;
   oo.read_only = true;
@@ -216,9 +206,22 @@ int run_check(const Args& in, std::ostream& out, std::ostream& err) {
   return 0;
 }
 
+Runner define(CLI::App& app) {
+  auto a = std::make_shared<CheckArgs>();
+  positional(app, "FILE", a->file, "the project file");
+  flag(app, "--json", a->json, "print the fits and flags as JSON");
+  choice(app, "--min-severity", a->min_severity, {"note", "query", "conflict", "hazard"},
+         "show flags of this severity and worse (default: note)");
+  number(app, "--nearby", a->nearby, 0, 100000,
+         "compare readings that name no contact with the nearest contact within this many metres "
+         "(default: the project's setting)");
+  number(app, "--friction", a->friction, 0, 89, "friction angle in degrees for the slope screening");
+  number(app, "--confidence", a->confidence, 0.5, 0.9999, "confidence level of the cones (default 0.95)");
+  return [a](std::ostream& out, std::ostream& err) { return run_check(*a, out, err); };
+}
+
 }  // namespace
 
-CAIRN_COMMAND(Command{"check", "cairn check FILE [--json] [--min-severity note|query|conflict|hazard] [--nearby METRES (default: the project's)] [--friction DEG] [--confidence P]",
-                      "Fit every contact and cross-check the readings against the fits", run_check});
+CAIRN_COMMAND(Command{"check", "fit every contact and cross-check the readings against the fits", define});
 
 }  // namespace cairn::cli

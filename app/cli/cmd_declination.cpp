@@ -83,13 +83,17 @@ std::string east_west(double decl) {
   return mag + "° " + (decl > 0 ? "E" : "W");
 }
 
-int run(const Args& in, std::ostream& out, std::ostream& err) {
-  Args args = in;
-  const bool json = take_flag(args, "--json");
-  const auto date_opt = take_option(args, "--date");
-  const auto height_opt = take_option(args, "--height");
-  reject_unknown_options(args);
-  if (args.size() != 2) throw std::invalid_argument("expected LAT LON (decimal degrees)");
+struct DeclinationArgs {
+  std::string lat, lon;
+  bool json = false;
+  std::optional<std::string> date, height;
+};
+
+int run(const DeclinationArgs& a, std::ostream& out, std::ostream& err) {
+  const std::vector<std::string> args{a.lat, a.lon};
+  const bool json = a.json;
+  const auto& date_opt = a.date;
+  const auto& height_opt = a.height;
 
   const double lat = parse_coordinate(args[0], "latitude", -90.0, 90.0);
   const double lon = parse_coordinate(args[1], "longitude", -180.0, 360.0);
@@ -144,12 +148,19 @@ int run(const Args& in, std::ostream& out, std::ostream& err) {
   return 0;
 }
 
+Runner define(CLI::App& app) {
+  auto a = std::make_shared<DeclinationArgs>();
+  positional(app, "LAT", a->lat, "latitude, decimal degrees (WGS84)");
+  positional(app, "LON", a->lon, "longitude, decimal degrees (WGS84)");
+  option(app, "--date", a->date, "YYYY-MM-DD or YEAR.FRACTION (default: today)");
+  option(app, "--height", a->height, "metres above the WGS84 ellipsoid (default 0)");
+  flag(app, "--json", a->json, "print JSON");
+  return [a](std::ostream& out, std::ostream& err) { return run(*a, out, err); };
+}
+
 }  // namespace
 
-CAIRN_COMMAND(Command{
-    "declination",
-    "cairn declination LAT LON [--date YYYY-MM-DD|YEAR.FRACTION] [--height METRES] [--json]",
-    "magnetic declination to set on a compass at a place and date (World Magnetic Model)",
-    run});
+CAIRN_COMMAND(Command{"declination",
+                      "magnetic declination to set on a compass at a place and date (World Magnetic Model)", define});
 
 }  // namespace cairn::cli

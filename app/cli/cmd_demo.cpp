@@ -65,12 +65,14 @@ void check_import(const store::ImportReport& r, const std::string& what) {
   throw std::logic_error("the demo's " + what + " did not import:" + all);
 }
 
-int run_demo(const Args& in, std::ostream& out, std::ostream&) {
-  Args args = in;
-  const bool force = take_flag(args, "--force");
-  reject_unknown_options(args);
-  if (args.size() > 1) throw std::invalid_argument("expected at most one folder");
-  const fs::path dir = args.empty() ? fs::path("demo_project") : fs::path(args[0]);
+struct DemoArgs {
+  std::string dir;
+  bool force = false;
+};
+
+int run_demo(const DemoArgs& a, std::ostream& out, std::ostream&) {
+  const bool force = a.force;
+  const fs::path dir = a.dir.empty() ? fs::path("demo_project") : fs::path(a.dir);
   fs::create_directories(dir);
   for (const char* f : kFiles)
     if (fs::exists(dir / f) && !force)
@@ -111,9 +113,15 @@ int run_demo(const Args& in, std::ostream& out, std::ostream&) {
   return 0;
 }
 
+Runner define(CLI::App& app) {
+  auto a = std::make_shared<DemoArgs>();
+  positional(app, "DIR", a->dir, "the folder to build it in (default: demo_project)", false);
+  flag(app, "--force", a->force, "replace the demo files in a folder that has them");
+  return [a](std::ostream& out, std::ostream& err) { return run_demo(*a, out, err); };
+}
+
 }  // namespace
 
-CAIRN_COMMAND(Command{"demo", "cairn demo [DIR] [--force]",
-                      "Build the invented demo field area (default folder demo_project)", run_demo});
+CAIRN_COMMAND(Command{"demo", "build the invented demo field area (default folder demo_project)", define});
 
 }  // namespace cairn::cli

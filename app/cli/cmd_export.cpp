@@ -16,13 +16,15 @@ namespace cairn::cli {
 using formats::JsonWriter;
 namespace {
 
-int run(const Args& in, std::ostream& out, std::ostream& err) {
-  Args args = in;
-  const bool json = take_flag(args, "--json");
-  reject_unknown_options(args);
-  if (args.size() != 2) throw std::invalid_argument("expected FILE and OUT");
-  const std::string& file = args[0];
-  const std::string& target = args[1];
+struct ExportArgs {
+  std::string file, target;
+  bool json = false;
+};
+
+int run(const ExportArgs& a, std::ostream& out, std::ostream& err) {
+  const std::string& file = a.file;
+  const std::string& target = a.target;
+  const bool json = a.json;
   auto format = core::export_format_for(target);
   if (!format) throw std::invalid_argument(format.error());
 
@@ -67,10 +69,17 @@ int run(const Args& in, std::ostream& out, std::ostream& err) {
   return 0;
 }
 
+Runner define(CLI::App& app) {
+  auto a = std::make_shared<ExportArgs>();
+  positional(app, "FILE", a->file, "the project file");
+  positional(app, "OUT", a->target, "OUT.gpkg (GeoPackage), OUT.geojson (GeoJSON) or a FOLDER (CSV files)");
+  flag(app, "--json", a->json, "print a JSON summary of what was written");
+  return [a](std::ostream& out, std::ostream& err) { return run(*a, out, err); };
+}
+
 }  // namespace
 
-CAIRN_COMMAND(Command{"export", "cairn export FILE OUT.gpkg|OUT.geojson|FOLDER [--json]",
-                      "export to a GeoPackage, a GeoJSON file, or CSV files that `cairn import` reads back",
-                      run});
+CAIRN_COMMAND(Command{"export", "export to a GeoPackage, a GeoJSON file, or CSV files that `cairn import` reads back",
+                      define});
 
 }  // namespace cairn::cli

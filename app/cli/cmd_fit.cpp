@@ -30,7 +30,7 @@ namespace {
 
 using geo::FitPoint;
 
-const char* kUsage = "cairn fit POINTS.csv [--interval METRES] [--utm ZONE] [--json]";
+
 const char* kColumns =
     "easting,northing,elevation or lat,lon,elevation, optionally h_accuracy,v_accuracy (metres)";
 
@@ -174,24 +174,27 @@ Result<Input> read_points(const std::string& path, std::optional<geo::UtmZoneSpe
   return in;
 }
 
-int run_fit(const Args& args_in, std::ostream& out, std::ostream& err) {
-  Args args = args_in;
-  const bool json = take_flag(args, "--json");
+struct FitArgs {
+  std::string path;
+  bool json = false;
+  std::optional<std::string> interval, utm;
+};
+
+int run_fit(const FitArgs& a, std::ostream& out, std::ostream& err) {
+  const bool json = a.json;
   double interval = 100.0;
-  if (auto v = take_option(args, "--interval")) {
+  if (const auto& v = a.interval) {
     auto d = parse_number(*v);
     if (!d || *d <= 0) throw std::invalid_argument("--interval must be a positive number of metres, not '" + *v + "'");
     interval = *d;
   }
   std::optional<geo::UtmZoneSpec> utm;
-  if (auto v = take_option(args, "--utm")) {
+  if (const auto& v = a.utm) {
     auto z = geo::parse_utm_zone(*v);
     if (!z) throw std::invalid_argument("--utm: " + z.error());
     utm = *z;
   }
-  reject_unknown_options(args);
-  if (args.size() != 1) throw std::invalid_argument("give exactly one POINTS.csv file");
-  const std::string path = args[0];
+  const std::string path = a.path;
 
   auto input = read_points(path, utm);
   if (!input) {
@@ -357,10 +360,18 @@ int run_fit(const Args& args_in, std::ostream& out, std::ostream& err) {
   return 0;
 }
 
+Runner define(CLI::App& app) {
+  auto a = std::make_shared<FitArgs>();
+  positional(app, "POINTS.csv", a->path, std::string("a CSV with columns ") + kColumns);
+  option(app, "--interval", a->interval, "contour interval in metres for the strike lines (default 100)");
+  option(app, "--utm", a->utm, "the UTM zone of lat/lon points, e.g. 33N (default: from the first point)");
+  flag(app, "--json", a->json, "print JSON");
+  return [a](std::ostream& out, std::ostream& err) { return run_fit(*a, out, err); };
+}
+
 }  // namespace
 
-CAIRN_COMMAND(Command{"fit", kUsage,
-                      "best-fit plane through points on a contact: strike/dip, 95% cone, quality, strike lines",
-                      run_fit});
+CAIRN_COMMAND(Command{"fit", "best-fit plane through points on a contact: strike/dip, 95% cone, quality, strike lines",
+                      define});
 
 }  // namespace cairn::cli

@@ -12,14 +12,16 @@ namespace {
 
 const char* kKinds = "units, contacts, stations, planes, lines, points, waypoints";
 
-int run(const Args& in, std::ostream& out, std::ostream& err) {
-  Args args = in;
-  const auto contact = take_option(args, "--contact");
-  reject_unknown_options(args);
-  if (args.size() != 3) throw std::invalid_argument("expected FILE KIND PATH");
-  const std::string& file = args[0];
-  const std::string& kind_name = args[1];
-  const std::string& path = args[2];
+struct ImportArgs {
+  std::string file, kind, path;
+  std::optional<std::string> contact;
+};
+
+int run(const ImportArgs& a, std::ostream& out, std::ostream& err) {
+  const auto& contact = a.contact;
+  const std::string& file = a.file;
+  const std::string& kind_name = a.kind;
+  const std::string& path = a.path;
   const bool waypoints = kind_name == "waypoints";
   const auto kind = store::parse_import_kind(kind_name);
   if (!waypoints && !kind) throw std::invalid_argument("KIND '" + kind_name + "' is not one of: " + kKinds);
@@ -41,11 +43,20 @@ int run(const Args& in, std::ostream& out, std::ostream& err) {
   return 0;
 }
 
+Runner define(CLI::App& app) {
+  auto a = std::make_shared<ImportArgs>();
+  positional(app, "FILE", a->file, "the project file");
+  positional(app, "KIND", a->kind, std::string("what the file holds: ") + kKinds);
+  positional(app, "PATH", a->path, "the CSV file (or GPX file for waypoints)");
+  option(app, "--contact", a->contact, "with KIND waypoints: the contact the points lie on");
+  return [a](std::ostream& out, std::ostream& err) { return run(*a, out, err); };
+}
+
 }  // namespace
 
-CAIRN_COMMAND(Command{"import", "cairn import FILE KIND PATH [--contact NAME]",
+CAIRN_COMMAND(Command{"import",
                       "import a CSV of units, contacts, stations, planes, lines or points, or GPX waypoints "
                       "(all or nothing)",
-                      run});
+                      define});
 
 }  // namespace cairn::cli

@@ -10,10 +10,12 @@
 namespace cairn::cli {
 namespace {
 
-int run(const Args& in, std::ostream& out, std::ostream& err) {
-  Args args = in;
-  reject_unknown_options(args);
-  if (args.size() != 2) throw std::invalid_argument("expected FILE KIND");
+struct ListArgs {
+  std::string file, kind;
+};
+
+int run(const ListArgs& a, std::ostream& out, std::ostream& err) {
+  const std::vector<std::string> args{a.file, a.kind};
   const auto kind = store::parse_import_kind(args[1]);
   if (!kind)
     throw std::invalid_argument("KIND '" + args[1] + "' is not one of: units, contacts, stations, planes, lines, points");
@@ -22,9 +24,16 @@ int run(const Args& in, std::ostream& out, std::ostream& err) {
   return 0;
 }
 
+Runner define(CLI::App& app) {
+  auto a = std::make_shared<ListArgs>();
+  positional(app, "FILE", a->file, "the project file");
+  positional(app, "KIND", a->kind, "units, contacts, stations, planes, lines or points");
+  return [a](std::ostream& out, std::ostream& err) { return run(*a, out, err); };
+}
+
 }  // namespace
 
-CAIRN_COMMAND(Command{"list", "cairn list FILE KIND",
-                      "print the units, contacts, stations, planes, lines or points of a project as CSV", run});
+CAIRN_COMMAND(Command{"list", "print the units, contacts, stations, planes, lines or points of a project as CSV",
+                      define});
 
 }  // namespace cairn::cli

@@ -223,14 +223,18 @@ int list_open(const std::string& file, bool json, std::ostream& out, std::ostrea
   return 0;
 }
 
-int run(const Args& in, std::ostream& out, std::ostream& err) {
-  Args args = in;
-  const bool json = take_flag(args, "--json");
-  const bool show_progress = take_flag(args, "--progress");
-  const bool quiet = take_flag(args, "--quiet");
-  const bool conflicts = take_flag(args, "--conflicts");
-  reject_unknown_options(args);
-  if (conflicts) {
+struct MergeArgs {
+  std::vector<std::string> files;  // TARGET SOURCE...
+  bool json = false, show_progress = false, quiet = false, conflicts = false;
+};
+
+int run(const MergeArgs& a, std::ostream& out, std::ostream& err) {
+  const std::vector<std::string>& args = a.files;
+  const bool json = a.json;
+  const bool show_progress = a.show_progress;
+  const bool quiet = a.quiet;
+  if (args.empty()) throw std::invalid_argument("expected TARGET and at least one SOURCE file");
+  if (a.conflicts) {
     if (args.size() != 1) throw std::invalid_argument("--conflicts takes the project file only");
     return list_open(args[0], json, out, err);
   }
@@ -294,10 +298,20 @@ int run(const Args& in, std::ostream& out, std::ostream& err) {
   return 0;
 }
 
+Runner define(CLI::App& app) {
+  auto a = std::make_shared<MergeArgs>();
+  positionals(app, "TARGET SOURCE...", a->files,
+              "the camp file, then the tablets' project files to merge into it (with --conflicts: the camp file only)");
+  flag(app, "--conflicts", a->conflicts, "list the open conflicts of TARGET instead of merging");
+  flag(app, "--json", a->json, "print JSON");
+  flag(app, "--progress", a->show_progress, "report progress on stderr");
+  flag(app, "--quiet", a->quiet, "print nothing but errors");
+  return [a](std::ostream& out, std::ostream& err) { return run(*a, out, err); };
+}
+
 }  // namespace
 
-CAIRN_COMMAND(Command{"merge", "cairn merge TARGET SOURCE... [--json] [--progress] [--quiet] | cairn merge TARGET --conflicts [--json]",
-                      "merge tablets' project files into a camp file by UUID (all or nothing); list conflicts",
-                      run});
+CAIRN_COMMAND(Command{"merge", "merge tablets' project files into a camp file by UUID (all or nothing); list conflicts",
+                      define});
 
 }  // namespace cairn::cli

@@ -13,15 +13,18 @@ namespace cairn::cli {
 using namespace cairn::formats;  // file formats and value rules (formats/)
 namespace {
 
-int run(const Args& in, std::ostream& out, std::ostream&) {
-  Args args = in;
-  const auto name = take_option(args, "--name");
-  const auto utm = take_option(args, "--utm");
-  const auto north = take_option(args, "--north");
-  const auto decl = take_option(args, "--declination");
-  const auto nearby = take_option(args, "--nearby");
-  reject_unknown_options(args);
-  if (args.size() != 1) throw std::invalid_argument("expected one FILE");
+struct NewArgs {
+  std::string file;
+  std::optional<std::string> name, utm, north, decl, nearby;
+};
+
+int run(const NewArgs& a, std::ostream& out, std::ostream&) {
+  const std::vector<std::string> args{a.file};
+  const auto& name = a.name;
+  const auto& utm = a.utm;
+  const auto& north = a.north;
+  const auto& decl = a.decl;
+  const auto& nearby = a.nearby;
   if (!name || name->empty()) throw std::invalid_argument("--name NAME is required");
   store::NewProject np;
   np.name = *name;
@@ -61,10 +64,20 @@ int run(const Args& in, std::ostream& out, std::ostream&) {
   return 0;
 }
 
+Runner define(CLI::App& app) {
+  auto a = std::make_shared<NewArgs>();
+  positional(app, "FILE", a->file, "the project file to make (NAME.cairn)");
+  option(app, "--name", a->name, "the project's name (required)")->required();
+  option(app, "--utm", a->utm, "the working UTM zone, e.g. 33N (default: from the first position)");
+  option(app, "--north", a->north, "the north readings are taken against by default: true or magnetic");
+  option(app, "--declination", a->decl, "the project's declination in degrees, east positive");
+  option(app, "--nearby", a->nearby,
+         "compare readings that name no contact with the nearest contact within this many metres (0: off)");
+  return [a](std::ostream& out, std::ostream& err) { return run(*a, out, err); };
+}
+
 }  // namespace
 
-CAIRN_COMMAND(Command{"new",
-                      "cairn new FILE --name NAME [--utm ZONE] [--north true|magnetic] [--declination DEGREES] [--nearby METRES]",
-                      "make a new, empty project file (NAME.cairn)", run});
+CAIRN_COMMAND(Command{"new", "make a new, empty project file (NAME.cairn)", define});
 
 }  // namespace cairn::cli

@@ -72,18 +72,16 @@ DeclinationSummary summarise_declination(const geo::MagneticModel& m, const Repo
   return s;
 }
 
-int run_report(const Args& in, std::ostream& out, std::ostream& err) {
-  Args args = in;
-  auto output = take_option(args, "-o");
-  if (!output) output = take_option(args, "--output");
-  geo::NetKind net = geo::NetKind::EqualArea;
-  if (auto k = take_option(args, "--net")) {
-    if (*k == "equal-area") net = geo::NetKind::EqualArea;
-    else if (*k == "equal-angle") net = geo::NetKind::EqualAngle;
-    else throw std::invalid_argument("--net must be equal-area or equal-angle, not '" + *k + "'");
-  }
-  reject_unknown_options(args);
-  if (args.size() != 1) throw std::invalid_argument("expected one project file");
+struct ReportArgs {
+  std::string file;
+  std::optional<std::string> output, net;
+};
+
+int run_report(const ReportArgs& a, std::ostream& out, std::ostream& err) {
+  const std::vector<std::string> args{a.file};
+  const auto& output = a.output;
+  const geo::NetKind net =
+      a.net.value_or("equal-area") == "equal-angle" ? geo::NetKind::EqualAngle : geo::NetKind::EqualArea;
   if (!output || output->empty()) throw std::invalid_argument("-o REPORT.html is required");
   {
     std::error_code ec;
@@ -137,10 +135,18 @@ int run_report(const Args& in, std::ostream& out, std::ostream& err) {
   return 0;
 }
 
+Runner define(CLI::App& app) {
+  auto a = std::make_shared<ReportArgs>();
+  positional(app, "FILE", a->file, "the project file");
+  option(app, "-o,--output", a->output, "the HTML file to write (required)")->required();
+  choice(app, "--net", a->net, {"equal-area", "equal-angle"}, "the stereonet projection (default: equal-area)");
+  return [a](std::ostream& out, std::ostream& err) { return run_report(*a, out, err); };
+}
+
 }  // namespace
 
-CAIRN_COMMAND(Command{"report", "cairn report FILE -o REPORT.html [--net equal-area|equal-angle]",
-                      "Write the evening report: one self-contained HTML file with summary, flags, plan and nets",
-                      run_report});
+CAIRN_COMMAND(Command{"report",
+                      "write the evening report: one self-contained HTML file with summary, flags, plan and nets",
+                      define});
 
 }  // namespace cairn::cli
