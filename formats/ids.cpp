@@ -1,5 +1,7 @@
 #include "formats/ids.h"
 
+#include <date/date.h>
+
 #include <chrono>
 #include <cstdio>
 #include <ctime>
@@ -43,16 +45,8 @@ bool is_uuid(std::string_view s) {
 }
 
 std::string utc_now() {
-  using namespace std::chrono;
-  const auto now = system_clock::now();
-  const auto ms = duration_cast<milliseconds>(now.time_since_epoch()).count() % 1000;
-  const std::time_t t = system_clock::to_time_t(now);
-  std::tm tm{};
-  gmtime_r(&t, &tm);
-  char buf[96];
-  std::snprintf(buf, sizeof buf, "%04d-%02d-%02dT%02d:%02d:%02d.%03dZ", tm.tm_year + 1900,
-                tm.tm_mon + 1, tm.tm_mday, tm.tm_hour, tm.tm_min, tm.tm_sec, static_cast<int>(ms));
-  return buf;
+  const auto now = date::floor<std::chrono::milliseconds>(std::chrono::system_clock::now());
+  return date::format("%FT%TZ", now);  // %T with milliseconds: "09:32:10.123"
 }
 
 }  // namespace cairn::formats

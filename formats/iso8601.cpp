@@ -1,5 +1,7 @@
 #include "formats/iso8601.h"
 
+#include <fmt/format.h>
+
 #include <cctype>
 #include <cstdio>
 
@@ -44,14 +46,13 @@ Result<FieldTime> parse_iso8601(std::string_view in) {
   while (!s.empty() && std::isspace(static_cast<unsigned char>(s.back()))) s.remove_suffix(1);
   FieldTime t;
   size_t i = 0;
-  if (!digits(s, i, 4, t.year) || !expect(s, i, '-') || !digits(s, i, 2, t.month) ||
-      !expect(s, i, '-') || !digits(s, i, 2, t.day))
+  int year = 0, month = 0, day = 0;
+  if (!digits(s, i, 4, year) || !expect(s, i, '-') || !digits(s, i, 2, month) || !expect(s, i, '-') ||
+      !digits(s, i, 2, day))
     return bad();
-  if (!geo::valid_date(t.year, t.month, t.day))
-    return Result<FieldTime>::failure("'" + shown + "' is not a calendar date");
-  char buf[64];
-  std::snprintf(buf, sizeof buf, "%04d-%02d-%02d", t.year, t.month, t.day);
-  t.text = buf;
+  if (!geo::valid_date(year, month, day)) return Result<FieldTime>::failure("'" + shown + "' is not a calendar date");
+  t.day = geo::calendar_day(year, month, day);
+  t.text = date::format("%F", t.day);
   if (i == s.size()) return t;
   if (!(expect(s, i, 'T') || expect(s, i, 't') || expect(s, i, ' '))) return bad();
   int hh = 0, mm = 0, ss = 0;
@@ -68,13 +69,18 @@ Result<FieldTime> parse_iso8601(std::string_view in) {
   // 24:00 and leap seconds are legal ISO 8601 but never a field time.
   if (hh > 23 || mm > 59 || ss > 59)
     return Result<FieldTime>::failure("'" + shown + "' is not a time of day");
-  std::snprintf(buf, sizeof buf, "T%02d:%02d:%02d", hh, mm, ss);
-  t.text += buf;
+  t.text += fmt::format("T{:02d}:{:02d}:{:02d}", hh, mm, ss);
   if (!fraction.empty()) t.text += "." + fraction;
+  // Milliseconds of the fraction (further digits are kept in the text only).
+  int ms = 0;
+  for (size_t k = 0; k < 3; ++k) ms = ms * 10 + (k < fraction.size() ? fraction[k] - '0' : 0);
+  t.time_of_day = std::chrono::hours{hh} + std::chrono::minutes{mm} + std::chrono::seconds{ss} +
+                  std::chrono::milliseconds{ms};
   if (i == s.size()) return t;
   if (expect(s, i, 'Z') || expect(s, i, 'z')) {
     if (i != s.size()) return bad();
     t.text += "Z";
+    t.utc_offset = std::chrono::minutes{0};
     return t;
   }
   if (i < s.size() && (s[i] == '+' || s[i] == '-')) {
@@ -88,15 +94,18 @@ Result<FieldTime> parse_iso8601(std::string_view in) {
     if (i != s.size()) return bad();
     if (oh > 14 || om > 59)  // offsets in use run from -12:00 to +14:00
       return Result<FieldTime>::failure("'" + shown + "' has an impossible UTC offset");
-    if (oh == 0 && om == 0) {
-      t.text += "Z";
-    } else {
-      std::snprintf(buf, sizeof buf, "%c%02d:%02d", sign, oh, om);
-      t.text += buf;
-    }
+    t.utc_offset = std::chrono::minutes{(sign == '-' ? -1 : 1) * (oh * 60 + om)};
+    t.text += (oh == 0 && om == 0) ? std::string("Z") : fmt::format("{}{:02d}:{:02d}", sign, oh, om);
     return t;
   }
   return bad();
+}
+
+FieldTime today_utc() {
+  FieldTime t;
+  t.day = date::year_month_day{date::floor<date::days>(std::chrono::system_clock::now())};
+  t.text = date::format("%F", t.day);
+  return t;
 }
 
 }  // namespace cairn::formats

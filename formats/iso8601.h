@@ -1,9 +1,12 @@
 // Field times as ISO 8601 text (ISO 8601-1:2019, calendar date and time of day
 // in the extended format), which is also what GPX uses (xsd:dateTime).
 #pragma once
+#include <chrono>
+#include <optional>
 #include <string>
 #include <string_view>
 
+#include "geomath/calendar.h"
 #include "geomath/result.h"
 
 namespace cairn::formats {
@@ -13,8 +16,13 @@ struct FieldTime {
   // "YYYY-MM-DDThh:mm:ss[.fff][Z|+hh:mm|-hh:mm]" (a zero offset is written "Z";
   // no designator means local time, as ISO 8601 has it).
   std::string text;
-  int year = 0, month = 0, day = 0;  // the calendar date as written
+  date::year_month_day day;                              // the calendar date as written
+  std::optional<std::chrono::milliseconds> time_of_day;  // when a time was given
+  std::optional<std::chrono::minutes> utc_offset;        // when "Z" or an offset was given (east positive)
 };
+
+// Today's date (UTC) as a FieldTime with no time of day.
+FieldTime today_utc();
 
 // Accepts "YYYY-MM-DD", "YYYY-MM-DDThh:mm", "YYYY-MM-DDThh:mm:ss",
 // "YYYY-MM-DDThh:mm:ss.f..." with an optional "Z", "+hh:mm", "+hhmm" or "+hh"

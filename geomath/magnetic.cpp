@@ -251,40 +251,4 @@ MagneticField MagneticModel::evaluate(double lat_deg, double lon_deg, double hei
   return out;
 }
 
-namespace {
-
-bool is_leap(int y) { return (y % 4 == 0 && y % 100 != 0) || y % 400 == 0; }
-
-int days_in_month(int y, int m) {
-  static const int days[12] = {31, 28, 31, 30, 31, 30, 31, 31, 30, 31, 30, 31};
-  return days[m - 1] + (m == 2 && is_leap(y) ? 1 : 0);
-}
-
-}  // namespace
-
-bool valid_date(int y, int m, int d) {
-  return y >= 1 && y <= 9999 && m >= 1 && m <= 12 && d >= 1 && d <= days_in_month(y, m);
-}
-
-double decimal_year(int y, int m, int d) {
-  if (!valid_date(y, m, d))
-    throw std::domain_error("no such date: " + std::to_string(y) + "-" + std::to_string(m) + "-" +
-                            std::to_string(d));
-  int day_of_year = d;
-  for (int k = 1; k < m; ++k) day_of_year += days_in_month(y, k);
-  // WMM software convention (value from memory): (day_of_year - 1) / days in the year.
-  return y + (day_of_year - 1) / (is_leap(y) ? 366.0 : 365.0);
-}
-
-CalendarDate calendar_date(double t) {
-  if (!std::isfinite(t) || t < 1.0 || t >= 10000.0)
-    throw std::domain_error("decimal year " + std::to_string(t) + " is outside years 1..9999");
-  CalendarDate c{static_cast<int>(std::floor(t)), 1, 1};
-  // Whole days since 1 January; the tiny bias keeps e.g. 2025 + 182/365 on day 183.
-  int day = static_cast<int>(std::floor((t - c.year) * (is_leap(c.year) ? 366 : 365) + 1e-9));
-  while (c.month < 12 && day >= days_in_month(c.year, c.month)) day -= days_in_month(c.year, c.month++);
-  c.day = day + 1;
-  return c;
-}
-
 }  // namespace cairn::geo

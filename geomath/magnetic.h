@@ -10,6 +10,7 @@
 #include <string_view>
 #include <vector>
 
+#include "geomath/calendar.h"  // decimal_year: the time the model is evaluated at
 #include "geomath/result.h"
 
 namespace cairn::geo {
@@ -58,20 +59,5 @@ private:
   int nmax_ = 0;
   std::vector<double> g_, h_, gdot_, hdot_;  // index(n, m), n from 0 (n = 0 unused)
 };
-
-// Calendar date -> decimal year as the WMM reports and their software define
-// it: year + (day_of_year - 1) / days_in_year, so 1 January is YEAR.0.
-// Throws std::domain_error for an impossible date (month 13, 30 February ...).
-double decimal_year(int y, int m, int d);
-
-// True for a real Gregorian calendar date (years 1..9999).
-bool valid_date(int y, int m, int d);
-
-struct CalendarDate {
-  int year, month, day;
-};
-// The day a decimal year falls on (inverse of decimal_year for whole days).
-// Throws std::domain_error outside years 1..9999.
-CalendarDate calendar_date(double decimal_year);
 
 }  // namespace cairn::geo

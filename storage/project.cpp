@@ -69,17 +69,6 @@ std::string newest_backup_sentence(const std::string& path, const std::string& d
   return "the newest backup is " + b.back();
 }
 
-// Today's date as ISO 8601 (UTC).
-FieldTime today() {
-  std::time_t now = std::time(nullptr);
-  std::tm tm{};
-  gmtime_r(&now, &tm);
-  FieldTime t;
-  t.year = tm.tm_year + 1900;
-  t.month = tm.tm_mon + 1;
-  t.day = tm.tm_mday;
-  return t;
-}
 
 void register_device(Db& db, const std::string& id, const std::string& name) {
   Stmt q(db, "SELECT 1 FROM devices WHERE uuid = ?");
@@ -347,13 +336,13 @@ void Project::update_info(const ProjectInfo& i) {
 }
 
 Declination Project::declination_at(double lat, double lon, const std::string& time) {
-  FieldTime t = today();
+  FieldTime t = today_utc();
   if (!time.empty()) {
     auto parsed = parse_iso8601(time);
     if (parsed) t = *parsed;
   }
   if (impl_->options.declination) {
-    return impl_->options.declination(lat, lon, geo::decimal_year(t.year, t.month, t.day));
+    return impl_->options.declination(lat, lon, geo::decimal_year(t.day));
   }
   return Declination{info().declination, "project setting"};
 }

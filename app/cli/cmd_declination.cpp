@@ -1,16 +1,16 @@
 // `cairn declination LAT LON`: the magnetic declination to set on a compass,
 // from the World Magnetic Model shipped with Cairn.
-#include <charconv>
 #include <cmath>
-#include <cstdio>
-#include <ctime>
 #include <ostream>
 #include <stdexcept>
 #include <string>
 
+#include <fmt/format.h>
+
 #include "app/cli/command.h"
 #include "app/cli/magnetic_source.h"
 #include "geomath/magnetic.h"
+#include "formats/iso8601.h"
 #include "geomath/decimal.h"
 
 namespace cairn::cli {
@@ -18,11 +18,7 @@ namespace {
 
 using Date = geo::CalendarDate;
 
-std::string iso(const Date& d) {
-  char buf[16];
-  std::snprintf(buf, sizeof buf, "%04d-%02d-%02d", d.year, d.month, d.day);
-  return buf;
-}
+std::string iso(const Date& d) { return fmt::format("{:04d}-{:02d}-{:02d}", d.year, d.month, d.day); }
 
 // A whole string as a finite number, or nothing.
 bool parse_number(const std::string& s, double& v) {
@@ -43,13 +39,12 @@ double parse_coordinate(const std::string& s, const char* what, double lo, doubl
 
 // --date YYYY-MM-DD or a decimal year such as 2027.5.
 void parse_date(const std::string& s, Date& date, double& t) {
-  int y = 0, m = 0, d = 0;
-  char tail = 0;
-  if (s.size() == 10 && s[4] == '-' && s[7] == '-' &&
-      std::sscanf(s.c_str(), "%4d-%2d-%2d%c", &y, &m, &d, &tail) == 3) {
-    if (!geo::valid_date(y, m, d)) throw std::invalid_argument("date " + s + " does not exist");
-    date = {y, m, d};
-    t = geo::decimal_year(y, m, d);
+  if (s.size() == 10 && s[4] == '-' && s[7] == '-') {
+    const auto day = formats::parse_iso8601(s);  // the one calendar (geomath/calendar.h)
+    if (!day) throw std::invalid_argument("date " + s + " does not exist");
+    date = {static_cast<int>(day->day.year()), static_cast<int>(static_cast<unsigned>(day->day.month())),
+            static_cast<int>(static_cast<unsigned>(day->day.day()))};
+    t = geo::decimal_year(day->day);
     return;
   }
   double v = 0;
@@ -62,16 +57,13 @@ void parse_date(const std::string& s, Date& date, double& t) {
 }
 
 Date today() {
-  std::time_t now = std::time(nullptr);
-  std::tm tm{};
-  localtime_r(&now, &tm);
-  return {tm.tm_year + 1900, tm.tm_mon + 1, tm.tm_mday};
+  const auto d = formats::today_utc().day;
+  return {static_cast<int>(d.year()), static_cast<int>(static_cast<unsigned>(d.month())),
+          static_cast<int>(static_cast<unsigned>(d.day()))};
 }
 
 std::string fixed(double v, int decimals) {
-  char buf[64];
-  std::snprintf(buf, sizeof buf, "%.*f", decimals, v);
-  std::string s = buf;
+  std::string s = fmt::format("{:.{}f}", v, decimals);
   if (s.find_first_not_of("-0.") == std::string::npos && s[0] == '-') s.erase(0, 1);  // no "-0.0"
   return s;
 }

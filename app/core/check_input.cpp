@@ -13,19 +13,6 @@ using namespace cairn::formats;  // file formats and value rules (formats/)
 
 namespace {
 
-// Days from 1970-01-01 of a proleptic Gregorian date (H. Hinnant's
-// days_from_civil algorithm, "chrono-Compatible Low-Level Date Algorithms").
-long days_from_civil(int y, int m, int d) {
-  y -= m <= 2;
-  const long era = (y >= 0 ? y : y - 399) / 400;
-  const long yoe = y - era * 400;
-  const long doy = (153 * (m + (m > 2 ? -3 : 9)) + 2) / 5 + d - 1;
-  const long doe = yoe * 365 + yoe / 4 - yoe / 100 + doy;
-  return era * 146097 + doe - 719468;
-}
-
-bool is_leap(int y) { return (y % 4 == 0 && y % 100 != 0) || y % 400 == 0; }
-
 geo::CheckFacing facing_of(Facing f) {
   switch (f) {
     case Facing::Upright: return geo::CheckFacing::Upright;
@@ -41,28 +28,18 @@ std::optional<double> minutes_since_epoch(const std::string& iso) {
   if (iso.empty()) return std::nullopt;
   auto t = parse_iso8601(iso);
   if (!t) return std::nullopt;
-  double minutes = days_from_civil(t->year, t->month, t->day) * 1440.0;
-  const std::string& s = t->text;
-  if (s.size() >= 16 && s[10] == 'T') {
-    minutes += std::stoi(s.substr(11, 2)) * 60.0 + std::stoi(s.substr(14, 2));
-    if (s.size() >= 19 && s[16] == ':') minutes += std::stod(s.substr(17, 2)) / 60.0;
-    const size_t z = s.find_first_of("Z+-", 16);
-    if (z != std::string::npos && s[z] != 'Z') {
-      const int sign = s[z] == '+' ? 1 : -1;
-      const int oh = std::stoi(s.substr(z + 1, 2));
-      const int om = s.size() >= z + 6 ? std::stoi(s.substr(z + 4, 2)) : 0;
-      minutes -= sign * (oh * 60.0 + om);  // local = UTC + offset
-    }
-  }
-  return minutes;
+  // A time without an offset is taken as written (the same clock for every
+  // reading of one file); an offset turns local time into UTC (local = UTC + offset).
+  const auto instant = date::sys_days{t->day} + t->time_of_day.value_or(std::chrono::milliseconds{0}) -
+                       t->utc_offset.value_or(std::chrono::minutes{0});
+  return std::chrono::duration<double, std::ratio<60>>(instant.time_since_epoch()).count();
 }
 
 std::optional<double> decimal_year_of(const std::string& iso) {
   if (iso.empty()) return std::nullopt;
   auto t = parse_iso8601(iso);
   if (!t) return std::nullopt;
-  const long doy = days_from_civil(t->year, t->month, t->day) - days_from_civil(t->year, 1, 1);
-  return t->year + static_cast<double>(doy) / (is_leap(t->year) ? 366.0 : 365.0);
+  return geo::decimal_year(t->day);
 }
 
 CheckData load_check_input(Project& p, const LocalDeclination& local_declination) {

@@ -39,9 +39,9 @@ TEST(Iso8601, AcceptsAndNormalises) {
   }
   auto t = parse_iso8601("2025-07-02T23:59:59+14:00");
   ASSERT_TRUE(t);
-  EXPECT_EQ(t->year, 2025);
-  EXPECT_EQ(t->month, 7);
-  EXPECT_EQ(t->day, 2);
+  EXPECT_EQ(t->day, date::year{2025} / 7 / 2);  // the date as written, not converted to UTC
+  EXPECT_EQ(t->utc_offset, std::chrono::minutes{14 * 60});
+  EXPECT_EQ(t->time_of_day, std::chrono::hours{23} + std::chrono::minutes{59} + std::chrono::seconds{59});
 }
 
 TEST(Iso8601, Rejects) {
