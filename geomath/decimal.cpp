@@ -3,6 +3,8 @@
 #include <charconv>
 #include <cmath>
 
+#include <fmt/printf.h>
+
 namespace cairn::geo {
 
 std::optional<double> parse_decimal(std::string_view t) {
@@ -28,5 +30,11 @@ std::optional<double> parse_decimal(std::string_view t) {
   if (ec != std::errc() || p != t.data() + t.size() || !std::isfinite(v)) return std::nullopt;
   return negative ? -v : v;
 }
+
+}  // namespace cairn::geo
+
+namespace cairn::geo {
+
+std::string format_decimal(const char* spec, double v) { return fmt::sprintf(spec, v); }
 
 }  // namespace cairn::geo

@@ -14,11 +14,21 @@
 // Pure computation on text (no locale: the decimal point is always '.').
 #pragma once
 #include <optional>
+#include <string>
 #include <string_view>
 
 namespace cairn::geo {
 
 // TEXT as a decimal number by the rules above, or nothing.
 std::optional<double> parse_decimal(std::string_view text);
+
+}  // namespace cairn::geo
+
+namespace cairn::geo {
+
+// V as text by a printf-style SPEC for one number ("%.1f", "%+.0f", "%g"), through
+// libfmt (locale-independent: the decimal point is always '.'). The one way a
+// single number becomes text in messages, tables and drawings.
+std::string format_decimal(const char* spec, double v);
 
 }  // namespace cairn::geo

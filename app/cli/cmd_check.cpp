@@ -4,7 +4,6 @@
 #include <iostream>
 #include <map>
 #include <sstream>
-#include <fmt/printf.h>
 
 #include "app/cli/command.h"
 #include "formats/json.h"
@@ -22,7 +21,7 @@ namespace {
 
 std::string num(std::optional<double> v, const char* f = "%.1f") {
   if (!v) return "-";
-  return fmt::sprintf(f, *v);
+  return geo::format_decimal(f, *v);
 }
 
 void write_json(std::ostream& out, const core::CheckData& data, const geo::CheckReport& rep, geo::Severity min) {

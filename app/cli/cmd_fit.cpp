@@ -112,10 +112,10 @@ Result<Input> read_points(const std::string& path, std::optional<geo::UtmZoneSpe
     if (auto e = number("elevation", p.z)) return R::failure(*e);
     if (ll) {
       if (a < -90 || a > 90)
-        return R::failure(path + ":" + std::to_string(line) + ": column lat: " + fmt::sprintf("%g", a) +
+        return R::failure(path + ":" + std::to_string(line) + ": column lat: " + geo::format_decimal("%g", a) +
                           " is outside -90..90");
       if (b < -180 || b > 180)
-        return R::failure(path + ":" + std::to_string(line) + ": column lon: " + fmt::sprintf("%g", b) +
+        return R::failure(path + ":" + std::to_string(line) + ": column lon: " + geo::format_decimal("%g", b) +
                           " is outside -180..180");
       in.geo.push_back(geo::LatLon{a, b});
     } else {
@@ -133,7 +133,7 @@ Result<Input> read_points(const std::string& path, std::optional<geo::UtmZoneSpe
           if (auto e = number(name, v)) return R::failure(*e);
           if (v <= 0)
             return R::failure(path + ":" + std::to_string(line) + ": column " + name +
-                              ": must be greater than 0 metres, not " + fmt::sprintf("%g", v));
+                              ": must be greater than 0 metres, not " + geo::format_decimal("%g", v));
           (std::string(name) == "h_accuracy" ? p.h_acc : p.v_acc) = v;
         }
         if (!given_line) given_line = line;
@@ -322,23 +322,23 @@ int run_fit(const FitArgs& a, std::ostream& out, std::ostream& err) {
   if (fit.cone95) {
     const std::string from = fit.cone_source == geo::ConeSource::Accuracies
                                  ? "from the stated accuracies"
-                                 : "from the residual scatter, " + fmt::sprintf("%.3g", *fit.sigma_normal) + " m";
-    row("95% confidence cone", fmt::sprintf("%.2f", *fit.cone95) + "° (Monte Carlo, " +
+                                 : "from the residual scatter, " + geo::format_decimal("%.3g", *fit.sigma_normal) + " m";
+    row("95% confidence cone", geo::format_decimal("%.2f", *fit.cone95) + "° (Monte Carlo, " +
                                    std::to_string(fit.draws.size()) + " draws, " + from + ")");
   } else {
     row("95% confidence cone", "unknown (the points fit exactly and carry no accuracies)");
   }
-  row("Fernández M, K", (fit.M ? fmt::sprintf("%.2f", *fit.M) : std::string("unbounded")) + ", " +
-                            (fit.K ? fmt::sprintf("%.2f", *fit.K) : std::string("-")) +
+  row("Fernández M, K", (fit.M ? geo::format_decimal("%.2f", *fit.M) : std::string("unbounded")) + ", " +
+                            (fit.K ? geo::format_decimal("%.2f", *fit.K) : std::string("-")) +
                             (fit.M ? "" : " (points exactly coplanar)"));
   row("Verdict", fit.verdict);
-  row("RMS residual", fmt::sprintf("%.3f", fit.rms) + " m");
-  if (fit.misfit_ratio) row("Residuals / stated accuracy", fmt::sprintf("%.2f", *fit.misfit_ratio));
+  row("RMS residual", geo::format_decimal("%.3f", fit.rms) + " m");
+  if (fit.misfit_ratio) row("Residuals / stated accuracy", geo::format_decimal("%.2f", *fit.misfit_ratio));
   if (fit.weakness) out << "  " << *fit.weakness << "\n";
   if (in.zone)
     out << "  Azimuths against true north (UTM zone " << in.zone->zone << (in.zone->northp ? "N" : "S")
-        << ", grid convergence " << fmt::sprintf("%+.4f", factors->convergence) << "°, scale "
-        << fmt::sprintf("%.6f", factors->scale) << ").\n";
+        << ", grid convergence " << geo::format_decimal("%+.4f", factors->convergence) << "°, scale "
+        << geo::format_decimal("%.6f", factors->scale) << ").\n";
   else
     out << "  Azimuths against grid north (the file gives easting/northing).\n";
 
@@ -352,8 +352,8 @@ int run_fit(const FitArgs& a, std::ostream& out, std::ostream& err) {
   }
   out << "\nStrike lines: ";
   if (spacing && strike_az)
-    out << "azimuth " << geo::format_quadrant_azimuth(*strike_az) << " (" << fmt::sprintf("%05.1f", *strike_az) << "), "
-        << fmt::sprintf("%.1f", *spacing) << " m apart horizontally for a " << fmt::sprintf("%g", interval)
+    out << "azimuth " << geo::format_quadrant_azimuth(*strike_az) << " (" << geo::format_decimal("%05.1f", *strike_az) << "), "
+        << geo::format_decimal("%.1f", *spacing) << " m apart horizontally for a " << geo::format_decimal("%g", interval)
         << " m contour interval\n";
   else
     out << (spacing ? strike_az.error() : spacing.error()) << "\n";

@@ -4,12 +4,14 @@
 #include <cstdio>
 #include <random>
 #include <stdexcept>
+#include <fmt/format.h>
 
 #include "geomath/angles.h"
 #include "geomath/geodesy.h"
 #include "geomath/notation.h"
 #include "geomath/orientation.h"
 #include "formats/csv.h"
+#include "geomath/decimal.h"
 
 namespace cairn::cli::demo {
 
@@ -38,12 +40,10 @@ public:
   }
   std::string uuid() {
     const std::uint64_t a = g_(), b = g_();
-    char buf[40];
-    std::snprintf(buf, sizeof buf, "%08x-%04x-4%03x-%04x-%012llx", static_cast<unsigned>(a >> 32),
-                  static_cast<unsigned>((a >> 16) & 0xffff), static_cast<unsigned>(a & 0xfff),
-                  static_cast<unsigned>(0x8000 | ((b >> 48) & 0x3fff)),
-                  static_cast<unsigned long long>(b & 0xffffffffffffULL));
-    return buf;
+    return fmt::format("{:08x}-{:04x}-4{:03x}-{:04x}-{:012x}", static_cast<unsigned>(a >> 32),
+                       static_cast<unsigned>((a >> 16) & 0xffff), static_cast<unsigned>(a & 0xfff),
+                       static_cast<unsigned>(0x8000 | ((b >> 48) & 0x3fff)),
+                       static_cast<unsigned long long>(b & 0xffffffffffffULL));
   }
 
 private:
@@ -121,26 +121,16 @@ Pos trace_point(const ContactPlane& c, double s) {
   return {e, n, terrain(e, n)};
 }
 
-std::string fmt(const char* f, double v) {
-  char buf[64];
-  std::snprintf(buf, sizeof buf, f, v);
-  return buf;
-}
-
 // Field days: day 1 is 2026-07-06.
 struct Clock {
   int day = 1;
   int minute = 0;  // minutes after local midnight
   std::string local() const {
-    char buf[40];
-    std::snprintf(buf, sizeof buf, "2026-07-%02dT%02d:%02d:00%s", 5 + day, minute / 60, minute % 60, kTimeOffset);
-    return buf;
+    return fmt::format("2026-07-{:02d}T{:02d}:{:02d}:00{}", 5 + day, minute / 60, minute % 60, kTimeOffset);
   }
   std::string utc() const {
     const int m = minute - kOffsetMinutes;  // local = UTC + offset
-    char buf[40];
-    std::snprintf(buf, sizeof buf, "2026-07-%02dT%02d:%02d:00.000Z", 5 + day + m / 1440, (m % 1440) / 60, m % 60);
-    return buf;
+    return fmt::format("2026-07-{:02d}T{:02d}:{:02d}:00.000Z", 5 + day + m / 1440, (m % 1440) / 60, m % 60);
   }
 };
 
@@ -364,7 +354,7 @@ Area build_area() {
       clk.minute += 6;
     }
     for (int i = 1; i <= 12; ++i) {
-      const std::string code = who.initials + "-" + fmt("%02.0f", i);
+      const std::string code = who.initials + "-" + geo::format_decimal("%02.0f", i);
       const double s = -800 + (i - 1) * 140.0 + (day - 1) * 60.0;
       // Alternate sides of the contact: slate above, quartzite below.
       const bool above = (i + day) % 2 == 0;
@@ -420,7 +410,7 @@ Area build_area() {
       clk.minute += 5;
     }
     for (int i = 1; i <= 10; ++i) {
-      const std::string code = "RO-" + fmt("%02.0f", 12 + i);
+      const std::string code = "RO-" + geo::format_decimal("%02.0f", 12 + i);
       const double n = -350 + i * 100.0, e = -2000 + (i % 2 ? 1 : -1) * rng.uniform(450, 650);
       clk.minute += 10;
       const store::Station& st = add_station(A, code, e, n, "Vg", clk, RO);
@@ -436,7 +426,7 @@ Area build_area() {
   {
     Clock clk{4, 8 * 60};
     for (int i = 1; i <= 10; ++i) {
-      const std::string code = "BK-" + fmt("%02.0f", 12 + i);
+      const std::string code = "BK-" + geo::format_decimal("%02.0f", 12 + i);
       const double e = rng.uniform(-300, 600), n = rng.uniform(-1900, -1200);
       clk.minute += 20;
       const store::Station& st = add_station(A, code, e, n, "Sq", clk, BK);
@@ -466,7 +456,7 @@ Area build_area() {
       }
       for (int i = 1; i <= 8; ++i) {
         const int k = (day - 1) * 8 + i;
-        const std::string code = "MT-" + fmt("%02.0f", k);
+        const std::string code = "MT-" + geo::format_decimal("%02.0f", k);
         // PLANTED: overturned limb: the younger sandstone lies on the lower side of the
         // contact (west), the conglomerate on its upper side (east).
         const bool above = k % 2 == 0;
@@ -494,7 +484,7 @@ Area build_area() {
     // Day 3: the Tolm unconformity (contact 2); its trace is walked with the handheld receiver.
     Clock clk{3, 9 * 60};
     for (int i = 1; i <= 12; ++i) {
-      const std::string code = "MT-" + fmt("%02.0f", 16 + i);
+      const std::string code = "MT-" + geo::format_decimal("%02.0f", 16 + i);
       const bool above = i % 2 == 0;
       const Pos sp = beside(P2, -650 + (i - 1) * 118.0, above, 40, 200);
       const double e = sp.e, n = sp.n;
@@ -520,7 +510,7 @@ Area build_area() {
     }
     const Plane fault = geo::plane_from_dip_direction(155, 80);
     for (int i = 1; i <= 6; ++i) {
-      const std::string code = "MT-" + fmt("%02.0f", 28 + i);
+      const std::string code = "MT-" + geo::format_decimal("%02.0f", 28 + i);
       const double e = 720 + i * 150.0 + rng.uniform(-30, 30), n = -1700 + i * 55.0 + rng.uniform(-30, 30);
       clk.minute += 20;
       const store::Station& st = add_station(B, code, e, n, i % 2 ? "Sq" : "Tc", clk, MT, "fault breccia");
@@ -536,7 +526,7 @@ Area build_area() {
     // Scattered stations in the west (tablet B, day 4 afternoon).
     clk = Clock{4, 14 * 60};
     for (int i = 1; i <= 6; ++i) {
-      const std::string code = "MT-" + fmt("%02.0f", 34 + i);
+      const std::string code = "MT-" + geo::format_decimal("%02.0f", 34 + i);
       const double e = rng.uniform(-2400, -1500), n = rng.uniform(-1900, -1200);
       clk.minute += 15;
       const store::Station& st = add_station(B, code, e, n, "Hg", clk, MT, "granite, coarse");
@@ -551,7 +541,7 @@ Area build_area() {
     std::string csv = "station,kind,strike,dip,north,contact,quality,facing,ref,time,notes\n";
     Clock clk{3, 16 * 60};
     for (int i = 1; i <= 12; ++i) {
-      const std::string code = "BK-" + fmt("%02.0f", i);
+      const std::string code = "BK-" + geo::format_decimal("%02.0f", i);
       clk.minute += 9;
       Plane p = noisy(rng, i % 2 ? joint2 : joint1, sigma);
       std::string kind = "joint", contact_name, note = "revisit";
@@ -562,7 +552,7 @@ Area build_area() {
         contact_name = C1.name;
         note = "channel fill, top of bed";
       }
-      csv += formats::csv_record({code, kind, fmt("%.0f", p.strike), fmt("%.0f", p.dip), "true", contact_name, "5",
+      csv += formats::csv_record({code, kind, geo::format_decimal("%.0f", p.strike), geo::format_decimal("%.0f", p.dip), "true", contact_name, "5",
                                 "unknown", code + "n", clk.local(), note});
     }
     area.notebook_csv = csv;
@@ -581,12 +571,10 @@ Area build_area() {
       const Pos p = trace_point(P2, -700 + i * 48.0);
       const auto ll = frame.latlon(p.e + rng.normal(3), p.n + rng.normal(3));
       const double ele = p.z + rng.normal(5);
-      char buf[512];
-      std::snprintf(buf, sizeof buf, "  <wpt lat=\"%.7f\" lon=\"%.7f\">\n", ll.lat, ll.lon);
-      g += buf;
-      if (i != 17) g += "    <ele>" + fmt("%.1f", ele) + "</ele>\n";  // one fix without elevation
+      g += fmt::format("  <wpt lat=\"{:.7f}\" lon=\"{:.7f}\">\n", ll.lat, ll.lon);
+      if (i != 17) g += "    <ele>" + geo::format_decimal("%.1f", ele) + "</ele>\n";  // one fix without elevation
       g += "    <time>" + clk.utc().substr(0, 19) + "Z</time>\n";
-      g += "    <name>TU" + fmt("%02.0f", i + 1) + "</name>\n    <sym>Flag, Blue</sym>\n";
+      g += "    <name>TU" + geo::format_decimal("%02.0f", i + 1) + "</name>\n    <sym>Flag, Blue</sym>\n";
       g += "    <extensions><hh:fix><hh:sats>" + std::to_string(7 + i % 5) + "</hh:sats></hh:fix></extensions>\n";
       g += "  </wpt>\n";
       clk.minute += 4;

@@ -7,7 +7,6 @@
 #include <set>
 #include <sstream>
 #include <unordered_map>
-#include <fmt/printf.h>
 
 #include "app/plot/net_scene.h"
 #include "app/plot/plan_scene.h"
@@ -15,6 +14,7 @@
 #include "app/plot/symbols.h"
 #include "geomath/notation.h"
 #include "geomath/strike_lines.h"
+#include "geomath/decimal.h"
 
 namespace cairn::cli {
 
@@ -26,7 +26,7 @@ std::string esc(const std::string& s) { return plot::xml_escape(s); }
 
 std::string degrees_ew(double d) {
   if (std::fabs(d) < 0.05) return "0.0°";
-  return fmt::sprintf("%.1f", std::fabs(d)) + "° " + (d > 0 ? "E" : "W");
+  return geo::format_decimal("%.1f", std::fabs(d)) + "° " + (d > 0 ? "E" : "W");
 }
 
 // YYYY-MM-DD of an ISO 8601 date or time, or "" when there is none.
@@ -241,8 +241,8 @@ void write_declination(std::ostream& o, const ReportData& d) {
   o << "<section id=\"declination\"><h2>Declination</h2>\n";
   if (d.declination) {
     const auto& s = *d.declination;
-    o << "<p>" << esc(s.model) << " at " << fmt::sprintf("%.4f", std::fabs(s.lat)) << "° " << (s.lat >= 0 ? "N" : "S") << ", "
-      << fmt::sprintf("%.4f", std::fabs(s.lon)) << "° " << (s.lon >= 0 ? "E" : "W") << " (the mean position of the data)";
+    o << "<p>" << esc(s.model) << " at " << geo::format_decimal("%.4f", std::fabs(s.lat)) << "° " << (s.lat >= 0 ? "N" : "S") << ", "
+      << geo::format_decimal("%.4f", std::fabs(s.lon)) << "° " << (s.lon >= 0 ? "E" : "W") << " (the mean position of the data)";
     if (s.first_date == s.last_date) {
       o << " on " << esc(s.first_date) << ": <strong>" << degrees_ew(s.first) << "</strong>";
     } else {
@@ -251,8 +251,8 @@ void write_declination(std::ostream& o, const ReportData& d) {
     }
     o << (s.dates_from_data ? "." : " (no dated records: evaluated on the day of this report).") << "</p>\n";
     if (!s.in_validity)
-      o << "<p class=\"caution\">These dates fall outside " << esc(s.model) << "'s validity (" << fmt::sprintf("%.1f", s.valid_from)
-        << " to " << fmt::sprintf("%.1f", s.valid_to) << "): its declination there is an extrapolation.</p>\n";
+      o << "<p class=\"caution\">These dates fall outside " << esc(s.model) << "'s validity (" << geo::format_decimal("%.1f", s.valid_from)
+        << " to " << geo::format_decimal("%.1f", s.valid_to) << "): its declination there is an extrapolation.</p>\n";
   } else {
     o << "<p>No declination evaluated: " << esc(d.declination_problem) << ".</p>\n";
   }
@@ -316,8 +316,8 @@ void write_flags(std::ostream& o, const ReportData& d) {
     if (where.empty()) where = "–";
     std::string finding = esc(f->message);
     if (f->misfit) {
-      finding += "<br><span class=\"small\">misfit " + fmt::sprintf("%.1f", *f->misfit) + "°";
-      if (f->misfit_corrected) finding += ", " + fmt::sprintf("%.1f", *f->misfit_corrected) + "° after the suggested correction";
+      finding += "<br><span class=\"small\">misfit " + geo::format_decimal("%.1f", *f->misfit) + "°";
+      if (f->misfit_corrected) finding += ", " + geo::format_decimal("%.1f", *f->misfit_corrected) + "° after the suggested correction";
       finding += "</span>";
     }
     o << "<tr class=\"sev-" << sev << "\"><td class=\"sev\">" << severity_icon(sev) << " <strong>" << sev
@@ -416,7 +416,7 @@ void write_plan(std::ostream& o, const ReportData& d, const Index& ix) {
     if (!lines) continue;
     const Rgba ink = contact_ink.count(f.contact_id) ? contact_ink[f.contact_id] : kContactInks[0];
     for (const auto& s : *lines) pd.strike_lines.push_back({s.e0, s.n0, s.e1, s.n1, s.elevation, ink});
-    contour_notes.push_back(esc(f.contact) + " every " + fmt::sprintf("%g", interval) + " m");
+    contour_notes.push_back(esc(f.contact) + " every " + geo::format_decimal("%g", interval) + " m");
   }
 
   plot::SvgCanvas svg(W, H, 1);
@@ -430,7 +430,7 @@ void write_plan(std::ostream& o, const ReportData& d, const Index& ix) {
   if (d.check.zone.zone > 0)
     o << " (UTM zone " << d.check.zone.zone << (d.check.zone.northp ? "N" : "S") << ")";
   if (std::fabs(gamma) >= 0.05)
-    o << "; true north lies " << fmt::sprintf("%.1f", std::fabs(gamma)) << "° " << (gamma > 0 ? "west" : "east")
+    o << "; true north lies " << geo::format_decimal("%.1f", std::fabs(gamma)) << "° " << (gamma > 0 ? "west" : "east")
       << " of grid north, and the symbols are turned onto the grid";
   o << ". Stations: circles in their unit's colour (white: no unit), labelled by code. Contact points: diamonds. "
     << plural(symbols, "strike-dip symbol", "strike-dip symbols")
@@ -471,8 +471,8 @@ void write_fits(std::ostream& o, const ReportData& d, const Index& ix) {
     o << "<tr><td>" << esc(f.contact) << "</td><td>" << units << "</td><td class=\"num\">" << f.points << "</td>";
     if (f.plane && f.fit) {
       o << "<td>" << esc(geo::format_strike_dip(*f.plane)) << "</td><td>" << esc(geo::format_dip_direction(*f.plane))
-        << "</td><td class=\"num\">" << (f.fit->cone95 ? fmt::sprintf("%.1f", *f.fit->cone95) + "°" : "–")
-        << "</td><td class=\"num\">" << fmt::sprintf("%.1f", f.fit->rms) << "</td>";
+        << "</td><td class=\"num\">" << (f.fit->cone95 ? geo::format_decimal("%.1f", *f.fit->cone95) + "°" : "–")
+        << "</td><td class=\"num\">" << geo::format_decimal("%.1f", f.fit->rms) << "</td>";
     } else {
       o << "<td>–</td><td>–</td><td class=\"num\">–</td><td class=\"num\">–</td>";
     }

@@ -21,6 +21,13 @@ using namespace cairn::formats;  // file formats and value rules (formats/)
 
 namespace {
 
+// Every record, deleted ones too (references from live records may point at them).
+ListOptions with_deleted() {
+  ListOptions o;
+  o.include_deleted = true;
+  return o;
+}
+
 FieldValue text(const std::string& s) { return s.empty() ? FieldValue{} : FieldValue{s}; }
 FieldValue real(const std::optional<double>& v) { return v ? FieldValue{*v} : FieldValue{}; }
 FieldValue integer(const std::optional<int>& v) { return v ? FieldValue{static_cast<int64_t>(*v)} : FieldValue{}; }
@@ -51,9 +58,9 @@ public:
     report_ = geo::run_crosscheck(data_.input, o.check);
     out_.zone = data_.zone;
     for (const auto& d : list_devices(p)) device_[d.meta.uuid] = d.name;
-    for (const auto& x : list_people(p, {true})) initials_[x.meta.uuid] = x.initials;
-    for (const auto& u : list_units(p, {true})) unit_[u.meta.uuid] = u.code;
-    for (const auto& c : list_contacts(p, {true})) contact_[c.meta.uuid] = c.name;
+    for (const auto& x : list_people(p, with_deleted())) initials_[x.meta.uuid] = x.initials;
+    for (const auto& u : list_units(p, with_deleted())) unit_[u.meta.uuid] = u.code;
+    for (const auto& c : list_contacts(p, with_deleted())) contact_[c.meta.uuid] = c.name;
     for (const auto& s : list_stations(p)) station_[s.meta.uuid] = s;
   }
 
@@ -204,7 +211,7 @@ private:
                 {"time", T::Text},         {"observer", T::Text},      {"notes", T::Text}};
     meta_fields(l);
     std::unordered_map<std::string, std::string> plane_ref;
-    for (const auto& pl : list_planes(p_, {true})) plane_ref[pl.meta.uuid] = pl.ref;
+    for (const auto& pl : list_planes(p_, with_deleted())) plane_ref[pl.meta.uuid] = pl.ref;
     for (const auto& r : list_lines(p_)) {
       Feature f = at_station(r.station);
       f.values = {r.meta.uuid,

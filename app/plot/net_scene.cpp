@@ -3,10 +3,10 @@
 #include <algorithm>
 #include <cmath>
 #include <cstdio>
-#include <fmt/printf.h>
 #include <fmt/format.h>
 
 #include "geomath/angles.h"
+#include "geomath/decimal.h"
 
 namespace cairn::plot {
 
@@ -44,7 +44,7 @@ std::string net_name(geo::NetKind k) {
                                       : "Equal-angle net (Wulff), lower hemisphere";
 }
 
-std::string level_text(double v) { return fmt::sprintf("%g", v); }
+std::string level_text(double v) { return geo::format_decimal("%g", v); }
 
 std::vector<LegendEntry> legend_entries(const NetData& d, const NetStatistics& s, const NetOptions& o) {
   std::vector<LegendEntry> e;
@@ -76,16 +76,16 @@ std::vector<LegendEntry> legend_entries(const NetData& d, const NetStatistics& s
                          return format_attitude(p.strike, p.dip);
                        }() +
                        ")"});
-      std::string t = m.alpha95 ? "α95 " + fmt::sprintf("%.1f", *m.alpha95) + "°" : std::string("α95 undefined (too dispersed)");
-      t += std::isfinite(m.kappa) ? ", κ " + fmt::sprintf("%.1f", m.kappa) : std::string(", κ unbounded");
+      std::string t = m.alpha95 ? "α95 " + geo::format_decimal("%.1f", *m.alpha95) + "°" : std::string("α95 undefined (too dispersed)");
+      t += std::isfinite(m.kappa) ? ", κ " + geo::format_decimal("%.1f", m.kappa) : std::string(", κ unbounded");
       text(t + ", n " + std::to_string(m.n));
     }
     if (s.pole_tensor && s.pole_tensor->n >= 2) {
       const auto& ev = s.pole_tensor->eigenvalues;
-      std::string t = "Eigenvalues " + fmt::sprintf("%.3f", ev[0]) + ", " + fmt::sprintf("%.3f", ev[1]) + ", " + fmt::sprintf("%.3f", ev[2]);
+      std::string t = "Eigenvalues " + geo::format_decimal("%.3f", ev[0]) + ", " + geo::format_decimal("%.3f", ev[1]) + ", " + geo::format_decimal("%.3f", ev[2]);
       text(t);
       if (s.pole_shape) {
-        auto f = [](double v) { return std::isfinite(v) ? fmt::sprintf("%.2f", v) : std::string("∞"); };
+        auto f = [](double v) { return std::isfinite(v) ? geo::format_decimal("%.2f", v) : std::string("∞"); };
         text("Woodcock K " + f(s.pole_shape->k) + ", C " + f(s.pole_shape->c));
       }
     }
@@ -94,20 +94,20 @@ std::vector<LegendEntry> legend_entries(const NetData& d, const NetStatistics& s
       e.push_back({LegendEntry::Stroke, Shape::Circle, kStatInk, false,
                    "π-girdle " + format_attitude(g.girdle.strike, g.girdle.dip)});
       e.push_back({LegendEntry::Marker, Shape::Cross, kStatInk, false,
-                   "β " + format_attitude(g.beta.trend, g.beta.plunge) + ", cone 95% " + fmt::sprintf("%.1f", g.beta_cone) +
+                   "β " + format_attitude(g.beta.trend, g.beta.plunge) + ", cone 95% " + geo::format_decimal("%.1f", g.beta_cone) +
                        "°"});
     }
     if (s.line_mean) {
       const auto& m = *s.line_mean;
       e.push_back({LegendEntry::Marker, Shape::Plus, kStatInk, false,
                    "Mean of " + d.line_set + " " + format_attitude(m.mean.trend, m.mean.plunge) +
-                       (m.alpha95 ? ", α95 " + fmt::sprintf("%.1f", *m.alpha95) + "°" : std::string())});
+                       (m.alpha95 ? ", α95 " + geo::format_decimal("%.1f", *m.alpha95) + "°" : std::string())});
     }
   }
   for (const auto& f : d.fits) {
     std::string t = (f.label.empty() ? std::string("Fitted plane") : f.label) + " " +
                     format_attitude(f.plane.strike, f.plane.dip);
-    t += f.cone95 ? ", cone 95% " + fmt::sprintf("%.1f", *f.cone95) + "°" : std::string(", no cone");
+    t += f.cone95 ? ", cone 95% " + geo::format_decimal("%.1f", *f.cone95) + "°" : std::string(", no cone");
     e.push_back({LegendEntry::Stroke, Shape::Circle, f.colour, false, t});
   }
   return e;

@@ -1,9 +1,9 @@
 #include "app/plot/plan_scene.h"
+#include "geomath/decimal.h"
 
 #include <algorithm>
 #include <cmath>
 #include <cstdio>
-#include <fmt/printf.h>
 
 namespace cairn::plot {
 
@@ -191,7 +191,7 @@ void draw_attitude_symbol(Canvas& c, Pt at, double strike, double dip, AttitudeS
 
   if (text_size > 0 && !vertical) {
     const Pt t = add(at, down, tick + text_size * 0.8);
-    c.text({t.x, t.y - text_size * 0.5}, fmt::sprintf("%.0f", dip), colour, text_size, Anchor::Middle);
+    c.text({t.x, t.y - text_size * 0.5}, geo::format_decimal("%.0f", dip), colour, text_size, Anchor::Middle);
   }
 }
 
@@ -217,7 +217,7 @@ void draw_plan(Canvas& c, const Rect& r, const PlanData& d, const PlanView& v, c
       // Label at an end that lies inside the rect (or the middle); width estimated
       // at 0.6 em per character (DejaVu Sans digits are 0.64 em).
       const Pt at = near_rect(r, a, -o.text_size) ? a : near_rect(r, b, -o.text_size) ? b : Pt{(a.x + b.x) / 2, (a.y + b.y) / 2};
-      const std::string label = fmt::sprintf("%.0f m", l.elevation);
+      const std::string label = geo::format_decimal("%.0f m", l.elevation);
       const double ts = o.text_size * 0.9, w = ts * 0.6 * static_cast<double>(label.size());
       const Rect box{at.x - w / 2, at.y - o.text_size * 1.1, w, ts * 1.2};
       if (free_at(box)) {
@@ -269,7 +269,7 @@ void draw_plan(Canvas& c, const Rect& r, const PlanData& d, const PlanView& v, c
       const double x0 = r.x + o.text_size, y0 = r.y + r.h - o.text_size;
       c.polyline({{x0, y0 - o.text_size * 0.4}, {x0, y0}, {x0 + len, y0}, {x0 + len, y0 - o.text_size * 0.4}},
                  o.ink, o.line_width * 1.5);
-      c.text({x0 + len / 2, y0 - o.text_size * 1.5}, metres >= 1000 ? fmt::sprintf("%g km", metres / 1000) : fmt::sprintf("%g m", metres),
+      c.text({x0 + len / 2, y0 - o.text_size * 1.5}, metres >= 1000 ? geo::format_decimal("%g km", metres / 1000) : geo::format_decimal("%g m", metres),
              o.ink, o.text_size, Anchor::Middle);
     }
   }

@@ -34,3 +34,17 @@ TEST(Decimal, RefusesCommasSignsAndEmpty) {
 TEST(Decimal, RefusesWhatOverflows) {
   EXPECT_FALSE(parse_decimal(std::string(400, '9')));  // 1e400 is not finite as a double
 }
+
+// format_decimal: printf conversion specifications as ISO C defines them (C11
+// 7.21.6.1: precision, '+' flag, zero padding, %g's shortest form); the decimal
+// point is '.' whatever the locale (the "C" locale's, C11 7.11.1.1).
+TEST(Decimal, FormatsOneNumberByAPrintfSpec) {
+  using cairn::geo::format_decimal;
+  EXPECT_EQ(format_decimal("%.1f", 10.26), "10.3");
+  EXPECT_EQ(format_decimal("%+.1f", 3.0), "+3.0");
+  EXPECT_EQ(format_decimal("%05.1f", 7.5), "007.5");
+  EXPECT_EQ(format_decimal("%02.0f", 3), "03");  // an int converts to double, as the old helpers did
+  EXPECT_EQ(format_decimal("%g", 100000.0), "100000");
+  EXPECT_EQ(format_decimal("%g", 1e-5), "1e-05");
+  EXPECT_EQ(format_decimal("%.3g", 538.46), "538");
+}

@@ -86,7 +86,9 @@ TEST(Notation, QuadrantRoundTripEveryHalfDegree) {
       auto back = parse_plane(q);
       ASSERT_TRUE(back.ok()) << q << ": " << back.error();
       EXPECT_NEAR(angle_between_planes(p, *back), 0, 1e-9) << q;
-      if (d2 > 0 && d2 < 180) EXPECT_NEAR(std::abs(azimuth_difference(back->strike, p.strike)), 0, 1e-9) << q;
+      if (d2 > 0 && d2 < 180) {
+        EXPECT_NEAR(std::abs(azimuth_difference(back->strike, p.strike)), 0, 1e-9) << q;
+      }
       auto rhr = parse_plane(format_strike_dip(p), PlaneConvention::StrikeDipRHR);
       ASSERT_TRUE(rhr.ok());
       EXPECT_NEAR(std::abs(azimuth_difference(rhr->strike, p.strike)), 0, 1e-9);
