@@ -267,6 +267,10 @@ int run_fit(const Args& args_in, std::ostream& out, std::ostream& err) {
     j.key("cone95").value(fit.cone95);
     j.key("cone_source").value(geo::cone_source_name(fit.cone_source));
     j.key("sigma_normal").value(fit.sigma_normal);
+    j.key("cone95_known").value(fit.cone95_known);
+    j.key("degrees_of_freedom").value(fit.dof);
+    j.key("variance_factor").value(fit.variance_factor);
+    j.key("interval_k95").value(fit.interval_k95);
     j.key("draws").value(fit.draws.size());
     j.key("weighted").value(fit.weighted);
     j.key("eigenvalues").array(std::vector<double>{fit.eigenvalues(0), fit.eigenvalues(1), fit.eigenvalues(2)});
@@ -335,6 +339,13 @@ int run_fit(const Args& args_in, std::ostream& out, std::ostream& err) {
                                  : "from the residual scatter, " + fmt("%.3g", *fit.sigma_normal) + " m";
     row("95% confidence cone", fmt("%.2f", *fit.cone95) + "° (Monte Carlo, " +
                                    std::to_string(fit.draws.size()) + " draws, " + from + ")");
+    if (fit.dof > 0 && fit.cone95_known)
+      row("Small-sample correction",
+          "x" + fmt("%.2f", fit.cone_scale) + " of " + fmt("%.2f", *fit.cone95_known) + "° (F and t quantiles for " +
+              std::to_string(fit.dof) + " degrees of freedom" +
+              (fit.cone_source == geo::ConeSource::Accuracies
+                   ? ", accuracies scaled by " + fmt("%.2f", fit.variance_factor) + " from the residuals)"
+                   : ")"));
   } else {
     row("95% confidence cone", "unknown (the points fit exactly and carry no accuracies)");
   }
