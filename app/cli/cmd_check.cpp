@@ -73,6 +73,19 @@ void write_json(std::ostream& out, const store::CheckData& data, const geo::Chec
     j.key("message").value(f.message);
     j.key("action").value(f.action);
     j.key("caution").value(opt(f.caution));
+    j.key("cause").value(opt(f.cause));
+    if (!f.readings.empty()) {  // a group flag: one observer's day
+      j.key("refs").array(f.refs);
+      j.key("readings").array(f.readings);
+      j.key("stations").array(f.stations);
+      j.key("observer").value(f.observer);
+      j.key("day").value(opt(f.day));
+      j.key("rotation").value(f.rotation);
+      if (f.rotation_interval)
+        j.key("rotation_interval").array(std::vector<double>{f.rotation_interval->first, f.rotation_interval->second});
+      else
+        j.key("rotation_interval").null();
+    }
     j.end_object();
   }
   j.end_array();
@@ -121,12 +134,18 @@ void write_text(std::ostream& out, const store::CheckData& data, const geo::Chec
     ++shown;
     ++by_severity[geo::severity_name(f.severity)];
     if (f.station != last_station) {
-      out << "  " << (f.station.empty() ? "Contacts" : "Station " + f.station) << "\n";
+      out << "  " << (f.station.empty() ? "Contacts and crew" : "Station " + f.station) << "\n";
       last_station = f.station;
     }
     std::string head = std::string(geo::severity_name(f.severity)) + " " + f.rule;
     for (auto& c : head) c = static_cast<char>(std::toupper(static_cast<unsigned char>(c)));
     out << "    [" << head << "]" << (f.ref.empty() ? "" : " " + f.ref) << "  " << f.message << "\n";
+    if (!f.readings.empty()) {
+      out << "      readings:";
+      for (size_t i = 0; i < f.readings.size(); ++i)
+        out << (i ? ", " : " ") << (i < f.stations.size() ? f.stations[i] + " " : std::string()) << f.refs[i];
+      out << "\n";
+    }
     out << "      action: " << f.action << "\n";
     if (!f.caution.empty()) out << "      CAUTION: " << f.caution << "\n";
   }
