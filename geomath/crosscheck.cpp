@@ -5,12 +5,14 @@
 #include <cstdio>
 #include <map>
 #include <memory>
+#include <set>
 #include <tuple>
 #include <unordered_map>
 
 #include "geomath/angles.h"
 #include "geomath/distributions.h"
 #include "geomath/notation.h"
+#include "geomath/statistics.h"
 #include "geomath/strike_lines.h"
 
 namespace cairn::geo {
@@ -200,6 +202,25 @@ Result<CircularMean> circular_mean_rotation(const std::vector<double>& deg, doub
   m.low = m.mean - rad2deg(half);
   m.high = m.mean + rad2deg(half);
   return m;
+}
+
+Result<RepeatMean> repeat_mean(const std::vector<Plane>& readings) {
+  if (readings.size() < 2) return Result<RepeatMean>::failure("a repeat set needs at least 2 readings");
+  std::vector<Line> poles;
+  for (const auto& p : readings) poles.push_back(pole(p));
+  auto f = fisher_mean(poles);
+  if (!f) return Result<RepeatMean>::failure(f.error());
+  RepeatMean m;
+  m.plane = plane_from_pole(f->mean);
+  m.n = readings.size();
+  m.alpha95 = f->alpha95;
+  return m;
+}
+
+double repeat_sigma(const RepeatMean& m, double reading_sigma_deg) {
+  const double root_n = std::sqrt(static_cast<double>(m.n));
+  if (!m.alpha95) return reading_sigma_deg / root_n;
+  return std::max(*m.alpha95 / std::sqrt(-2.0 * std::log(0.05)), 1.0 / root_n);
 }
 
 namespace {
@@ -393,22 +414,75 @@ private:
           point_owner_.push_back({ci, pi});
         }
     }
-    for (const auto& r : in_.planes) {
-      if (r.kind != "bedding" && r.kind != "contact") continue;
+    const auto sets = repeat_sets();
+    for (const auto& original : in_.planes) {
+      if (original.kind != "bedding" && original.kind != "contact") continue;
+      auto set = sets.find(original.uuid);
+      if (set == sets.end()) continue;  // a repeat: compared with its first reading
+      // A surface measured several times is compared once, as the Fisher mean of
+      // the readings, with their measured spread in place of the grade's.
+      CheckPlane r = original;
+      std::optional<RepeatMean> mean;
+      if (set->second.size() > 1) {
+        std::vector<Plane> ps;
+        for (const CheckPlane* m : set->second) ps.push_back(m->plane);
+        if (auto rm = repeat_mean(ps)) {
+          mean = *rm;
+          r.plane = rm->plane;
+        }
+      }
       const CheckContact* contact = contact_for(r);
-      if (!contact) continue;
+      if (!contact || !rep_.fits[fit_of_[contact->uuid]].usable) {
+        unreferenced_.push_back({&original, r.plane});
+        continue;
+      }
       const ContactFit& cf = rep_.fits[fit_of_[contact->uuid]];
-      if (!cf.usable) continue;
-      const double tol = comparison_tolerance(reading_sigma(r.quality, o_), cf.fit->cone95, o_.confidence);
+      const double sigma = mean ? repeat_sigma(*mean, reading_sigma(r.quality, o_)) : reading_sigma(r.quality, o_);
+      const double tol = comparison_tolerance(sigma, cf.fit->cone95, o_.confidence);
       const double misfit = angle_between_planes(r.plane, *cf.plane);
       std::string rule;
-      if (misfit > tol) rule = diagnose(r, *contact, *cf.plane, misfit, tol);
+      if (misfit > tol) {
+        rule = diagnose(r, *contact, *cf.plane, misfit, tol);
+        if (mean) describe_repeats(rep_.flags.back(), *mean, set->second);
+      }
       // Readings explained by local structure or a right-hand-rule slip say
       // nothing about the compass; the others go into their group's rotation.
       if (rule != "misfit" && rule != "reversed-dip" && r.plane.dip >= kMinDipForRotation &&
           cf.plane->dip >= kMinDipForRotation)
-        compared_.push_back({&r, azimuth_difference(cf.plane->strike, r.plane.strike)});
+        compared_.push_back({&original, azimuth_difference(cf.plane->strike, r.plane.strike)});
     }
+  }
+
+  // Readings keyed by the first reading of their surface: a reading marked as a
+  // repeat of another bedding or contact reading joins that one's set (a repeat
+  // of a repeat joins the first). Only first readings are keys.
+  std::unordered_map<std::string, std::vector<const CheckPlane*>> repeat_sets() const {
+    std::unordered_map<std::string, const CheckPlane*> by_id;
+    for (const auto& r : in_.planes) by_id[r.uuid] = &r;
+    auto root_of = [&](const CheckPlane& r) {
+      const CheckPlane* at = &r;
+      for (int hop = 0; hop < 100 && !at->repeat_of.empty(); ++hop) {
+        auto it = by_id.find(at->repeat_of);
+        if (it == by_id.end() || it->second->kind != r.kind || it->second->station != r.station) break;
+        at = it->second;
+      }
+      return at->uuid;
+    };
+    std::unordered_map<std::string, std::vector<const CheckPlane*>> sets;
+    for (const auto& r : in_.planes)
+      if (r.kind == "bedding" || r.kind == "contact") sets[root_of(r)].push_back(&r);
+    return sets;
+  }
+
+  // A flag about a repeat set names the set and its spread; the one-tap
+  // correction is for a single reading, so a set has none.
+  static void describe_repeats(Flag& f, const RepeatMean& m, const std::vector<const CheckPlane*>& set) {
+    std::string refs;
+    for (const CheckPlane* r : set) refs += (refs.empty() ? "" : ", ") + (r->ref.empty() ? r->uuid : r->ref);
+    f.message = "The Fisher mean of " + std::to_string(m.n) + " readings of one surface (" + refs + "; alpha95 " +
+                (m.alpha95 ? fmt("%.1f", *m.alpha95) : std::string("undefined")) + "): " + f.message;
+    if (f.corrected) f.action += " Correct each reading of the set.";
+    f.corrected.reset();
   }
 
   // A reading outside the tolerance: right-hand-rule slip, declination, or misfit.
@@ -490,21 +564,72 @@ private:
   // 4. Systematic compass error: the readings of one observer on one day (and
   // one device where known) turned by a common rotation about the vertical.
   void compass_groups() {
-    std::map<std::tuple<std::string, std::string, std::string>, std::vector<const Compared*>> groups;
-    // The device is a key only when no observer is recorded: it names the device
-    // that last wrote a record, which a later edit in camp changes.
-    for (const auto& c : compared_) {
+    // First against the contacts' fits; an observer's day that agrees with them
+    // (enough readings, an interval holding zero) may then serve as the
+    // reference for readings that have no fit.
+    std::set<std::pair<std::string, std::string>> trusted;
+    for (const auto& [key, m] : group_means(compared_))
+      if (m.low <= 0 && m.high >= 0 && !std::get<0>(key).empty()) trusted.insert({std::get<0>(key), std::get<1>(key)});
+    compare_with_crew(trusted);
+    for (const auto& [key, m] : group_means(compared_))
+      if (m.low > 0 || m.high < 0) group_flag(std::get<0>(key), std::get<1>(key), groups_[key], m);
+  }
+
+  using GroupKey = std::tuple<std::string, std::string, std::string>;  // observer, day, device
+  // The readings compared so far by observer and day (the device is a key only
+  // when no observer is recorded: it names the device that last wrote a record,
+  // which a later edit in camp changes), and each group's mean rotation.
+  std::map<GroupKey, CircularMean> group_means(const std::vector<Compared>& compared) {
+    groups_.clear();
+    for (const auto& c : compared) {
       const CheckPlane& r = *c.reading;
-      if (!r.observer.empty()) groups[{r.observer, r.day, ""}].push_back(&c);
-      else if (!r.device.empty()) groups[{"", r.day, r.device}].push_back(&c);
+      if (!r.observer.empty()) groups_[{r.observer, r.day, ""}].push_back(&c);
+      else if (!r.device.empty()) groups_[{"", r.day, r.device}].push_back(&c);
     }
-    for (const auto& [key, list] : groups) {
+    std::map<GroupKey, CircularMean> out;
+    for (const auto& [key, list] : groups_) {
       if (list.size() < std::max<size_t>(2, o_.group_min_readings)) continue;
       std::vector<double> rot;
       for (const Compared* c : list) rot.push_back(c->rotation);
-      auto m = circular_mean_rotation(rot, o_.group_confidence);
-      if (!m || (m->low <= 0 && m->high >= 0)) continue;  // not significantly different from zero
-      group_flag(std::get<0>(key), std::get<1>(key), list, *m);
+      if (auto m = circular_mean_rotation(rot, o_.group_confidence)) out[key] = *m;
+    }
+    return out;
+  }
+
+  // Readings with no usable contact fit are compared with other crew members'
+  // readings of the same surface nearby instead: the Fisher mean of the bedding
+  // or contact readings, by observers whose day agreed with the contacts' fits,
+  // at stations within crew_reference_radius, taken as the same surface when
+  // within crew_reference_angle of the reading (our own choices, no published
+  // source). Two observers who only check each other could not tell which of
+  // them is wrong; a day that agreed with the fits can.
+  void compare_with_crew(const std::set<std::pair<std::string, std::string>>& trusted) {
+    if (unreferenced_.empty() || o_.crew_reference_radius <= 0 || trusted.empty()) return;
+    NearIndex near(o_.crew_reference_radius);
+    std::vector<const CheckPlane*> candidates;
+    for (const auto& r : in_.planes) {
+      if ((r.kind != "bedding" && r.kind != "contact") || r.plane.dip < kMinDipForRotation ||
+          !trusted.count({r.observer, r.day}))
+        continue;
+      if (const CheckStation* st = station(r.station)) {
+        near.add(st->e, st->n, candidates.size());
+        candidates.push_back(&r);
+      }
+    }
+    for (const auto& [r, plane] : unreferenced_) {
+      const CheckStation* st = station(r->station);
+      if (!st || r->observer.empty() || plane.dip < kMinDipForRotation) continue;
+      std::vector<Plane> others;
+      near.within(st->e, st->n, o_.crew_reference_radius, [&](size_t id, double) {
+        const CheckPlane* q = candidates[id];
+        if (q->observer != r->observer && angle_between_planes(q->plane, plane) <= o_.crew_reference_angle)
+          others.push_back(q->plane);
+      });
+      if (others.empty()) continue;
+      Plane ref = others.front();
+      if (others.size() > 1)
+        if (auto m = repeat_mean(others)) ref = m->plane;
+      compared_.push_back({r, azimuth_difference(ref.strike, plane.strike)});
     }
   }
 
@@ -528,7 +653,7 @@ private:
     const std::string who = (observer.empty() ? std::string("one device") : observer) +
                             (day.empty() ? std::string() : " on " + day);
     const std::string head = "All " + std::to_string(list.size()) + " readings by " + who +
-                             " compared with a contact need a common turn of " + fmt("%+.1f", m.mean) +
+                             " compared with a contact's plane (or a crew member's readings nearby) need a common turn of " + fmt("%+.1f", m.mean) +
                              " degrees (95% interval " + fmt("%+.1f", m.low) + " to " + fmt("%+.1f", m.high) +
                              ") to fit: ";
     const bool decl_known = with_decl && std::abs(decl) >= o_.min_declination;
@@ -692,6 +817,10 @@ private:
           if (dt > o_.duplicate_minutes) break;
           const double ang = angle_between_planes(list[i]->plane, list[j]->plane);
           if (ang > o_.duplicate_angle) continue;
+          // Marked as a repeat of the same surface: measured again on purpose.
+          if (list[i]->repeat_of == list[j]->uuid || list[j]->repeat_of == list[i]->uuid ||
+              (!list[i]->repeat_of.empty() && list[i]->repeat_of == list[j]->repeat_of))
+            continue;
           Flag f;
           f.rule = "duplicate";
           f.severity = Severity::Note;
@@ -721,6 +850,8 @@ private:
   std::unique_ptr<NearIndex> point_index_;
   std::vector<std::pair<size_t, size_t>> point_owner_;  // (contact index, point index)
   std::vector<Compared> compared_;
+  std::map<std::tuple<std::string, std::string, std::string>, std::vector<const Compared*>> groups_;
+  std::vector<std::pair<const CheckPlane*, Plane>> unreferenced_;  // no usable fit: (reading, attitude or repeat mean)
 };
 
 }  // namespace

@@ -47,6 +47,9 @@ struct CheckPlane {
   std::string observer;            // a name to show (initials or name)
   std::string day;                 // "YYYY-MM-DD"
   std::string device;              // device id
+  // The first reading of the same surface when this one measures it again, or "":
+  // repeats are combined into their Fisher mean before the comparison.
+  std::string repeat_of;
 };
 
 struct CheckContact {
@@ -100,6 +103,11 @@ struct CheckOptions {
   // excludes zero, before it is flagged.
   size_t group_min_readings = 3;
   double group_confidence = 0.95;
+  // A bedding or contact reading with no usable contact fit is compared with
+  // other observers' readings within this distance (metres) that lie within
+  // this angle of it (the same surface); our own choices, no published source.
+  double crew_reference_radius = 100.0;
+  double crew_reference_angle = 30.0;
 };
 
 // ---- output ------------------------------------------------------------------
@@ -178,6 +186,21 @@ struct CircularMean {
   double low = 0, high = 0;   // confidence interval, degrees
 };
 Result<CircularMean> circular_mean_rotation(const std::vector<double>& degrees, double confidence = 0.95);
+
+// Readings of one surface measured several times: the Fisher (1953) mean of
+// their poles as a plane, with alpha95 (absent when they are too dispersed for a
+// cone). Fails for fewer than 2 readings.
+struct RepeatMean {
+  Plane plane;
+  size_t n = 0;
+  std::optional<double> alpha95;  // degrees
+};
+Result<RepeatMean> repeat_mean(const std::vector<Plane>& readings);
+// Standard deviation (degrees) of a repeat set's mean pole for the comparison
+// tolerance: alpha95 turned into a sigma the way a fit's cone is (Rayleigh, see
+// comparison_tolerance), but never below 1 degree / sqrt(n) (a hand compass reads
+// to about a degree: common practice), nor, without alpha95, the grade's sigma / sqrt(n).
+double repeat_sigma(const RepeatMean& m, double reading_sigma_deg);
 
 CheckReport run_crosscheck(const CheckInput& input, const CheckOptions& options = {});
 

@@ -183,6 +183,7 @@ CheckData load_check_input(Project& p, const LocalDeclination& local_declination
     const std::string& when = !r.time.empty() || st_it == station_by_id.end() ? r.time : st_it->second->time;
     if (when.size() >= 10) cp.day = when.substr(0, 10);
     cp.device = r.meta.device;
+    cp.repeat_of = r.repeat_of;
     if (local_declination) {
       auto st = station_by_id.find(r.station);
       auto year = decimal_year_of(r.time);

@@ -197,8 +197,11 @@ int run_check(const Args& in, std::ostream& out, std::ostream& err) {
     min = *v;
   }
   geo::CheckOptions o;
-  const double nearby = option_number(args, "--nearby", -1, 0, 100000);  // -1: the project's setting
-  o.friction_angle = option_number(args, "--friction", o.friction_angle, 0, 89);
+  // -1: the project's setting.
+  const double nearby = option_number(args, "--nearby", -1, 0, 100000);
+  const double friction = option_number(args, "--friction", -1, 0, 89);
+  const double sliding = option_number(args, "--sliding-window", -1, 1, 90);
+  const double toppling = option_number(args, "--toppling-window", -1, 1, 90);
   o.confidence = option_number(args, "--confidence", o.confidence, 0.5, 0.9999);
   reject_unknown_options(args);
   if (args.size() != 1) throw std::invalid_argument("expected one project file");
@@ -208,7 +211,11 @@ int run_check(const Args& in, std::ostream& out, std::ostream& err) {
   oo.backups = false;
   store::Project p = store::Project::open(args[0], oo);
   if (!p.problem().empty()) err << "warning: " << p.problem() << "\n";
-  o.nearby_radius = nearby >= 0 ? nearby : p.info().nearby_radius;
+  const store::ProjectInfo info = p.info();
+  o.nearby_radius = nearby >= 0 ? nearby : info.nearby_radius;
+  o.friction_angle = friction >= 0 ? friction : info.friction_angle;
+  o.sliding_window = sliding >= 0 ? sliding : info.sliding_window;
+  o.toppling_window = toppling >= 0 ? toppling : info.toppling_window;
   const geo::MagneticModel* model = nullptr;
   try {
     model = &wmm();
@@ -235,7 +242,9 @@ int run_check(const Args& in, std::ostream& out, std::ostream& err) {
 
 }  // namespace
 
-CAIRN_COMMAND(Command{"check", "cairn check FILE [--json] [--min-severity note|query|conflict|hazard] [--nearby METRES (default: the project's)] [--friction DEG] [--confidence P]",
+CAIRN_COMMAND(Command{"check", "cairn check FILE [--json] [--min-severity note|query|conflict|hazard] [--nearby METRES] [--friction DEG] "
+                      "[--sliding-window DEG] [--toppling-window DEG] (these four default to the project's settings) "
+                      "[--confidence P]",
                       "Fit every contact and cross-check the readings against the fits", run_check});
 
 }  // namespace cairn::cli

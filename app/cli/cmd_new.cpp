@@ -1,5 +1,5 @@
-// `cairn new FILE --name NAME [--utm ZONE] [--north true|magnetic] [--declination DEG] [--nearby METRES]`:
-// makes an empty project file.
+// `cairn new FILE --name NAME [--utm ZONE] [--north true|magnetic] [--declination DEG] [--nearby METRES]
+//  [--friction DEG] [--sliding-window DEG] [--toppling-window DEG]`: makes an empty project file.
 #include <optional>
 #include <ostream>
 #include <stdexcept>
@@ -18,6 +18,20 @@ int run(const Args& in, std::ostream& out, std::ostream&) {
   const auto north = take_option(args, "--north");
   const auto decl = take_option(args, "--declination");
   const auto nearby = take_option(args, "--nearby");
+  // The cross-check's screening settings, stored in the file (schema version 5).
+  struct Setting { const char* option; double lo, hi; double store::ProjectInfo::*field; std::optional<double> value; };
+  Setting settings[] = {{"--friction", 0, 89, &store::ProjectInfo::friction_angle, {}},
+                        {"--sliding-window", 1, 90, &store::ProjectInfo::sliding_window, {}},
+                        {"--toppling-window", 1, 90, &store::ProjectInfo::toppling_window, {}}};
+  for (auto& st : settings) {
+    auto v = take_option(args, st.option);
+    if (!v) continue;
+    st.value = store::parse_decimal(*v);
+    if (!st.value || *st.value < st.lo || *st.value > st.hi)
+      throw std::invalid_argument(std::string(st.option) + " '" + *v + "' must be a number of degrees from " +
+                                  std::to_string(static_cast<int>(st.lo)) + " to " +
+                                  std::to_string(static_cast<int>(st.hi)));
+  }
   reject_unknown_options(args);
   if (args.size() != 1) throw std::invalid_argument("expected one FILE");
   if (!name || name->empty()) throw std::invalid_argument("--name NAME is required");
@@ -42,11 +56,11 @@ int run(const Args& in, std::ostream& out, std::ostream&) {
   }
   try {
     auto p = store::Project::create(args[0], np, cli_open_options(false));
-    if (radius) {
-      auto i = p.info();
-      i.nearby_radius = *radius;
-      p.update_info(i);
-    }
+    auto i = p.info();
+    if (radius) i.nearby_radius = *radius;
+    for (const auto& st : settings)
+      if (st.value) i.*st.field = *st.value;
+    p.update_info(i);
     const auto info = p.info();
     out << "created " << args[0] << ": project '" << info.name << "'"
         << (info.utm_zone.empty() ? std::string(", no UTM zone") : ", UTM zone " + info.utm_zone)
@@ -62,7 +76,8 @@ int run(const Args& in, std::ostream& out, std::ostream&) {
 }  // namespace
 
 CAIRN_COMMAND(Command{"new",
-                      "cairn new FILE --name NAME [--utm ZONE] [--north true|magnetic] [--declination DEGREES] [--nearby METRES]",
+                      "cairn new FILE --name NAME [--utm ZONE] [--north true|magnetic] [--declination DEGREES] [--nearby METRES] "
+                      "[--friction DEG] [--sliding-window DEG] [--toppling-window DEG]",
                       "make a new, empty project file (NAME.cairn)", run});
 
 }  // namespace cairn::cli

@@ -226,7 +226,12 @@ CheckResult run_check_on_file(const std::string& path, std::uint64_t revision,
     r.warning = validity_warning(outside);
     progress(0.45f, "fitting contacts and comparing readings");
     geo::CheckOptions o;
-    o.nearby_radius = p.info().nearby_radius;  // the project's setting, as `cairn check` uses it
+    // The project's settings, as `cairn check` uses them.
+    const store::ProjectInfo info = p.info();
+    o.nearby_radius = info.nearby_radius;
+    o.friction_angle = info.friction_angle;
+    o.sliding_window = info.sliding_window;
+    o.toppling_window = info.toppling_window;
     r.report = geo::run_crosscheck(r.data.input, o);
     progress(1.0f, "done");
   } catch (const std::exception& e) {

@@ -6,7 +6,8 @@
 // two-dimensional normal deviation (Mardia & Jupp, Directional Statistics, 2000;
 // value from memory); circular mean direction and its standard error from
 // Fisher, Statistical Analysis of Circular Data (1993), 4.4.4, with reference
-// values computed by numpy (script beside the check); Student's t from
+// values computed by numpy (script beside the check); Fisher (1953) alpha95,
+// cos a95 = 1 - (N - R)/R ((1/0.05)^(1/(N-1)) - 1); Student's t from
 // Abramowitz & Stegun Table 26.10; the rest is common practice, no published source.
 #include <gtest/gtest.h>
 
@@ -580,4 +581,100 @@ TEST(Crosscheck, ConvergencePerContact) {
   CheckReport rep = run_crosscheck(in);
   ASSERT_TRUE(rep.fits[0].plane && rep.fits[1].plane);
   EXPECT_NEAR(azimuth_difference(rep.fits[1].plane->strike, rep.fits[0].plane->strike), 2.5, 1e-6);
+}
+
+TEST(Crosscheck, RepeatMeanIsTheFisherMean) {
+  // Four poles tilted 3 degrees either way about two axes at right angles to the
+  // true pole: their mean is the true pole, and R = 4 cos 3 (Fisher 1953).
+  const Plane truth{130, 40};
+  const Vec3 p = pole_vector(truth);
+  const Vec3 a = p.unitOrthogonal(), b = p.cross(a);
+  std::vector<Plane> ps;
+  for (const Vec3& axis : std::vector<Vec3>{a, -a, b, -b}) {
+    const Vec3 q = std::cos(deg2rad(3)) * p + std::sin(deg2rad(3)) * axis;
+    ps.push_back(plane_from_pole(line_from_vector(q)));
+  }
+  auto m = repeat_mean(ps);
+  ASSERT_TRUE(m.ok()) << m.error();
+  EXPECT_NEAR(angle_between_planes(m->plane, truth), 0.0, 1e-6);
+  EXPECT_EQ(m->n, 4u);
+  const double N = 4, R = 4 * std::cos(deg2rad(3));
+  const double a95 = rad2deg(std::acos(1 - (N - R) / R * (std::pow(20.0, 1 / (N - 1)) - 1)));
+  ASSERT_TRUE(m->alpha95);
+  EXPECT_NEAR(*m->alpha95, a95, 1e-6);
+  EXPECT_FALSE(repeat_mean({truth}).ok());
+}
+
+TEST(Crosscheck, RepeatedReadingsAreComparedByTheirMeasuredSpread) {
+  // Three careful readings of one surface, all about 8 degrees off the contact
+  // and within half a degree of each other: one alone is within a grade-5
+  // tolerance (about 9 degrees), but their mean, known to a degree or so, is not.
+  const Plane truth{40, 25};
+  auto build = [&](bool marked) {
+    CheckInput in = one_contact(truth);
+    const Plane off[] = {{48, 31}, {48.5, 30.6}, {47.6, 31.3}};
+    for (int i = 0; i < 3; ++i) {
+      CheckPlane r = reading(std::string(1, char('a' + i)), "1", off[i], "bedding", "C1");
+      r.time_minutes = 100.0 + i;  // minutes apart: would look like entries made twice
+      if (marked && i > 0) r.repeat_of = "a";
+      in.planes.push_back(r);
+    }
+    return in;
+  };
+  // Near miss: not marked as repeats, each reading is judged alone and passes.
+  CheckReport alone = run_crosscheck(build(false));
+  EXPECT_TRUE(flags_of(alone, "misfit").empty());
+  CheckReport rep = run_crosscheck(build(true));
+  auto m = flags_of(rep, "misfit");
+  ASSERT_EQ(m.size(), 1u);
+  EXPECT_EQ(m[0].reading, "a");  // one flag for the surface, on its first reading
+  EXPECT_NE(m[0].message.find("Fisher mean of 3 readings"), std::string::npos) << m[0].message;
+  EXPECT_FALSE(m[0].corrected);
+  EXPECT_TRUE(flags_of(rep, "duplicate").empty());  // marked repeats are not entries made twice
+}
+
+TEST(Crosscheck, WithoutAFitACrewMembersDayIsComparedWithTheCrew) {
+  // CD's readings agree with the contact's fit, so CD's day can be a reference.
+  // AB's readings name no contact; at a station 50 m away they are compared with
+  // CD's readings of the same surface and need a common turn of about +12 (a
+  // 12 degree east declination not applied).
+  auto build = [](double ab_station_east, bool cd_on_contact) {
+    const Plane truth{15, 65};
+    CheckInput in = one_contact(truth);
+    in.stations.push_back(station("2", ab_station_east, 0));
+    const double noise[] = {1.0, -1.5, 0.5, -0.5, 1.5};
+    for (int i = 0; i < 4; ++i) {
+      CheckPlane r = reading("cd" + std::to_string(i), "1", Plane{truth.strike + noise[i], truth.dip}, "bedding",
+                             cd_on_contact ? "C1" : "");
+      r.observer = "CD";
+      r.day = "2026-07-14";
+      in.planes.push_back(r);
+    }
+    for (int i = 0; i < 5; ++i) {
+      CheckPlane r = reading("ab" + std::to_string(i), "2", Plane{truth.strike - 12 + noise[4 - i], truth.dip});
+      r.observer = "AB";
+      r.day = "2026-07-14";
+      r.quality = 3;
+      r.local_declination = 12.0;
+      in.planes.push_back(r);
+    }
+    return in;
+  };
+  auto groups = [](const CheckReport& rep) {
+    std::vector<Flag> g;
+    for (const auto& f : rep.flags)
+      if (!f.readings.empty()) g.push_back(f);
+    return g;
+  };
+  auto g = groups(run_crosscheck(build(50, true)));
+  ASSERT_EQ(g.size(), 1u);
+  EXPECT_EQ(g[0].observer, "AB");
+  EXPECT_EQ(g[0].rule, "declination-suspect");
+  EXPECT_EQ(g[0].cause, "declination-not-applied");
+  EXPECT_EQ(g[0].readings.size(), 5u);
+  ASSERT_TRUE(g[0].rotation);
+  EXPECT_NEAR(*g[0].rotation, 12.0, 1.5);
+  // Near misses: no one within reach, or a reference day never checked against a fit.
+  EXPECT_TRUE(groups(run_crosscheck(build(500, true))).empty());
+  EXPECT_TRUE(groups(run_crosscheck(build(50, false))).empty());
 }
