@@ -832,7 +832,9 @@ private:
           f.message = key.second + " " + plane_text(list[i]->plane) + " repeats " +
                       (list[j]->ref.empty() ? "an earlier reading" : "reading " + list[j]->ref) + " (" +
                       fmt("%.1f", ang) + " degrees apart, " + fmt("%.0f", dt) + " min earlier): entered twice?";
-          f.action = "If both are the same measurement, delete one; if not, add a note saying why they repeat.";
+          f.action = "If both are the same measurement, delete one. If you measured the surface again on purpose, "
+                     "mark the later reading as a repeat of the first (repeat_of): the check then uses their "
+                     "Fisher mean and spread.";
           rep_.flags.push_back(f);
           break;
         }
