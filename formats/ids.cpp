@@ -10,8 +10,11 @@
 namespace cairn::formats {
 
 std::string new_uuid() {
-  // std::random_device reads the kernel's random source on Linux (getrandom or
-  // /dev/urandom); a thread_local instance avoids reopening it.
+  // std::random_device with the default token: GCC's libstdc++ (Debian 12) takes
+  // the CPU's RDSEED or RDRAND instruction where the processor has one and the
+  // kernel's source (getentropy, else /dev/urandom) otherwise; other standard
+  // libraries choose differently. Checked on x86-64: 1000 calls make no system
+  // call. A thread_local instance avoids setting it up again.
   thread_local std::random_device rd;
   unsigned char b[16];
   for (int i = 0; i < 16; i += 4) {

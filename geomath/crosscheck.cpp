@@ -4,10 +4,17 @@
 #include <cmath>
 #include <cstdio>
 #include <map>
+#include <memory>
+#include <set>
+#include <tuple>
 #include <unordered_map>
 
 #include "geomath/angles.h"
+#include "geomath/distributions.h"
 #include "geomath/notation.h"
+#include "geomath/statistics.h"
+#include "geomath/strike_lines.h"
+#include "geomath/decimal.h"
 
 namespace cairn::geo {
 
@@ -19,13 +26,11 @@ const char* const kSteepGroundCaution =
     "Steep ground: re-measure only where the crew's field-safety plan allows. Do not climb or work "
     "under the face to do it; a reading from safe ground or a note is better than a fall.";
 
-namespace {
+const char* const kRevisitCaution =
+    "Go back along the contact only where the crew's field-safety plan allows; keep off steep faces and "
+    "defer to local codes and licensed practice. A note is better than a fall.";
 
-std::string fmt(const char* f, double v) {
-  char buf[64];
-  std::snprintf(buf, sizeof buf, f, v);
-  return buf;
-}
+namespace {
 
 // A uniform grid over map positions for "what is near here" questions: each
 // query looks at the 3x3 cells around a point, so with a cell the size of the
@@ -161,43 +166,136 @@ bool flexural_toppling_possible(const Plane& plane, const Plane& slope, double f
   return dd <= window && (90.0 - plane.dip) + friction <= slope.dip;
 }
 
-CheckReport run_crosscheck(const CheckInput& in, const CheckOptions& o) {
-  CheckReport rep;
-  std::unordered_map<std::string, size_t> station_of;
-  for (size_t i = 0; i < in.stations.size(); ++i) station_of[in.stations[i].uuid] = i;
-  auto station_code = [&](const std::string& id) -> std::string {
-    auto it = station_of.find(id);
-    return it == station_of.end() ? std::string() : in.stations[it->second].code;
-  };
+Result<CircularMean> circular_mean_rotation(const std::vector<double>& deg, double confidence) {
+  const size_t n = deg.size();
+  if (n < 2) return Result<CircularMean>::failure("a mean rotation needs at least 2 readings");
+  // Fisher (1993), 2.3 and 4.4.4: mean direction from the vector sum; circular
+  // dispersion d = (1 - rho2) / (2 R^2) with rho2 = mean cos 2(theta - mean);
+  // standard error sqrt(d / n); interval mean +/- arcsin(q SE). q is Student's
+  // t with n - 1 degrees of freedom in place of Fisher's large-sample normal
+  // quantile (our own choice for small groups, by analogy with a linear mean).
+  double S = 0, C = 0;
+  for (double d : deg) {
+    S += std::sin(deg2rad(d));
+    C += std::cos(deg2rad(d));
+  }
+  CircularMean m;
+  m.n = n;
+  m.resultant = std::hypot(S, C) / static_cast<double>(n);
+  if (m.resultant < 1e-9) return Result<CircularMean>::failure("the rotations have no mean direction");
+  const double mean = std::atan2(S, C);
+  double rho2 = 0;
+  for (double d : deg) rho2 += std::cos(2.0 * (deg2rad(d) - mean));
+  rho2 /= static_cast<double>(n);
+  const double dispersion = (1.0 - rho2) / (2.0 * m.resultant * m.resultant);
+  const double se = std::sqrt(std::max(0.0, dispersion) / static_cast<double>(n));
+  auto t = t_quantile(0.5 + confidence / 2.0, static_cast<double>(n - 1));
+  if (!t) return Result<CircularMean>::failure(t.error());
+  const double half = std::asin(std::min(1.0, *t * se));
+  m.mean = azimuth_difference(rad2deg(mean), 0.0);
+  m.standard_error = rad2deg(se);
+  m.low = m.mean - rad2deg(half);
+  m.high = m.mean + rad2deg(half);
+  return m;
+}
 
-  // 1. Fits.
-  std::unordered_map<std::string, size_t> fit_of;  // contact id -> index in rep.fits
-  for (const auto& c : in.contacts) {
+Result<RepeatMean> repeat_mean(const std::vector<Plane>& readings) {
+  if (readings.size() < 2) return Result<RepeatMean>::failure("a repeat set needs at least 2 readings");
+  std::vector<Line> poles;
+  for (const auto& p : readings) poles.push_back(pole(p));
+  auto f = fisher_mean(poles);
+  if (!f) return Result<RepeatMean>::failure(f.error());
+  RepeatMean m;
+  m.plane = plane_from_pole(f->mean);
+  m.n = readings.size();
+  m.alpha95 = f->alpha95;
+  return m;
+}
+
+double repeat_sigma(const RepeatMean& m, double reading_sigma_deg) {
+  const double root_n = std::sqrt(static_cast<double>(m.n));
+  if (!m.alpha95) return reading_sigma_deg / root_n;
+  return std::max(*m.alpha95 / std::sqrt(-2.0 * std::log(0.05)), 1.0 / root_n);
+}
+
+namespace {
+
+// One reading compared with a usable contact fit, kept for the group check.
+struct Compared {
+  const CheckPlane* reading;
+  double rotation;  // degrees to add to the reading's strike to match the reference
+};
+
+// Planes dipping less than this give a strike too uncertain to measure a
+// rotation about the vertical (our own choice, no published source).
+constexpr double kMinDipForRotation = 10.0;
+
+// The engine, one named step per rule family; run() calls them in order.
+class Checker {
+public:
+  Checker(const CheckInput& in, const CheckOptions& o) : in_(in), o_(o), station_index_(o.terrain_radius) {
+    for (size_t i = 0; i < in.stations.size(); ++i) station_of_[in.stations[i].uuid] = i;
+  }
+
+  CheckReport run() {
+    fit_contacts();
+    index_slopes();
+    compare_readings();
+    compass_groups();
+    facing();
+    slope_screening();
+    duplicates();
+    std::stable_sort(rep_.flags.begin(), rep_.flags.end(), [](const Flag& a, const Flag& b) {
+      if (a.station != b.station) return a.station < b.station;
+      if (a.severity != b.severity) return a.severity > b.severity;
+      return a.rule < b.rule;
+    });
+    return std::move(rep_);
+  }
+
+private:
+  std::string station_code(const std::string& id) const {
+    auto it = station_of_.find(id);
+    return it == station_of_.end() ? std::string() : in_.stations[it->second].code;
+  }
+  const CheckStation* station(const std::string& id) const {
+    auto it = station_of_.find(id);
+    return it == station_of_.end() ? nullptr : &in_.stations[it->second];
+  }
+
+  // 1. Fits: a plane through each contact's points, its verdict and whether
+  // readings are compared against it.
+  void fit_contacts() {
+    for (const auto& c : in_.contacts) {
+      fit_of_[c.uuid] = rep_.fits.size();
+      rep_.fits.push_back(fit_contact(c));
+    }
+  }
+
+  ContactFit fit_contact(const CheckContact& c) {
     ContactFit cf;
     cf.contact = c.name;
     cf.contact_id = c.uuid;
     cf.points = c.points.size();
-    fit_of[c.uuid] = rep.fits.size();
     if (c.points.size() < 3) {
       cf.verdict = c.points.empty() ? "no points mapped" : "fewer than 3 points: no plane";
-      rep.fits.push_back(cf);
-      continue;
+      return cf;
     }
     auto f = fit_plane(c.points);
     Flag flag;
     flag.contact = c.name;
+    flag.rule = "weak-geometry";
+    flag.severity = Severity::Query;
+    flag.caution = kRevisitCaution;
     if (!f) {
       cf.verdict = f.error();
-      flag.rule = "weak-geometry";
-      flag.severity = Severity::Query;
       flag.message = "No plane through the points of " + c.name + ": " + f.error() + ".";
       flag.action = "Map points along the contact at different elevations and away from a straight line.";
-      rep.flags.push_back(flag);
-      rep.fits.push_back(cf);
-      continue;
+      rep_.flags.push_back(flag);
+      return cf;
     }
     cf.fit = *f;
-    cf.plane = grid_plane_to_true(f->plane, in.grid);
+    cf.plane = grid_plane_to_true(f->plane, c.grid.value_or(in_.grid));
     cf.verdict = f->verdict;
     const auto outliers = leave_one_out(c.points);
     for (size_t k = 0; k < outliers.size() && k < 5; ++k) cf.worst_points.push_back(outliers[k].index);
@@ -205,283 +303,556 @@ CheckReport run_crosscheck(const CheckInput& in, const CheckOptions& o) {
     // (folded, faulted or a point mis-located); that explains a poor geometry too,
     // so it is reported first.
     const bool not_planar = f->not_planar || !outliers.empty();
-    if (f->weak_geometry && !not_planar) {
-      flag.rule = "weak-geometry";
-      flag.severity = Severity::Query;
-      flag.message = "The points of " + c.name + " constrain its plane weakly: " + f->weakness.value_or(f->verdict);
-      flag.action = "Add points along the contact at different elevations and away from a straight line "
-                    "before trusting its attitude.";
-      rep.flags.push_back(flag);
-    } else if (not_planar) {
+    if (not_planar) {
       flag.rule = "not-planar";
-      flag.severity = Severity::Query;
       std::string worst;
       for (size_t k = 0; k < outliers.size() && k < 5; ++k)
         worst += (k ? ", " : "") + std::string("#") + std::to_string(outliers[k].index + 1) + " (" +
-                 fmt("%+.1f m", outliers[k].residual) + ")";
+                 format_decimal("%+.1f m", outliers[k].residual) + ")";
       if (worst.empty()) {
-        worst = "#" + std::to_string(f->worst_index + 1) + " (" + fmt("%+.1f m", f->worst_residual) + ")";
+        worst = "#" + std::to_string(f->worst_index + 1) + " (" + format_decimal("%+.1f m", f->worst_residual) + ")";
         cf.worst_points.push_back(f->worst_index);
       }
-      flag.message = c.name + " does not lie on one plane (rms " + fmt("%.1f m", f->rms) +
-                     "); worst points " + worst + ". Readings on it are not compared.";
+      flag.message = c.name + " does not lie on one plane (rms " + format_decimal("%.1f m", f->rms) + "); worst points " + worst +
+                     ". Readings on it are not compared.";
       flag.action = "Check the worst points' positions; if the contact is folded or faulted, split it "
                     "into planar segments.";
-      rep.flags.push_back(flag);
-    } else if (!f->weak_geometry) {
+      rep_.flags.push_back(flag);
+    } else if (f->weak_geometry) {
+      flag.message = "The points of " + c.name + " constrain its plane weakly: " + f->weakness.value_or(f->verdict);
+      flag.action = "Add points along the contact at different elevations and away from a straight line "
+                    "before trusting its attitude.";
+      rep_.flags.push_back(flag);
+    } else if (!f->cone95) {
+      // Three points (or points exactly on a plane) without accuracies: a plane
+      // with no uncertainty at all cannot judge a reading.
+      flag.message = "The " + std::to_string(c.points.size()) + " points of " + c.name +
+                     " fit a plane exactly and carry no accuracies: its uncertainty is unknown, so readings are "
+                     "not compared with it.";
+      flag.action = "Give the points' horizontal and vertical accuracies, or map more points along the contact.";
+      rep_.flags.push_back(flag);
+    } else {
       cf.usable = true;
     }
-    rep.fits.push_back(cf);
+    return cf;
   }
 
   // Ground slope at each station: the steepest slope-face reading there, or the
   // plane through nearby stations' elevations.
-  NearIndex station_index(o.terrain_radius);
-  for (size_t i = 0; i < in.stations.size(); ++i)
-    if (in.stations[i].z) station_index.add(in.stations[i].e, in.stations[i].n, i);
-  std::unordered_map<std::string, std::vector<const CheckPlane*>> slopes_at;
-  for (const auto& p : in.planes)
-    if (p.kind == "slope") slopes_at[p.station].push_back(&p);
-  auto ground_slope = [&](const std::string& station_id) -> std::optional<double> {
-    auto s = slopes_at.find(station_id);
-    if (s != slopes_at.end()) {
+  void index_slopes() {
+    for (size_t i = 0; i < in_.stations.size(); ++i)
+      if (in_.stations[i].z) station_index_.add(in_.stations[i].e, in_.stations[i].n, i);
+    for (const auto& p : in_.planes)
+      if (p.kind == "slope") slopes_at_[p.station].push_back(&p);
+  }
+
+  std::optional<double> ground_slope(const std::string& station_id) const {
+    auto s = slopes_at_.find(station_id);
+    if (s != slopes_at_.end()) {
       double m = 0;
       for (auto* p : s->second) m = std::max(m, p->plane.dip);
       return m;
     }
-    auto it = station_of.find(station_id);
-    if (it == station_of.end()) return std::nullopt;
-    const auto& st = in.stations[it->second];
+    const CheckStation* st = station(station_id);
+    if (!st) return std::nullopt;
     std::vector<FitPoint> near;
-    station_index.within(st.e, st.n, o.terrain_radius, [&](size_t id, double) {
-      const auto& q = in.stations[id];
+    station_index_.within(st->e, st->n, o_.terrain_radius, [&](size_t id, double) {
+      const auto& q = in_.stations[id];
       near.push_back({q.e, q.n, *q.z, 0, 0});
     });
     if (near.size() < 3) return std::nullopt;
     FitOptions quick;
-    quick.draws = 0;
+    quick.draws = 200;  // enough for the cone to tell a usable ground plane from a line of stations
     auto f = fit_plane(near, quick);
     if (!f || f->weak_geometry) return std::nullopt;
     return f->plane.dip;
-  };
-  auto add_steep_caution = [&](Flag& f) {
+  }
+
+  // Every action that sends someone back to an outcrop carries the caution where
+  // the ground there is steep.
+  void add_steep_caution(Flag& f) const {
     if (f.station_id.empty()) return;
-    if (auto s = ground_slope(f.station_id); s && *s > o.steep_slope) {
+    if (auto s = ground_slope(f.station_id); s && *s > o_.steep_slope) {
       f.caution = kSteepGroundCaution;
-      f.message += " Ground here slopes about " + fmt("%.0f", *s) + " degrees.";
+      f.message += " Ground here slopes about " + format_decimal("%.0f", *s) + " degrees.";
     }
-  };
+  }
+
+  // The contact a bedding or contact reading is compared with: the one it names,
+  // or with the nearby option the nearest usable contact.
+  const CheckContact* contact_for(const CheckPlane& r) {
+    if (!r.contact.empty()) {
+      auto it = fit_of_.find(r.contact);  // fits are in the contacts' order
+      return it == fit_of_.end() ? nullptr : &in_.contacts[it->second];
+    }
+    if (o_.nearby_radius <= 0) return nullptr;
+    const CheckStation* st = station(r.station);
+    if (!st) return nullptr;
+    const CheckContact* contact = nullptr;
+    double best = o_.nearby_radius + 1;
+    point_index_->within(st->e, st->n, o_.nearby_radius, [&](size_t id, double d) {
+      if (d < best && rep_.fits[point_owner_[id].first].usable) {
+        best = d;
+        contact = &in_.contacts[point_owner_[id].first];
+      }
+    });
+    return contact;
+  }
 
   // 2-3. Compare bedding and contact readings with their contact's plane; diagnose misfits.
-  NearIndex point_index(o.nearby_radius > 0 ? o.nearby_radius : 1.0);
-  std::vector<std::pair<size_t, size_t>> point_owner;  // (contact index, point index)
-  if (o.nearby_radius > 0) {
-    for (size_t ci = 0; ci < in.contacts.size(); ++ci)
-      for (size_t pi = 0; pi < in.contacts[ci].points.size(); ++pi) {
-        point_index.add(in.contacts[ci].points[pi].e, in.contacts[ci].points[pi].n, point_owner.size());
-        point_owner.push_back({ci, pi});
+  void compare_readings() {
+    point_index_ = std::make_unique<NearIndex>(o_.nearby_radius > 0 ? o_.nearby_radius : 1.0);
+    if (o_.nearby_radius > 0) {
+      for (size_t ci = 0; ci < in_.contacts.size(); ++ci)
+        for (size_t pi = 0; pi < in_.contacts[ci].points.size(); ++pi) {
+          point_index_->add(in_.contacts[ci].points[pi].e, in_.contacts[ci].points[pi].n, point_owner_.size());
+          point_owner_.push_back({ci, pi});
+        }
+    }
+    const auto sets = repeat_sets();
+    for (const auto& original : in_.planes) {
+      if (original.kind != "bedding" && original.kind != "contact") continue;
+      auto set = sets.find(original.uuid);
+      if (set == sets.end()) continue;  // a repeat: compared with its first reading
+      // A surface measured several times is compared once, as the Fisher mean of
+      // the readings, with their measured spread in place of the grade's.
+      CheckPlane r = original;
+      std::optional<RepeatMean> mean;
+      if (set->second.size() > 1) {
+        std::vector<Plane> ps;
+        for (const CheckPlane* m : set->second) ps.push_back(m->plane);
+        if (auto rm = repeat_mean(ps)) {
+          mean = *rm;
+          r.plane = rm->plane;
+        }
       }
+      const CheckContact* contact = contact_for(r);
+      if (!contact || !rep_.fits[fit_of_[contact->uuid]].usable) {
+        unreferenced_.push_back({&original, r.plane});
+        continue;
+      }
+      const ContactFit& cf = rep_.fits[fit_of_[contact->uuid]];
+      const double sigma = mean ? repeat_sigma(*mean, reading_sigma(r.quality, o_)) : reading_sigma(r.quality, o_);
+      const double tol = comparison_tolerance(sigma, cf.fit->cone95, o_.confidence);
+      const double misfit = angle_between_planes(r.plane, *cf.plane);
+      std::string rule;
+      if (misfit > tol) {
+        rule = diagnose(r, *contact, *cf.plane, misfit, tol);
+        if (mean) describe_repeats(rep_.flags.back(), *mean, set->second);
+      }
+      // Readings explained by local structure or a right-hand-rule slip say
+      // nothing about the compass; the others go into their group's rotation.
+      if (rule != "misfit" && rule != "reversed-dip" && r.plane.dip >= kMinDipForRotation &&
+          cf.plane->dip >= kMinDipForRotation)
+        compared_.push_back({&original, azimuth_difference(cf.plane->strike, r.plane.strike)});
+    }
   }
-  for (const auto& r : in.planes) {
-    if (r.kind != "bedding" && r.kind != "contact") continue;
-    const CheckContact* contact = nullptr;
-    if (!r.contact.empty()) {
-      auto it = fit_of.find(r.contact);  // fits are in the contacts' order
-      if (it != fit_of.end()) contact = &in.contacts[it->second];
-    }
-    if (!contact && r.contact.empty() && o.nearby_radius > 0) {
-      auto st = station_of.find(r.station);
-      if (st != station_of.end()) {
-        double best = o.nearby_radius + 1;
-        point_index.within(in.stations[st->second].e, in.stations[st->second].n, o.nearby_radius,
-                           [&](size_t id, double d) {
-                             if (d < best && rep.fits[point_owner[id].first].usable) {
-                               best = d;
-                               contact = &in.contacts[point_owner[id].first];
-                             }
-                           });
-      }
-    }
-    if (!contact) continue;
-    const ContactFit& cf = rep.fits[fit_of[contact->uuid]];
-    if (!cf.usable) continue;
-    const Plane fit_plane_true = *cf.plane;
-    const double misfit = angle_between_planes(r.plane, fit_plane_true);
-    const double tol = comparison_tolerance(reading_sigma(r.quality, o), cf.fit->cone95, o.confidence);
-    if (misfit <= tol) continue;
 
+  // Readings keyed by the first reading of their surface: a reading marked as a
+  // repeat of another bedding or contact reading joins that one's set (a repeat
+  // of a repeat joins the first). Only first readings are keys.
+  std::unordered_map<std::string, std::vector<const CheckPlane*>> repeat_sets() const {
+    std::unordered_map<std::string, const CheckPlane*> by_id;
+    for (const auto& r : in_.planes) by_id[r.uuid] = &r;
+    auto root_of = [&](const CheckPlane& r) {
+      const CheckPlane* at = &r;
+      for (int hop = 0; hop < 100 && !at->repeat_of.empty(); ++hop) {
+        auto it = by_id.find(at->repeat_of);
+        if (it == by_id.end() || it->second->kind != r.kind || it->second->station != r.station) break;
+        at = it->second;
+      }
+      return at->uuid;
+    };
+    std::unordered_map<std::string, std::vector<const CheckPlane*>> sets;
+    for (const auto& r : in_.planes)
+      if (r.kind == "bedding" || r.kind == "contact") sets[root_of(r)].push_back(&r);
+    return sets;
+  }
+
+  // A flag about a repeat set names the set and its spread; the one-tap
+  // correction is for a single reading, so a set has none.
+  static void describe_repeats(Flag& f, const RepeatMean& m, const std::vector<const CheckPlane*>& set) {
+    std::string refs;
+    for (const CheckPlane* r : set) refs += (refs.empty() ? "" : ", ") + (r->ref.empty() ? r->uuid : r->ref);
+    f.message = "The Fisher mean of " + std::to_string(m.n) + " readings of one surface (" + refs + "; alpha95 " +
+                (m.alpha95 ? format_decimal("%.1f", *m.alpha95) : std::string("undefined")) + "): " + f.message;
+    if (f.corrected) f.action += " Correct each reading of the set.";
+    f.corrected.reset();
+  }
+
+  // A reading outside the tolerance: right-hand-rule slip, declination, or misfit.
+  // Returns the rule raised.
+  std::string diagnose(const CheckPlane& r, const CheckContact& contact, const Plane& fitted, double misfit,
+                       double tol) {
     Flag f;
     f.station = station_code(r.station);
     f.station_id = r.station;
     f.ref = r.ref;
     f.reading = r.uuid;
-    f.contact = contact->name;
+    f.contact = contact.name;
     f.misfit = misfit;
     const std::string what = r.kind + " " + plane_text(r.plane) + " at " + f.station;
-    const std::string against = " from the plane of " + contact->name + " (" + plane_text(fit_plane_true) +
-                                ", tolerance " + fmt("%.1f", tol) + ")";
-
+    const std::string against =
+        " from the plane of " + contact.name + " (" + plane_text(fitted) + ", tolerance " + format_decimal("%.1f", tol) + ")";
     const Plane reversed{wrap360(r.plane.strike + 180.0), r.plane.dip};
-    const double m_rev = angle_between_planes(reversed, fit_plane_true);
+    const double m_rev = angle_between_planes(reversed, fitted);
     std::optional<std::pair<double, Plane>> decl;
-    if (r.local_declination && std::abs(*r.local_declination) >= o.min_declination) {
+    if (r.local_declination && std::abs(*r.local_declination) >= o_.min_declination) {
       for (double sign : {+1.0, -1.0}) {
         const Plane cand{wrap360(r.plane.strike + sign * *r.local_declination), r.plane.dip};
-        const double m = angle_between_planes(cand, fit_plane_true);
+        const double m = angle_between_planes(cand, fitted);
         if (!decl || m < decl->first) decl = {{m, cand}};
       }
     }
     if (m_rev <= tol) {
       f.rule = "reversed-dip";
+      f.cause = "right-hand-rule";
       f.severity = Severity::Conflict;
       f.misfit_corrected = m_rev;
       f.corrected = reversed;
-      f.message = what + " is " + fmt("%.0f", misfit) + " degrees" + against + ", but dipping the other way (" +
-                  plane_text(reversed) + ") it fits within " + fmt("%.0f", m_rev) +
+      f.message = what + " is " + format_decimal("%.0f", misfit) + " degrees" + against + ", but dipping the other way (" +
+                  plane_text(reversed) + ") it fits within " + format_decimal("%.0f", m_rev) +
                   ": a right-hand-rule slip or a wrong dip-quadrant letter?";
       f.action = "Check the notebook and the outcrop's dip direction; if the beds dip towards " +
-                 fmt("%03.0f", reversed.dip_direction()) + ", correct the reading to " + plane_text(reversed) + ".";
+                 format_decimal("%03.0f", reversed.dip_direction()) + ", correct the reading to " + plane_text(reversed) + ".";
+      add_steep_caution(f);
     } else if (decl && decl->first <= tol) {
       f.rule = "declination-suspect";
       f.severity = Severity::Query;
       f.misfit_corrected = decl->first;
       f.corrected = decl->second;
-      const double applied = azimuth_difference(decl->second.strike, r.plane.strike);
-      f.message = what + " is " + fmt("%.0f", misfit) + " degrees" + against + "; turned by " +
-                  fmt("%+.1f", applied) + " degrees (the local declination) it fits within " +
-                  fmt("%.0f", decl->first) + ": declination " + (applied > 0 ? "not applied?" : "applied twice?");
+      const double turn = azimuth_difference(decl->second.strike, r.plane.strike);
+      f.cause = declination_cause(turn, *r.local_declination);
+      f.message = what + " is " + format_decimal("%.0f", misfit) + " degrees" + against + "; turned by " + format_decimal("%+.1f", turn) +
+                  " degrees it fits within " + format_decimal("%.0f", decl->first) + ". " +
+                  declination_words(f.cause, *r.local_declination);
       f.action = "Check the compass's declination setting and the reading's north reference (true or "
                  "magnetic), then correct the reading's north reference.";
     } else {
       f.rule = "misfit";
       f.severity = Severity::Conflict;
-      f.message = what + " is " + fmt("%.0f", misfit) + " degrees" + against +
+      f.message = what + " is " + format_decimal("%.0f", misfit) + " degrees" + against +
                   ": local structure, cross-bedding, a slumped block, or a misreading.";
       f.action = "Re-measure on a clean, representative surface; if it holds, note the local structure.";
       add_steep_caution(f);
     }
-    rep.flags.push_back(f);
+    rep_.flags.push_back(f);
+    return f.rule;
   }
 
-  // 4. Facing: the younger unit should lie above a depositional contact when the
-  // beds are upright, below it when they are overturned.
-  for (const auto& c : in.contacts) {
-    if (c.type != "depositional" || c.lower_unit.empty() || c.upper_unit.empty()) continue;
-    const ContactFit& cf = rep.fits[fit_of[c.uuid]];
-    if (!cf.usable) continue;
-    const Vec3 nrm = cf.fit->normal, ctr = cf.fit->centroid;
+  // The sign of the rotation a reading needs, compared with the sign of the
+  // local declination (east positive; true = magnetic + declination): adding
+  // the declination means it was not applied, taking it off means it was
+  // applied twice, whichever side of north the declination lies.
+  static std::string declination_cause(double turn, double declination) {
+    return turn * declination > 0 ? "declination-not-applied" : "declination-applied-twice";
+  }
+  static std::string declination_words(const std::string& cause, double declination) {
+    const std::string d = format_decimal("%.1f", std::abs(declination)) + (declination >= 0 ? " east" : " west");
+    return cause == "declination-not-applied"
+               ? "The turn is the local declination (" + d + ") added: declination not applied (a magnetic reading "
+                 "stored as true north?)."
+               : "The turn is the local declination (" + d + ") taken off: declination applied twice (the compass "
+                 "already set to it and the reading stored as magnetic?).";
+  }
+
+  // 4. Systematic compass error: the readings of one observer on one day (and
+  // one device where known) turned by a common rotation about the vertical.
+  void compass_groups() {
+    // First against the contacts' fits; an observer's day that agrees with them
+    // (enough readings, an interval holding zero) may then serve as the
+    // reference for readings that have no fit.
+    std::set<std::pair<std::string, std::string>> trusted;
+    for (const auto& [key, m] : group_means(compared_))
+      if (m.low <= 0 && m.high >= 0 && !std::get<0>(key).empty()) trusted.insert({std::get<0>(key), std::get<1>(key)});
+    compare_with_crew(trusted);
+    for (const auto& [key, m] : group_means(compared_))
+      if (m.low > 0 || m.high < 0) group_flag(std::get<0>(key), std::get<1>(key), groups_[key], m);
+  }
+
+  using GroupKey = std::tuple<std::string, std::string, std::string>;  // observer, day, device
+  // The readings compared so far by observer and day (the device is a key only
+  // when no observer is recorded: it names the device that last wrote a record,
+  // which a later edit in camp changes), and each group's mean rotation.
+  std::map<GroupKey, CircularMean> group_means(const std::vector<Compared>& compared) {
+    groups_.clear();
+    for (const auto& c : compared) {
+      const CheckPlane& r = *c.reading;
+      if (!r.observer.empty()) groups_[{r.observer, r.day, ""}].push_back(&c);
+      else if (!r.device.empty()) groups_[{"", r.day, r.device}].push_back(&c);
+    }
+    std::map<GroupKey, CircularMean> out;
+    for (const auto& [key, list] : groups_) {
+      if (list.size() < std::max<size_t>(2, o_.group_min_readings)) continue;
+      std::vector<double> rot;
+      for (const Compared* c : list) rot.push_back(c->rotation);
+      if (auto m = circular_mean_rotation(rot, o_.group_confidence)) out[key] = *m;
+    }
+    return out;
+  }
+
+  // Readings with no usable contact fit are compared with other crew members'
+  // readings of the same surface nearby instead: the Fisher mean of the bedding
+  // or contact readings, by observers whose day agreed with the contacts' fits,
+  // at stations within crew_reference_radius, taken as the same surface when
+  // within crew_reference_angle of the reading (our own choices, no published
+  // source). Two observers who only check each other could not tell which of
+  // them is wrong; a day that agreed with the fits can.
+  void compare_with_crew(const std::set<std::pair<std::string, std::string>>& trusted) {
+    if (unreferenced_.empty() || o_.crew_reference_radius <= 0 || trusted.empty()) return;
+    NearIndex near(o_.crew_reference_radius);
+    std::vector<const CheckPlane*> candidates;
+    for (const auto& r : in_.planes) {
+      if ((r.kind != "bedding" && r.kind != "contact") || r.plane.dip < kMinDipForRotation ||
+          !trusted.count({r.observer, r.day}))
+        continue;
+      if (const CheckStation* st = station(r.station)) {
+        near.add(st->e, st->n, candidates.size());
+        candidates.push_back(&r);
+      }
+    }
+    for (const auto& [r, plane] : unreferenced_) {
+      const CheckStation* st = station(r->station);
+      if (!st || r->observer.empty() || plane.dip < kMinDipForRotation) continue;
+      std::vector<Plane> others;
+      near.within(st->e, st->n, o_.crew_reference_radius, [&](size_t id, double) {
+        const CheckPlane* q = candidates[id];
+        if (q->observer != r->observer && angle_between_planes(q->plane, plane) <= o_.crew_reference_angle)
+          others.push_back(q->plane);
+      });
+      if (others.empty()) continue;
+      Plane ref = others.front();
+      if (others.size() > 1)
+        if (auto m = repeat_mean(others)) ref = m->plane;
+      compared_.push_back({r, azimuth_difference(ref.strike, plane.strike)});
+    }
+  }
+
+  void group_flag(const std::string& observer, const std::string& day, const std::vector<const Compared*>& list,
+                  const CircularMean& m) {
+    Flag f;
+    f.severity = Severity::Query;
+    f.observer = observer;
+    f.day = day;
+    f.rotation = m.mean;
+    f.rotation_interval = std::make_pair(m.low, m.high);
+    double decl = 0;
+    size_t with_decl = 0;
+    for (const Compared* c : list) {
+      f.refs.push_back(c->reading->ref);
+      f.readings.push_back(c->reading->uuid);
+      f.stations.push_back(station_code(c->reading->station));
+      if (c->reading->local_declination) decl += *c->reading->local_declination, ++with_decl;
+    }
+    if (with_decl) decl /= static_cast<double>(with_decl);
+    const std::string who = (observer.empty() ? std::string("one device") : observer) +
+                            (day.empty() ? std::string() : " on " + day);
+    const std::string head = "All " + std::to_string(list.size()) + " readings by " + who +
+                             " compared with a contact's plane (or a crew member's readings nearby) need a common turn of " + format_decimal("%+.1f", m.mean) +
+                             " degrees (95% interval " + format_decimal("%+.1f", m.low) + " to " + format_decimal("%+.1f", m.high) +
+                             ") to fit: ";
+    const bool decl_known = with_decl && std::abs(decl) >= o_.min_declination;
+    if (decl_known && m.low <= decl && decl <= m.high) {
+      f.rule = "declination-suspect";
+      f.cause = "declination-not-applied";
+    } else if (decl_known && m.low <= -decl && -decl <= m.high) {
+      f.rule = "declination-suspect";
+      f.cause = "declination-applied-twice";
+    } else {
+      f.rule = "compass-offset";
+      f.cause = "compass-offset";
+    }
+    if (f.rule == "declination-suspect") {
+      f.message = head + declination_words(f.cause, decl) + " Each reading alone may be within its tolerance.";
+      f.action = "Check the compass's declination setting that day; if it is confirmed, correct the north "
+                 "reference of the whole group at once (one audited change).";
+    } else {
+      f.message = head + "the local declination does not explain it. A compass with an offset, a "
+                  "magnetised object near it, or a wrong declination set?";
+      f.action = "Check the compass against a known bearing or another crew member's compass; if the offset is "
+                 "confirmed, turn the whole group by " + format_decimal("%+.1f", m.mean) + " degrees (one audited change).";
+    }
+    rep_.flags.push_back(f);
+  }
+
+  // 5. Facing: the younger unit should lie above a depositional contact when the
+  // beds are upright, below it when they are overturned. A contact whose cone
+  // includes the vertical has no known "above" and is not judged either way.
+  void facing() {
+    for (const auto& c : in_.contacts) {
+      if (c.type != "depositional" || c.lower_unit.empty() || c.upper_unit.empty()) continue;
+      const ContactFit& cf = rep_.fits[fit_of_[c.uuid]];
+      if (!cf.usable) continue;
+      const bool expect_overturned = marked_overturned(c);
+      NearIndex near_contact(o_.facing_radius);
+      for (size_t k = 0; k < c.points.size(); ++k) near_contact.add(c.points[k].e, c.points[k].n, k);
+      std::vector<const CheckStation*> voters;
+      for (const auto& s : in_.stations) {
+        if (!s.z || (s.unit != c.upper_unit && s.unit != c.lower_unit)) continue;
+        bool near = false;
+        near_contact.within(s.e, s.n, o_.facing_radius, [&](size_t, double) { near = true; });
+        if (near) voters.push_back(&s);
+      }
+      if (voters.size() < 2) continue;
+      if (cf.fit->plane.dip + *cf.fit->cone95 >= 90.0) {
+        facing_undecided(c, cf, voters.size());
+        continue;
+      }
+      facing_votes(c, cf, voters, expect_overturned);
+    }
+  }
+
+  bool marked_overturned(const CheckContact& c) const {
     int overturned = 0, upright = 0;
-    for (const auto& r : in.planes) {
+    for (const auto& r : in_.planes) {
       if (r.kind != "bedding" && r.kind != "contact") continue;
-      auto st = station_of.find(r.station);
-      const bool on_contact = r.contact == c.uuid ||
-                              (st != station_of.end() && (in.stations[st->second].unit == c.upper_unit ||
-                                                          in.stations[st->second].unit == c.lower_unit));
+      const CheckStation* st = station(r.station);
+      const bool on_contact = r.contact == c.uuid || (st && (st->unit == c.upper_unit || st->unit == c.lower_unit));
       if (!on_contact) continue;
       if (r.facing == CheckFacing::Overturned) ++overturned;
       if (r.facing == CheckFacing::Upright) ++upright;
     }
-    const bool expect_overturned = overturned > upright;
-    NearIndex near_contact(o.facing_radius);
-    for (size_t k = 0; k < c.points.size(); ++k) near_contact.add(c.points[k].e, c.points[k].n, k);
+    return overturned > upright;
+  }
+
+  void facing_undecided(const CheckContact& c, const ContactFit& cf, size_t stations) {
+    Flag f;
+    f.rule = "weak-geometry";
+    f.cause = "facing-undecided";
+    f.severity = Severity::Note;
+    f.contact = c.name;
+    f.message = c.name + " dips " + format_decimal("%.0f", cf.fit->plane.dip) + " degrees with a 95% cone of " +
+                format_decimal("%.1f", *cf.fit->cone95) + ", which includes the vertical: which side is above it is not "
+                "known from the fit, so the facing of the " + std::to_string(stations) +
+                " stations beside it is not judged (neither confirmed nor questioned).";
+    f.action = "Record way-up indicators (graded beds, cross-bedding, load casts) at stations by the contact.";
+    f.caution = kRevisitCaution;
+    rep_.flags.push_back(f);
+  }
+
+  void facing_votes(const CheckContact& c, const ContactFit& cf, const std::vector<const CheckStation*>& voters,
+                    bool expect_overturned) {
+    const Vec3 nrm = cf.fit->normal, ctr = cf.fit->centroid;
     int agree = 0, disagree = 0;
     std::string wrong;
-    for (const auto& s : in.stations) {
-      if (!s.z || (s.unit != c.upper_unit && s.unit != c.lower_unit)) continue;
-      bool near = false;
-      near_contact.within(s.e, s.n, o.facing_radius, [&](size_t, double) { near = true; });
-      if (!near) continue;
-      const double d = (Vec3(s.e, s.n, *s.z) - ctr).dot(nrm);
-      // A station too close to the plane to tell which side it is on does not vote.
-      if (std::abs(d) <= std::max(1.0, 2.0 * std::max(s.v_acc, s.h_acc))) continue;
+    for (const CheckStation* s : voters) {
+      const double d = (Vec3(s->e, s->n, *s->z) - ctr).dot(nrm);
+      // A station within the plane's own 95% band there, or too close for its
+      // position's accuracy, cannot say which side it is on: it does not vote.
+      double band = std::max(1.0, 2.0 * std::max(s->v_acc, s->h_acc));
+      if (auto e = elevation_at(*cf.fit, s->e, s->n); e && e->half_width95)
+        band = std::max(band, *e->half_width95 * std::abs(nrm.z()));
+      if (std::abs(d) <= band) continue;
       const bool above = d > 0;
-      const bool younger = s.unit == c.upper_unit;
+      const bool younger = s->unit == c.upper_unit;
       const bool ok = (above == younger) != expect_overturned;
       (ok ? agree : disagree)++;
-      if (!ok && wrong.size() < 60) wrong += (wrong.empty() ? "" : ", ") + s.code;
+      if (!ok && wrong.size() < 60) wrong += (wrong.empty() ? "" : ", ") + s->code;
     }
-    if (disagree >= 2 && disagree > agree) {
-      Flag f;
-      f.rule = "facing-conflict";
-      f.severity = Severity::Conflict;
-      f.contact = c.name;
-      f.message = std::to_string(disagree) + " of " + std::to_string(agree + disagree) + " stations by " + c.name +
-                  " lie on the wrong side of it for " + (expect_overturned ? "overturned" : "upright") +
-                  " beds (" + wrong + "): overturned beds, or units mislabelled?";
-      f.action = "Look for way-up indicators (graded beds, cross-bedding, load casts) and check the units "
-                 "recorded at these stations; mark overturned readings as such.";
-      rep.flags.push_back(f);
-    }
+    if (disagree < 2 || disagree <= agree) return;
+    Flag f;
+    f.rule = "facing-conflict";
+    f.severity = Severity::Conflict;
+    f.contact = c.name;
+    f.message = std::to_string(disagree) + " of " + std::to_string(agree + disagree) + " stations by " + c.name +
+                " lie on the wrong side of it for " + (expect_overturned ? "overturned" : "upright") + " beds (" +
+                wrong + "): overturned beds, or units mislabelled?";
+    f.action = "Look for way-up indicators (graded beds, cross-bedding, load casts) and check the units "
+               "recorded at these stations; mark overturned readings as such.";
+    f.caution = kRevisitCaution;
+    rep_.flags.push_back(f);
   }
 
-  // 5. Safety screening under slope faces.
-  std::unordered_map<std::string, std::vector<const CheckPlane*>> planes_at;
-  for (const auto& p : in.planes)
-    if (slopes_at.count(p.station) && p.kind != "slope") planes_at[p.station].push_back(&p);
-  for (const auto& [station_id, faces] : slopes_at) {
-    for (const CheckPlane* rp : planes_at[station_id]) {
-      const CheckPlane& r = *rp;
-      for (const CheckPlane* face : faces) {
-        const bool slide = planar_sliding_possible(r.plane, face->plane, o.friction_angle, o.sliding_window);
-        const bool topple = !slide && flexural_toppling_possible(r.plane, face->plane, o.friction_angle, o.toppling_window);
-        if (!slide && !topple) continue;
-        Flag f;
-        f.rule = slide ? "daylighting" : "toppling";
-        f.severity = Severity::Hazard;
-        f.station = station_code(station_id);
-        f.station_id = station_id;
-        f.ref = r.ref;
-        f.reading = r.uuid;
-        const std::string what = r.kind + " " + plane_text(r.plane);
-        f.message = slide ? what + " daylights in the slope face " + plane_text(face->plane) +
-                                " and dips more steeply than the friction angle (" +
-                                fmt("%.0f", o.friction_angle) + "): planar sliding is kinematically possible."
-                          : what + " dips steeply into the slope face " + plane_text(face->plane) +
-                                ": flexural toppling is kinematically possible.";
-        f.action = "Keep clear of the face and the ground below it; record the hazard for the crew.";
-        f.caution = kSlopeCaution;
-        rep.flags.push_back(f);
-        break;  // one flag per reading
+  // 6. Safety screening under slope faces.
+  void slope_screening() {
+    std::unordered_map<std::string, std::vector<const CheckPlane*>> planes_at;
+    for (const auto& p : in_.planes)
+      if (slopes_at_.count(p.station) && p.kind != "slope") planes_at[p.station].push_back(&p);
+    for (const auto& [station_id, faces] : slopes_at_) {
+      for (const CheckPlane* rp : planes_at[station_id]) {
+        for (const CheckPlane* face : faces)
+          if (screen(station_id, *rp, *face)) break;  // one flag per reading
       }
     }
   }
 
-  // 8. Duplicates: the same reading entered twice.
-  std::map<std::pair<std::string, std::string>, std::vector<const CheckPlane*>> groups;
-  for (const auto& r : in.planes)
-    if (r.time_minutes) groups[{r.station, r.kind}].push_back(&r);
-  for (auto& [key, list] : groups) {
-    std::sort(list.begin(), list.end(), [](auto* a, auto* b) { return *a->time_minutes < *b->time_minutes; });
-    for (size_t i = 1; i < list.size(); ++i) {
-      for (size_t j = i; j-- > 0;) {
-        const double dt = *list[i]->time_minutes - *list[j]->time_minutes;
-        if (dt > o.duplicate_minutes) break;
-        const double ang = angle_between_planes(list[i]->plane, list[j]->plane);
-        if (ang > o.duplicate_angle) continue;
-        Flag f;
-        f.rule = "duplicate";
-        f.severity = Severity::Note;
-        f.station = station_code(key.first);
-        f.station_id = key.first;
-        f.ref = list[i]->ref;
-        f.reading = list[i]->uuid;
-        f.misfit = ang;
-        f.message = key.second + " " + plane_text(list[i]->plane) + " repeats " +
-                    (list[j]->ref.empty() ? "an earlier reading" : "reading " + list[j]->ref) + " (" +
-                    fmt("%.1f", ang) + " degrees apart, " + fmt("%.0f", dt) + " min earlier): entered twice?";
-        f.action = "If both are the same measurement, delete one; if not, add a note saying why they repeat.";
-        rep.flags.push_back(f);
-        break;
+  bool screen(const std::string& station_id, const CheckPlane& r, const CheckPlane& face) {
+    const bool slide = planar_sliding_possible(r.plane, face.plane, o_.friction_angle, o_.sliding_window);
+    const bool topple = !slide && flexural_toppling_possible(r.plane, face.plane, o_.friction_angle, o_.toppling_window);
+    if (!slide && !topple) return false;
+    Flag f;
+    f.rule = slide ? "daylighting" : "toppling";
+    f.severity = Severity::Hazard;
+    f.station = station_code(station_id);
+    f.station_id = station_id;
+    f.ref = r.ref;
+    f.reading = r.uuid;
+    const std::string what = r.kind + " " + plane_text(r.plane);
+    f.message = slide ? what + " daylights in the slope face " + plane_text(face.plane) +
+                            " and dips more steeply than the friction angle (" + format_decimal("%.0f", o_.friction_angle) +
+                            "): planar sliding is kinematically possible."
+                      : what + " dips steeply into the slope face " + plane_text(face.plane) +
+                            ": flexural toppling is kinematically possible.";
+    f.action = "Keep clear of the face and the ground below it; record the hazard for the crew.";
+    f.caution = kSlopeCaution;
+    rep_.flags.push_back(f);
+    return true;
+  }
+
+  // 7. Duplicates: the same reading entered twice.
+  void duplicates() {
+    std::map<std::pair<std::string, std::string>, std::vector<const CheckPlane*>> groups;
+    for (const auto& r : in_.planes)
+      if (r.time_minutes) groups[{r.station, r.kind}].push_back(&r);
+    for (auto& [key, list] : groups) {
+      std::sort(list.begin(), list.end(), [](auto* a, auto* b) { return *a->time_minutes < *b->time_minutes; });
+      for (size_t i = 1; i < list.size(); ++i) {
+        for (size_t j = i; j-- > 0;) {
+          const double dt = *list[i]->time_minutes - *list[j]->time_minutes;
+          if (dt > o_.duplicate_minutes) break;
+          const double ang = angle_between_planes(list[i]->plane, list[j]->plane);
+          if (ang > o_.duplicate_angle) continue;
+          // Marked as a repeat of the same surface: measured again on purpose.
+          if (list[i]->repeat_of == list[j]->uuid || list[j]->repeat_of == list[i]->uuid ||
+              (!list[i]->repeat_of.empty() && list[i]->repeat_of == list[j]->repeat_of))
+            continue;
+          Flag f;
+          f.rule = "duplicate";
+          f.severity = Severity::Note;
+          f.station = station_code(key.first);
+          f.station_id = key.first;
+          f.ref = list[i]->ref;
+          f.reading = list[i]->uuid;
+          f.misfit = ang;
+          f.message = key.second + " " + plane_text(list[i]->plane) + " repeats " +
+                      (list[j]->ref.empty() ? "an earlier reading" : "reading " + list[j]->ref) + " (" +
+                      format_decimal("%.1f", ang) + " degrees apart, " + format_decimal("%.0f", dt) + " min earlier): entered twice?";
+          f.action = "If both are the same measurement, delete one. If you measured the surface again on purpose, "
+                     "mark the later reading as a repeat of the first (repeat_of): the check then uses their "
+                     "Fisher mean and spread.";
+          rep_.flags.push_back(f);
+          break;
+        }
       }
     }
   }
 
-  std::stable_sort(rep.flags.begin(), rep.flags.end(), [](const Flag& a, const Flag& b) {
-    if (a.station != b.station) return a.station < b.station;
-    if (a.severity != b.severity) return a.severity > b.severity;
-    return a.rule < b.rule;
-  });
-  return rep;
-}
+  const CheckInput& in_;
+  const CheckOptions& o_;
+  CheckReport rep_;
+  std::unordered_map<std::string, size_t> station_of_;
+  std::unordered_map<std::string, size_t> fit_of_;  // contact id -> index in rep_.fits
+  NearIndex station_index_;
+  std::unordered_map<std::string, std::vector<const CheckPlane*>> slopes_at_;
+  std::unique_ptr<NearIndex> point_index_;
+  std::vector<std::pair<size_t, size_t>> point_owner_;  // (contact index, point index)
+  std::vector<Compared> compared_;
+  std::map<std::tuple<std::string, std::string, std::string>, std::vector<const Compared*>> groups_;
+  std::vector<std::pair<const CheckPlane*, Plane>> unreferenced_;  // no usable fit: (reading, attitude or repeat mean)
+};
+
+}  // namespace
+
+CheckReport run_crosscheck(const CheckInput& in, const CheckOptions& o) { return Checker(in, o).run(); }
 
 }  // namespace cairn::geo

@@ -4,8 +4,8 @@
 //
 // Pure computation: records in memory in (positions already projected to UTM
 // metres by the caller), findings ("flags") out. The rule ids are part of
-// Cairn's interface: misfit, reversed-dip, declination-suspect, weak-geometry,
-// not-planar, facing-conflict, daylighting, toppling, duplicate.
+// Cairn's interface: misfit, reversed-dip, declination-suspect, compass-offset,
+// weak-geometry, not-planar, facing-conflict, daylighting, toppling, duplicate.
 #pragma once
 #include <optional>
 #include <string>
@@ -42,6 +42,14 @@ struct CheckPlane {
   CheckFacing facing = CheckFacing::Unknown;
   std::string contact;             // contact id or ""
   std::optional<double> time_minutes;  // minutes since any fixed epoch (for duplicates)
+  // Who took it, on which day and with which device, for the systematic
+  // compass check (all may be ""; readings with no observer are not grouped).
+  std::string observer;            // a name to show (initials or name)
+  std::string day;                 // "YYYY-MM-DD"
+  std::string device;              // device id
+  // The first reading of the same surface when this one measures it again, or "":
+  // repeats are combined into their Fisher mean before the comparison.
+  std::string repeat_of;
 };
 
 struct CheckContact {
@@ -50,6 +58,10 @@ struct CheckContact {
   std::string lower_unit, upper_unit; // unit ids or ""
   std::vector<FitPoint> points;       // UTM metres (grid)
   std::vector<std::string> point_ids; // same order as points (may be empty)
+  // Grid convergence and scale at this contact's points, when the caller
+  // computed them per contact (a project spanning a zone boundary needs it);
+  // otherwise CheckInput::grid is used.
+  std::optional<GridFactors> grid;
 };
 
 struct CheckInput {
@@ -72,7 +84,11 @@ struct CheckOptions {
   double nearby_radius = 0;
   double friction_angle = 30.0;      // degrees, for the Markland test
   double sliding_window = 20.0;      // +/- degrees of dip direction (Markland test; Hoek & Bray)
-  double toppling_window = 10.0;     // +/- degrees (Goodman & Bray, 1976)
+  // +/- degrees of the layers' dip direction from the opposite of the face's.
+  // The literature gives 10 (Wyllie & Mah, Rock Slope Engineering, 4th ed.,
+  // 2004) to 30 (Goodman & Bray, 1976; values from memory); screening takes the
+  // wider window, so that it errs towards pointing out a possible hazard.
+  double toppling_window = 30.0;
   double steep_slope = 35.0;         // degrees: re-measure actions on steeper ground carry a caution
   double terrain_radius = 150.0;     // metres, for estimating the ground slope from nearby stations
   // Only stations this close (metres) to one of a contact's points say which side
@@ -82,6 +98,16 @@ struct CheckOptions {
   double duplicate_angle = 2.0;      // degrees
   double duplicate_minutes = 10.0;
   double min_declination = 2.0;      // smaller declinations cannot be told from compass error
+  // Systematic compass error: an observer's day (and device) needs at least this
+  // many compared readings, and a rotation whose interval at this confidence
+  // excludes zero, before it is flagged.
+  size_t group_min_readings = 3;
+  double group_confidence = 0.95;
+  // A bedding or contact reading with no usable contact fit is compared with
+  // other observers' readings within this distance (metres) that lie within
+  // this angle of it (the same surface); our own choices, no published source.
+  double crew_reference_radius = 100.0;
+  double crew_reference_angle = 30.0;
 };
 
 // ---- output ------------------------------------------------------------------
@@ -102,6 +128,19 @@ struct Flag {
   std::string message;              // one line, in the field's words
   std::string action;               // what to do next
   std::string caution;              // field-safety caution, "" when none
+  // The diagnosis where the rule has one: "declination-not-applied",
+  // "declination-applied-twice", "right-hand-rule", "compass-offset",
+  // "facing-undecided"; "" otherwise.
+  std::string cause;
+  // Group flags (a systematic compass error): every reading concerned, the
+  // observer, the day, the common rotation about the vertical that brings the
+  // readings onto the reference (degrees, clockwise positive: add it to their
+  // azimuths) and its confidence interval [low, high].
+  std::vector<std::string> refs, readings;  // notebook refs ("" when none) and reading ids, same order
+  std::vector<std::string> stations;        // station codes of the readings, same order
+  std::string observer, day;
+  std::optional<double> rotation;
+  std::optional<std::pair<double, double>> rotation_interval;
 };
 
 struct ContactFit {
@@ -134,10 +173,41 @@ bool planar_sliding_possible(const Plane& plane, const Plane& slope, double fric
 bool flexural_toppling_possible(const Plane& plane, const Plane& slope, double friction_angle,
                                 double window);
 
+// A common rotation about the vertical of a set of readings: the circular mean
+// of the rotations each needs to fit its reference, with its standard error
+// (Fisher, Statistical Analysis of Circular Data, 1993, 4.4.4; Mardia & Jupp,
+// Directional Statistics, 2000, 4.8) and a confidence interval mean +/- t * SE
+// with n - 1 degrees of freedom. Angles in degrees. Fails for fewer than 2.
+struct CircularMean {
+  size_t n = 0;
+  double mean = 0;            // degrees, (-180, 180]
+  double resultant = 0;       // mean resultant length R-bar, 0..1
+  double standard_error = 0;  // degrees
+  double low = 0, high = 0;   // confidence interval, degrees
+};
+Result<CircularMean> circular_mean_rotation(const std::vector<double>& degrees, double confidence = 0.95);
+
+// Readings of one surface measured several times: the Fisher (1953) mean of
+// their poles as a plane, with alpha95 (absent when they are too dispersed for a
+// cone). Fails for fewer than 2 readings.
+struct RepeatMean {
+  Plane plane;
+  size_t n = 0;
+  std::optional<double> alpha95;  // degrees
+};
+Result<RepeatMean> repeat_mean(const std::vector<Plane>& readings);
+// Standard deviation (degrees) of a repeat set's mean pole for the comparison
+// tolerance: alpha95 turned into a sigma the way a fit's cone is (Rayleigh, see
+// comparison_tolerance), but never below 1 degree / sqrt(n) (a hand compass reads
+// to about a degree: common practice), nor, without alpha95, the grade's sigma / sqrt(n).
+double repeat_sigma(const RepeatMean& m, double reading_sigma_deg);
+
 CheckReport run_crosscheck(const CheckInput& input, const CheckOptions& options = {});
 
 // The field-safety caution carried by hazard flags and by re-measure actions on steep ground.
 extern const char* const kSlopeCaution;
 extern const char* const kSteepGroundCaution;
+// Carried by contact-wide flags whose action sends someone back along a contact.
+extern const char* const kRevisitCaution;
 
 }  // namespace cairn::geo

@@ -139,18 +139,21 @@ std::string trailing_junk(Scanner& sc, const char* after) {
   return "unexpected " + quoted(sc.rest()) + " after the " + after;
 }
 
-// Chooses the side of a strike line that the dip-quadrant letters name. The
-// letters must point within 45 degrees of one of the two possible dip
-// directions (strike +/- 90): a single letter names the cardinal point nearest
-// the dip direction, two letters the quadrant it lies in.
+// Chooses the side of a strike line that the dip-quadrant letters name. Two
+// letters name the quadrant the dip direction lies in, so they must point within
+// 45 degrees of one of the two possible dip directions (strike +/- 90). A single
+// letter only says which side of the strike line the beds dip to: "N30E 40S"
+// is unambiguous (S lies on the south-east side), so it must point within 90
+// degrees of one dip direction, and is refused only when it lies along the
+// strike line itself ("N0E 40N").
 Result<Plane> plane_with_quadrant(double strike_line, double dip, const std::string& letters,
                                   const std::string& strike_text) {
   const auto q = compass_azimuth(letters);
   if (!q) return Result<Plane>::failure("dip quadrant " + quoted(letters) + " is not a compass point (N, NE, E, SE, S, SW, W, NW)");
   const double d1 = wrap360(strike_line + 90.0), d2 = wrap360(strike_line - 90.0);
   const double e1 = std::abs(azimuth_difference(d1, *q)), e2 = std::abs(azimuth_difference(d2, *q));
-  constexpr double kTol = 45.0 + 1e-9;
-  if (std::min(e1, e2) > kTol) {
+  const double tol = letters.size() == 1 ? 90.0 - 1e-9 : 45.0 + 1e-9;
+  if (std::min(e1, e2) > tol) {
     char buf[256];
     std::snprintf(buf, sizeof buf,
                   "dip quadrant %s contradicts strike %s: a plane of that strike dips towards %s or %s",

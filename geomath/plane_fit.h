@@ -17,7 +17,11 @@
 //    Jones et al. (2016) relating the point cloud's spread to the points'
 //    positional precision, residuals and the worst point.
 //  - 95% confidence cone on the pole: Monte Carlo (parametric bootstrap) with a
-//    fixed seed, so the same points always give the same cone.
+//    fixed seed and the project's own normal generator (the same points give
+//    the same cone with every standard library), then corrected for the
+//    precision having been estimated from few residuals (F and t quantiles;
+//    Draper & Smith 1998, Seber & Lee 2003) and widened when the residuals show
+//    the stated accuracies were optimistic.
 #pragma once
 #include <Eigen/Core>
 #include <cstdint>
@@ -47,7 +51,7 @@ struct FitOptions {
   bool use_accuracies = true;
   // Monte Carlo draws for the confidence cone and elevation intervals (0: none).
   int draws = 1000;
-  std::uint64_t seed = 0x6361697266697431ULL;  // fixed: the same points give the same cone
+  std::uint64_t seed = 0x6361697266697431ULL;  // fixed: the same points give the same cone (NormalDeviates)
 };
 
 // Where the confidence cone comes from.
@@ -81,8 +85,22 @@ struct PlaneFit {
   // coplanar, M unbounded) or, for K, when l2 equals l3.
   std::optional<double> M, K;
 
-  // 95% confidence cone on the pole (degrees) and where it comes from.
+  // 95% confidence cone on the pole (degrees) and where it comes from:
+  // cone95_known * cone_scale.
   std::optional<double> cone95;
+  // The Monte Carlo cone at the precision used (stated accuracies or residual
+  // standard deviation) taken as exactly known, before the small-sample correction.
+  std::optional<double> cone95_known;
+  int dof = 0;  // N - 3
+  // Square root of the variance factor the residuals give the stated accuracies
+  // (the misfit ratio, floored at its 5% point; see plane_fit.cpp), 1 otherwise.
+  double variance_factor = 1.0;
+  // cone95 / cone95_known: sqrt(2 F_0.95(2, N-3) / chi2_0.95(2)), times the variance factor.
+  double cone_scale = 1.0;
+  // Multiplier of the Monte Carlo planes' standard deviation of one quantity
+  // (an elevation) for its two-sided 95% interval: t_0.975(N-3) times the
+  // variance factor, or 1.96 when there are no degrees of freedom.
+  double interval_k95 = 1.959963984540054;
   ConeSource cone_source = ConeSource::None;
   // Precision along the normal used for the cone (metres): the rms of the
   // points' sigma_n (accuracies) or the residual standard deviation.
@@ -96,12 +114,15 @@ struct PlaneFit {
   // residuals match the stated accuracies.
   std::optional<double> misfit_ratio;
 
-  bool weak_geometry = false;  // collinear-ish, low relief, low M / high K or a wide cone
+  bool weak_geometry = false;  // a wide cone (or nearly collinear points without any precision)
   bool not_planar = false;     // residuals well above the stated accuracies
   std::string verdict;         // "well constrained", "weak: points nearly collinear", ...
   std::optional<std::string> weakness;  // the reasons in full, with numbers
 
-  std::vector<PlaneDraw> draws;  // Monte Carlo realisations (empty when cone_source is None)
+  // Monte Carlo realisations at the precision used, before the small-sample
+  // correction (empty when cone_source is None): intervals from them multiply
+  // their standard deviation by interval_k95.
+  std::vector<PlaneDraw> draws;
 };
 
 // Total-least-squares plane through N >= 3 points. Fails with

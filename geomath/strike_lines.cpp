@@ -44,7 +44,9 @@ Result<ElevationEstimate> elevation_at(const PlaneFit& fit, double e, double n) 
   if (k >= 2) {
     const double mean = sum / static_cast<double>(k);
     const double var = std::max(0.0, (sum2 - static_cast<double>(k) * mean * mean) / static_cast<double>(k - 1));
-    out.half_width95 = 1.959963984540054 * std::sqrt(var);  // two-sided 95% normal quantile
+    // 1.96 with the precision known; t_0.975(N-3) times the variance factor when
+    // it was estimated from the residuals (see small_sample_scaling in plane_fit.cpp).
+    out.half_width95 = fit.interval_k95 * std::sqrt(var);
   }
   return out;
 }

@@ -17,9 +17,11 @@ namespace cairn::geo {
 
 struct ElevationEstimate {
   double elevation = 0;  // metres, on the fitted plane
-  // Half-width of the 95% interval (metres): 1.96 standard deviations of the
-  // Monte Carlo planes' elevations at this place. Absent when the fit carries
-  // no uncertainty (three exact points without accuracies).
+  // Half-width of the 95% interval (metres): the standard deviation of the
+  // Monte Carlo planes' elevations at this place times the fit's interval_k95
+  // (1.96, or the t quantile and variance factor of a precision estimated from
+  // the residuals). Absent when the fit carries no uncertainty (three exact
+  // points without accuracies).
   std::optional<double> half_width95;
 };
 

@@ -30,7 +30,7 @@ const std::map<ImportKind, std::vector<std::string>>& columns() {
         "observer", "time", "notes"}},
       {ImportKind::Planes,
        {"station", "kind", "strike", "dip_direction", "dip", "attitude", "north", "declination", "contact", "quality",
-        "facing", "ref", "time", "notes"}},
+        "facing", "ref", "time", "notes", "repeat_of"}},
       {ImportKind::Lines,
        {"station", "kind", "trend", "plunge", "rake", "plane_ref", "north", "declination", "ref", "time", "notes"}},
       {ImportKind::Points,
@@ -529,6 +529,13 @@ void plane_row(Context& cx, Row& row) {
   r.ref = row.get("ref");
   r.time = row.time();
   r.notes = row.get("notes");
+  // repeat_of: the ref of the first reading of the same surface at this station
+  // (a mapper's repeated measurement, combined into a Fisher mean by the check).
+  const std::string repeat = row.get("repeat_of");
+  if (!repeat.empty() && st) {
+    if (auto first = find_plane_by_ref(cx.p, st->meta.uuid, repeat)) r.repeat_of = first->meta.uuid;
+    else row.error("repeat_of", "unknown-reading", "station " + st->code + " has no planar reading '" + repeat + "'");
+  }
   if (row.bad() || !st) return;
   const std::string key = row.digest(ImportKind::Planes, cx.digests);
   if (key_exists(cx.p, "planes", key)) {

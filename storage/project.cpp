@@ -319,6 +319,14 @@ ProjectInfo Project::info() {
     Stmt n(impl_->db, "SELECT nearby_radius FROM project WHERE id = 1");
     if (n.step()) i.nearby_radius = n.real(0);
   }
+  if (schema_version() >= 5) {
+    Stmt n(impl_->db, "SELECT friction_angle, sliding_window, toppling_window FROM project WHERE id = 1");
+    if (n.step()) {
+      i.friction_angle = n.real(0);
+      i.sliding_window = n.real(1);
+      i.toppling_window = n.real(2);
+    }
+  }
   return i;
 }
 
@@ -326,11 +334,18 @@ void Project::update_info(const ProjectInfo& i) {
   const std::string zone = checked_settings(i.name, i.utm_zone, i.declination);
   if (!std::isfinite(i.nearby_radius) || i.nearby_radius < 0 || i.nearby_radius > 100000)
     throw ValidationError("nearby_radius", "nearby-range", "the nearby radius must be within 0..100000 metres");
+  if (!std::isfinite(i.friction_angle) || i.friction_angle < 0 || i.friction_angle > 89)
+    throw ValidationError("friction_angle", "friction-range", "the friction angle must be within 0..89 degrees");
+  if (!std::isfinite(i.sliding_window) || i.sliding_window < 1 || i.sliding_window > 90)
+    throw ValidationError("sliding_window", "window-range", "the sliding window must be within 1..90 degrees");
+  if (!std::isfinite(i.toppling_window) || i.toppling_window < 1 || i.toppling_window > 90)
+    throw ValidationError("toppling_window", "window-range", "the toppling window must be within 1..90 degrees");
   write([&] {
     Stmt s(impl_->db, "UPDATE project SET name=?, utm_zone=?, north_default=?, declination=?, nearby_radius=?, "
-                      "updated=? WHERE id=1");
+                      "friction_angle=?, sliding_window=?, toppling_window=?, updated=? WHERE id=1");
     s.bind(1, i.name).bind_text_or_null(2, zone).bind(3, to_string(i.north_default));
-    s.bind(4, i.declination).bind(5, i.nearby_radius).bind(6, utc_now());
+    s.bind(4, i.declination).bind(5, i.nearby_radius).bind(6, i.friction_angle).bind(7, i.sliding_window);
+    s.bind(8, i.toppling_window).bind(9, utc_now());
     s.run();
   });
 }

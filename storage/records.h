@@ -76,6 +76,12 @@ struct ProjectInfo {
   // Compare bedding/contact readings that name no contact with the nearest
   // contact whose points lie within this many metres (0: off).
   double nearby_radius = 0;
+  // Screening settings of the cross-check (schema version 5), degrees: the
+  // friction angle, and the dip-direction windows of the Markland test for
+  // planar sliding and of the flexural-toppling test.
+  double friction_angle = 30;
+  double sliding_window = 20;
+  double toppling_window = 30;
   std::string local_device;   // device recorded when the file was created
   std::string created;
   std::string updated;
@@ -150,6 +156,9 @@ struct PlanarReading {
   std::string time;
   std::string observer;  // person UUID or ""
   std::string notes;
+  // The first reading of the same surface when this one measures it again
+  // (UUID of a planar reading of the same kind at the same station), or "".
+  std::string repeat_of;
 };
 
 struct LinearReading {

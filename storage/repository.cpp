@@ -195,7 +195,7 @@ struct Traits<PlanarReading> {
   static std::vector<const char*> cols() {
     return {"station", "kind", "strike", "dip", "typed", "notation", "north", "measured_strike",
             "measured_dip", "declination", "declination_source", "quality", "facing", "contact",
-            "ref", "time", "observer", "notes"};
+            "ref", "time", "observer", "notes", "repeat_of"};
   }
   static void bind(Stmt& s, int i, const PlanarReading& r) {
     s.bind(i, r.station).bind(i + 1, to_string(r.kind)).bind(i + 2, r.strike).bind(i + 3, r.dip);
@@ -203,7 +203,7 @@ struct Traits<PlanarReading> {
     s.bind(i + 7, r.measured_strike).bind(i + 8, r.measured_dip).bind(i + 9, r.declination);
     s.bind(i + 10, r.declination_source).bind(i + 11, r.quality).bind(i + 12, to_string(r.facing));
     s.bind_text_or_null(i + 13, r.contact).bind_text_or_null(i + 14, r.ref).bind_text_or_null(i + 15, r.time);
-    s.bind_text_or_null(i + 16, r.observer).bind(i + 17, r.notes);
+    s.bind_text_or_null(i + 16, r.observer).bind(i + 17, r.notes).bind_text_or_null(i + 18, r.repeat_of);
   }
   static void read(const Stmt& s, int i, PlanarReading& r) {
     r.station = s.text(i);
@@ -224,6 +224,7 @@ struct Traits<PlanarReading> {
     r.time = s.text(i + 15);
     r.observer = s.text(i + 16);
     r.notes = s.text(i + 17);
+    r.repeat_of = s.text(i + 18);
   }
   static void prepare(Project& p, PlanarReading& r) {
     const Station st = live_station(p, r.station);
@@ -251,6 +252,17 @@ struct Traits<PlanarReading> {
     if (r.quality) require("quality", check_quality(*r.quality));
     if (!r.contact.empty()) require_live(p.db(), "contact", "contacts", r.contact, "contact");
     if (!r.observer.empty()) require_live(p.db(), "observer", "people", r.observer, "person");
+    if (!r.repeat_of.empty()) {
+      // A repeat measures the same surface again: a live reading of the same kind
+      // at the same station, and not itself.
+      Stmt s(p.db(), "SELECT station, kind FROM planes WHERE uuid = ? AND deleted IS NULL");
+      s.bind(1, r.repeat_of);
+      if (!s.step() || r.repeat_of == r.meta.uuid)
+        fail("repeat_of", "unknown-reading", "repeat_of names no live planar reading: " + r.repeat_of);
+      if (s.text(0) != r.station || s.text(1) != to_string(r.kind))
+        fail("repeat_of", "repeat-mismatch", "a repeat must be of a " + std::string(to_string(r.kind)) +
+                                                 " reading at station " + st.code);
+    }
     if (!r.ref.empty()) {
       Stmt s(p.db(), "SELECT 1 FROM planes WHERE station = ? AND ref = ? AND deleted IS NULL AND uuid <> ?");
       s.bind(1, r.station).bind(2, r.ref).bind(3, r.meta.uuid);

@@ -269,6 +269,21 @@ ALTER TABLE project ADD COLUMN nearby_radius REAL NOT NULL DEFAULT 0
   CHECK (nearby_radius BETWEEN 0 AND 100000);
 )SQL";
 
+// Version 5 (the trust work): the screening settings the cross-check uses, so
+// every check of a file uses the same ones (friction angle and the Markland and
+// toppling windows, degrees), and a planar reading's `repeat_of`: the first
+// reading of the same surface when a mapper measures it again, so the check
+// combines the repeats into their Fisher mean.
+const char* const kMigrateTrust = R"SQL(
+ALTER TABLE project ADD COLUMN friction_angle REAL NOT NULL DEFAULT 30
+  CHECK (friction_angle BETWEEN 0 AND 89);
+ALTER TABLE project ADD COLUMN sliding_window REAL NOT NULL DEFAULT 20
+  CHECK (sliding_window BETWEEN 1 AND 90);
+ALTER TABLE project ADD COLUMN toppling_window REAL NOT NULL DEFAULT 30
+  CHECK (toppling_window BETWEEN 1 AND 90);
+ALTER TABLE planes ADD COLUMN repeat_of TEXT REFERENCES planes(uuid);
+)SQL";
+
 const char* const kRecordTables[] = {"devices", "people", "units",  "contacts", "stations",
                                      "planes",  "lines",  "points", "photos",   nullptr};
 
@@ -286,7 +301,8 @@ void create_schema(Db& db) {
 void migrate(Db& db, int from) {
   if (from < 1 || from > kSchemaVersion)
     throw std::logic_error("no migration from schema version " + std::to_string(from));
-  static const char* const steps[] = {nullptr, kMigrate1to2, kMigrate2to3, kMigrate3to4};  // steps[v]: v -> v+1
+  static const char* const steps[] = {nullptr, kMigrate1to2, kMigrate2to3, kMigrate3to4,
+                                      kMigrateTrust};  // steps[v]: v -> v+1
   for (int v = from; v < kSchemaVersion; ++v) {
     db.exec(steps[v]);
     db.exec("PRAGMA user_version = " + std::to_string(v + 1));

@@ -63,6 +63,19 @@ void write_json(std::ostream& out, const core::CheckData& data, const geo::Check
     j.key("message").value(f.message);
     j.key("action").value(f.action);
     j.key("caution").value(opt(f.caution));
+    j.key("cause").value(opt(f.cause));
+    if (!f.readings.empty()) {  // a group flag: one observer's day
+      j.key("refs").array(f.refs);
+      j.key("readings").array(f.readings);
+      j.key("stations").array(f.stations);
+      j.key("observer").value(f.observer);
+      j.key("day").value(opt(f.day));
+      j.key("rotation").value(f.rotation);
+      if (f.rotation_interval)
+        j.key("rotation_interval").array(std::vector<double>{f.rotation_interval->first, f.rotation_interval->second});
+      else
+        j.key("rotation_interval").null();
+    }
     j.end_object();
   }
   j.end_array();
@@ -111,12 +124,18 @@ void write_text(std::ostream& out, const core::CheckData& data, const geo::Check
     ++shown;
     ++by_severity[geo::severity_name(f.severity)];
     if (f.station != last_station) {
-      out << "  " << (f.station.empty() ? "Contacts" : "Station " + f.station) << "\n";
+      out << "  " << (f.station.empty() ? "Contacts and crew" : "Station " + f.station) << "\n";
       last_station = f.station;
     }
     std::string head = std::string(geo::severity_name(f.severity)) + " " + f.rule;
     for (auto& c : head) c = static_cast<char>(std::toupper(static_cast<unsigned char>(c)));
     out << "    [" << head << "]" << (f.ref.empty() ? "" : " " + f.ref) << "  " << f.message << "\n";
+    if (!f.readings.empty()) {
+      out << "      readings:";
+      for (size_t i = 0; i < f.readings.size(); ++i)
+        out << (i ? ", " : " ") << (i < f.stations.size() ? f.stations[i] + " " : std::string()) << f.refs[i];
+      out << "\n";
+    }
     out << "      action: " << f.action << "\n";
     if (!f.caution.empty()) out << "      CAUTION: " << f.caution << "\n";
   }
@@ -162,7 +181,7 @@ struct CheckArgs {
   std::string file;
   bool json = false;
   std::optional<std::string> min_severity;
-  std::optional<double> nearby, friction, confidence;
+  std::optional<double> nearby, friction, sliding, toppling, confidence;
 };
 
 int run_check(const CheckArgs& a, std::ostream& out, std::ostream& err) {
@@ -171,8 +190,11 @@ int run_check(const CheckArgs& a, std::ostream& out, std::ostream& err) {
   geo::Severity min = geo::Severity::Note;
   if (a.min_severity) min = *geo::parse_severity(*a.min_severity);  // one of the choices
   geo::CheckOptions o;
-  const double nearby = a.nearby.value_or(-1);  // -1: the project's setting
-  o.friction_angle = a.friction.value_or(o.friction_angle);
+  // -1: the project's setting.
+  const double nearby = a.nearby.value_or(-1);
+  const double friction = a.friction.value_or(-1);
+  const double sliding = a.sliding.value_or(-1);
+  const double toppling = a.toppling.value_or(-1);
   o.confidence = a.confidence.value_or(o.confidence);
 
   store::OpenOptions oo;
@@ -180,7 +202,11 @@ int run_check(const CheckArgs& a, std::ostream& out, std::ostream& err) {
   oo.backups = false;
   store::Project p = store::Project::open(args[0], oo);
   if (!p.problem().empty()) err << "warning: " << p.problem() << "\n";
-  o.nearby_radius = nearby >= 0 ? nearby : p.info().nearby_radius;
+  const store::ProjectInfo info = p.info();
+  o.nearby_radius = nearby >= 0 ? nearby : info.nearby_radius;
+  o.friction_angle = friction >= 0 ? friction : info.friction_angle;
+  o.sliding_window = sliding >= 0 ? sliding : info.sliding_window;
+  o.toppling_window = toppling >= 0 ? toppling : info.toppling_window;
   const geo::MagneticModel* model = nullptr;
   try {
     model = &wmm();
@@ -214,7 +240,12 @@ Runner define(CLI::App& app) {
   number(app, "--nearby", a->nearby, 0, 100000,
          "compare readings that name no contact with the nearest contact within this many metres "
          "(default: the project's setting)");
-  number(app, "--friction", a->friction, 0, 89, "friction angle in degrees for the slope screening");
+  number(app, "--friction", a->friction, 0, 89,
+         "friction angle in degrees for the slope screening (default: the project's setting)");
+  number(app, "--sliding-window", a->sliding, 1, 90,
+         "planar sliding window in degrees around the face's dip direction (default: the project's setting)");
+  number(app, "--toppling-window", a->toppling, 1, 90,
+         "toppling window in degrees around the face's opposite direction (default: the project's setting)");
   number(app, "--confidence", a->confidence, 0.5, 0.9999, "confidence level of the cones (default 0.95)");
   return [a](std::ostream& out, std::ostream& err) { return run_check(*a, out, err); };
 }

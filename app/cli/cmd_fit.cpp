@@ -257,6 +257,10 @@ int run_fit(const FitArgs& a, std::ostream& out, std::ostream& err) {
     j.key("cone95").value(fit.cone95);
     j.key("cone_source").value(geo::cone_source_name(fit.cone_source));
     j.key("sigma_normal").value(fit.sigma_normal);
+    j.key("cone95_known").value(fit.cone95_known);
+    j.key("degrees_of_freedom").value(fit.dof);
+    j.key("variance_factor").value(fit.variance_factor);
+    j.key("interval_k95").value(fit.interval_k95);
     j.key("draws").value(fit.draws.size());
     j.key("weighted").value(fit.weighted);
     j.key("eigenvalues").array(std::vector<double>{fit.eigenvalues(0), fit.eigenvalues(1), fit.eigenvalues(2)});
@@ -325,6 +329,13 @@ int run_fit(const FitArgs& a, std::ostream& out, std::ostream& err) {
                                  : "from the residual scatter, " + geo::format_decimal("%.3g", *fit.sigma_normal) + " m";
     row("95% confidence cone", geo::format_decimal("%.2f", *fit.cone95) + "° (Monte Carlo, " +
                                    std::to_string(fit.draws.size()) + " draws, " + from + ")");
+    if (fit.dof > 0 && fit.cone95_known)
+      row("Small-sample correction",
+          "x" + geo::format_decimal("%.2f", fit.cone_scale) + " of " + geo::format_decimal("%.2f", *fit.cone95_known) + "° (F and t quantiles for " +
+              std::to_string(fit.dof) + " degrees of freedom" +
+              (fit.cone_source == geo::ConeSource::Accuracies
+                   ? ", accuracies scaled by " + geo::format_decimal("%.2f", fit.variance_factor) + " from the residuals)"
+                   : ")"));
   } else {
     row("95% confidence cone", "unknown (the points fit exactly and carry no accuracies)");
   }

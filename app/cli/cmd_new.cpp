@@ -1,5 +1,5 @@
-// `cairn new FILE --name NAME [--utm ZONE] [--north true|magnetic] [--declination DEG] [--nearby METRES]`:
-// makes an empty project file.
+// `cairn new FILE --name NAME [--utm ZONE] [--north true|magnetic] [--declination DEG] [--nearby METRES]
+//  [--friction DEG] [--sliding-window DEG] [--toppling-window DEG]`: makes an empty project file.
 #include <optional>
 #include <ostream>
 #include <stdexcept>
@@ -16,6 +16,7 @@ namespace {
 struct NewArgs {
   std::string file;
   std::optional<std::string> name, utm, north, decl, nearby;
+  std::optional<double> friction, sliding, toppling;
 };
 
 int run(const NewArgs& a, std::ostream& out, std::ostream&) {
@@ -25,6 +26,11 @@ int run(const NewArgs& a, std::ostream& out, std::ostream&) {
   const auto& north = a.north;
   const auto& decl = a.decl;
   const auto& nearby = a.nearby;
+  // The cross-check's screening settings, stored in the file (schema version 5).
+  struct Setting { double store::ProjectInfo::*field; std::optional<double> value; };
+  const Setting settings[] = {{&store::ProjectInfo::friction_angle, a.friction},
+                              {&store::ProjectInfo::sliding_window, a.sliding},
+                              {&store::ProjectInfo::toppling_window, a.toppling}};
   if (!name || name->empty()) throw std::invalid_argument("--name NAME is required");
   store::NewProject np;
   np.name = *name;
@@ -47,11 +53,11 @@ int run(const NewArgs& a, std::ostream& out, std::ostream&) {
   }
   try {
     auto p = store::Project::create(args[0], np, cli_open_options(false));
-    if (radius) {
-      auto i = p.info();
-      i.nearby_radius = *radius;
-      p.update_info(i);
-    }
+    auto i = p.info();
+    if (radius) i.nearby_radius = *radius;
+    for (const auto& st : settings)
+      if (st.value) i.*st.field = *st.value;
+    p.update_info(i);
     const auto info = p.info();
     out << "created " << args[0] << ": project '" << info.name << "'"
         << (info.utm_zone.empty() ? std::string(", no UTM zone") : ", UTM zone " + info.utm_zone)
@@ -73,6 +79,9 @@ Runner define(CLI::App& app) {
   option(app, "--declination", a->decl, "the project's declination in degrees, east positive");
   option(app, "--nearby", a->nearby,
          "compare readings that name no contact with the nearest contact within this many metres (0: off)");
+  number(app, "--friction", a->friction, 0, 89, "friction angle in degrees for the slope screening");
+  number(app, "--sliding-window", a->sliding, 1, 90, "planar sliding window in degrees");
+  number(app, "--toppling-window", a->toppling, 1, 90, "toppling window in degrees");
   return [a](std::ostream& out, std::ostream& err) { return run(*a, out, err); };
 }
 

@@ -349,6 +349,13 @@ Area build_area() {
   for (int day = 1; day <= 2; ++day) {
     const store::Person& who = day == 1 ? RO : BK;
     Clock clk{day, 8 * 60 + 30};
+    // PLANTED: on day 2 BK's compass had its declination left at zero: every
+    // reading that day is magnetic but recorded as true north, so all are turned
+    // by the declination. BK graded the day's readings 3 (wind), so each one alone
+    // is within its tolerance; only the whole day shows it.
+    const bool no_decl = who.initials == "BK";
+    auto as_read = [&](const Plane& p) { return no_decl ? magnetic(p) : p; };
+    const int grade = no_decl ? 3 : 5;
     for (int i = 0; i < 20; ++i) {  // contact points walked along the trace
       add_point(A, C1, trace_point(P1, -850 + i * 90.0 + (day - 1) * 45.0), clk, who, 3, 5);
       clk.minute += 6;
@@ -367,24 +374,27 @@ Area build_area() {
       if (who.initials == "RO" && i == 7) {
         bed = Plane{geo::wrap360(bed.strike + 180.0), bed.dip};  // PLANTED: right-hand-rule slip
       }
-      add_plane(A, st, store::PlaneKind::Bedding, bed, store::North::True, clk, code + "a", &C1);
+      bed = as_read(bed);
+      add_plane(A, st, store::PlaneKind::Bedding, bed, store::North::True, clk, code + "a", &C1, grade);
       clk.minute += 4;
       if (above) {
-        const Plane cl = noisy(rng, cleavage, sigma);
-        add_plane(A, st, store::PlaneKind::Cleavage, cl, store::North::True, clk, code + "b");
+        const Plane cl = as_read(noisy(rng, cleavage, sigma));
+        add_plane(A, st, store::PlaneKind::Cleavage, cl, store::North::True, clk, code + "b", nullptr, grade);
         auto l = geo::intersection_line(bed, cl);
         if (l && i % 2 == 0) add_line(A, st, store::LineKind::Intersection, *l, store::North::True, clk, code + "L");
         clk.minute += 4;
-        add_plane(A, st, store::PlaneKind::Joint, noisy(rng, joint2, sigma), store::North::True, clk, code + "c");
+        add_plane(A, st, store::PlaneKind::Joint, as_read(noisy(rng, joint2, sigma)), store::North::True, clk,
+                  code + "c", nullptr, grade);
       } else {
-        add_plane(A, st, store::PlaneKind::Joint, noisy(rng, i % 4 == 1 ? joint1 : joint2, sigma), store::North::True,
-                  clk, code + "b");
+        add_plane(A, st, store::PlaneKind::Joint, as_read(noisy(rng, i % 4 == 1 ? joint1 : joint2, sigma)),
+                  store::North::True, clk, code + "b", nullptr, grade);
       }
       if (who.initials == "BK" && i == 5) {
         // PLANTED: a bedding plane that daylights under a steep slope face.
         clk.minute += 4;
-        add_plane(A, st, store::PlaneKind::Slope, geo::plane_from_dip_direction(P1.true_plane.dip_direction(), 62),
-                  store::North::True, clk, code + "s", nullptr, 4, "cliff face above the track");
+        add_plane(A, st, store::PlaneKind::Slope,
+                  as_read(geo::plane_from_dip_direction(P1.true_plane.dip_direction(), 62)), store::North::True, clk,
+                  code + "s", nullptr, 4, "cliff face above the track");
       }
       clk.minute += 3;
     }

@@ -67,18 +67,25 @@ CheckData load_check_input(Project& p, const LocalDeclination& local_declination
   } else {
     out.zone = {31, true};
   }
-  if (!all.empty()) {
+  // Grid convergence and scale: at the data's mean position for the project,
+  // and at each contact's own points below. A failure is refused, never taken
+  // as zero convergence.
+  auto grid_at = [&](const std::vector<geo::LatLon>& where, const std::string& what) {
     double lat = 0, lon = 0;
-    for (const auto& a : all) lat += a.lat, lon += a.lon;
-    auto g = geo::utm_grid_factors({lat / all.size(), lon / all.size()}, out.zone);
-    if (g) out.input.grid = *g;
-  }
+    for (const auto& a : where) lat += a.lat, lon += a.lon;
+    auto g = geo::utm_grid_factors({lat / where.size(), lon / where.size()}, out.zone);
+    if (!g) throw std::runtime_error("grid convergence for " + what + ": " + g.error());
+    return *g;
+  };
+  if (!all.empty()) out.input.grid = grid_at(all, "the project area");
   auto project = [&](double lat, double lon, const std::string& what) {
     auto u = geo::to_utm({lat, lon}, out.zone);
     if (!u) throw std::runtime_error(what + ": " + u.error());
     return *u;
   };
 
+  std::unordered_map<std::string, std::string> initials;
+  for (const auto& person : list_people(p)) initials[person.meta.uuid] = person.initials.empty() ? person.name : person.initials;
   std::unordered_map<std::string, const Station*> station_by_id;
   for (const auto& s : stations) {
     station_by_id[s.meta.uuid] = &s;
@@ -105,6 +112,7 @@ CheckData load_check_input(Project& p, const LocalDeclination& local_declination
     contact_index[c.meta.uuid] = out.input.contacts.size();
     out.input.contacts.push_back(cc);
   }
+  std::vector<std::vector<geo::LatLon>> contact_latlon(out.input.contacts.size());
   for (const auto& q : points) {
     auto it = contact_index.find(q.contact);
     if (it == contact_index.end() || !q.elevation) continue;  // a point without elevation cannot be fitted
@@ -112,7 +120,13 @@ CheckData load_check_input(Project& p, const LocalDeclination& local_declination
     auto& cc = out.input.contacts[it->second];
     cc.points.push_back({u.easting, u.northing, *q.elevation, q.h_accuracy.value_or(0), q.v_accuracy.value_or(0)});
     cc.point_ids.push_back(q.meta.uuid);
+    contact_latlon[it->second].push_back({q.lat, q.lon});
   }
+  // Each contact's plane is turned to true north with the convergence at its own
+  // points: one value for a whole project is wrong where it spans a zone.
+  for (size_t i = 0; i < out.input.contacts.size(); ++i)
+    if (!contact_latlon[i].empty())
+      out.input.contacts[i].grid = grid_at(contact_latlon[i], "contact " + out.input.contacts[i].name);
   // A contact whose points state accuracies only in part is fitted without them:
   // fit_plane needs all or none.
   for (auto& cc : out.input.contacts) {
@@ -138,6 +152,19 @@ CheckData load_check_input(Project& p, const LocalDeclination& local_declination
     cp.facing = facing_of(r.facing);
     cp.contact = r.contact;
     cp.time_minutes = minutes_since_epoch(r.time);
+    // Who, which day (the local calendar date as recorded) and which device, for
+    // the systematic compass check; the station's observer when the reading names none.
+    auto st_it = station_by_id.find(r.station);
+    std::string who = r.observer;
+    if (who.empty() && st_it != station_by_id.end()) who = st_it->second->observer;
+    if (!who.empty()) {
+      auto in = initials.find(who);
+      cp.observer = in != initials.end() ? in->second : who;
+    }
+    const std::string& when = !r.time.empty() || st_it == station_by_id.end() ? r.time : st_it->second->time;
+    if (when.size() >= 10) cp.day = when.substr(0, 10);
+    cp.device = r.meta.device;
+    cp.repeat_of = r.repeat_of;
     if (local_declination) {
       auto st = station_by_id.find(r.station);
       auto year = decimal_year_of(r.time);

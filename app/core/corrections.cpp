@@ -3,6 +3,7 @@
 #include <cmath>
 #include <cstdio>
 #include <fmt/format.h>
+#include <stdexcept>
 
 #include "geomath/angles.h"
 #include "geomath/notation.h"
@@ -18,13 +19,90 @@ constexpr double kSame = 0.05;
 }  // namespace
 
 bool has_correction(const geo::Flag& f) {
-  return !f.reading.empty() && f.corrected && (f.rule == "reversed-dip" || f.rule == "declination-suspect");
+  if (!f.reading.empty()) return f.corrected && (f.rule == "reversed-dip" || f.rule == "declination-suspect");
+  return !f.readings.empty() && f.rotation && (f.rule == "declination-suspect" || f.rule == "compass-offset");
 }
+
+namespace {
+
+// The change a declination diagnosis asks of one reading, decided by the
+// reading's north reference and the declination storage applies, never by the
+// sign of the turn alone (west declinations are negative):
+//  - stored true, and the turn is the local declination: relabel magnetic;
+//  - stored magnetic, and the turn takes the applied declination off: relabel true.
+// Fails, changing nothing in `u`, when neither holds.
+Result<std::string> relabel_north(Project& p, const PlanarReading& r, double turn, const std::string& cause,
+                                  PlanarReading& u) {
+  using R = Result<std::string>;
+  if (r.north == North::True && cause != "declination-applied-twice") {
+    auto st = get_station(p, r.station);
+    if (st) {
+      const double d = p.declination_at(st->lat, st->lon, r.time).degrees;
+      if (std::abs(geo::azimuth_difference(turn, d)) < 1.0) {
+        u.north = North::Magnetic;
+        u.declination_source.clear();  // storage applies the model's declination
+        return std::string("north reference true -> magnetic (declination applied)");
+      }
+    }
+  } else if (r.north == North::Magnetic && cause != "declination-not-applied" &&
+             std::abs(geo::azimuth_difference(turn, -r.declination)) < 1.0) {
+    u.north = North::True;
+    u.declination = 0;
+    u.declination_source.clear();
+    return std::string("north reference magnetic -> true (declination was already set on the compass)");
+  }
+  char buf[160];
+  std::snprintf(buf, sizeof buf, "the suggested turn of %+.1f degrees does not match the reading's north reference",
+                turn);
+  return R::failure(buf);
+}
+
+// One audited change for every reading of a group flag, all or nothing.
+Result<std::string> apply_group(Project& p, const geo::Flag& f) {
+  using R = Result<std::string>;
+  std::string failure;
+  size_t changed = 0;
+  try {
+    p.write([&] {
+      for (size_t i = 0; i < f.readings.size(); ++i) {
+        const std::string ref = i < f.refs.size() && !f.refs[i].empty() ? f.refs[i] : f.readings[i];
+        auto r = get_plane(p, f.readings[i]);
+        if (!r || r->meta.deleted) throw std::runtime_error("reading " + ref + " is no longer in the project");
+        PlanarReading u = *r;
+        std::string change;
+        if (f.rule == "declination-suspect") {
+          auto c = relabel_north(p, *r, *f.rotation, f.cause, u);
+          if (!c) throw std::runtime_error("reading " + ref + ": " + c.error());
+          change = *c;
+        } else {
+          // compass-offset: the measured azimuth turned by the group's rotation.
+          const geo::Plane measured{geo::wrap360(r->measured_strike + *f.rotation), r->measured_dip};
+          u.typed = geo::format_strike_dip(measured);
+          u.notation = PlaneNotation::StrikeDip;
+          change = r->typed + " -> " + u.typed;
+        }
+        char turn[32];
+        std::snprintf(turn, sizeof turn, "%+.1f", *f.rotation);
+        u.notes = r->notes + (r->notes.empty() ? "" : " ") + "[corrected after " + f.rule + " of " + f.observer +
+                  (f.day.empty() ? "" : " " + f.day) + ", turn " + turn + ": " + change + "]";
+        if (update(p, u)) ++changed;
+      }
+    });
+  } catch (const std::runtime_error& e) {
+    failure = e.what();
+  }
+  if (!failure.empty()) return R::failure(failure + "; nothing was changed");
+  return std::to_string(changed) + " readings of " + (f.observer.empty() ? std::string("the group") : f.observer) +
+         (f.day.empty() ? "" : " on " + f.day) + " corrected (" + f.rule + ")";
+}
+
+}  // namespace
 
 Result<std::string> apply_correction(Project& p, const geo::Flag& f) {
   using R = Result<std::string>;
   if (!has_correction(f)) return R::failure("flag " + f.rule + " suggests no correction to apply");
   if (p.read_only()) return R::failure("the project is open read-only");
+  if (f.reading.empty()) return apply_group(p, f);
   auto r = get_plane(p, f.reading);
   if (!r || r->meta.deleted) return R::failure("reading " + f.ref + " is no longer in the project");
   const geo::Plane now{r->strike, r->dip};
@@ -43,19 +121,9 @@ Result<std::string> apply_correction(Project& p, const geo::Flag& f) {
     const double turn = geo::azimuth_difference(f.corrected->strike, now.strike);
     if (std::abs(f.corrected->dip - now.dip) > kSame || std::abs(turn) < 0.5)
       return R::failure("reading " + f.ref + " has changed since the check; run it again");
-    if (r->north == North::True && turn > 0) {
-      u.north = North::Magnetic;
-      u.declination_source.clear();  // storage applies the model's declination
-      change = "north reference true -> magnetic (declination applied)";
-    } else if (r->north == North::Magnetic && turn < 0 && std::abs(turn + r->declination) < 1.0) {
-      u.north = North::True;
-      u.declination = 0;
-      u.declination_source.clear();
-      change = "north reference magnetic -> true (declination was already set on the compass)";
-    } else {
-      return R::failure(
-          fmt::format("the suggested turn of {:+.1f} degrees does not match the reading's north reference", turn));
-    }
+    auto c = relabel_north(p, *r, turn, f.cause, u);
+    if (!c) return R::failure(c.error());
+    change = *c;
   }
   u.notes = r->notes + (r->notes.empty() ? "" : " ") + "[corrected after " + f.rule + ": " + change + "]";
   if (!update(p, u)) return R::failure("nothing to change");

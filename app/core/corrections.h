@@ -6,7 +6,12 @@
 //    the local declination is added is re-labelled magnetic (storage then
 //    applies the declination); a magnetic reading that fits once the declination
 //    is taken off is re-labelled true north (the declination was set on the
-//    compass and applied twice).
+//    compass and applied twice). Which of the two is decided by the reading's
+//    north reference and the declination storage applies (east or west), never
+//    by the sign of the turn alone;
+//  - a group flag (declination-suspect or compass-offset for one observer's
+//    day): every reading of the group in one transaction, all or nothing; a
+//    compass-offset turns each measured strike by the group's rotation.
 // Other rules suggest re-measuring or checking the notebook, not an edit.
 #pragma once
 #include <string>

@@ -1,6 +1,7 @@
 #include "app/ui/model.h"
 
 #include <algorithm>
+#include <cstdio>
 #include <cstdlib>
 
 #include "app/cli/magnetic_source.h"
@@ -183,16 +184,32 @@ const geo::ContactFit* Model::fit_of(const std::string& contact_uuid) const {
   return nullptr;
 }
 
-core::LocalDeclination wmm_local_declination() {
+core::LocalDeclination wmm_local_declination(int* outside) {
   const geo::MagneticModel* model = nullptr;
   try {
     model = &cli::wmm();
   } catch (const std::exception&) {
     return {};  // declination-suspect is then not checked
   }
-  return [model](double lat, double lon, double year) -> std::optional<double> {
+  return [model, outside](double lat, double lon, double year) -> std::optional<double> {
+    if (outside && !model->in_validity(year)) ++*outside;
     return model->evaluate(lat, lon, 0.0, year).declination;
   };
+}
+
+std::string validity_warning(int outside) {
+  if (outside <= 0) return "";
+  const geo::MagneticModel* model = nullptr;
+  try {
+    model = &cli::wmm();
+  } catch (const std::exception&) {
+    return "";
+  }
+  char range[64];
+  std::snprintf(range, sizeof range, "%g to %g", model->valid_from(), model->valid_to());
+  return std::to_string(outside) + (outside == 1 ? " reading is" : " readings are") + " dated outside " +
+         model->name() + "'s validity (" + range + "); " + (outside == 1 ? "its" : "their") +
+         " declination is extrapolated and less certain.";
 }
 
 CheckResult run_check_on_file(const std::string& path, std::uint64_t revision,
@@ -206,9 +223,18 @@ CheckResult run_check_on_file(const std::string& path, std::uint64_t revision,
     oo.backups = false;
     store::Project p = store::Project::open(path, oo);
     progress(0.2f, "loading records");
-    r.data = core::load_check_input(p, wmm_local_declination());
+    int outside = 0;
+    r.data = core::load_check_input(p, wmm_local_declination(&outside));
+    r.warning = validity_warning(outside);
     progress(0.45f, "fitting contacts and comparing readings");
-    r.report = geo::run_crosscheck(r.data.input);
+    geo::CheckOptions o;
+    // The project's settings, as `cairn check` uses them.
+    const store::ProjectInfo info = p.info();
+    o.nearby_radius = info.nearby_radius;
+    o.friction_angle = info.friction_angle;
+    o.sliding_window = info.sliding_window;
+    o.toppling_window = info.toppling_window;
+    r.report = geo::run_crosscheck(r.data.input, o);
     progress(1.0f, "done");
   } catch (const std::exception& e) {
     r.error = e.what();

@@ -28,6 +28,8 @@ struct CheckResult {
   core::CheckData data;
   geo::CheckReport report;
   std::string error;  // when the check could not run
+  // The magnetic model's validity warning (as `cairn check` prints it), or "".
+  std::string warning;
 };
 
 // What undo would reverse.
@@ -122,7 +124,10 @@ private:
 
 // The World Magnetic Model's declination for the cross-check's
 // declination-suspect rule; empty when the model cannot be loaded.
-core::LocalDeclination wmm_local_declination();
+// With `outside`, counts the readings dated outside the model's validity.
+core::LocalDeclination wmm_local_declination(int* outside = nullptr);
+// "N readings are dated outside MODEL's validity (...)" for a count, "" for 0.
+std::string validity_warning(int outside);
 
 // Loads a project file into the cross-check engine and runs it: what the
 // check job does on its worker thread, with its own read-only connection.

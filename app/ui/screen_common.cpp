@@ -17,7 +17,13 @@ namespace cairn::ui {
 
 namespace fs = std::filesystem;
 
-std::string review_key(const geo::Flag& f) { return store::flag_key(f.rule, f.station, f.reading, f.contact); }
+std::string review_key(const geo::Flag& f) {
+  // A group flag (one observer's day) has no station, reading or contact: its
+  // observer and day tell it from another group's.
+  if (f.reading.empty() && !f.readings.empty())
+    return store::flag_key(f.rule, f.station, f.reading, "crew " + f.observer + " " + f.day);
+  return store::flag_key(f.rule, f.station, f.reading, f.contact);
+}
 
 std::string severity_label(geo::Severity s) {
   switch (s) {

@@ -53,11 +53,23 @@ void flag_window(App& a, const geo::Flag& f) {
   ImGui::PushFont(lk.fonts.bold);
   text(severity_label(f.severity) + "   " + f.rule);
   ImGui::PopFont();
-  std::string where = f.station.empty() ? "contact-wide" : "station " + f.station;
+  std::string where = !f.readings.empty() ? "crew: " + (f.observer.empty() ? std::string("one device") : f.observer) +
+                                               (f.day.empty() ? std::string() : " on " + f.day)
+                      : f.station.empty() ? std::string("contact-wide") : "station " + f.station;
   if (!f.ref.empty()) where += ", reading " + f.ref;
   if (!f.contact.empty()) where += ", contact " + f.contact;
   text_dim(where);
   text_wrapped(f.message);
+  if (f.rotation && f.rotation_interval) {
+    // A group flag: its rotation and every reading it concerns.
+    text("common turn " + fmt("%+.1f\xC2\xB0", *f.rotation) + " (95% interval " +
+         fmt("%+.1f", f.rotation_interval->first) + " to " + fmt("%+.1f\xC2\xB0", f.rotation_interval->second) + ")");
+    std::string list;
+    for (size_t i = 0; i < f.readings.size(); ++i)
+      list += (i ? ", " : "") + (i < f.stations.size() ? f.stations[i] + " " : std::string()) +
+              (i < f.refs.size() ? f.refs[i] : std::string());
+    text_wrapped(std::to_string(f.readings.size()) + " readings: " + list);
+  }
   if (f.misfit) {
     std::string mf = "misfit " + fmt("%.1f\xC2\xB0", *f.misfit);
     if (f.misfit_corrected) mf += ", after the suggested correction " + fmt("%.1f\xC2\xB0", *f.misfit_corrected);
@@ -163,6 +175,7 @@ void draw_crosscheck(App& a) {
     error_box("The cross-check could not run: " + c->error);
     return;
   }
+  if (!c->warning.empty()) caution_box("Magnetic model", c->warning);
   std::map<geo::Severity, int> counts;
   for (const auto& f : c->report.flags) ++counts[f.severity];
   std::string summary = std::to_string(c->report.flags.size()) + " flag" + (c->report.flags.size() == 1 ? "" : "s");
@@ -200,7 +213,7 @@ void draw_crosscheck(App& a) {
     const std::string key = review_key(f);
     if (static_cast<int>(f.severity) < cs.min_severity) continue;
     if (f.station != last_station) {
-      heading(f.station.empty() ? "Contacts" : "Station " + f.station);
+      heading(f.station.empty() ? "Contacts and crew" : "Station " + f.station);
       last_station = f.station;
     }
     std::string line = severity_label(f.severity) + "  " + f.rule;

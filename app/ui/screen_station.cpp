@@ -5,6 +5,7 @@
 #include <cmath>
 #include <cstdlib>
 #include <fstream>
+#include <map>
 #include <sstream>
 
 #include <imgui.h>
@@ -13,6 +14,7 @@
 #include "app/ui/screens.h"
 #include "app/ui/text_util.h"
 #include "app/ui/widgets.h"
+#include "geomath/crosscheck.h"
 #include "geomath/geodesy.h"
 #include "geomath/notation.h"
 #include "geomath/strike_lines.h"
@@ -130,6 +132,36 @@ bool position_form(App& a, const store::Station* existing) {
     return true;
   }
   return false;
+}
+
+// Surfaces measured more than once (readings marked as repeats of a first
+// one): their Fisher mean and alpha95, the spread the cross-check uses for them.
+void repeated_surfaces(const std::vector<const store::PlanarReading*>& planes) {
+  std::map<std::string, const store::PlanarReading*> by_id;
+  for (const auto* p : planes) by_id[p->meta.uuid] = p;
+  std::map<std::string, std::vector<const store::PlanarReading*>> sets;  // first reading -> the set
+  for (const auto* p : planes) {
+    const store::PlanarReading* at = p;
+    for (int hop = 0; hop < 100 && !at->repeat_of.empty() && by_id.count(at->repeat_of); ++hop) at = by_id[at->repeat_of];
+    sets[at->meta.uuid].push_back(p);
+  }
+  bool first = true;
+  for (const auto& [root, set] : sets) {
+    if (set.size() < 2) continue;
+    std::vector<geo::Plane> ps;
+    std::string refs;
+    for (const auto* p : set) {
+      ps.push_back(geo::Plane{p->strike, p->dip});
+      refs += (refs.empty() ? "" : ", ") + (p->ref.empty() ? p->typed : p->ref);
+    }
+    auto m = geo::repeat_mean(ps);
+    if (!m) continue;
+    if (first) heading("Repeated surfaces");
+    first = false;
+    text_wrapped(std::string(store::to_string(set.front()->kind)) + " " + geo::format_strike_dip(m->plane) +
+                 ": Fisher mean of " + std::to_string(m->n) + " readings (" + refs + "), " +
+                 (m->alpha95 ? "\xCE\xB1" "95 " + fmt("%.1f\xC2\xB0", *m->alpha95) : std::string("too scattered for a cone")));
+  }
 }
 
 void where_next(App& a, const store::Station& s) {
@@ -349,6 +381,7 @@ void draw_station(App& a) {
       row(p->meta.uuid, summary, store::Kind::Plane, "reading " + (p->ref.empty() ? p->typed : p->ref));
     }
     for (const auto* l : lines) row(l->meta.uuid, reading_summary(*l), store::Kind::Line, "reading " + (l->ref.empty() ? l->typed : l->ref));
+    repeated_surfaces(planes);
     if (two) where_next(a, *s);
     touch_scroll();
   }

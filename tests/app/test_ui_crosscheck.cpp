@@ -10,6 +10,9 @@
 //    (dip direction 180, right-hand rule) under a face 090/60 (dip direction 180).
 //  - the wording of the caution: a screening indication only, not a
 //    slope-stability assessment.
+//  - WMM2025 is valid from 2025.0 to 2030.0 (the WMM2025 technical report): a
+//    reading dated 2021 lies outside it, and the Crosscheck says so as
+//    `cairn check` does.
 #include "geomath/crosscheck.h"
 #include "storage/repository.h"
 #include "storage/reviews.h"
@@ -131,4 +134,31 @@ TEST_F(UiTest, ReversedDipIsCorrectedWithOneTap) {
   const int b_strike = std::stoi(before.substr(0, 3)), a_strike = std::stoi(r->typed.substr(0, 3));
   EXPECT_EQ((b_strike + 180) % 360, a_strike) << before << " -> " << r->typed;
   EXPECT_EQ(before.substr(3), r->typed.substr(3));  // the dip is unchanged
+}
+
+TEST_F(UiTest, CrosscheckShowsTheMagneticModelsValidityWarning) {
+  const std::string path = file("old.cairn");
+  {
+    store::OpenOptions o;
+    o.backups = false;
+    store::Project p = store::Project::create(path, store::NewProject{"Old", "8N", store::North::True, 0.0}, o);
+    store::Station s;
+    s.code = "S1";
+    s.lat = 61.2;
+    s.lon = -135.6;
+    s.elevation = 900;
+    const std::string st = store::add(p, s);
+    store::PlanarReading bed;
+    bed.station = st;
+    bed.kind = store::PlaneKind::Bedding;
+    bed.typed = "030/40";
+    bed.notation = store::PlaneNotation::StrikeDip;
+    bed.time = "2021-06-01T10:00:00Z";
+    store::add(p, bed);
+  }
+  std::string s = "wait 3\nwait-idle\n";
+  s += "tap \"Crosscheck\"\n";
+  s += "wait-for \"1 reading is dated outside WMM2025's validity (2025 to 2030)\"\n";
+  const auto r = gui(path, s);
+  ASSERT_EQ(r.status, 0) << r.err;
 }

@@ -130,10 +130,10 @@ TEST_F(UiTest, InvalidReadingShowsTheParsersErrorAndWritesNothing) {
     store::Project p = store::Project::open(m.path, quiet());
     return store::audit_log(p).size();
   }();
-  // A dip of 95 degrees does not exist (dips run 0..90); in "N30E 40N" the
-  // dip quadrant N is not one of the two sides (SE, NW) of a N30E strike line.
+  // A dip of 95 degrees does not exist (dips run 0..90); in "N30E 40NE" the
+  // dip quadrant NE is not one of the two sides (SE, NW) of a N30E strike line.
   const auto err95 = geo::parse_plane("030/95", geo::PlaneConvention::StrikeDipRHR);
-  const auto err_q = geo::parse_plane("N30E 40N", geo::PlaneConvention::Unspecified);
+  const auto err_q = geo::parse_plane("N30E 40NE", geo::PlaneConvention::Unspecified);
   ASSERT_FALSE(err95.ok());
   ASSERT_FALSE(err_q.ok());
   EXPECT_NE(err95.error().find("95"), std::string::npos) << err95.error();
@@ -143,7 +143,7 @@ TEST_F(UiTest, InvalidReadingShowsTheParsersErrorAndWritesNothing) {
   s += "tap \"Record reading\"\n";
   s += "expect \"Not recorded: " + err95.error() + "\"\n";
   s += "expect-not \"Recorded P\"\n";
-  s += "tap \"key Clear\"\ntap \"quadrant\"\n" + keys("N30E 40N");
+  s += "tap \"key Clear\"\ntap \"quadrant\"\n" + keys("N30E 40NE");
   s += "expect \"" + err_q.error() + "\"\n";
   s += "tap \"Record reading\"\n";
   s += "expect \"Not recorded: " + err_q.error() + "\"\n";

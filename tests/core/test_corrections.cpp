@@ -17,7 +17,8 @@ namespace {
 
 struct Fixture {
   std::string dir, path;
-  Fixture() {
+  double decl = 15.0;
+  explicit Fixture(double declination = 15.0) : decl(declination) {
     dir = (std::filesystem::temp_directory_path() / ("cairn-corr-" + std::to_string(::getpid()))).string();
     std::filesystem::remove_all(dir);
     std::filesystem::create_directories(dir);
@@ -27,8 +28,8 @@ struct Fixture {
   store::OpenOptions opts() const {
     store::OpenOptions o;
     o.backups = false;
-    // A fixed declination of 15 degrees east stands in for the magnetic model.
-    o.declination = [](double, double, double) { return store::Declination{15.0, "given"}; };
+    // A fixed declination (15 degrees east unless told) stands in for the magnetic model.
+    o.declination = [d = decl](double, double, double) { return store::Declination{d, "given"}; };
     return o;
   }
 };
@@ -122,4 +123,72 @@ TEST(Corrections, OtherRulesAndMismatchesWriteNothing) {
   EXPECT_EQ(wrong.error(), "the suggested turn of -15.0 degrees does not match the reading's north reference");
   EXPECT_EQ(store::get_plane(p, id)->typed, "020/50");
   EXPECT_EQ(store::audit_trail(p, id).size(), 1u);  // the insert only
+}
+
+TEST(Corrections, WestDeclinationIsDiagnosedBySignNotAlone) {
+  // West declination -15: true = magnetic - 15. A magnetic reading of 050 stored
+  // as true should be 035: the turn is -15 (the declination), so it becomes magnetic.
+  Fixture fx(-15.0);
+  store::Project p = store::Project::create(fx.path, {"C", "8N", store::North::True, 0}, fx.opts());
+  const std::string a = add_reading(p, "050/50", store::North::True);
+  geo::Flag fa = flag("declination-suspect", a, geo::Plane{35, 50});
+  fa.cause = "declination-not-applied";
+  auto done = core::apply_correction(p, fa);
+  ASSERT_TRUE(done.ok()) << done.error();
+  EXPECT_EQ(store::get_plane(p, a)->north, store::North::Magnetic);
+  EXPECT_NEAR(store::get_plane(p, a)->strike, 35, 1e-9);
+  // Applied twice (compass set to -15, recorded magnetic): 035 stored as 020; the turn +15 takes it off.
+  const std::string b = add_reading(p, "035/50", store::North::Magnetic);
+  EXPECT_NEAR(store::get_plane(p, b)->strike, 20, 1e-9);
+  geo::Flag fb = flag("declination-suspect", b, geo::Plane{35, 50});
+  fb.cause = "declination-applied-twice";
+  done = core::apply_correction(p, fb);
+  ASSERT_TRUE(done.ok()) << done.error();
+  EXPECT_EQ(store::get_plane(p, b)->north, store::North::True);
+  EXPECT_NEAR(store::get_plane(p, b)->strike, 35, 1e-9);
+}
+
+TEST(Corrections, GroupCorrectionIsOneAuditedChangeAllOrNothing) {
+  Fixture fx;
+  store::Project p = store::Project::create(fx.path, {"C", "8N", store::North::True, 0}, fx.opts());
+  std::vector<std::string> ids;
+  for (const char* t : {"020/50", "100/35", "250/70"}) ids.push_back(add_reading(p, t, store::North::True));
+  geo::Flag g;
+  g.rule = "declination-suspect";
+  g.cause = "declination-not-applied";
+  g.readings = ids;
+  g.refs = {"R1", "R1", "R1"};
+  g.observer = "AB";
+  g.day = "2026-07-06";
+  g.rotation = 14.6;  // the group's estimate, within a degree of the 15 east applied
+  ASSERT_TRUE(core::has_correction(g));
+  auto done = core::apply_correction(p, g);
+  ASSERT_TRUE(done.ok()) << done.error();
+  const double want[] = {35, 115, 265};  // typed + 15 east
+  for (size_t i = 0; i < ids.size(); ++i) {
+    auto r = store::get_plane(p, ids[i]);
+    EXPECT_EQ(r->north, store::North::Magnetic);
+    EXPECT_NEAR(r->strike, want[i], 1e-9);
+    EXPECT_EQ(store::audit_trail(p, ids[i]).back().action, "update");
+  }
+  // A compass offset turns each measured strike; one reading gone: nothing is written.
+  const std::string c = add_reading(p, "040/30", store::North::True);
+  const std::string d = add_reading(p, "140/30", store::North::True);
+  store::soft_delete(p, store::Kind::Plane, d);
+  geo::Flag o;
+  o.rule = "compass-offset";
+  o.cause = "compass-offset";
+  o.readings = {c, d};
+  o.refs = {"R1", "R1"};
+  o.observer = "CD";
+  o.rotation = 8.0;
+  auto refused = core::apply_correction(p, o);
+  EXPECT_FALSE(refused.ok());
+  EXPECT_NE(refused.error().find("nothing was changed"), std::string::npos) << refused.error();
+  EXPECT_EQ(store::get_plane(p, c)->typed, "040/30");
+  o.readings = {c};
+  o.refs = {"R1"};
+  done = core::apply_correction(p, o);
+  ASSERT_TRUE(done.ok()) << done.error();
+  EXPECT_NEAR(store::get_plane(p, c)->strike, 48, 1e-9);
 }

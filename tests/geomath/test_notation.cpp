@@ -52,14 +52,21 @@ TEST(Notation, AzimuthForms) {
   EXPECT_NEAR(d.strike, 210, 1e-12);
   Plane e = ok_plane("360/10", PlaneConvention::StrikeDipRHR);
   EXPECT_NEAR(e.strike, 0, 1e-12);
+  // One dip letter names the side of the strike line (common field usage, no
+  // published source): strike N30E dips towards 120 (the S side) or 300 (the N side).
+  EXPECT_NEAR(ok_plane("N30E 40S").dip_direction(), 120, 1e-12);
+  EXPECT_NEAR(ok_plane("N30E 40N").dip_direction(), 300, 1e-12);
+  EXPECT_NEAR(ok_plane("030/40S").dip_direction(), 120, 1e-12);
 }
 
 TEST(Notation, InvalidInputTable) {
   // Each invalid input and the exact message that names what is wrong.
   EXPECT_EQ(err_plane("030/95", PlaneConvention::StrikeDipRHR), "dip 95 is out of range: 0 to 90");
   EXPECT_EQ(err_plane("361/40", PlaneConvention::StrikeDipRHR), "strike 361 is out of range: 0 to 360");
-  EXPECT_EQ(err_plane("N30E 40N"),
-            "dip quadrant N contradicts strike N30E: a plane of that strike dips towards S60E or N60W");
+  EXPECT_EQ(err_plane("N30E 40NE"),
+            "dip quadrant NE contradicts strike N30E: a plane of that strike dips towards S60E or N60W");
+  EXPECT_EQ(err_plane("N0E 40N"),  // a letter along the strike line names neither side
+            "dip quadrant N contradicts strike N0E: a plane of that strike dips towards N90E or S90W");
   EXPECT_EQ(err_plane(""), "empty attitude: enter strike and dip, e.g. 030/40 or N30E 40SE");
   EXPECT_EQ(err_plane("   "), "empty attitude: enter strike and dip, e.g. 030/40 or N30E 40SE");
   EXPECT_EQ(err_plane("NaN/40"),

@@ -39,6 +39,14 @@ PLANTED = {
     ("facing-conflict", None, None),              # Tolm sandstone base: overturned limb
     ("daylighting", "BK-05", "BK-05a"),           # bedding under a steep slope face
     ("duplicate", "BK-16", "BK-16c"),             # a joint entered twice
+    ("declination-suspect", None, None),          # BK's day 2: compass without declination (group flag)
+}
+# The diagnosis of each flag that has one (demo_project/README.md).
+CAUSE = {
+    ("reversed-dip", "RO-07", "RO-07a"): "right-hand-rule",
+    ("declination-suspect", "MT-04", "MT-04a"): "declination-not-applied",
+    ("declination-suspect", "MT-11", "MT-11a"): "declination-not-applied",
+    ("declination-suspect", None, None): "declination-not-applied",
 }
 CONTACT_OF = {"weak-geometry": "Brenn fault", "not-planar": "Vell gneiss margin",
               "facing-conflict": "Tolm sandstone base"}
@@ -74,6 +82,19 @@ with tempfile.TemporaryDirectory() as tmp:
         found.add(key)
         if f["rule"] in CONTACT_OF:
             t.check(f["contact"] == CONTACT_OF[f["rule"]], "%s names %s" % (f["rule"], CONTACT_OF[f["rule"]]))
+    for f in rep["flags"]:
+        key = (f["rule"], f["station"], f["ref"])
+        if key in CAUSE:
+            t.check(f.get("cause") == CAUSE[key], "%s: cause %s (got %s)" % (key, CAUSE[key], f.get("cause")))
+    # The group flag: BK's whole second day (2026-07-07), the bedding readings
+    # BK-01a .. BK-12a, turned by about the area's 18 degree east declination.
+    groups = [f for f in rep["flags"] if "refs" in f]
+    t.check(len(groups) == 1, "one group flag (%d)" % len(groups))
+    for g in groups:
+        t.check(g["observer"] == "BK" and g["day"] == "2026-07-07", "group flag names BK and 2026-07-07")
+        t.check(sorted(g["refs"]) == ["BK-%02da" % i for i in range(1, 13)], "group flag lists BK-01a .. BK-12a")
+        lo, hi = g["rotation_interval"]
+        t.check(lo <= 17.9 <= hi and lo < g["rotation"] < hi, "rotation interval %s contains 17.9" % ((lo, hi),))
     for p in sorted(PLANTED, key=str):
         t.check(p in found, "planted mistake found: %s" % (p,))
     for f in sorted(found - PLANTED, key=str):

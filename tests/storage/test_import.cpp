@@ -115,8 +115,8 @@ TEST(Import, BadInputTable) {
       {"azimuth 0..360", ImportKind::Planes, "station,kind,dip_direction,dip\nS1,joint,-5,40\n",
        {"bad.csv:2:3: angle: dip_direction '-5' is not a number"}},
       {"quadrant notation: the dip quadrant lies across the strike line", ImportKind::Planes,
-       "station,kind,attitude\nS1,bedding,N30E 40N\n",
-       {"bad.csv:2:3: notation: dip quadrant N contradicts strike N30E: a plane of that strike dips towards S60E or "
+       "station,kind,attitude\nS1,bedding,N30E 40NE\n",
+       {"bad.csv:2:3: notation: dip quadrant NE contradicts strike N30E: a plane of that strike dips towards S60E or "
         "N60W"}},
       {"issue: north true or magnetic", ImportKind::Planes, "station,kind,strike,dip,north\nS1,joint,30,40,grid\n",
        {"bad.csv:2:5: choice: north 'grid' is not one of: true, magnetic"}},
