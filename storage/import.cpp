@@ -11,6 +11,7 @@
 #include "storage/gpx.h"
 #include "storage/repository.h"
 #include "storage/sha256.h"
+#include "storage/terrain.h"
 #include "storage/validate.h"
 
 namespace cairn::store {
@@ -610,11 +611,16 @@ void point_row(Context& cx, Row& row) {
 }
 
 // Runs `body` in one transaction; rolls back and zeroes the counts when errors were found.
+// Stations and points that came without an elevation take the terrain's (storage/terrain.h).
 void all_or_nothing(Project& p, ImportReport& rep, const std::function<void()>& body) {
   try {
     p.write([&] {
       body();
       if (!rep.errors.empty()) throw Abort{};
+      if (rep.added > 0) {
+        const TerrainStored filled = fill_elevations(p);
+        rep.from_terrain = filled.filled_points + filled.filled_stations;
+      }
     });
   } catch (const Abort&) {
     rep.added = 0;

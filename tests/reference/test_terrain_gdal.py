@@ -1,0 +1,172 @@
+"""`cairn terrain` checked by outside tools: GDAL (Python bindings, gdallocationinfo,
+gdaldem, gdal_contour), numpy and PROJ (pyproj).
+
+A smooth invented topography is made with numpy and written as a GeoTIFF in UTM
+zone 8N by GDAL's Python bindings; contact points without an elevation are put on
+it (their UTM positions turned into latitude/longitude by pyproj). Expected values
+come from those tools, never from Cairn:
+  - elevations: bilinear interpolation between cell centres done in numpy (the
+    standard bilinear formula, Press et al., "Numerical Recipes", 3rd ed., 3.6.1;
+    cell centres as in GDAL's data model, "pixel is area"), and at cell centres
+    the value `gdallocationinfo -valonly -geoloc` prints;
+  - reprojection: the same topography warped by GDAL (gdal.Warp, bilinear) into
+    geographic WGS84 (EPSG:4326) and into the neighbouring UTM zone 7N must give
+    the same elevations as the zone-8N original, within the resampling error;
+  - refusals: a GeoTIFF without a CRS is refused and nothing is stored.
+"""
+import math
+import os
+import subprocess
+import sys
+import tempfile
+
+import numpy as np
+from osgeo import gdal, osr
+import pyproj
+
+sys.path.insert(0, os.path.dirname(os.path.abspath(__file__)))
+from refcheck import parse_args, Tally  # noqa: E402
+
+gdal.UseExceptions()
+args = parse_args(required=("cairn",))
+t = Tally("test_terrain_gdal")
+
+UNITS = """unit,name,age_rank,colour
+Ls,lower slate,1,
+Uq,upper quartzite,2,
+"""
+CONTACTS = """contact,lower_unit,upper_unit,type
+slate-quartzite,Ls,Uq,depositional
+"""
+E0, N0 = 466000.0, 6783000.0   # south-west corner of the grid, zone 8N
+CELL = 10.0
+NX, NY = 600, 500
+TO_LL = pyproj.Transformer.from_crs(32608, 4326, always_xy=True)
+TO_UTM = pyproj.Transformer.from_crs(4326, 32608, always_xy=True)
+
+
+def run(*a):
+    r = subprocess.run([args.cairn, *a], capture_output=True, text=True)
+    if r.returncode != 0:
+        print(" ".join(a[:2]), "->", r.stderr.strip())
+    return r
+
+
+def topography():
+    """Rows from the north, values at cell centres: hills on a gentle ramp."""
+    e = E0 + (np.arange(NX) + 0.5) * CELL
+    n = N0 + NY * CELL - (np.arange(NY) + 0.5) * CELL
+    ee, nn = np.meshgrid(e, n)
+    return (800 + 150 * np.sin((ee - E0) / 700.0) * np.cos((nn - N0) / 900.0) + 0.05 * (ee - E0)).astype(np.float32)
+
+
+def write_tif(path, z, epsg=32608, crs=True):
+    d = gdal.GetDriverByName("GTiff").Create(path, z.shape[1], z.shape[0], 1, gdal.GDT_Float32)
+    d.SetGeoTransform((E0, CELL, 0, N0 + NY * CELL, 0, -CELL))
+    if crs:
+        s = osr.SpatialReference()
+        s.ImportFromEPSG(epsg)
+        d.SetProjection(s.ExportToWkt())
+    d.GetRasterBand(1).SetNoDataValue(-9999)
+    d.GetRasterBand(1).WriteArray(z)
+    d = None
+
+
+def bilinear(z, e, n):
+    """numpy bilinear between cell centres (Numerical Recipes 3.6.1)."""
+    fx = (e - E0) / CELL - 0.5
+    fy = (N0 + NY * CELL - n) / CELL - 0.5
+    i0, j0 = int(math.floor(fx)), int(math.floor(fy))
+    tx, ty = fx - i0, fy - j0
+    q = z.astype(np.float64)
+    return ((1 - tx) * (1 - ty) * q[j0, i0] + tx * (1 - ty) * q[j0, i0 + 1]
+            + (1 - tx) * ty * q[j0 + 1, i0] + tx * ty * q[j0 + 1, i0 + 1])
+
+
+def points_csv(utm_points):
+    rows = ["contact,lat,lon,elevation,h_accuracy,v_accuracy,source,time,notes"]
+    for e, n in utm_points:
+        lon, lat = TO_LL.transform(e, n)
+        rows.append("slate-quartzite,%.10f,%.10f,,3,,gps,," % (lat, lon))
+    return "\n".join(rows) + "\n"
+
+
+def listed_points(path):
+    out = run("list", path, "points").stdout.strip().splitlines()
+    head = out[0].split(",")
+    rows = [dict(zip(head, line.split(","))) for line in out[1:]]
+    return rows
+
+
+def make_project(tmp, name, utm_points):
+    path = os.path.join(tmp, name)
+    ok = run("new", path, "--name", "Ground test", "--utm", "8N").returncode == 0
+    for kind, text in (("units", UNITS), ("contacts", CONTACTS), ("points", points_csv(utm_points))):
+        csv = os.path.join(tmp, name + "." + kind + ".csv")
+        with open(csv, "w") as f:
+            f.write(text)
+        ok = ok and run("import", path, kind, csv).returncode == 0
+    t.check(ok, "project %s made with cairn new / import" % name)
+    return path
+
+
+z = topography()
+MAX_GRADIENT = float(np.max(np.hypot(*np.gradient(z.astype(np.float64), CELL))))
+rng = np.random.default_rng(20261203)
+# Random places well inside the grid, and a few exact cell centres.
+pts = [(E0 + 1000 + rng.uniform(0, 4000), N0 + 1000 + rng.uniform(0, 3000)) for _ in range(25)]
+centres = [(E0 + (i + 0.5) * CELL, N0 + NY * CELL - (j + 0.5) * CELL) for i, j in ((150, 100), (333, 250), (420, 377))]
+
+with tempfile.TemporaryDirectory() as tmp:
+    tif = os.path.join(tmp, "ground8n.tif")
+    write_tif(tif, z)
+
+    # ---- elevations from the terrain: numpy bilinear and gdallocationinfo ----
+    proj = make_project(tmp, "a.cairn", pts + centres)
+    r = run("terrain", proj, tif, "--vertical-accuracy", "1.5")
+    t.check(r.returncode == 0 and "28 points" in r.stdout, "cairn terrain attaches and fills 28 points: " + r.stdout)
+    rows = listed_points(proj)
+    t.check(len(rows) == len(pts) + len(centres), "every point listed")
+    worst = 0.0
+    for row in rows:
+        e, n = TO_UTM.transform(float(row["lon"]), float(row["lat"]))
+        worst = max(worst, abs(float(row["elevation"]) - bilinear(z, e, n)))
+        t.check(row["source"] == "dem" and float(row["v_accuracy"]) == 1.5,
+                "a filled point says source dem and the terrain's accuracy")
+    print("bilinear: worst difference from numpy %.2e m" % worst)
+    t.check(worst < 1e-3, "elevations match numpy's bilinear within 1 mm (worst %.2e m)" % worst)
+    for (e, n), row in zip(centres, rows[len(pts):]):
+        v = subprocess.run(["gdallocationinfo", "-valonly", "-geoloc", tif, repr(e), repr(n)],
+                           capture_output=True, text=True).stdout.strip()
+        t.check(abs(float(row["elevation"]) - float(v)) < 1e-3,
+                "at a cell centre the elevation is gdallocationinfo's %s (got %s)" % (v, row["elevation"]))
+
+    # ---- reprojection: geographic and the neighbouring zone, checked against the zone-8N original ----
+    for epsg, label in ((4326, "geographic WGS84"), (32607, "UTM zone 7N")):
+        other = os.path.join(tmp, "ground_%d.tif" % epsg)
+        gdal.Warp(other, tif, dstSRS="EPSG:%d" % epsg, resampleAlg="bilinear", dstNodata=-9999, errorThreshold=0)
+        proj2 = make_project(tmp, "b%d.cairn" % epsg, pts)
+        r = run("terrain", proj2, other)
+        t.check(r.returncode == 0 and "reprojected" in r.stdout, "a terrain in %s is reprojected: %s" % (label, r.stdout.strip()))
+        worst = 0.0
+        for row in listed_points(proj2):
+            e, n = TO_UTM.transform(float(row["lon"]), float(row["lat"]))
+            worst = max(worst, abs(float(row["elevation"]) - bilinear(z, e, n)))
+        print("%s: worst difference from the zone-8N terrain %.3f m" % (label, worst))
+        # Resampling error: GDAL's bilinear warp (two passes here) may shift the
+        # surface by a fraction of a cell; a tenth of a cell times the steepest
+        # gradient of the surface (numpy) is the bound (common practice, no
+        # published source).
+        bound = 0.1 * CELL * MAX_GRADIENT
+        t.check(worst < bound, "%s gives the zone-8N elevations within %.2f m (worst %.3f m)" % (label, bound, worst))
+
+    # ---- refusals ----
+    bare = os.path.join(tmp, "nocrs.tif")
+    write_tif(bare, z, crs=False)
+    proj3 = make_project(tmp, "c.cairn", pts[:3])
+    r = run("terrain", proj3, bare)
+    t.check(r.returncode != 0 and "no coordinate reference system" in r.stderr, "a raster without a CRS is refused")
+    t.check("no terrain" in run("terrain", proj3).stdout, "after a refusal nothing is stored")
+    t.check(all(row["elevation"] == "" for row in listed_points(proj3)), "after a refusal no elevation is filled")
+
+sys.exit(t.finish())
