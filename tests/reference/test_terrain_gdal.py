@@ -12,7 +12,13 @@ come from those tools, never from Cairn:
   - reprojection: the same topography warped by GDAL (gdal.Warp, bilinear) into
     geographic WGS84 (EPSG:4326) and into the neighbouring UTM zone 7N must give
     the same elevations as the zone-8N original, within the resampling error;
-  - refusals: a GeoTIFF without a CRS is refused and nothing is stored.
+  - refusals: a GeoTIFF without a CRS is refused and nothing is stored;
+  - slope, aspect and hillshade (Horn 1981) against GDAL's `gdaldem slope`,
+    `gdaldem aspect` and `gdaldem hillshade` (Horn is gdaldem's default) on the
+    same raster, border cells excluded as gdaldem leaves them without value;
+  - the predicted outcrop trace against `gdal_contour -fl 0` on the difference
+    raster terrain minus plane computed by numpy: every vertex of each within
+    half a cell of the other's lines.
 """
 import math
 import os
@@ -168,5 +174,103 @@ with tempfile.TemporaryDirectory() as tmp:
     t.check(r.returncode != 0 and "no coordinate reference system" in r.stderr, "a raster without a CRS is refused")
     t.check("no terrain" in run("terrain", proj3).stdout, "after a refusal nothing is stored")
     t.check(all(row["elevation"] == "" for row in listed_points(proj3)), "after a refusal no elevation is filled")
+
+
+def read_band(path):
+    ds = gdal.Open(path)
+    b = ds.GetRasterBand(1)
+    a = b.ReadAsArray().astype(np.float64)
+    nd = b.GetNoDataValue()
+    if nd is not None:
+        a[a == nd] = np.nan
+    return a
+
+
+def segment_distance(p, lines):
+    """Shortest distance from point p to any segment of the polylines (numpy)."""
+    best = math.inf
+    for line in lines:
+        a = np.array(line[:-1]), np.array(line[1:])
+        if len(line) < 2:
+            continue
+        d = a[1] - a[0]
+        L2 = np.maximum((d ** 2).sum(axis=1), 1e-300)
+        tt = np.clip(((p - a[0]) * d).sum(axis=1) / L2, 0, 1)
+        q = a[0] + tt[:, None] * d
+        best = min(best, float(np.sqrt(((q - p) ** 2).sum(axis=1)).min()))
+    return best
+
+
+if args.tools:
+    probe = os.path.join(args.tools, "terrain_probe")
+    with tempfile.TemporaryDirectory() as tmp:
+        tif = os.path.join(tmp, "ground8n.tif")
+        write_tif(tif, z)
+        # ---- slope, aspect, hillshade vs gdaldem (Horn 1981 is gdaldem's default) ----
+        r = subprocess.run([probe, "grids", "32608", tif, os.path.join(tmp, "ours")], capture_output=True, text=True)
+        t.check(r.returncode == 0, "terrain_probe grids runs: " + r.stderr)
+        for what, extra in (("slope", []), ("aspect", []), ("hillshade", [])):
+            ref = os.path.join(tmp, "gdal_%s.tif" % what)
+            subprocess.run(["gdaldem", what, tif, ref, "-q", "-alg", "Horn"] + extra, check=True)
+            ours = read_band(os.path.join(tmp, "ours_%s.tif" % what))
+            theirs = read_band(ref)
+            inner = (slice(1, -1), slice(1, -1))
+            o, g = ours[inner], theirs[inner]
+            both = ~np.isnan(o) & ~np.isnan(g)
+            t.check(both.sum() > 0.99 * o.size, "%s: values on the interior cells (%d of %d)" % (what, both.sum(), o.size))
+            if what == "slope":
+                d = np.abs(o - g)[both].max()
+                t.check(d < 1e-3, "slope matches gdaldem within 0.001 degree (worst %.2e)" % d)
+            elif what == "aspect":
+                # gdaldem sums the window in single precision: on nearly flat cells that
+                # alone turns the aspect by tenths of a degree, so compare where the slope
+                # is at least 5 degrees (from gdaldem's own slope raster).
+                steep = both & (read_band(os.path.join(tmp, "gdal_slope.tif"))[inner] >= 5.0)
+                d = np.abs((o - g + 180) % 360 - 180)[steep].max()
+                t.check(d < 1e-2, "aspect matches gdaldem within 0.01 degree where slope >= 5 (worst %.2e)" % d)
+            else:
+                # gdaldem writes 1 + 254 * illumination, rounded to a byte (0 = nodata).
+                d = np.abs(1 + 254 * o - g)[both].max()
+                t.check(d <= 1.0, "hillshade matches gdaldem within one grey level (worst %.2f)" % d)
+            t.check(np.isnan(ours[0, :]).all() and np.isnan(ours[:, -1]).all(),
+                    "%s: border cells have no value, as gdaldem without -compute_edges" % what)
+
+        # ---- the outcrop trace vs gdal_contour -fl 0 on numpy's difference raster ----
+        # A plane striking 040 and dipping 12 degrees (RHR; dip direction 130) through the grid's middle.
+        strike, dip = math.radians(40.0), math.radians(12.0)
+        dipdir = strike + math.pi / 2
+        normal = np.array([math.sin(dip) * math.sin(dipdir), math.sin(dip) * math.cos(dipdir), math.cos(dip)])
+        pe, pn, pz = E0 + 3000.0, N0 + 2500.0, 900.0
+        e = E0 + (np.arange(NX) + 0.5) * CELL
+        n = N0 + NY * CELL - (np.arange(NY) + 0.5) * CELL
+        ee, nn = np.meshgrid(e, n)
+        plane = pz - (normal[0] * (ee - pe) + normal[1] * (nn - pn)) / normal[2]
+        diff = z.astype(np.float64) - plane
+        dtif = os.path.join(tmp, "diff.tif")
+        write_tif(dtif, diff.astype(np.float64).astype(np.float32))
+        gj = os.path.join(tmp, "zero.geojson")
+        subprocess.run(["gdal_contour", "-q", "-fl", "0", "-f", "GeoJSON", dtif, gj], check=True)
+        with open(gj) as f:
+            import json
+            feats = json.load(f)["features"]
+        theirs = []
+        for ft in feats:
+            geom = ft["geometry"]
+            parts = [geom["coordinates"]] if geom["type"] == "LineString" else geom["coordinates"]
+            theirs += [[tuple(c[:2]) for c in part] for part in parts]
+        r = subprocess.run([probe, "trace", "32608", tif, repr(pe), repr(pn), repr(pz)] + [repr(float(v)) for v in normal],
+                           capture_output=True, text=True)
+        t.check(r.returncode == 0, "terrain_probe trace runs: " + r.stderr)
+        ours = [[tuple(map(float, ln.split())) for ln in block.splitlines() if ln.strip()]
+                for block in r.stdout.split("\n\n") if block.strip()]
+        nv = sum(len(l) for l in ours)
+        t.check(nv > 100 and len(theirs) > 0, "both traces have vertices (ours %d, gdal_contour %d lines)" % (nv, len(theirs)))
+        worst = max(segment_distance(np.array(p), theirs) for l in ours for p in l)
+        t.check(worst <= CELL / 2, "every vertex of our trace lies within half a cell of gdal_contour's (worst %.3f m)" % worst)
+        # gdal_contour carries its lines on to the raster's outer edge, half a cell
+        # beyond the outermost cell centres where ours stop: compare inside those centres.
+        inside = lambda p: e[0] <= p[0] <= e[-1] and n[-1] <= p[1] <= n[0]
+        worst2 = max(segment_distance(np.array(p), ours) for l in theirs for p in l if inside(p))
+        t.check(worst2 <= CELL / 2, "every vertex of gdal_contour's trace lies within half a cell of ours (worst %.3f m)" % worst2)
 
 sys.exit(t.finish())
