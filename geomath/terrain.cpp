@@ -227,3 +227,80 @@ Result<double> structure_contour_spacing(double dip_deg, double interval) {
 }
 
 }  // namespace cairn::geo
+
+namespace cairn::geo {
+
+Result<PlaneUncertainty> plane_uncertainty(const PlaneFit& fit) {
+  using R = Result<PlaneUncertainty>;
+  if (fit.draws.size() < 10) return R::failure("the fit has no Monte Carlo realisations to take its uncertainty from");
+  PlaneUncertainty u;
+  u.centroid = fit.centroid;
+  std::vector<Eigen::Vector3d> q;
+  q.reserve(fit.draws.size());
+  Eigen::Vector3d mean = Eigen::Vector3d::Zero();
+  for (const auto& d : fit.draws) {
+    if (!(d.normal.z() > 1e-9)) return R::failure("a realisation of the plane is vertical");
+    const Eigen::Vector3d v(plane_elevation(d.point, d.normal, u.centroid.x(), u.centroid.y()),
+                            -d.normal.x() / d.normal.z(), -d.normal.y() / d.normal.z());
+    q.push_back(v);
+    mean += v;
+  }
+  mean /= static_cast<double>(q.size());
+  for (const auto& v : q) u.cov += (v - mean) * (v - mean).transpose();
+  u.cov /= static_cast<double>(q.size() - 1);
+  return u;
+}
+
+double plane_sigma(const PlaneUncertainty& u, double e, double n) {
+  const Eigen::Vector3d v(1, e - u.centroid.x(), n - u.centroid.y());
+  return std::sqrt(std::max(0.0, v.dot(u.cov * v)));
+}
+
+namespace {
+double band_sigma(const PlaneUncertainty& u, double terrain_sigma, double e, double n) {
+  const double sp = plane_sigma(u, e, n);
+  return std::sqrt(sp * sp + terrain_sigma * terrain_sigma);
+}
+}  // namespace
+
+bool in_trace_band(const TerrainGrid& g, const Vec3& point, const Vec3& normal, const PlaneUncertainty& u,
+                   double terrain_sigma, double e, double n) {
+  const auto z = elevation_at(g, e, n);
+  if (!z || !(normal.z() > 1e-9)) return false;
+  const double d = *z - plane_elevation(point, normal, e, n);
+  return std::fabs(d) <= kZ95 * band_sigma(u, terrain_sigma, e, n);
+}
+
+std::vector<unsigned char> trace_band_cells(const TerrainGrid& g, const Vec3& point, const Vec3& normal,
+                                            const PlaneUncertainty& u, double terrain_sigma) {
+  std::vector<unsigned char> out(g.z.size(), 0);
+  if (!g.valid_shape() || !(normal.z() > 1e-9)) return out;
+  for (int j = 0; j < g.ny; ++j) {
+    const double n = g.centre_n(j);
+    for (int i = 0; i < g.nx; ++i) {
+      const float z = g.at(i, j);
+      if (std::isnan(z)) continue;
+      const double e = g.centre_e(i);
+      const double d = z - plane_elevation(point, normal, e, n);
+      out[static_cast<std::size_t>(j) * g.nx + i] = std::fabs(d) <= kZ95 * band_sigma(u, terrain_sigma, e, n);
+    }
+  }
+  return out;
+}
+
+Result<double> trace_band_half_width(const TerrainGrid& g, const Vec3& normal, const PlaneUncertainty& u,
+                                     double terrain_sigma, double e, double n) {
+  if (!(normal.z() > 1e-9)) return Result<double>::failure("a vertical plane");
+  if (!(e >= g.west && e <= g.east() && n >= g.south() && n <= g.north))
+    return Result<double>::failure("the place lies outside the terrain");
+  const int i = std::min(static_cast<int>((e - g.west) / g.cell), g.nx - 1);
+  const int j = std::min(static_cast<int>((g.north - n) / g.cell), g.ny - 1);
+  const auto gr = horn_gradient(g, i, j);
+  if (!gr) return Result<double>::failure(gr.error());
+  const double de = gr->dz_de + normal.x() / normal.z(), dn = gr->dz_dn + normal.y() / normal.z();
+  const double slope = std::hypot(de, dn);
+  if (slope < 1e-6) return Result<double>::failure("the ground runs parallel to the plane here: the band has no width");
+  return kZ95 * band_sigma(u, terrain_sigma, e, n) / slope;
+}
+
+}  // namespace cairn::geo

@@ -16,6 +16,7 @@
 
 #include "geomath/contour.h"
 #include "geomath/orientation.h"
+#include "geomath/plane_fit.h"
 #include "geomath/result.h"
 
 namespace cairn::geo {
@@ -112,5 +113,40 @@ std::vector<LevelLines> structure_contours(const TerrainGrid& g, const Vec3& poi
 // Horizontal spacing (metres) of a plane's structure contours `interval` metres
 // apart: interval / tan(dip) (the strike-line construction, common practice).
 Result<double> structure_contour_spacing(double dip_deg, double interval);
+
+// ---- the trace band ----------------------------------------------------------
+//
+// How uncertain a fitted plane's elevation is at any place: the plane written as
+// z = z0 + gE (E - cE) + gN (N - cN) about the fit's centroid, with the 3 x 3
+// covariance of (z0, gE, gN) over the fit's Monte Carlo realisations
+// (PlaneFit::draws, the same that give the 95% cone). Its variance at (E, N) is
+// v' C v with v = (1, E - cE, N - cN) (first-order propagation of a linear
+// model, e.g. JCGM 100:2008 "GUM", 5.1.2).
+struct PlaneUncertainty {
+  Vec3 centroid = Vec3::Zero();
+  Eigen::Matrix3d cov = Eigen::Matrix3d::Zero();
+};
+// Fails with fewer than 10 realisations or a vertical one.
+Result<PlaneUncertainty> plane_uncertainty(const PlaneFit& fit);
+// 1-sigma of the plane's elevation at (e, n), metres.
+double plane_sigma(const PlaneUncertainty& u, double e, double n);
+
+// Two-sided 95% normal quantile, 1.959964 (any table of the normal distribution).
+constexpr double kZ95 = 1.959963984540054;
+
+// The trace band: where the contact crops out with 95% probability. At a place
+// the ground minus the plane, D, has the standard deviation
+// sigma = sqrt(plane_sigma^2 + terrain_sigma^2); the contact may crop out there
+// when |D| <= kZ95 * sigma (the true trace, where the true D is 0, lies inside
+// with probability 0.95 at each of its points).
+bool in_trace_band(const TerrainGrid& g, const Vec3& point, const Vec3& normal, const PlaneUncertainty& u,
+                   double terrain_sigma, double e, double n);
+// The same at every cell centre: 1 inside the band, 0 outside or missing.
+std::vector<unsigned char> trace_band_cells(const TerrainGrid& g, const Vec3& point, const Vec3& normal,
+                                            const PlaneUncertainty& u, double terrain_sigma);
+// Half the band's width (metres, across the trace) at (e, n) on the trace:
+// kZ95 * sigma / |grad D| (Horn's gradient of the ground minus the plane's).
+Result<double> trace_band_half_width(const TerrainGrid& g, const Vec3& normal, const PlaneUncertainty& u,
+                                     double terrain_sigma, double e, double n);
 
 }  // namespace cairn::geo
