@@ -303,3 +303,62 @@ int snap_to_terrain(Project& p, const std::string& contact_uuid) {
 }
 
 }  // namespace cairn::store
+
+namespace cairn::store {
+
+TerrainMerge merge_terrain(Project& p, Db& source) {
+  TerrainMerge out;
+  Stmt s(source, "SELECT uuid, name, digest FROM terrain WHERE deleted IS NULL");
+  if (!s.step()) return out;
+  const std::string uuid = s.text(0), name = s.text(1), digest = s.text(2);
+  Stmt mine(p.db(), "SELECT uuid, name, digest FROM terrain WHERE deleted IS NULL");
+  if (mine.step()) {
+    if (mine.text(2) == digest) {
+      out.outcome = TerrainMerge::Skipped;
+      return out;
+    }
+    out.outcome = TerrainMerge::Conflict;
+    out.message = "its terrain (" + name + ", " + uuid + ") differs from this file's (" + mine.text(1) + ", " +
+                  mine.text(0) + "); this file keeps its own. To take the other, run cairn terrain FILE --remove "
+                  "and attach that DEM again.";
+    return out;
+  }
+  Stmt known(p.db(), "SELECT deleted FROM terrain WHERE uuid = ?");
+  known.bind(1, uuid);
+  if (known.step()) {  // removed here since: the removal stands
+    out.outcome = TerrainMerge::Skipped;
+    out.message = "its terrain " + name + " was removed from this file; it was not brought back";
+    return out;
+  }
+  const std::string cols = kColumns;
+  Stmt row(source, "SELECT " + cols + " FROM terrain WHERE uuid = ?");
+  row.bind(1, uuid);
+  row.step();
+  Stmt ins(p.db(), "INSERT INTO terrain(" + cols + ") VALUES (?,?,?,?,?,?,?,?,?,?,?,?,?,?,?)");
+  for (int c = 0; c < 15; ++c) {
+    if (row.is_null(c))
+      ins.bind(c + 1, nullptr);
+    else if (c == 2 || c == 6 || c == 7 || c == 10)
+      ins.bind(c + 1, row.int64(c));
+    else if (c == 3 || c == 4 || c == 5 || c == 8 || c == 9)
+      ins.bind(c + 1, row.real(c));
+    else
+      ins.bind(c + 1, row.text(c));
+  }
+  ins.run();
+  Stmt tiles(source, "SELECT row, col, data FROM terrain_tiles WHERE terrain = ?");
+  tiles.bind(1, uuid);
+  Stmt put(p.db(), "INSERT INTO terrain_tiles(terrain, row, col, data) VALUES (?,?,?,?)");
+  while (tiles.step()) {
+    const std::string blob = tiles.blob(2);
+    put.reset();
+    put.bind(1, uuid).bind(2, tiles.int64(0)).bind(3, tiles.int64(1)).bind_blob(4, blob.data(), static_cast<int>(blob.size()));
+    put.run();
+  }
+  // The copy must read back whole before the merge commits.
+  load_terrain(p);
+  out.outcome = TerrainMerge::Added;
+  return out;
+}
+
+}  // namespace cairn::store

@@ -67,6 +67,16 @@ TerrainStored fill_elevations(Project& p);
 // Returns how many points changed; throws ValidationError when there is no terrain.
 int snap_to_terrain(Project& p, const std::string& contact_uuid);
 
+// Merging another file's terrain into P (storage/merge.h), inside the caller's
+// transaction: none here -> its terrain row and tiles are copied (Added); the
+// same digest -> Skipped; a different live terrain -> Conflict, reported in
+// `message` and NOT replaced (remove one and attach the DEM again to choose).
+struct TerrainMerge {
+  enum Outcome { None, Added, Skipped, Conflict } outcome = None;
+  std::string message;
+};
+TerrainMerge merge_terrain(Project& p, Db& source);
+
 // Digest of a grid as stored in TerrainInfo::digest.
 std::string terrain_digest(const geo::TerrainGrid& grid, int epsg);
 

@@ -21,6 +21,7 @@
 #include "formats/raster.h"
 #include "geomath/geodesy.h"
 #include "storage/export.h"
+#include "storage/merge.h"
 #include "storage/repository.h"
 #include "storage/schema.h"
 #include "storage/terrain.h"
@@ -239,4 +240,36 @@ TEST(Terrain, RemoveDropsItAudited) {
   // A bad accuracy is refused and nothing is written.
   EXPECT_THROW(store_terrain(f.p, r->grid, 32608, "plane.asc", -1.0), ValidationError);
   EXPECT_FALSE(terrain_info(f.p));
+}
+
+TEST(Terrain, MergeCarriesAddsSkipsAndReportsADifferentOne) {
+  // Merge rules of storage/merge.h: a record the target lacks is added, the same
+  // version skipped, two different ones a conflict that replaces nothing.
+  Fixture a;
+  const auto r = cairn::formats::read_dem(a.plane_grid(true), {32608, std::nullopt});
+  ASSERT_TRUE(r.ok());
+  store_terrain(a.p, r->grid, 32608, "plane.asc", 1.0);
+  TempDir dir;
+  const std::string camp_path = dir.file("camp.cairn");
+  {
+    Project camp = Project::create(camp_path, NewProject{"Camp", "8N", North::True, 0}, cairn::store::testing::quiet());
+    auto rep = merge_files(camp, {a.path});
+    ASSERT_TRUE(terrain_info(camp));
+    EXPECT_EQ(terrain_info(camp)->digest, terrain_info(a.p)->digest);
+    EXPECT_EQ(load_terrain(camp)->z, load_terrain(a.p)->z);
+    rep = merge_files(camp, {a.path});  // again: identical, skipped, nothing changes
+    EXPECT_FALSE(rep.changed);
+    // A different terrain elsewhere: reported, the camp keeps its own.
+    Fixture b;
+    auto g = r->grid;
+    g.z[0] += 1;
+    store_terrain(b.p, g, 32608, "other.asc", 1.0);
+    const std::string before = terrain_info(camp)->digest;
+    rep = merge_files(camp, {b.path});
+    EXPECT_EQ(terrain_info(camp)->digest, before);
+    bool reported = false;
+    for (const auto& w : rep.warnings) reported = reported || w.find("differs from this file's") != std::string::npos;
+    EXPECT_TRUE(reported);
+    EXPECT_GE(rep.sources[0].counts.conflicts, 1);
+  }
 }
