@@ -175,6 +175,20 @@ with tempfile.TemporaryDirectory() as tmp:
     t.check("no terrain" in run("terrain", proj3).stdout, "after a refusal nothing is stored")
     t.check(all(row["elevation"] == "" for row in listed_points(proj3)), "after a refusal no elevation is filled")
 
+# ---- the demo: its terrain as a GeoTIFF that GDAL reads, attached to every file ----
+with tempfile.TemporaryDirectory() as tmp:
+    d = os.path.join(tmp, "demo")
+    t.check(run("demo", d).returncode == 0, "cairn demo builds the area")
+    ds = gdal.Open(os.path.join(d, "terrain.tif"))
+    srs = osr.SpatialReference(wkt=ds.GetProjection())
+    t.check(srs.GetAuthorityCode(None) == "32608", "the demo's terrain.tif is in EPSG:32608 (GDAL)")
+    digests = set()
+    for f in ("tablet-a.cairn", "tablet-b.cairn", "camp.cairn"):
+        out = run("terrain", os.path.join(d, f)).stdout
+        t.check("terrain terrain.tif" in out, "demo %s carries the terrain" % f)
+        digests |= {ln.split("digest ")[1] for ln in out.splitlines() if "digest " in ln}
+    t.check(len(digests) == 1, "every demo file holds the same terrain (merge found them identical)")
+
 
 def read_band(path):
     ds = gdal.Open(path)
