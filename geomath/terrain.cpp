@@ -304,3 +304,74 @@ Result<double> trace_band_half_width(const TerrainGrid& g, const Vec3& normal, c
 }
 
 }  // namespace cairn::geo
+
+namespace cairn::geo {
+
+std::vector<std::vector<NetPoint>> mask_rectangles(const TerrainGrid& g, const std::vector<unsigned char>& mask) {
+  std::vector<std::vector<NetPoint>> out;
+  if (!g.valid_shape() || mask.size() != g.z.size()) return out;
+  struct Open {
+    int i0, i1, j0;  // columns [i0, i1), first row
+  };
+  std::vector<Open> open, next;
+  auto close = [&](const Open& r, int j_end) {
+    const double w = g.west + r.i0 * g.cell, e = g.west + r.i1 * g.cell;
+    const double n = g.north - r.j0 * g.cell, s = g.north - j_end * g.cell;
+    out.push_back({{w, s}, {e, s}, {e, n}, {w, n}, {w, s}});  // counter-clockwise
+  };
+  for (int j = 0; j <= g.ny; ++j) {
+    next.clear();
+    std::vector<std::pair<int, int>> runs;
+    if (j < g.ny) {
+      for (int i = 0; i < g.nx;) {
+        if (!mask[static_cast<std::size_t>(j) * g.nx + i]) {
+          ++i;
+          continue;
+        }
+        int k = i;
+        while (k < g.nx && mask[static_cast<std::size_t>(j) * g.nx + k]) ++k;
+        runs.emplace_back(i, k);
+        i = k;
+      }
+    }
+    for (const Open& r : open) {
+      bool continued = false;
+      for (auto& run : runs)
+        if (run.first == r.i0 && run.second == r.i1) {
+          next.push_back(r);
+          run.first = -1;  // taken
+          continued = true;
+          break;
+        }
+      if (!continued) close(r, j);
+    }
+    for (const auto& run : runs)
+      if (run.first >= 0) next.push_back({run.first, run.second, j});
+    open.swap(next);
+  }
+  return out;
+}
+
+Result<ContactPrediction> predict_contact(const TerrainGrid& g, const PlaneFit& fit, double terrain_sigma) {
+  using R = Result<ContactPrediction>;
+  auto trace = outcrop_trace(g, fit.centroid, fit.normal);
+  if (!trace) return R::failure(trace.error());
+  ContactPrediction out;
+  out.trace = std::move(trace.value());
+  auto u = plane_uncertainty(fit);
+  if (!u) return out;
+  out.has_band = true;
+  out.uncertainty = *u;
+  out.band = mask_rectangles(g, trace_band_cells(g, fit.centroid, fit.normal, *u, terrain_sigma));
+  double sum = 0;
+  int count = 0;
+  for (const auto& l : out.trace)
+    for (const auto& p : l.pts) {
+      const auto w = trace_band_half_width(g, fit.normal, *u, terrain_sigma, p[0], p[1]);
+      if (w) sum += *w, ++count;
+    }
+  if (count) out.mean_half_width = sum / count;
+  return out;
+}
+
+}  // namespace cairn::geo

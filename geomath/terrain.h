@@ -149,4 +149,22 @@ std::vector<unsigned char> trace_band_cells(const TerrainGrid& g, const Vec3& po
 Result<double> trace_band_half_width(const TerrainGrid& g, const Vec3& normal, const PlaneUncertainty& u,
                                      double terrain_sigma, double e, double n);
 
+// ---- one fitted contact on the ground -----------------------------------------
+
+// Cells of a mask (1 = in) as polygons: each run of in-cells along a row is a
+// rectangle, and runs covering the same columns in consecutive rows are joined.
+// Rings are closed (first point == last), counter-clockwise, in grid metres.
+std::vector<std::vector<NetPoint>> mask_rectangles(const TerrainGrid& g, const std::vector<unsigned char>& mask);
+
+// A fitted contact's predicted outcrop trace and its 95% trace band on the terrain.
+struct ContactPrediction {
+  std::vector<NetPolyline> trace;
+  bool has_band = false;  // false when the fit has no Monte Carlo realisations (3 exact points)
+  std::vector<std::vector<NetPoint>> band;  // mask_rectangles of trace_band_cells
+  std::optional<double> mean_half_width;    // mean of trace_band_half_width over the trace's vertices, metres
+  PlaneUncertainty uncertainty;
+};
+// terrain_sigma: the terrain's stated vertical accuracy (0 when not stated).
+Result<ContactPrediction> predict_contact(const TerrainGrid& g, const PlaneFit& fit, double terrain_sigma);
+
 }  // namespace cairn::geo

@@ -91,7 +91,24 @@ ExportSummary export_geojson(Project& p, const std::string& path, const ExportOp
         put_value(out, f.values[static_cast<size_t>(uuid_field)]);
       }
       out += ",\"geometry\":";
-      if (f.where) {
+      if (!f.lonlat_parts.empty()) {
+        // RFC 7946 3.1.5 MultiLineString, 3.1.7 MultiPolygon (rings closed, exterior counter-clockwise, 3.1.6).
+        const bool poly = l.geometry == "MULTIPOLYGON";
+        out += poly ? "{\"type\":\"MultiPolygon\",\"coordinates\":[" : "{\"type\":\"MultiLineString\",\"coordinates\":[";
+        for (size_t k = 0; k < f.lonlat_parts.size(); ++k) {
+          out += k ? ",[" : "[";
+          if (poly) out += "[";
+          for (size_t m = 0; m < f.lonlat_parts[k].size(); ++m) {
+            out += m ? ",[" : "[";
+            put_coordinate(out, f.lonlat_parts[k][m][0]);
+            out += ",";
+            put_coordinate(out, f.lonlat_parts[k][m][1]);
+            out += "]";
+          }
+          out += poly ? "]]" : "]";
+        }
+        out += "]}";
+      } else if (f.where) {
         out += "{\"type\":\"Point\",\"coordinates\":[";
         put_coordinate(out, f.where->lon);  // section 3.1.1: longitude first
         out += ",";

@@ -166,3 +166,32 @@ TEST(TerrainTrace, TwoPlanesMeetAlongTheirLine) {
   for (const auto& l : *broken)
     for (const auto& p : l.pts) EXPECT_TRUE(std::isfinite(p[0]) && std::isfinite(p[1]));
 }
+
+TEST(TerrainBand, MaskRectanglesWorkedByHand) {
+  // 4 x 3 cells of 10 m, west 0, north 30; mask (row 0 north):
+  //   1 1 0 0
+  //   1 1 0 1
+  //   0 1 1 0
+  // By hand: columns 0-1 over rows 0-1 -> [0,20] x [10,30]; row 1 column 3 -> [30,40] x [10,20];
+  // row 2 columns 1-2 -> [10,30] x [0,10]. Total area 400 + 100 + 200 = 700 m^2.
+  TerrainGrid g;
+  g.nx = 4;
+  g.ny = 3;
+  g.west = 0;
+  g.north = 30;
+  g.cell = 10;
+  g.z.assign(12, 100.0f);
+  const std::vector<unsigned char> mask = {1, 1, 0, 0, 1, 1, 0, 1, 0, 1, 1, 0};
+  const auto rings = mask_rectangles(g, mask);
+  ASSERT_EQ(rings.size(), 3u);
+  double area = 0;
+  for (const auto& r : rings) {
+    ASSERT_EQ(r.size(), 5u);
+    EXPECT_EQ(r.front(), r.back());
+    double a = 0;  // shoelace formula: positive for counter-clockwise
+    for (std::size_t k = 0; k + 1 < r.size(); ++k) a += r[k][0] * r[k + 1][1] - r[k + 1][0] * r[k][1];
+    EXPECT_GT(a, 0);
+    area += a / 2;
+  }
+  EXPECT_DOUBLE_EQ(area, 700);
+}

@@ -189,6 +189,55 @@ with tempfile.TemporaryDirectory() as tmp:
         digests |= {ln.split("digest ")[1] for ln in out.splitlines() if "digest " in ln}
     t.check(len(digests) == 1, "every demo file holds the same terrain (merge found them identical)")
 
+    # ---- export: predicted_traces and trace_bands, read by GDAL/OGR and PROJ ----
+    # GeoPackage 1.3 (OGC 12-128r18) through GDAL's validate_gpkg.py and ogrinfo;
+    # RFC 7946 MultiLineString / MultiPolygon in longitude/latitude, checked
+    # against the GeoPackage's UTM vertices turned into lon/lat by pyproj.
+    from osgeo import ogr
+    camp = os.path.join(d, "camp.cairn")
+    gpkg, gjson = os.path.join(tmp, "demo.gpkg"), os.path.join(tmp, "demo.geojson")
+    t.check(run("export", camp, gpkg).returncode == 0 and run("export", camp, gjson).returncode == 0,
+            "cairn export writes the demo as GeoPackage and GeoJSON")
+    for path in (gpkg, gjson):
+        r = subprocess.run(["ogrinfo", "-ro", "-al", "-q", path], capture_output=True, text=True)
+        t.check(r.returncode == 0 and "Warning" not in r.stderr + r.stdout and "ERROR" not in r.stderr,
+                "ogrinfo reads %s without warnings: %s" % (os.path.basename(path), r.stderr[:200]))
+    validator = "/usr/lib/python3/dist-packages/osgeo_utils/samples/validate_gpkg.py"
+    r = subprocess.run(["/usr/bin/python3", validator, gpkg], capture_output=True, text=True)
+    t.check(r.returncode == 0, "validate_gpkg.py accepts the export with the terrain layers: " + r.stdout[-300:] + r.stderr[-300:])
+    ds = ogr.Open(gpkg)
+    want = {"predicted_traces": (ogr.wkbMultiLineString, "interval"), "trace_bands": (ogr.wkbMultiPolygon, "confidence")}
+    utm_traces = {}
+    for name, (gtype, field) in want.items():
+        lyr = ds.GetLayerByName(name)
+        t.check(lyr is not None and lyr.GetFeatureCount() >= 4, "%s has a feature per fitted contact" % name)
+        if lyr is None:
+            continue
+        t.check(lyr.GetGeomType() == gtype, "%s is %s" % (name, ogr.GeometryTypeToName(gtype)))
+        t.check(lyr.GetSpatialRef().GetAuthorityCode(None) == "32608", "%s is in the project's UTM zone" % name)
+        defn = lyr.GetLayerDefn()
+        names = [defn.GetFieldDefn(i).GetName() for i in range(defn.GetFieldCount())]
+        t.check(names == ["contact", field], "%s fields are contact, %s (%s)" % (name, field, names))
+        for f in lyr:
+            g = f.GetGeometryRef()
+            if name == "trace_bands":
+                t.check(abs(f.GetField("confidence") - 0.95) < 1e-12, "a trace band says confidence 0.95")
+                t.check(g.GetGeometryCount() > 0 and g.GetArea() > 0, "a trace band has an area")
+            else:
+                utm_traces[f.GetField("contact")] = [g.GetGeometryRef(k).GetPoints() for k in range(g.GetGeometryCount())]
+    with open(gjson) as fh:
+        import json
+        feats = [x for x in json.load(fh)["features"] if x["properties"]["layer"] == "predicted_traces"]
+    worst = 0.0
+    for x in feats:
+        t.check(x["geometry"]["type"] == "MultiLineString", "GeoJSON trace is a MultiLineString (RFC 7946 3.1.5)")
+        ours = utm_traces.get(x["properties"]["contact"], [])
+        for part, upart in zip(x["geometry"]["coordinates"], ours):
+            for (lon, lat), (e, n) in zip(part, upart):
+                le, la = TO_LL.transform(e, n)
+                worst = max(worst, abs(le - lon), abs(la - lat))
+    t.check(feats and worst < 2e-7, "GeoJSON traces are the GeoPackage's in lon/lat (pyproj, worst %.1e deg)" % worst)
+
 
 def read_band(path):
     ds = gdal.Open(path)
