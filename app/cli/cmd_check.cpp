@@ -5,10 +5,12 @@
 #include <map>
 #include <sstream>
 
+#include "app/cli/check_terrain.h"
 #include "app/cli/command.h"
 #include "app/cli/json.h"
 #include "app/cli/magnetic_source.h"
 #include "geomath/crosscheck.h"
+#include "geomath/geodesy.h"
 #include "geomath/notation.h"
 #include "geomath/strike_lines.h"
 #include "storage/check_input.h"
@@ -34,7 +36,41 @@ double option_number(Args& args, const std::string& opt, double fallback, double
   return d;
 }
 
-void write_json(std::ostream& out, const store::CheckData& data, const geo::CheckReport& rep, geo::Severity min) {
+// The terrain's part of the report: where the ground gives no all-clear, and
+// where next on the ground from a position (app/cli/check_terrain.h).
+struct GroundReport {
+  const GroundCheck* ground = nullptr;
+  std::optional<std::vector<GroundLead>> leads;  // with --at
+};
+
+void write_ground_json(JsonWriter& j, const GroundReport& gr) {
+  const GroundCheck& g = *gr.ground;
+  j.key("terrain").begin_object();
+  j.key("present").value(g.has_terrain);
+  j.key("cell").value(g.has_terrain ? std::optional<double>(g.cell) : std::nullopt);
+  j.key("too_coarse_to_clear").value(g.too_coarse());
+  j.key("not_cleared").begin_array();
+  for (const auto& c : g.not_cleared) j.value(c);
+  j.end_array();
+  j.end_object();
+  if (!gr.leads) return;
+  j.key("where_next_on_ground").begin_array();
+  for (const auto& l : *gr.leads) {
+    j.begin_object();
+    j.key("contact").value(l.contact);
+    j.key("distance").value(l.distance);
+    j.key("bearing").value(l.bearing);
+    j.key("easting").value(l.e);
+    j.key("northing").value(l.n);
+    j.key("elevation").value(l.elevation);
+    j.key("band_half_width95").value(l.half_width);
+    j.end_object();
+  }
+  j.end_array();
+}
+
+void write_json(std::ostream& out, const store::CheckData& data, const geo::CheckReport& rep, geo::Severity min,
+                const GroundReport& gr) {
   JsonWriter j(out);
   j.begin_object();
   j.key("fits").begin_array();
@@ -73,6 +109,7 @@ void write_json(std::ostream& out, const store::CheckData& data, const geo::Chec
     j.key("message").value(f.message);
     j.key("action").value(f.action);
     j.key("caution").value(opt(f.caution));
+    if (const std::string src = slope_source(*gr.ground, f); !src.empty()) j.key("slope_source").value(src);
     j.end_object();
   }
   j.end_array();
@@ -93,11 +130,13 @@ void write_json(std::ostream& out, const store::CheckData& data, const geo::Chec
     }
   }
   j.end_array();
+  write_ground_json(j, gr);
   j.end_object();
   out << "\n";
 }
 
-void write_text(std::ostream& out, const store::CheckData& data, const geo::CheckReport& rep, geo::Severity min) {
+void write_text(std::ostream& out, const store::CheckData& data, const geo::CheckReport& rep, geo::Severity min,
+                const GroundReport& gr) {
   out << "Contact fits (strike by the right-hand rule, true north; cone at 95%)\n";
   out << "  " << std::left << std::setw(24) << "contact" << std::right << std::setw(6) << "points" << "  "
       << std::left << std::setw(11) << "strike/dip" << std::setw(13) << "quadrant" << std::right << std::setw(7)
@@ -126,7 +165,10 @@ void write_text(std::ostream& out, const store::CheckData& data, const geo::Chec
     }
     std::string head = std::string(geo::severity_name(f.severity)) + " " + f.rule;
     for (auto& c : head) c = static_cast<char>(std::toupper(static_cast<unsigned char>(c)));
-    out << "    [" << head << "]" << (f.ref.empty() ? "" : " " + f.ref) << "  " << f.message << "\n";
+    out << "    [" << head << "]" << (f.ref.empty() ? "" : " " + f.ref) << "  " << f.message;
+    if (slope_source(*gr.ground, f) == "dem")
+      out << " (slope face from the terrain, " << num(gr.ground->cell, "%.0f") << " m cells)";
+    out << "\n";
     out << "      action: " << f.action << "\n";
     if (!f.caution.empty()) out << "      CAUTION: " << f.caution << "\n";
   }
@@ -162,6 +204,20 @@ void write_text(std::ostream& out, const store::CheckData& data, const geo::Chec
       for (const auto& l : ls) out << l << "\n";
     }
   }
+  if (gr.ground->too_coarse() && !gr.ground->not_cleared.empty()) {
+    out << "\nSlopes from the terrain: its " << num(gr.ground->cell, "%.0f") << " m cells are coarser than "
+        << num(kMaxScreeningCell, "%.0f") << " m and cannot show a face a few metres high, so they clear nothing. "
+        << "Not cleared (no slope-face reading): ";
+    for (size_t i = 0; i < gr.ground->not_cleared.size(); ++i) out << (i ? ", " : "") << gr.ground->not_cleared[i];
+    out << ".\n  CAUTION: " << geo::kSlopeCaution << "\n";
+  }
+  if (gr.leads) {
+    out << "\nWhere next on the ground (nearest stretch of each predicted trace)\n";
+    if (gr.leads->empty()) out << "  no predicted trace nearby\n";
+    for (const auto& l : *gr.leads)
+      out << "  " << l.contact << ": " << num(l.distance, "%.0f") << " m at bearing " << num(l.bearing, "%03.0f")
+          << ", ground at " << num(l.elevation, "%.0f") << " m, band +/- " << num(l.half_width, "%.0f") << " m\n";
+  }
   out << "\n" << shown << " flag" << (shown == 1 ? "" : "s");
   for (const char* s : {"hazard", "conflict", "query", "note"})
     if (by_severity.count(s)) out << ", " << by_severity[s] << " " << s;
@@ -181,6 +237,8 @@ int run_check(const Args& in, std::ostream& out, std::ostream& err) {
   const double nearby = option_number(args, "--nearby", -1, 0, 100000);  // -1: the project's setting
   o.friction_angle = option_number(args, "--friction", o.friction_angle, 0, 89);
   o.confidence = option_number(args, "--confidence", o.confidence, 0.5, 0.9999);
+  const auto at = take_option(args, "--at");
+  const double radius = option_number(args, "--radius", 2000, 1, 100000);
   reject_unknown_options(args);
   if (args.size() != 1) throw std::invalid_argument("expected one project file");
 
@@ -203,20 +261,33 @@ int run_check(const Args& in, std::ostream& out, std::ostream& err) {
       if (!model->in_validity(year)) ++outside;
       return model->evaluate(lat, lon, 0.0, year).declination;
     };
-  const store::CheckData data = store::load_check_input(p, decl);
+  store::CheckData data = store::load_check_input(p, decl);
   if (outside > 0)
     err << "warning: " << outside << " reading" << (outside == 1 ? " is" : "s are") << " dated outside "
         << model->name() << "'s validity (" << model->valid_from() << " to " << model->valid_to()
         << "); " << (outside == 1 ? "its" : "their") << " declination is extrapolated and less certain\n";
+  const GroundCheck ground = add_terrain_faces(p, data, o);
   const geo::CheckReport rep = geo::run_crosscheck(data.input, o);
-  if (json) write_json(out, data, rep, min);
-  else write_text(out, data, rep, min);
+  GroundReport gr;
+  gr.ground = &ground;
+  if (at) {
+    double lat = 0, lon = 0;
+    char tail = 0;
+    if (std::sscanf(at->c_str(), "%lf,%lf%c", &lat, &lon, &tail) != 2)
+      throw std::invalid_argument("--at must be LAT,LON in decimal degrees, not '" + *at + "'");
+    const auto u = geo::to_utm({lat, lon}, data.zone);
+    if (!u) throw std::invalid_argument("--at " + *at + ": " + u.error());
+    if (!ground.has_terrain) err << "warning: --at needs a terrain (cairn terrain FILE DEM)\n";
+    gr.leads = where_next_on_ground(ground, data, rep, u->easting, u->northing, radius);
+  }
+  if (json) write_json(out, data, rep, min, gr);
+  else write_text(out, data, rep, min, gr);
   return 0;
 }
 
 }  // namespace
 
-CAIRN_COMMAND(Command{"check", "cairn check FILE [--json] [--min-severity note|query|conflict|hazard] [--nearby METRES (default: the project's)] [--friction DEG] [--confidence P]",
+CAIRN_COMMAND(Command{"check", "cairn check FILE [--json] [--min-severity note|query|conflict|hazard] [--nearby METRES (default: the project's)] [--friction DEG] [--confidence P] [--at LAT,LON [--radius M]]",
                       "Fit every contact and cross-check the readings against the fits", run_check});
 
 }  // namespace cairn::cli

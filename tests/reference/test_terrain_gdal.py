@@ -18,7 +18,13 @@ come from those tools, never from Cairn:
     same raster, border cells excluded as gdaldem leaves them without value;
   - the predicted outcrop trace against `gdal_contour -fl 0` on the difference
     raster terrain minus plane computed by numpy: every vertex of each within
-    half a cell of the other's lines.
+    half a cell of the other's lines;
+  - slopes from the ground in `cairn check --json`: a bedding reading under a
+    face whose slope numpy gives as 50 degrees daylights by the Markland test
+    (Hoek & Bray, "Rock Slope Engineering": dip directions within 20 degrees,
+    friction angle < bedding dip < face dip) with "slope_source": "dem", one
+    under a typed face says "reading", and a terrain of 20 m cells clears no
+    station (the stated 5 m rule).
 """
 import math
 import os
@@ -237,6 +243,58 @@ with tempfile.TemporaryDirectory() as tmp:
                 le, la = TO_LL.transform(e, n)
                 worst = max(worst, abs(le - lon), abs(la - lat))
     t.check(feats and worst < 2e-7, "GeoJSON traces are the GeoPackage's in lon/lat (pyproj, worst %.1e deg)" % worst)
+
+# ---- slopes from the ground in cairn check ----
+def write_grid(path, arr, cell, west, north):
+    d = gdal.GetDriverByName("GTiff").Create(path, arr.shape[1], arr.shape[0], 1, gdal.GDT_Float32)
+    d.SetGeoTransform((west, cell, 0, north, 0, -cell))
+    s_ = osr.SpatialReference()
+    s_.ImportFromEPSG(32608)
+    d.SetProjection(s_.ExportToWkt())
+    d.GetRasterBand(1).WriteArray(arr)
+    d = None
+
+
+with tempfile.TemporaryDirectory() as tmp:
+    W, N, C = 466000.0, 6784000.0, 2.0
+    cols = np.arange(150)
+    face = np.tile((2000 - math.tan(math.radians(50)) * (cols + 0.5) * C).astype(np.float32), (150, 1))
+    gy, gx = np.gradient(face.astype(np.float64), C)
+    t.check(abs(math.degrees(math.atan(math.hypot(gx[75, 75], gy[75, 75]))) - 50) < 1e-3,
+            "numpy gives the test face a slope of 50 degrees")
+    steep = os.path.join(tmp, "face.tif")
+    write_grid(steep, face, C, W, N)
+    proj = os.path.join(tmp, "face.cairn")
+    run("new", proj, "--name", "Face", "--utm", "8N")
+    lonA, latA = TO_LL.transform(W + 150, N - 150)
+    lonB, latB = TO_LL.transform(W + 160, N - 120)
+    files = {
+        "units": UNITS, "contacts": CONTACTS,
+        "stations": "station,lat,lon,source\nF1,%.9f,%.9f,gps\nF2,%.9f,%.9f,gps\n" % (latA, lonA, latB, lonB),
+        "planes": "station,kind,strike,dip,north\nF1,bedding,000,40,true\nF2,bedding,000,40,true\nF2,slope,000,55,true\n",
+    }
+    for kind, text in files.items():
+        path = os.path.join(tmp, kind + ".csv")
+        with open(path, "w") as f:
+            f.write(text)
+        t.check(run("import", proj, kind, path).returncode == 0, "face project: import " + kind)
+    t.check(run("terrain", proj, steep).returncode == 0, "the 2 m face terrain attaches")
+    import json
+    rep = json.loads(run("check", proj, "--json").stdout)
+    day = {f["station"]: f for f in rep["flags"] if f["rule"] == "daylighting"}
+    t.check("F1" in day and day["F1"].get("slope_source") == "dem",
+            "bedding 000/40 under the terrain's 50 degree east face daylights, slope_source dem")
+    t.check("F2" in day and day["F2"].get("slope_source") == "reading",
+            "under a typed face the flag says slope_source reading")
+    t.check(all(f.get("caution") for f in day.values()), "daylighting flags carry the safety caution")
+    t.check(rep["terrain"]["too_coarse_to_clear"] is False, "2 m cells are fine enough to screen")
+    coarse = os.path.join(tmp, "coarse.tif")
+    write_grid(coarse, np.full((40, 40), 900, np.float32), 20.0, W - 200, N + 200)
+    t.check(run("terrain", proj, coarse).returncode == 0, "a 20 m flat terrain replaces it")
+    rep = json.loads(run("check", proj, "--json").stdout)
+    t.check(rep["terrain"]["too_coarse_to_clear"] is True and "F1" in rep["terrain"]["not_cleared"],
+            "a 20 m terrain gives no all-clear: F1 is listed as not cleared")
+    t.check("F2" not in rep["terrain"]["not_cleared"], "a station with a typed face is screened by its reading")
 
 
 def read_band(path):
