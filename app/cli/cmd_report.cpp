@@ -14,6 +14,8 @@
 #include "app/cli/report_html.h"
 #include "geomath/crosscheck.h"
 #include "storage/check_input.h"
+#include "storage/export.h"
+#include "storage/terrain.h"
 #include "storage/project.h"
 #include "storage/repository.h"
 
@@ -154,6 +156,10 @@ int run_report(const Args& in, std::ostream& out, std::ostream& err) {
   }
   d.check = store::load_check_input(p, decl);
   d.result = geo::run_crosscheck(d.check.input);
+  if (const auto t = store::terrain_info(p); t && t->epsg == store::utm_epsg(d.check.zone)) {
+    d.terrain = store::load_terrain(p);
+    d.terrain_sigma = t->vertical_accuracy;
+  }
 
   write_file_atomically(*output, render_report_html(d));
   out << "wrote " << *output << ": " << d.stations.size() << " stations, " << d.result.fits.size() << " contacts, "

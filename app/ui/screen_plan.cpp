@@ -1,5 +1,6 @@
-// Plan: stations, points mapped along contacts, strike-dip symbols and the
-// fitted contacts' strike lines in the working UTM zone; the predicted contact
+// Plan: the ground (hillshade, terrain contours, predicted traces with their
+// trace bands) when the project has a terrain, stations, points mapped along
+// contacts, strike-dip symbols and the fitted contacts' strike lines in the working UTM zone; the predicted contact
 // elevation at a tapped point; drag to pan, pinch (or the wheel) to zoom.
 #include <algorithm>
 #include <cstdio>
@@ -7,6 +8,7 @@
 #include <map>
 
 #include "app/plot/plan_scene.h"
+#include "app/plot/plan_terrain.h"
 #include "app/plot/symbols.h"
 #include "app/ui/gl_picture.h"
 #include "app/ui/imgui_canvas.h"
@@ -15,6 +17,8 @@
 #include "app/ui/text_util.h"
 #include "app/ui/widgets.h"
 #include "geomath/strike_lines.h"
+#include "storage/export.h"
+#include "storage/terrain.h"
 
 namespace cairn::ui {
 
@@ -81,6 +85,21 @@ void build(App& a, const CheckResult& c) {
     ps.notes.push_back(f.contact + ": strike lines every " + fmt("%g m", interval));
     for (const auto& l : *lines)
       d.strike_lines.push_back({l.e0, l.n0, l.e1, l.n1, l.elevation, contact_col.count(f.contact_id) ? contact_col[f.contact_id] : plot::kInk});
+  }
+  // The ground (app/plot/plan_terrain.h): hillshade, terrain contours, the
+  // predicted traces and their 95% bands, computed here once per change of the
+  // data; frames show the cached picture.
+  try {
+    store::Project& pr = m.project();
+    if (const auto t = store::terrain_info(pr); t && t->epsg == store::utm_epsg(c.data.zone)) {
+      std::vector<plot::TracedContact> traced;
+      for (const auto& f : c.report.fits)
+        if (f.fit) traced.push_back({f.contact, &*f.fit, contact_col.count(f.contact_id) ? contact_col[f.contact_id] : plot::kInk});
+      for (auto& note : plot::add_terrain(d, *store::load_terrain(pr), traced, t->vertical_accuracy.value_or(0)))
+        ps.notes.push_back(note);
+    }
+  } catch (const std::exception& e) {
+    ps.notes.push_back(std::string("terrain not drawn: ") + e.what());
   }
   // Typical distance between neighbouring stations, for deciding when labels fit.
   ps.spacing = 0;

@@ -244,6 +244,25 @@ with tempfile.TemporaryDirectory() as tmp:
                 worst = max(worst, abs(le - lon), abs(la - lat))
     t.check(feats and worst < 2e-7, "GeoJSON traces are the GeoPackage's in lon/lat (pyproj, worst %.1e deg)" % worst)
 
+    # ---- the report's Plan shows the ground; its SVG stays well-formed XML (Python's parser) ----
+    import re
+    import xml.etree.ElementTree as ET
+    html = os.path.join(tmp, "report.html")
+    t.check(run("report", camp, "-o", html).returncode == 0, "cairn report writes the demo's report")
+    with open(html) as fh:
+        text = fh.read()
+    m = re.search(r'<figure class="plan">(.*?)<figcaption>(.*?)</figcaption>', text, re.S)
+    t.check(m is not None and "trace bands" in m.group(2) and "terrain contours" in m.group(2),
+            "the report's Plan caption names the terrain contours and the trace bands")
+    if m:
+        try:
+            root = ET.fromstring(m.group(1))
+            ok = sum(1 for _ in root.iter()) > 1000
+        except ET.ParseError as e:
+            ok = False
+            print(e)
+        t.check(ok, "the Plan's SVG with the ground parses as XML")
+
 # ---- slopes from the ground in cairn check ----
 def write_grid(path, arr, cell, west, north):
     d = gdal.GetDriverByName("GTiff").Create(path, arr.shape[1], arr.shape[0], 1, gdal.GDT_Float32)
