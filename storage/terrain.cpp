@@ -214,6 +214,82 @@ std::optional<geo::TerrainGrid> load_terrain(Project& p) {
   return g;
 }
 
+namespace {
+
+// The elevation at (lat, lon) from the live terrain, decoding only the tiles
+// that hold the four cells around it; with the terrain's vertical accuracy.
+struct Sample {
+  double z = 0;
+  std::optional<double> accuracy;
+};
+std::optional<Sample> sample_terrain(Project& p, double lat, double lon) {
+  Stmt s(p.db(), "SELECT uuid, epsg, cell, west, north, nx, ny, nodata, tile_size, vertical_accuracy FROM terrain "
+                 "WHERE deleted IS NULL");
+  if (!s.step()) return std::nullopt;
+  const std::string uuid = s.text(0);
+  const int epsg = s.integer(1);
+  const double cell = s.real(2), west = s.real(3), north = s.real(4);
+  const int nx = s.integer(5), ny = s.integer(6), tile = s.integer(8);
+  const float nodata = static_cast<float>(s.real(7));
+  if (!(cell > 0) || tile <= 0 || nx <= 0 || ny <= 0) return std::nullopt;
+  const auto u = geo::to_utm({lat, lon}, zone_of_epsg(epsg));
+  if (!u) return std::nullopt;
+  const double fx = (u->easting - west) / cell - 0.5, fy = (north - u->northing) / cell - 0.5;
+  if (!(fx > -1 && fy > -1 && fx < nx && fy < ny)) return std::nullopt;
+  // The window of cells around the place (3 x 3 is enough for the bilinear corners).
+  const int i0 = std::max(0, static_cast<int>(std::floor(fx)) - 1), i1 = std::min(nx - 1, i0 + 3);
+  const int j0 = std::max(0, static_cast<int>(std::floor(fy)) - 1), j1 = std::min(ny - 1, j0 + 3);
+  geo::TerrainGrid g;
+  g.nx = i1 - i0 + 1;
+  g.ny = j1 - j0 + 1;
+  g.cell = cell;
+  g.west = west + i0 * cell;
+  g.north = north - j0 * cell;
+  g.z.assign(static_cast<std::size_t>(g.nx) * g.ny, std::numeric_limits<float>::quiet_NaN());
+  Stmt t(p.db(), "SELECT row, col, data FROM terrain_tiles WHERE terrain = ? AND row BETWEEN ? AND ? AND col BETWEEN ? AND ?");
+  t.bind(1, uuid).bind(2, j0 / tile).bind(3, j1 / tile).bind(4, i0 / tile).bind(5, i1 / tile);
+  std::vector<unsigned char> raw;
+  while (t.step()) {
+    const int tj = t.integer(0), ti = t.integer(1);
+    const int w = std::min(tile, nx - ti * tile), h = std::min(tile, ny - tj * tile);
+    if (w <= 0 || h <= 0) continue;
+    const std::string blob = t.blob(2);
+    uLongf len = static_cast<uLongf>(w) * h * 4;
+    raw.assign(len, 0);
+    if (uncompress(raw.data(), &len, reinterpret_cast<const Bytef*>(blob.data()), blob.size()) != Z_OK ||
+        len != static_cast<uLongf>(w) * h * 4)
+      return std::nullopt;  // a damaged tile gives no elevation here; load_terrain names it
+    for (int j = std::max(j0, tj * tile); j <= std::min(j1, tj * tile + h - 1); ++j)
+      for (int i = std::max(i0, ti * tile); i <= std::min(i1, ti * tile + w - 1); ++i) {
+        const float v = get_f32(raw.data() + 4 * (static_cast<std::size_t>(j - tj * tile) * w + (i - ti * tile)));
+        if (v != nodata) g.z[static_cast<std::size_t>(j - j0) * g.nx + (i - i0)] = v;
+      }
+  }
+  const auto z = geo::elevation_at(g, u->easting, u->northing);
+  if (!z) return std::nullopt;
+  return Sample{*z, s.opt_real(9)};
+}
+
+}  // namespace
+
+void elevation_from_terrain(Project& p, Station& st) {
+  if (st.elevation) return;
+  if (const auto s = sample_terrain(p, st.lat, st.lon)) {
+    st.elevation = s->z;
+    st.v_accuracy = s->accuracy;
+    st.source = PositionSource::Dem;
+  }
+}
+
+void elevation_from_terrain(Project& p, ContactPoint& pt) {
+  if (pt.elevation) return;
+  if (const auto s = sample_terrain(p, pt.lat, pt.lon)) {
+    pt.elevation = s->z;
+    pt.v_accuracy = s->accuracy;
+    pt.source = PointSource::Dem;
+  }
+}
+
 bool remove_terrain(Project& p) {
   bool removed = false;
   p.write([&] {

@@ -62,6 +62,13 @@ bool remove_terrain(Project& p);
 // (audited). Called by store_terrain; also usable after an import.
 TerrainStored fill_elevations(Project& p);
 
+// For a station or point about to be recorded without an elevation: the
+// terrain's elevation there (source dem, the terrain's vertical accuracy),
+// reading only the tiles around it. Leaves the record as it is when it has an
+// elevation, there is no terrain, or the place is off it. Called by add().
+void elevation_from_terrain(Project& p, Station& s);
+void elevation_from_terrain(Project& p, ContactPoint& pt);
+
 // Replaces the elevations of the live points of CONTACT (a contact UUID) by the
 // terrain's (source dem, the terrain's vertical accuracy), audited and undoable.
 // Returns how many points changed; throws ValidationError when there is no terrain.

@@ -273,3 +273,34 @@ TEST(Terrain, MergeCarriesAddsSkipsAndReportsADifferentOne) {
     EXPECT_GE(rep.sources[0].counts.conflicts, 1);
   }
 }
+
+TEST(Terrain, RecordedAfterAttachingTakesTheTerrainsElevation) {
+  // A point recorded later without an elevation: bilinear on the plane (Numerical
+  // Recipes 3.6.1) from the tiles around it, source dem, in its insert audit row.
+  Fixture f;
+  const auto r = cairn::formats::read_dem(f.plane_grid(true), {32608, std::nullopt});
+  ASSERT_TRUE(r.ok());
+  store_terrain(f.p, r->grid, 32608, "plane.asc", 0.8);
+  ContactPoint pt;
+  pt.contact = f.contact;
+  pt.lat = kLat + 0.002;
+  pt.lon = kLon - 0.003;
+  const std::string id = add(f.p, pt);
+  const auto got = *get_point(f.p, id);
+  const auto u = *cairn::geo::to_utm({pt.lat, pt.lon}, cairn::geo::UtmZone{8, true});
+  ASSERT_TRUE(got.elevation);
+  EXPECT_NEAR(*got.elevation, f.plane_at(u.easting, u.northing), 1e-3);
+  EXPECT_EQ(got.source, PointSource::Dem);
+  EXPECT_EQ(*got.v_accuracy, 0.8);
+  EXPECT_NE(audit_trail(f.p, id).front().new_values.find("\"dem\""), std::string::npos);
+  // One with its own elevation keeps it; one off the terrain stays without.
+  ContactPoint own = pt;
+  own.meta = {};
+  own.elevation = 512;
+  EXPECT_EQ(get_point(f.p, add(f.p, own))->elevation, 512);
+  ContactPoint far = pt;
+  far.meta = {};
+  far.elevation.reset();
+  far.lat = kLat + 1;
+  EXPECT_FALSE(get_point(f.p, add(f.p, far))->elevation);
+}
