@@ -222,8 +222,16 @@ void draw_path(Canvas& c, const Rect& r, const PlanView& v, const PlanPath& p, d
 
 void draw_ground(Canvas& c, const Rect& r, const PlanData& d, const PlanView& v, const PlanOptions& o) {
   std::vector<Pt> pts;
-  for (const auto& a : d.shading)
-    if (path_on_canvas(r, v, a.ring, pts)) c.fill_polygon(pts, a.fill);
+  for (const auto& a : d.shading) {
+    if (!path_on_canvas(r, v, a.ring, pts)) continue;
+    Rgba fill = a.fill;
+    if (a.shade) {
+      const double t = 0.3 * (1 - std::clamp(*a.shade, 0.0, 1.0));  // share of ink
+      auto m = [t](int bg, int ink) { return static_cast<std::uint8_t>(std::lround(bg + (ink - bg) * t)); };
+      fill = {m(o.background.r, o.ink.r), m(o.background.g, o.ink.g), m(o.background.b, o.ink.b), 255};
+    }
+    c.fill_polygon(pts, fill);
+  }
   for (const auto& t : d.terrain_contours) draw_path(c, r, v, t, o.line_width);
   for (const auto& a : d.bands)
     if (path_on_canvas(r, v, a.ring, pts)) c.fill_polygon(pts, a.fill);

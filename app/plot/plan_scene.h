@@ -85,6 +85,9 @@ struct PlanProbe {
 struct PlanArea {
   std::vector<std::pair<double, double>> ring;
   Rgba fill;
+  // Hillshade patches: illumination 0..1 instead of `fill`, drawn between the
+  // theme's ink (30% at 0) and its background (at 1), so both themes keep their look.
+  std::optional<double> shade;
 };
 
 // A line on the map (terrain contours, predicted traces) in map metres.

@@ -36,11 +36,6 @@ std::vector<std::pair<double, double>> ring_of(const std::vector<geo::NetPoint>&
   return out;
 }
 
-Rgba mix(Rgba a, Rgba b, double t) {
-  auto m = [t](int x, int y) { return static_cast<std::uint8_t>(std::lround(x + (y - x) * t)); };
-  return {m(a.r, b.r), m(a.g, b.g), m(a.b, b.b), m(a.a, b.a)};
-}
-
 double nice_interval(double relief) {
   const double raw = std::max(1.0, relief / 12);
   const double p = std::pow(10.0, std::floor(std::log10(raw)));
@@ -65,8 +60,8 @@ std::vector<std::string> add_terrain(PlanData& d, const geo::TerrainGrid& g, con
     std::vector<unsigned char> mask(shade.size(), 0);
     for (std::size_t q = 0; q < shade.size(); ++q)
       if (!std::isnan(shade[q])) mask[q] = std::min(levels - 1, static_cast<int>(shade[q] * levels)) == k;
-    const Rgba fill = mix(o.shade_dark, o.shade_light, static_cast<double>(k) / (levels - 1));
-    for (const auto& r : geo::mask_rectangles(c, mask)) d.shading.push_back({ring_of(r), fill});
+    const double shade = static_cast<double>(k) / (levels - 1);
+    for (const auto& r : geo::mask_rectangles(c, mask)) d.shading.push_back({ring_of(r), Rgba{}, shade});
   }
 
   // Terrain contours.

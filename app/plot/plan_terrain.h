@@ -22,8 +22,6 @@ struct PlanTerrainOptions {
   int grey_levels = 7;
   double contour_interval = 0;  // metres; 0: about 12 contours over the relief
   Rgba contour = {150, 120, 80, 160};
-  Rgba shade_dark = {175, 175, 175, 255};
-  Rgba shade_light = {255, 255, 255, 255};
 };
 
 struct TracedContact {
