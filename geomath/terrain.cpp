@@ -107,13 +107,20 @@ std::vector<float> hillshade(const TerrainGrid& g, double azimuth, double altitu
   });
 }
 
-Result<SlopeAt> slope_at(const TerrainGrid& g, double e, double n) {
-  if (!g.valid_shape()) return Result<SlopeAt>::failure("the terrain grid is empty or malformed");
+namespace {
+// Horn's gradient of the cell a place lies in.
+Result<Gradient> gradient_at(const TerrainGrid& g, double e, double n) {
+  if (!g.valid_shape()) return Result<Gradient>::failure("the terrain grid is empty or malformed");
   if (!(e >= g.west && e <= g.east() && n >= g.south() && n <= g.north))
-    return Result<SlopeAt>::failure("the place lies outside the terrain");
+    return Result<Gradient>::failure("the place lies outside the terrain");
   const int i = std::min(static_cast<int>((e - g.west) / g.cell), g.nx - 1);
   const int j = std::min(static_cast<int>((g.north - n) / g.cell), g.ny - 1);
-  const auto gr = horn_gradient(g, i, j);
+  return horn_gradient(g, i, j);
+}
+}  // namespace
+
+Result<SlopeAt> slope_at(const TerrainGrid& g, double e, double n) {
+  const auto gr = gradient_at(g, e, n);
   if (!gr) return Result<SlopeAt>::failure(gr.error());
   SlopeAt out;
   out.slope = slope_of(*gr);
@@ -125,7 +132,9 @@ double plane_elevation(const Vec3& p, const Vec3& nrm, double e, double n) {
   return p.z() - (nrm.x() * (e - p.x()) + nrm.y() * (n - p.y())) / nrm.z();
 }
 
-ScalarGrid difference_grid(const TerrainGrid& g, const Vec3& point, const Vec3& normal) {
+namespace {
+// A scalar grid whose node (i, j) is the centre of cell (i, j), values not set.
+ScalarGrid on_centres(const TerrainGrid& g) {
   ScalarGrid d;
   d.nx = g.nx;
   d.ny = g.ny;
@@ -133,6 +142,12 @@ ScalarGrid difference_grid(const TerrainGrid& g, const Vec3& point, const Vec3& 
   d.y0 = g.centre_n(0);
   d.dx = g.cell;
   d.dy = -g.cell;
+  return d;
+}
+}  // namespace
+
+ScalarGrid difference_grid(const TerrainGrid& g, const Vec3& point, const Vec3& normal) {
+  ScalarGrid d = on_centres(g);
   d.values.resize(g.z.size());
   for (int j = 0; j < g.ny; ++j) {
     const double n = g.centre_n(j);
@@ -155,13 +170,7 @@ Result<std::vector<NetPolyline>> outcrop_trace(const TerrainGrid& g, const Vec3&
 std::vector<LevelLines> terrain_contours(const TerrainGrid& g, double interval) {
   std::vector<LevelLines> out;
   if (!g.valid_shape() || !(interval > 0)) return out;
-  ScalarGrid s;
-  s.nx = g.nx;
-  s.ny = g.ny;
-  s.x0 = g.centre_e(0);
-  s.y0 = g.centre_n(0);
-  s.dx = g.cell;
-  s.dy = -g.cell;
+  ScalarGrid s = on_centres(g);
   s.values.assign(g.z.begin(), g.z.end());
   double lo = INFINITY, hi = -INFINITY;
   for (float v : g.z)
@@ -291,11 +300,7 @@ std::vector<unsigned char> trace_band_cells(const TerrainGrid& g, const Vec3& po
 Result<double> trace_band_half_width(const TerrainGrid& g, const Vec3& normal, const PlaneUncertainty& u,
                                      double terrain_sigma, double e, double n) {
   if (!(normal.z() > 1e-9)) return Result<double>::failure("a vertical plane");
-  if (!(e >= g.west && e <= g.east() && n >= g.south() && n <= g.north))
-    return Result<double>::failure("the place lies outside the terrain");
-  const int i = std::min(static_cast<int>((e - g.west) / g.cell), g.nx - 1);
-  const int j = std::min(static_cast<int>((g.north - n) / g.cell), g.ny - 1);
-  const auto gr = horn_gradient(g, i, j);
+  const auto gr = gradient_at(g, e, n);
   if (!gr) return Result<double>::failure(gr.error());
   const double de = gr->dz_de + normal.x() / normal.z(), dn = gr->dz_dn + normal.y() / normal.z();
   const double slope = std::hypot(de, dn);
