@@ -14,6 +14,7 @@
 #include "geomath/notation.h"
 #include "geomath/strike_lines.h"
 #include "storage/check_input.h"
+#include "storage/repository.h"
 
 namespace cairn::cli {
 namespace {
@@ -41,7 +42,15 @@ double option_number(Args& args, const std::string& opt, double fallback, double
 struct GroundReport {
   const GroundCheck* ground = nullptr;
   std::optional<std::vector<GroundLead>> leads;  // with --at
+  // Where each contact's point elevations came from: contact id -> source -> count.
+  std::map<std::string, std::map<std::string, int>> elevation_sources;
 };
+
+std::string sources_text(const std::map<std::string, int>& by) {
+  std::string t;
+  for (const auto& [src, n] : by) t += (t.empty() ? "" : ", ") + std::to_string(n) + " " + src;
+  return t;
+}
 
 void write_ground_json(JsonWriter& j, const GroundReport& gr) {
   const GroundCheck& g = *gr.ground;
@@ -90,6 +99,10 @@ void write_json(std::ostream& out, const store::CheckData& data, const geo::Chec
       for (const char* k : {"strike", "dip", "dip_direction", "cone95", "rms", "M", "K"}) j.key(k).null();
     }
     j.key("verdict").value(f.verdict);
+    j.key("elevation_sources").begin_object();
+    if (auto it = gr.elevation_sources.find(f.contact_id); it != gr.elevation_sources.end())
+      for (const auto& [src, n] : it->second) j.key(src).value(static_cast<long>(n));
+    j.end_object();
     j.end_object();
   }
   j.end_array();
@@ -150,6 +163,12 @@ void write_text(std::ostream& out, const store::CheckData& data, const geo::Chec
     } else {
       out << std::left << std::setw(39) << "-" << f.verdict << "\n";
     }
+  }
+  if (gr.ground->has_terrain) {
+    out << "  elevations of the points (gps: receiver, map, dem: the terrain, none):\n";
+    for (const auto& f : rep.fits)
+      if (auto it = gr.elevation_sources.find(f.contact_id); it != gr.elevation_sources.end())
+        out << "    " << f.contact << ": " << sources_text(it->second) << "\n";
   }
   size_t shown = 0;
   std::map<std::string, int> by_severity;
@@ -270,6 +289,8 @@ int run_check(const Args& in, std::ostream& out, std::ostream& err) {
   const geo::CheckReport rep = geo::run_crosscheck(data.input, o);
   GroundReport gr;
   gr.ground = &ground;
+  for (const auto& pt : store::list_points(p))
+    ++gr.elevation_sources[pt.contact][pt.elevation ? std::string(store::to_string(pt.source)) : std::string("none")];
   if (at) {
     double lat = 0, lon = 0;
     char tail = 0;

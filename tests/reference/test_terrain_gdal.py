@@ -195,6 +195,15 @@ with tempfile.TemporaryDirectory() as tmp:
         digests |= {ln.split("digest ")[1] for ln in out.splitlines() if "digest " in ln}
     t.check(len(digests) == 1, "every demo file holds the same terrain (merge found them identical)")
 
+    # ---- cairn check says where each contact's elevations came from ----
+    import json
+    rep = json.loads(run("check", os.path.join(d, "camp.cairn"), "--json").stdout)
+    listed = run("list", os.path.join(d, "camp.cairn"), "points").stdout.splitlines()
+    dem_listed = sum(1 for ln in listed[1:] if ",dem," in ln)
+    dem_fits = sum(f["elevation_sources"].get("dem", 0) for f in rep["fits"])
+    t.check(dem_listed >= 1 and dem_fits == dem_listed,
+            "the fits count the points whose elevation came from the terrain (%d, listed %d)" % (dem_fits, dem_listed))
+
     # ---- export: predicted_traces and trace_bands, read by GDAL/OGR and PROJ ----
     # GeoPackage 1.3 (OGC 12-128r18) through GDAL's validate_gpkg.py and ogrinfo;
     # RFC 7946 MultiLineString / MultiPolygon in longitude/latitude, checked
