@@ -163,8 +163,6 @@ std::optional<TerrainInfo> terrain_info(Project& p) {
   t.updated = s.text(13);
   t.device = s.text(14);
   t.stored_bytes = s.int64(15);
-  if (auto g = load_terrain(p))
-    for (float v : g->z) t.missing += std::isnan(v) ? 1 : 0;
   return t;
 }
 

@@ -28,7 +28,6 @@ struct TerrainInfo {
   std::optional<double> vertical_accuracy;  // 1-sigma, metres, as stated by the user
   std::string digest;      // SHA-256 of the grid (shape and elevations): identical terrains have equal digests
   long long stored_bytes = 0;  // compressed size of the tiles
-  long long missing = 0;       // cells without an elevation
   std::string created, updated, device;
 };
 

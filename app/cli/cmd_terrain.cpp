@@ -25,13 +25,13 @@ namespace {
 // traces and the Plan beyond the last point (common practice, no published source).
 constexpr double kTerrainMargin = 1000;
 
-void print_info(const store::TerrainInfo& t, std::ostream& out) {
+void print_info(const store::TerrainInfo& t, long long missing, std::ostream& out) {
   out << std::fixed << std::setprecision(2);
   out << "terrain " << t.name << "\n";
   out << "  CRS EPSG:" << t.epsg << ", cell " << t.cell << " m, " << t.nx << " x " << t.ny << " cells\n";
   out << "  extent E " << t.west << " .. " << (t.west + t.nx * t.cell) << ", N " << (t.north - t.ny * t.cell)
       << " .. " << t.north << "\n";
-  out << "  nodata " << t.nodata << " (" << t.missing << " cells without elevation)\n";
+  out << "  nodata " << t.nodata << " (" << missing << " cells without elevation)\n";
   out << "  vertical accuracy ";
   if (t.vertical_accuracy)
     out << *t.vertical_accuracy << " m (1-sigma)\n";
@@ -74,7 +74,10 @@ int run(const Args& in, std::ostream& out, std::ostream& err) {
       out << "no terrain in " << file << "\n";
       return 0;
     }
-    print_info(*info, out);
+    long long missing = 0;
+    if (const auto g = store::load_terrain(project))
+      for (float v : g->z) missing += std::isnan(v) ? 1 : 0;
+    print_info(*info, missing, out);
     return 0;
   }
   auto project = open_project(file, false, err);

@@ -174,7 +174,6 @@ TEST(Terrain, StoredTilesComeBackExactly) {
   }
   const auto info = terrain_info(f.p);
   ASSERT_TRUE(info);
-  EXPECT_EQ(info->missing, 1);
   EXPECT_EQ(info->digest, terrain_digest(g, 32608));
   EXPECT_EQ(*info->vertical_accuracy, 1.5);
   EXPECT_EQ(f.p.db().query_int("SELECT count(*) FROM terrain_tiles"), 4);
