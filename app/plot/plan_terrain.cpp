@@ -81,10 +81,12 @@ std::vector<std::string> add_terrain(PlanData& d, const geo::TerrainGrid& g, con
   std::snprintf(buf, sizeof buf, "terrain contours every %g m, hillshade from the north-west", interval);
   notes.push_back(buf);
 
-  // Traces and bands on the full grid.
+  // Traces and bands, on a grid no finer than trace_cells across.
+  const int tf = std::max(1, static_cast<int>(std::ceil(std::max(g.nx, g.ny) / static_cast<double>(o.trace_cells))));
+  const geo::TerrainGrid tg = tf == factor ? c : coarsen(g, tf);
   for (const auto& tc : contacts) {
     if (!tc.fit) continue;
-    const auto pred = geo::predict_contact(g, *tc.fit, terrain_sigma);
+    const auto pred = geo::predict_contact(tg, *tc.fit, terrain_sigma);
     if (!pred) continue;
     for (const auto& l : pred->trace) {
       PlanPath p;

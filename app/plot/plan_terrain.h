@@ -6,7 +6,9 @@
 // Hillshade is drawn as patches of a few grey levels (Horn 1981 gradient,
 // light from the north-west at 45 degrees, as gdaldem's default), on a grid
 // coarsened to at most `max_cells` across so that a large terrain stays light
-// to draw; terrain contours come from the same grid.
+// to draw; terrain contours come from the same grid. Traces and bands are drawn
+// from a grid of at most `trace_cells` across (a 4000 x 4000 terrain would take
+// seconds per contact at full size; the Plan is a picture at screen resolution).
 #pragma once
 #include <string>
 #include <vector>
@@ -19,6 +21,8 @@ namespace cairn::plot {
 
 struct PlanTerrainOptions {
   int max_cells = 160;          // shading / contour grid, cells across at most
+  int trace_cells = 600;        // traces and bands on the Plan: cells across at most (exports and
+                                // `cairn check` use the full grid)
   int grey_levels = 7;
   double contour_interval = 0;  // metres; 0: about 12 contours over the relief
   Rgba contour = {150, 120, 80, 160};
