@@ -94,7 +94,8 @@ struct PlanArea {
 struct PlanPath {
   std::vector<std::pair<double, double>> pts;
   Rgba colour;
-  double width = 1;  // times PlanOptions::line_width
+  double width = 1;   // times PlanOptions::line_width
+  std::string label;  // predicted traces: the contact's name
 };
 
 struct PlanData {

@@ -93,6 +93,7 @@ std::vector<std::string> add_terrain(PlanData& d, const geo::TerrainGrid& g, con
       for (const auto& q : l.pts) p.pts.emplace_back(q[0], q[1]);
       p.colour = tc.colour;
       p.width = 1.6;
+      p.label = tc.name;
       d.traces.push_back(std::move(p));
     }
     Rgba band = tc.colour;

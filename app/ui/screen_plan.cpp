@@ -6,6 +6,7 @@
 #include <cstdio>
 #include <cmath>
 #include <map>
+#include <tuple>
 
 #include "app/plot/plan_scene.h"
 #include "app/plot/plan_terrain.h"
@@ -214,6 +215,24 @@ void draw_plan_screen(App& a) {
       std::string l = f.contact + ": " + fmt("%.0f m", est->elevation);
       if (est->half_width95) l += " \xC2\xB1" + fmt("%.0f", *est->half_width95);
       pr.lines.push_back(l);
+    }
+    // Where next on the ground: the nearest stretch of each predicted trace.
+    std::map<std::string, std::tuple<double, double, double>> nearest;  // contact -> distance, e, n
+    for (const auto& t : ps.data.traces) {
+      for (size_t k = 0; k + 1 < t.pts.size(); ++k) {
+        const double ax = t.pts[k].first, ay = t.pts[k].second;
+        const double dx = t.pts[k + 1].first - ax, dy = t.pts[k + 1].second - ay, l2 = dx * dx + dy * dy;
+        const double u = l2 > 0 ? std::clamp(((pr.e - ax) * dx + (pr.n - ay) * dy) / l2, 0.0, 1.0) : 0.0;
+        const double qx = ax + u * dx, qy = ay + u * dy, d = std::hypot(qx - pr.e, qy - pr.n);
+        auto it = nearest.find(t.label);
+        if (it == nearest.end() || d < std::get<0>(it->second)) nearest[t.label] = {d, qx, qy};
+      }
+    }
+    for (const auto& [name, v] : nearest) {
+      const auto [d, qx, qy] = v;
+      const double bearing = std::fmod(std::atan2(qx - pr.e, qy - pr.n) * 180 / 3.14159265358979323846 +
+                                           ps.convergence + 720.0, 360.0);
+      pr.lines.push_back(name + " trace: " + fmt("%.0f m", d) + " at " + fmt("%03.0f", bearing));
     }
     if (pr.lines.empty()) pr.lines.push_back("no fitted contact");
     ps.data.probe = pr;
