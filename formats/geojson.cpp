@@ -1,5 +1,5 @@
 // GeoJSON as RFC 7946 defines it: one FeatureCollection (section 3.3) of Point
-// features (3.1.2) in WGS84 longitude, latitude (section 4; no "crs" member),
+// (3.1.2), MultiLineString and MultiPolygon features in WGS84 longitude, latitude (section 4; no "crs" member),
 // each feature's layer in its "layer" property (RFC 7946 has no layers).
 #include "formats/geojson.h"
 
@@ -43,7 +43,19 @@ void write_geojson(std::ostream& out, const LayerSet& set) {
         put_value(j, f.values[static_cast<size_t>(uuid_field)]);
       }
       j.key("geometry");
-      if (f.where) {
+      if (!f.lonlat_parts.empty()) {
+        // RFC 7946 3.1.5 MultiLineString, 3.1.7 MultiPolygon (rings closed, exterior counter-clockwise, 3.1.6).
+        const bool poly = l.geometry == "MULTIPOLYGON";
+        j.begin_object().key("type").value(poly ? "MultiPolygon" : "MultiLineString").key("coordinates").begin_array();
+        for (const auto& part : f.lonlat_parts) {
+          j.begin_array();
+          if (poly) j.begin_array();
+          for (const auto& q : part) j.begin_array().value(coordinate(q[0])).value(coordinate(q[1])).end_array();
+          if (poly) j.end_array();
+          j.end_array();
+        }
+        j.end_array().end_object();
+      } else if (f.where) {
         // section 3.1.1: longitude first
         j.begin_object().key("type").value("Point").key("coordinates").begin_array();
         j.value(coordinate(f.where->lon)).value(coordinate(f.where->lat)).end_array().end_object();

@@ -3,6 +3,7 @@
 // app/core/export_layers.h, written by the GeoPackage writer (storage/gpkg.h)
 // and the GeoJSON writer (formats/geojson.h).
 #pragma once
+#include <array>
 #include <cstdint>
 #include <optional>
 #include <string>
@@ -23,9 +24,16 @@ struct FieldDef {
 // Empty (null), text, number, whole number or yes/no.
 using FieldValue = std::variant<std::monostate, std::string, double, int64_t, bool>;
 
+// Parts of a line or polygon geometry: a MultiLineString's lines, or a
+// MultiPolygon's polygons (each one closed exterior ring, no holes).
+using Parts = std::vector<std::vector<std::array<double, 2>>>;
+
 struct Feature {
   std::optional<geo::LatLon> where;   // WGS84; nothing: no geometry
   std::optional<geo::UtmPoint> grid;  // the same place in the export's UTM zone
+  // Layers of lines or polygons: the parts in UTM metres (E, N) and the same in
+  // WGS84 (longitude, latitude); `where`/`grid` stay empty then.
+  Parts grid_parts, lonlat_parts;
   std::vector<FieldValue> values;     // one per field of the layer
 };
 
@@ -35,6 +43,8 @@ struct Layer {
   std::string description;
   std::vector<FieldDef> fields;
   std::vector<Feature> features;
+  // GeoPackage geometry type name (clause 2.1.6): POINT, MULTILINESTRING or MULTIPOLYGON.
+  std::string geometry = "POINT";
 };
 
 // What `symbol_rotation` is measured from: the UTM grid's north or true north.

@@ -36,6 +36,8 @@ std::vector<NetPolyline> contour_lines(const ScalarGrid& g, double level) {
     for (int i = 0; i + 1 < g.nx; ++i) {
       const double v00 = g.at(i, j), v10 = g.at(i + 1, j), v11 = g.at(i + 1, j + 1),
                    v01 = g.at(i, j + 1);
+      // A cell with a missing corner (NaN, e.g. a terrain's nodata) has no contour.
+      if (std::isnan(v00) || std::isnan(v10) || std::isnan(v11) || std::isnan(v01)) continue;
       const bool a00 = v00 >= level, a10 = v10 >= level, a11 = v11 >= level, a01 = v01 >= level;
       // The four edges of the cell and whether the contour crosses each.
       struct Edge {

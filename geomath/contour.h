@@ -24,6 +24,7 @@ struct ScalarGrid {
 // A node counts as inside the contour when its value is >= level. Curves that close
 // within the grid are returned closed (first point == last point); others end on the
 // grid's border. Empty for a grid smaller than 2 x 2 or with a wrong value count.
+// Cells with a NaN corner (missing data) are skipped: curves end at them.
 std::vector<NetPolyline> contour_lines(const ScalarGrid& grid, double level);
 
 // The parts of the polylines inside the disk of the given radius about the origin

@@ -10,7 +10,7 @@ cairn=${1:-$here/build/app/cairn}
 tmp=$(mktemp -d)
 trap 'rm -rf "$tmp"' EXIT
 "$cairn" demo "$tmp/demo" >/dev/null
-for f in "$tmp"/demo/*.cairn "$tmp"/demo/*.csv "$tmp"/demo/*.gpx; do
+for f in "$tmp"/demo/*.cairn "$tmp"/demo/*.csv "$tmp"/demo/*.gpx "$tmp"/demo/*.tif; do
   cp "$f" "$here/demo_project/"
 done
 echo "demo_project/ rebuilt from $cairn"

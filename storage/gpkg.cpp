@@ -105,6 +105,39 @@ std::string gpkg_point(int32_t srs_id, double x, double y) {
   return b;
 }
 
+// Lines or polygons as GeoPackage binary, the header as for a point with the
+// parts' envelope, then ISO WKB (OGC 06-103r4 clause 8): MultiLineString (type 5)
+// of LineStrings (2), or MultiPolygon (6) of Polygons (3) with one ring each.
+std::string gpkg_multi(int32_t srs_id, bool polygons, const Parts& parts, double env[4]) {
+  std::string b;
+  b += "GP";
+  put_u8(b, 0);
+  put_u8(b, (1u << 1) | 1u);
+  put_le32(b, static_cast<uint32_t>(srs_id));
+  env[0] = env[2] = std::numeric_limits<double>::infinity();
+  env[1] = env[3] = -env[0];
+  for (const auto& part : parts)
+    for (const auto& q : part) {
+      env[0] = std::min(env[0], q[0]), env[1] = std::max(env[1], q[0]);
+      env[2] = std::min(env[2], q[1]), env[3] = std::max(env[3], q[1]);
+    }
+  for (int k = 0; k < 4; ++k) put_le_double(b, env[k]);
+  put_u8(b, 1);
+  put_le32(b, polygons ? 6 : 5);
+  put_le32(b, static_cast<uint32_t>(parts.size()));
+  for (const auto& part : parts) {
+    put_u8(b, 1);
+    put_le32(b, polygons ? 3 : 2);
+    if (polygons) put_le32(b, 1);  // one ring
+    put_le32(b, static_cast<uint32_t>(part.size()));
+    for (const auto& q : part) {
+      put_le_double(b, q[0]);
+      put_le_double(b, q[1]);
+    }
+  }
+  return b;
+}
+
 // A prepared statement of the raw SQLite API, for binding BLOBs (the storage
 // Stmt binds text and numbers only).
 class RawStmt {
@@ -189,7 +222,8 @@ void write_geopackage(const std::string& path, const LayerSet& set, int epsg) {
   for (const Layer& l : set.layers) {
     // Requirement 29: an INTEGER PRIMARY KEY AUTOINCREMENT column; clause 2.1.6:
     // the geometry column declared with its geometry type name.
-    std::string ddl = "CREATE TABLE " + quoted(l.name) + " (fid INTEGER PRIMARY KEY AUTOINCREMENT NOT NULL, geom POINT";
+    std::string ddl = "CREATE TABLE " + quoted(l.name) + " (fid INTEGER PRIMARY KEY AUTOINCREMENT NOT NULL, geom " +
+                      l.geometry;
     std::string cols = "geom", marks = "?";
     for (const auto& f : l.fields) {
       ddl += ", " + quoted(f.name) + " " + sql_type(f.type);
@@ -200,7 +234,14 @@ void write_geopackage(const std::string& path, const LayerSet& set, int epsg) {
     RawStmt ins(db, "INSERT INTO " + quoted(l.name) + "(" + cols + ") VALUES (" + marks + ")");
     double min_x = std::numeric_limits<double>::infinity(), min_y = min_x, max_x = -min_x, max_y = -min_x;
     for (const Feature& f : l.features) {
-      if (f.grid) {
+      if (!f.grid_parts.empty()) {
+        double env[4];
+        ins.bind_blob(1, gpkg_multi(epsg, l.geometry == "MULTIPOLYGON", f.grid_parts, env));
+        min_x = std::min(min_x, env[0]);
+        max_x = std::max(max_x, env[1]);
+        min_y = std::min(min_y, env[2]);
+        max_y = std::max(max_y, env[3]);
+      } else if (f.grid) {
         ins.bind_blob(1, gpkg_point(epsg, f.grid->easting, f.grid->northing));
         min_x = std::min(min_x, f.grid->easting);
         max_x = std::max(max_x, f.grid->easting);
@@ -220,8 +261,8 @@ void write_geopackage(const std::string& path, const LayerSet& set, int epsg) {
     c.bind(9, epsg);
     c.run();
     Stmt g(db, "INSERT INTO gpkg_geometry_columns(table_name, column_name, geometry_type_name, srs_id, z, m) "
-               "VALUES (?, 'geom', 'POINT', ?, 0, 0)");
-    g.bind(1, l.name).bind(2, epsg);
+               "VALUES (?, 'geom', ?, ?, 0, 0)");
+    g.bind(1, l.name).bind(2, l.geometry).bind(3, epsg);
     g.run();
   }
   db.exec("COMMIT");

@@ -12,6 +12,7 @@
 #include "storage/repository.h"
 #include "formats/sha256.h"
 #include "formats/validate.h"
+#include "storage/terrain.h"
 
 namespace cairn::store {
 
@@ -619,11 +620,16 @@ void point_row(Context& cx, Row& row) {
 }
 
 // Runs `body` in one transaction; rolls back and zeroes the counts when errors were found.
+// Stations and points that came without an elevation take the terrain's (storage/terrain.h).
 void all_or_nothing(Project& p, ImportReport& rep, const std::function<void()>& body) {
   try {
     p.write([&] {
       body();
       if (!rep.errors.empty()) throw Abort{};
+      if (rep.added > 0) {
+        const TerrainStored filled = fill_elevations(p);
+        rep.from_terrain = filled.filled_points + filled.filled_stations;
+      }
     });
   } catch (const Abort&) {
     rep.added = 0;

@@ -14,6 +14,7 @@
 #include "formats/sha256.h"
 #include "storage/sqlite.h"
 #include "formats/validate.h"
+#include "storage/terrain.h"
 
 namespace fs = std::filesystem;
 
@@ -426,6 +427,7 @@ public:
       rep_.warnings.push_back(path + ": " + std::to_string(photos_added) +
                               " photo record(s) added; the image files are not copied: copy them beside this file");
     merge_side_tables(src, path, sm);
+    merge_terrain_of(src, path, sm);
     const bool changed = writes_ > writes_before;
     if (changed) {
       rep_.changed = true;
@@ -466,7 +468,8 @@ private:
   void merge_side_tables(Source& src, const std::string& path, SourceMerge& sm) {
     static const std::set<std::string> known = {"project", "devices", "audit", "merges", "conflicts",
                                                 "conflict_values", "key_clashes", "people", "units", "contacts",
-                                                "stations", "planes", "lines", "points", "photos"};
+                                                "stations", "planes", "lines", "points", "photos",
+                                                "terrain", "terrain_tiles"};
     std::vector<std::pair<std::string, std::string>> side;
     {
       Stmt s(src.db(), "SELECT name, sql FROM sqlite_master WHERE type = 'table' AND name NOT LIKE 'sqlite_%' "
@@ -519,6 +522,16 @@ private:
         }
       }
     }
+  }
+
+  // The terrain (storage/terrain.h): added when this file has none, skipped when
+  // identical, and a different one is reported as a conflict, never replaced.
+  void merge_terrain_of(Source& src, const std::string& path, SourceMerge& sm) {
+    const TerrainMerge m = merge_terrain(p_, src.db());
+    if (m.outcome == TerrainMerge::Added) ++sm.counts.added, wrote();
+    if (m.outcome == TerrainMerge::Skipped) ++sm.counts.skipped;
+    if (m.outcome == TerrainMerge::Conflict) ++sm.counts.conflicts;
+    if (!m.message.empty()) rep_.warnings.push_back(path + ": " + m.message);
   }
 
   // ---- one record --------------------------------------------------------------

@@ -15,8 +15,10 @@ constexpr Names<ContactType, 4> kContactType{{{ContactType::Depositional, "depos
                                               {ContactType::Unconformity, "unconformity"},
                                               {ContactType::Fault, "fault"},
                                               {ContactType::Intrusive, "intrusive"}}};
-constexpr Names<PositionSource, 3> kPositionSource{
-    {{PositionSource::Gps, "gps"}, {PositionSource::Map, "map"}, {PositionSource::Manual, "manual"}}};
+constexpr Names<PositionSource, 4> kPositionSource{{{PositionSource::Gps, "gps"},
+                                                    {PositionSource::Map, "map"},
+                                                    {PositionSource::Manual, "manual"},
+                                                    {PositionSource::Dem, "dem"}}};
 constexpr Names<PointSource, 3> kPointSource{
     {{PointSource::Gps, "gps"}, {PointSource::Map, "map"}, {PointSource::Dem, "dem"}}};
 constexpr Names<PlaneKind, 8> kPlaneKind{{{PlaneKind::Bedding, "bedding"},

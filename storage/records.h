@@ -26,7 +26,8 @@ struct RecordMeta {
 
 enum class North { True, Magnetic };
 enum class ContactType { Depositional, Unconformity, Fault, Intrusive };
-enum class PositionSource { Gps, Map, Manual };
+// Dem: the elevation came from the project's terrain (storage/terrain.h).
+enum class PositionSource { Gps, Map, Manual, Dem };
 enum class PointSource { Gps, Map, Dem };
 enum class PlaneKind { Bedding, Foliation, Cleavage, Joint, Fault, Vein, Contact, Slope };
 enum class LineKind { Lineation, FoldAxis, Slickenline, Intersection };

@@ -10,6 +10,7 @@
 #include "geomath/orientation.h"
 #include "formats/ids.h"
 #include "formats/validate.h"
+#include "storage/terrain.h"
 
 namespace cairn::store {
 
@@ -717,10 +718,17 @@ std::optional<Kind> kind_of_table(const std::string& t) {
 std::string add(Project& p, Person& r) { return add_impl(p, r); }
 std::string add(Project& p, Unit& r) { return add_impl(p, r); }
 std::string add(Project& p, Contact& r) { return add_impl(p, r); }
-std::string add(Project& p, Station& r) { return add_impl(p, r); }
+// A station or point recorded without an elevation takes the terrain's (storage/terrain.h).
+std::string add(Project& p, Station& r) {
+  elevation_from_terrain(p, r);
+  return add_impl(p, r);
+}
 std::string add(Project& p, PlanarReading& r) { return add_impl(p, r); }
 std::string add(Project& p, LinearReading& r) { return add_impl(p, r); }
-std::string add(Project& p, ContactPoint& r) { return add_impl(p, r); }
+std::string add(Project& p, ContactPoint& r) {
+  elevation_from_terrain(p, r);
+  return add_impl(p, r);
+}
 std::string add(Project& p, Photo& r) { return add_impl(p, r); }
 
 bool update(Project& p, Person& r) { return update_impl(p, r); }

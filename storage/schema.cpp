@@ -284,6 +284,56 @@ ALTER TABLE project ADD COLUMN toppling_window REAL NOT NULL DEFAULT 30
 ALTER TABLE planes ADD COLUMN repeat_of TEXT REFERENCES planes(uuid);
 )SQL";
 
+// Version 6, the terrain step: the project's terrain (storage/terrain.h).
+//  - terrain: one live row (a partial unique index on a constant), its grid in
+//    the CRS `epsg` (the project's UTM zone): cell size, west/north edges, size,
+//    the value that marks a missing cell in the tiles, the stated vertical
+//    accuracy and a digest, so a merge tells identical terrains from different ones.
+//  - terrain_tiles: the grid in kTerrainTile-square tiles, each a zlib stream
+//    (RFC 1950) of little-endian float32 elevations, row by row from the north.
+//  - the step is idempotent (IF NOT EXISTS; the replace finds nothing the second
+//    time), so a file that already has the tables is brought up safely.
+//  - stations may take source 'dem' (an elevation from the terrain). SQLite
+//    cannot change a CHECK constraint with ALTER TABLE; widening one is done by
+//    rewriting the table's text in sqlite_schema, the procedure the SQLite
+//    documentation gives for constraint changes that leave the stored rows valid
+//    ("ALTER TABLE", section 7, and "PRAGMA writable_schema").
+const char* const kMigrateTerrain = R"SQL(
+CREATE TABLE IF NOT EXISTS terrain (
+  uuid               TEXT PRIMARY KEY,
+  name               TEXT NOT NULL,
+  epsg               INTEGER NOT NULL CHECK ((epsg BETWEEN 32601 AND 32660) OR (epsg BETWEEN 32701 AND 32760)),
+  cell               REAL NOT NULL CHECK (cell > 0),
+  west               REAL NOT NULL,
+  north              REAL NOT NULL,
+  nx                 INTEGER NOT NULL CHECK (nx > 0),
+  ny                 INTEGER NOT NULL CHECK (ny > 0),
+  nodata             REAL NOT NULL,
+  vertical_accuracy  REAL CHECK (vertical_accuracy >= 0),
+  tile_size          INTEGER NOT NULL CHECK (tile_size > 0),
+  digest             TEXT NOT NULL,
+  created            TEXT NOT NULL,
+  updated            TEXT NOT NULL,
+  device             TEXT NOT NULL,
+  deleted            TEXT
+);
+CREATE UNIQUE INDEX IF NOT EXISTS terrain_one_live ON terrain((1)) WHERE deleted IS NULL;
+
+CREATE TABLE IF NOT EXISTS terrain_tiles (
+  terrain  TEXT NOT NULL REFERENCES terrain(uuid),
+  row      INTEGER NOT NULL CHECK (row >= 0),
+  col      INTEGER NOT NULL CHECK (col >= 0),
+  data     BLOB NOT NULL,
+  PRIMARY KEY (terrain, row, col)
+);
+
+PRAGMA writable_schema = ON;
+UPDATE sqlite_schema
+   SET sql = replace(sql, 'source IN (''gps'',''map'',''manual'')', 'source IN (''gps'',''map'',''manual'',''dem'')')
+ WHERE type = 'table' AND name = 'stations';
+PRAGMA writable_schema = RESET;
+)SQL";
+
 const char* const kRecordTables[] = {"devices", "people", "units",  "contacts", "stations",
                                      "planes",  "lines",  "points", "photos",   nullptr};
 
@@ -302,7 +352,7 @@ void migrate(Db& db, int from) {
   if (from < 1 || from > kSchemaVersion)
     throw std::logic_error("no migration from schema version " + std::to_string(from));
   static const char* const steps[] = {nullptr, kMigrate1to2, kMigrate2to3, kMigrate3to4,
-                                      kMigrateTrust};  // steps[v]: v -> v+1
+                                      kMigrateTrust, kMigrateTerrain};  // steps[v]: v -> v+1
   for (int v = from; v < kSchemaVersion; ++v) {
     db.exec(steps[v]);
     db.exec("PRAGMA user_version = " + std::to_string(v + 1));

@@ -98,6 +98,10 @@ Stmt& Stmt::bind(int i, std::string_view v) {
   CAIRN_BIND(sqlite3_bind_text(st_, i, v.data(), static_cast<int>(v.size()), SQLITE_TRANSIENT));
   return *this;
 }
+Stmt& Stmt::bind_blob(int i, const void* data, int size) {
+  CAIRN_BIND(sqlite3_bind_blob(st_, i, data, size, SQLITE_TRANSIENT));
+  return *this;
+}
 Stmt& Stmt::bind(int i, const std::optional<double>& v) { return v ? bind(i, *v) : bind(i, nullptr); }
 Stmt& Stmt::bind(int i, const std::optional<int>& v) { return v ? bind(i, *v) : bind(i, nullptr); }
 Stmt& Stmt::bind(int i, const std::optional<std::string>& v) {
@@ -128,6 +132,11 @@ void Stmt::reset() {
 bool Stmt::is_null(int c) const { return sqlite3_column_type(st_, c) == SQLITE_NULL; }
 int64_t Stmt::int64(int c) const { return sqlite3_column_int64(st_, c); }
 double Stmt::real(int c) const { return sqlite3_column_double(st_, c); }
+std::string Stmt::blob(int c) const {
+  const void* p = sqlite3_column_blob(st_, c);
+  if (!p) return {};
+  return std::string(static_cast<const char*>(p), static_cast<size_t>(sqlite3_column_bytes(st_, c)));
+}
 std::string Stmt::text(int c) const {
   const unsigned char* p = sqlite3_column_text(st_, c);
   if (!p) return {};

@@ -75,6 +75,8 @@ public:
   Stmt& bind(int i, const std::optional<double>& v);
   Stmt& bind(int i, const std::optional<int>& v);
   Stmt& bind(int i, const std::optional<std::string>& v);
+  // Binds bytes as a BLOB (copied).
+  Stmt& bind_blob(int i, const void* data, int size);
   // Binds a text that is NULL when empty.
   Stmt& bind_text_or_null(int i, const std::string& v);
 
@@ -89,6 +91,7 @@ public:
   int integer(int col) const { return static_cast<int>(int64(col)); }
   double real(int col) const;
   std::string text(int col) const;  // "" for NULL
+  std::string blob(int col) const;  // the bytes of a BLOB ("" for NULL)
   std::optional<double> opt_real(int col) const;
   std::optional<int> opt_int(int col) const;
   std::optional<std::string> opt_text(int col) const;

@@ -5,14 +5,17 @@
 #include <map>
 #include <sstream>
 
+#include "app/cli/check_terrain.h"
 #include "app/cli/command.h"
 #include "formats/json.h"
 #include "app/cli/magnetic_source.h"
 #include "geomath/crosscheck.h"
+#include "geomath/geodesy.h"
 #include "geomath/notation.h"
 #include "geomath/strike_lines.h"
 #include "app/core/check_input.h"
 #include "geomath/decimal.h"
+#include "storage/repository.h"
 
 namespace cairn::cli {
 
@@ -24,7 +27,49 @@ std::string num(std::optional<double> v, const char* f = "%.1f") {
   return geo::format_decimal(f, *v);
 }
 
-void write_json(std::ostream& out, const core::CheckData& data, const geo::CheckReport& rep, geo::Severity min) {
+// The terrain's part of the report: where the ground gives no all-clear, and
+// where next on the ground from a position (app/cli/check_terrain.h).
+struct GroundReport {
+  const GroundCheck* ground = nullptr;
+  std::optional<std::vector<GroundLead>> leads;  // with --at
+  // Where each contact's point elevations came from: contact id -> source -> count.
+  std::map<std::string, std::map<std::string, int>> elevation_sources;
+};
+
+std::string sources_text(const std::map<std::string, int>& by) {
+  std::string t;
+  for (const auto& [src, n] : by) t += (t.empty() ? "" : ", ") + std::to_string(n) + " " + src;
+  return t;
+}
+
+void write_ground_json(JsonWriter& j, const GroundReport& gr) {
+  const GroundCheck& g = *gr.ground;
+  j.key("terrain").begin_object();
+  j.key("present").value(g.has_terrain);
+  j.key("cell").value(g.has_terrain ? std::optional<double>(g.cell) : std::nullopt);
+  j.key("too_coarse_to_clear").value(g.too_coarse());
+  j.key("not_cleared").begin_array();
+  for (const auto& c : g.not_cleared) j.value(c);
+  j.end_array();
+  j.end_object();
+  if (!gr.leads) return;
+  j.key("where_next_on_ground").begin_array();
+  for (const auto& l : *gr.leads) {
+    j.begin_object();
+    j.key("contact").value(l.contact);
+    j.key("distance").value(l.distance);
+    j.key("bearing").value(l.bearing);
+    j.key("easting").value(l.e);
+    j.key("northing").value(l.n);
+    j.key("elevation").value(l.elevation);
+    j.key("band_half_width95").value(l.half_width);
+    j.end_object();
+  }
+  j.end_array();
+}
+
+void write_json(std::ostream& out, const core::CheckData& data, const geo::CheckReport& rep, geo::Severity min,
+                const GroundReport& gr) {
   JsonWriter j(out);
   j.begin_object();
   j.key("fits").begin_array();
@@ -44,6 +89,10 @@ void write_json(std::ostream& out, const core::CheckData& data, const geo::Check
       for (const char* k : {"strike", "dip", "dip_direction", "cone95", "rms", "M", "K"}) j.key(k).null();
     }
     j.key("verdict").value(f.verdict);
+    j.key("elevation_sources").begin_object();
+    if (auto it = gr.elevation_sources.find(f.contact_id); it != gr.elevation_sources.end())
+      for (const auto& [src, n] : it->second) j.key(src).value(static_cast<long>(n));
+    j.end_object();
     j.end_object();
   }
   j.end_array();
@@ -76,6 +125,7 @@ void write_json(std::ostream& out, const core::CheckData& data, const geo::Check
       else
         j.key("rotation_interval").null();
     }
+    if (const std::string src = slope_source(*gr.ground, f); !src.empty()) j.key("slope_source").value(src);
     j.end_object();
   }
   j.end_array();
@@ -96,11 +146,13 @@ void write_json(std::ostream& out, const core::CheckData& data, const geo::Check
     }
   }
   j.end_array();
+  write_ground_json(j, gr);
   j.end_object();
   out << "\n";
 }
 
-void write_text(std::ostream& out, const core::CheckData& data, const geo::CheckReport& rep, geo::Severity min) {
+void write_text(std::ostream& out, const core::CheckData& data, const geo::CheckReport& rep, geo::Severity min,
+                const GroundReport& gr) {
   out << "Contact fits (strike by the right-hand rule, true north; cone at 95%)\n";
   out << "  " << std::left << std::setw(24) << "contact" << std::right << std::setw(6) << "points" << "  "
       << std::left << std::setw(11) << "strike/dip" << std::setw(13) << "quadrant" << std::right << std::setw(7)
@@ -114,6 +166,12 @@ void write_text(std::ostream& out, const core::CheckData& data, const geo::Check
     } else {
       out << std::left << std::setw(39) << "-" << f.verdict << "\n";
     }
+  }
+  if (gr.ground->has_terrain) {
+    out << "  elevations of the points (gps: receiver, map, dem: the terrain, none):\n";
+    for (const auto& f : rep.fits)
+      if (auto it = gr.elevation_sources.find(f.contact_id); it != gr.elevation_sources.end())
+        out << "    " << f.contact << ": " << sources_text(it->second) << "\n";
   }
   size_t shown = 0;
   std::map<std::string, int> by_severity;
@@ -129,7 +187,10 @@ void write_text(std::ostream& out, const core::CheckData& data, const geo::Check
     }
     std::string head = std::string(geo::severity_name(f.severity)) + " " + f.rule;
     for (auto& c : head) c = static_cast<char>(std::toupper(static_cast<unsigned char>(c)));
-    out << "    [" << head << "]" << (f.ref.empty() ? "" : " " + f.ref) << "  " << f.message << "\n";
+    out << "    [" << head << "]" << (f.ref.empty() ? "" : " " + f.ref) << "  " << f.message;
+    if (slope_source(*gr.ground, f) == "dem")
+      out << " (slope face from the terrain, " << num(gr.ground->cell, "%.0f") << " m cells)";
+    out << "\n";
     if (!f.readings.empty()) {
       out << "      readings:";
       for (size_t i = 0; i < f.readings.size(); ++i)
@@ -171,6 +232,20 @@ void write_text(std::ostream& out, const core::CheckData& data, const geo::Check
       for (const auto& l : ls) out << l << "\n";
     }
   }
+  if (gr.ground->too_coarse() && !gr.ground->not_cleared.empty()) {
+    out << "\nSlopes from the terrain: its " << num(gr.ground->cell, "%.0f") << " m cells are coarser than "
+        << num(kMaxScreeningCell, "%.0f") << " m and cannot show a face a few metres high, so they clear nothing. "
+        << "Not cleared (no slope-face reading): ";
+    for (size_t i = 0; i < gr.ground->not_cleared.size(); ++i) out << (i ? ", " : "") << gr.ground->not_cleared[i];
+    out << ".\n  CAUTION: " << geo::kSlopeCaution << "\n";
+  }
+  if (gr.leads) {
+    out << "\nWhere next on the ground (nearest stretch of each predicted trace)\n";
+    if (gr.leads->empty()) out << "  no predicted trace nearby\n";
+    for (const auto& l : *gr.leads)
+      out << "  " << l.contact << ": " << num(l.distance, "%.0f") << " m at bearing " << num(l.bearing, "%03.0f")
+          << ", ground at " << num(l.elevation, "%.0f") << " m, band +/- " << num(l.half_width, "%.0f") << " m\n";
+  }
   out << "\n" << shown << " flag" << (shown == 1 ? "" : "s");
   for (const char* s : {"hazard", "conflict", "query", "note"})
     if (by_severity.count(s)) out << ", " << by_severity[s] << " " << s;
@@ -181,7 +256,8 @@ struct CheckArgs {
   std::string file;
   bool json = false;
   std::optional<std::string> min_severity;
-  std::optional<double> nearby, friction, sliding, toppling, confidence;
+  std::optional<double> nearby, friction, sliding, toppling, confidence, radius;
+  std::optional<std::string> at;
 };
 
 int run_check(const CheckArgs& a, std::ostream& out, std::ostream& err) {
@@ -196,6 +272,8 @@ int run_check(const CheckArgs& a, std::ostream& out, std::ostream& err) {
   const double sliding = a.sliding.value_or(-1);
   const double toppling = a.toppling.value_or(-1);
   o.confidence = a.confidence.value_or(o.confidence);
+  const auto& at = a.at;
+  const double radius = a.radius.value_or(2000);
 
   store::OpenOptions oo;
   oo.read_only = true;
@@ -220,14 +298,30 @@ int run_check(const CheckArgs& a, std::ostream& out, std::ostream& err) {
       if (!model->in_validity(year)) ++outside;
       return model->evaluate(lat, lon, 0.0, year).declination;
     };
-  const core::CheckData data = core::load_check_input(p, decl);
+  core::CheckData data = core::load_check_input(p, decl);
   if (outside > 0)
     err << "warning: " << outside << " reading" << (outside == 1 ? " is" : "s are") << " dated outside "
         << model->name() << "'s validity (" << model->valid_from() << " to " << model->valid_to()
         << "); " << (outside == 1 ? "its" : "their") << " declination is extrapolated and less certain\n";
+  const GroundCheck ground = add_terrain_faces(p, data, o);
   const geo::CheckReport rep = geo::run_crosscheck(data.input, o);
-  if (json) write_json(out, data, rep, min);
-  else write_text(out, data, rep, min);
+  GroundReport gr;
+  gr.ground = &ground;
+  for (const auto& pt : store::list_points(p))
+    ++gr.elevation_sources[pt.contact][pt.elevation ? std::string(store::to_string(pt.source)) : std::string("none")];
+  if (at) {
+    const auto comma = at->find(',');
+    const auto lat_ = geo::parse_decimal(at->substr(0, comma));
+    const auto lon_ = comma == std::string::npos ? std::nullopt : geo::parse_decimal(at->substr(comma + 1));
+    if (!lat_ || !lon_) throw std::invalid_argument("--at must be LAT,LON in decimal degrees, not '" + *at + "'");
+    const double lat = *lat_, lon = *lon_;
+    const auto u = geo::to_utm({lat, lon}, data.zone);
+    if (!u) throw std::invalid_argument("--at " + *at + ": " + u.error());
+    if (!ground.has_terrain) err << "warning: --at needs a terrain (cairn terrain FILE DEM)\n";
+    gr.leads = where_next_on_ground(ground, data, rep, u->easting, u->northing, radius);
+  }
+  if (json) write_json(out, data, rep, min, gr);
+  else write_text(out, data, rep, min, gr);
   return 0;
 }
 
@@ -247,6 +341,9 @@ Runner define(CLI::App& app) {
   number(app, "--toppling-window", a->toppling, 1, 90,
          "toppling window in degrees around the face's opposite direction (default: the project's setting)");
   number(app, "--confidence", a->confidence, 0.5, 0.9999, "confidence level of the cones (default 0.95)");
+  option(app, "--at", a->at,
+         "LAT,LON: where next on the ground from this position (the nearest stretch of each contact's predicted trace)");
+  number(app, "--radius", a->radius, 1, 100000, "with --at: contacts within this many metres (default 2000)");
   return [a](std::ostream& out, std::ostream& err) { return run_check(*a, out, err); };
 }
 

@@ -6,16 +6,19 @@
 #include "app/cli/command.h"
 #include "app/cli/demo_area.h"
 #include "app/cli/project_access.h"
+#include "formats/raster.h"
 #include "storage/import.h"
 #include "storage/merge.h"
 #include "storage/repository.h"
+#include "storage/terrain.h"
 
 namespace fs = std::filesystem;
 
 namespace cairn::cli {
 namespace {
 
-const char* const kFiles[] = {"tablet-a.cairn", "tablet-b.cairn", "camp.cairn", "notebook.csv", "handheld.gpx"};
+const char* const kFiles[] = {"tablet-a.cairn", "tablet-b.cairn", "camp.cairn", "notebook.csv", "handheld.gpx",
+                              "terrain.tif"};
 
 void remove_project_file(const fs::path& f) {
   std::error_code ec;
@@ -65,6 +68,23 @@ void check_import(const store::ImportReport& r, const std::string& what) {
   throw std::logic_error("the demo's " + what + " did not import:" + all);
 }
 
+// The demo's ground: terrain.tif, written from demo::terrain_grid().
+void write_demo_terrain(const fs::path& dir) {
+  const auto w = formats::write_geotiff((dir / "terrain.tif").string(), demo::terrain_grid(), demo::terrain_epsg());
+  if (!w) throw std::runtime_error(w.error());
+}
+
+// Attaches terrain.tif to a demo project file the way `cairn terrain` does
+// (read through GDAL), whole, so that every demo file holds the same terrain and
+// the camp's merge finds them identical; stated vertical accuracy 2 m.
+void attach_demo_terrain(const fs::path& dir, const std::string& file, const std::string& device_id,
+                         const std::string& device_name) {
+  store::Project p = store::Project::open((dir / file).string(), demo_options(device_id, device_name));
+  auto r = formats::read_dem((dir / "terrain.tif").string(), formats::DemRequest{demo::terrain_epsg(), std::nullopt});
+  if (!r) throw std::logic_error("the demo terrain does not read back: " + r.error());
+  store::store_terrain(p, r->grid, demo::terrain_epsg(), "terrain.tif", 2.0);
+}
+
 struct DemoArgs {
   std::string dir;
   bool force = false;
@@ -83,6 +103,9 @@ int run_demo(const DemoArgs& a, std::ostream& out, std::ostream&) {
   const demo::Area area = demo::build_area();
   write_tablet(dir, area, area.a, store::North::True);
   write_tablet(dir, area, area.b, store::North::Magnetic);
+  write_demo_terrain(dir);
+  attach_demo_terrain(dir, area.a.file, area.a.device_id, area.a.device_name);
+  attach_demo_terrain(dir, area.b.file, area.b.device_id, area.b.device_name);
   write_text(dir / "notebook.csv", area.notebook_csv);
   write_text(dir / "handheld.gpx", area.gpx);
 
@@ -108,6 +131,7 @@ int run_demo(const DemoArgs& a, std::ostream& out, std::ostream&) {
       << area.b.lines.size() << " linear readings, " << area.b.points.size() << " contact points\n"
       << "  notebook.csv    planar readings typed in camp\n"
       << "  handheld.gpx    waypoints along the " << area.gpx_contact << "\n"
+      << "  terrain.tif     the area's ground (GeoTIFF, UTM zone 8N), attached to every project file\n"
       << "  camp.cairn      the two tablets merged, the notebook and the waypoints imported\n"
       << "Next: cairn check " << (dir / "camp.cairn").string() << "\n";
   return 0;

@@ -39,6 +39,7 @@ int run(const ImportArgs& a, std::ostream& out, std::ostream& err) {
   const std::string what = waypoints ? (contact ? "contact points" : "stations") : kind_name;
   out << "imported " << rep.added << " " << what << " from " << path;
   if (rep.skipped) out << " (" << rep.skipped << " already in the project)";
+  if (rep.from_terrain) out << "; " << rep.from_terrain << " took their elevation from the terrain";
   out << "\n";
   return 0;
 }

@@ -15,6 +15,9 @@
 #include "formats/atomic_file.h"
 #include "geomath/crosscheck.h"
 #include "app/core/check_input.h"
+#include "app/core/export.h"
+#include "formats/layers.h"
+#include "storage/terrain.h"
 #include "storage/project.h"
 #include "storage/repository.h"
 
@@ -128,6 +131,10 @@ int run_report(const ReportArgs& a, std::ostream& out, std::ostream& err) {
   }
   d.check = core::load_check_input(p, decl);
   d.result = geo::run_crosscheck(d.check.input);
+  if (const auto t = store::terrain_info(p); t && t->epsg == formats::utm_epsg(d.check.zone)) {
+    d.terrain = store::load_terrain(p);
+    d.terrain_sigma = t->vertical_accuracy;
+  }
 
   formats::write_file_atomically(*output, render_report_html(d));
   out << "wrote " << *output << ": " << d.stations.size() << " stations, " << d.result.fits.size() << " contacts, "

@@ -172,6 +172,26 @@ double terrain(double e, double n) {
          60.0 * std::sin(k2 * (0.9 * e - 0.44 * n) + 1.0);
 }
 
+int terrain_epsg() { return 32600 + kZone; }
+
+geo::TerrainGrid terrain_grid(double cell) {
+  const Frame frame;
+  const geo::LatLon sw = frame.latlon(0, 0);
+  auto o = geo::to_utm(sw, geo::UtmZone{kZone, true});
+  if (!o) throw std::logic_error(o.error());
+  geo::TerrainGrid g;
+  g.cell = cell;
+  g.west = std::floor((o->easting - 4000) / cell) * cell;
+  g.north = std::ceil((o->northing + 3500) / cell) * cell;
+  g.nx = static_cast<int>(std::lround(7000 / cell));
+  g.ny = static_cast<int>(std::lround(6500 / cell));
+  g.z.reserve(static_cast<std::size_t>(g.nx) * g.ny);
+  for (int j = 0; j < g.ny; ++j)
+    for (int i = 0; i < g.nx; ++i)
+      g.z.push_back(static_cast<float>(terrain(g.centre_e(i) - o->easting, g.centre_n(j) - o->northing)));
+  return g;
+}
+
 Area build_area() {
   Rng rng(20260706);
   const Frame frame;

@@ -10,6 +10,7 @@
 #include <string>
 #include <vector>
 
+#include "geomath/terrain.h"
 #include "storage/records.h"
 
 namespace cairn::cli::demo {
@@ -40,6 +41,14 @@ struct Area {
 // Terrain elevation (metres) at local offsets east/north of the area's origin, in metres:
 // a ridge trending north-north-east over a valley floor rising gently northward.
 double terrain(double east, double north);
+
+// The same topography as a grid in UTM zone 8N (EPSG code terrain_epsg()):
+// terrain() at the centre of every `cell`-metre cell over the area and about
+// 1.3 km around it (local -4000..3000 m east, -3000..3500 m north), the grid
+// aligned to whole multiples of the cell size. `cairn demo` writes it as the
+// GeoTIFF terrain.tif and attaches it to every demo project file.
+geo::TerrainGrid terrain_grid(double cell = 20);
+int terrain_epsg();
 
 // Builds the whole area. Needs no files; deterministic.
 Area build_area();

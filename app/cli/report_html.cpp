@@ -10,6 +10,7 @@
 
 #include "app/plot/net_scene.h"
 #include "app/plot/plan_scene.h"
+#include "app/plot/plan_terrain.h"
 #include "app/plot/svg_canvas.h"
 #include "app/plot/symbols.h"
 #include "geomath/notation.h"
@@ -419,6 +420,16 @@ void write_plan(std::ostream& o, const ReportData& d, const Index& ix) {
     contour_notes.push_back(esc(f.contact) + " every " + geo::format_decimal("%g", interval) + " m");
   }
 
+  // The ground: hillshade, terrain contours, predicted traces and their 95% bands.
+  std::vector<std::string> ground_notes;
+  if (d.terrain) {
+    std::vector<plot::TracedContact> traced;
+    for (const auto& f : d.result.fits)
+      if (f.fit)
+        traced.push_back({f.contact, &*f.fit, contact_ink.count(f.contact_id) ? contact_ink[f.contact_id] : kContactInks[0]});
+    ground_notes = plot::add_terrain(pd, *d.terrain, traced, d.terrain_sigma.value_or(0));
+  }
+
   plot::SvgCanvas svg(W, H, 1);
   svg.set_fixed_size(false);
   svg.set_class("plan");
@@ -440,6 +451,12 @@ void write_plan(std::ostream& o, const ReportData& d, const Index& ix) {
     o << " Structure contours (strike lines of the fitted contacts, labelled with their elevation): ";
     for (size_t i = 0; i < contour_notes.size(); ++i) o << (i ? "; " : "") << contour_notes[i];
     o << ".";
+  }
+  if (!ground_notes.empty()) {
+    o << " The ground from the project's terrain: ";
+    for (size_t i = 0; i < ground_notes.size(); ++i) o << (i ? "; " : "") << esc(ground_notes[i]);
+    o << ". Predicted outcrop traces (where each fitted plane meets the ground) are thick lines in the contact's "
+         "colour, with their 95% trace bands tinted.";
   }
   o << "</figcaption></figure>\n<p class=\"key\">";
   for (size_t i = 0; i < d.units.size(); ++i)

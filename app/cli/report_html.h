@@ -14,6 +14,7 @@
 #include "geomath/crosscheck.h"
 #include "geomath/stereonet.h"
 #include "app/core/check_input.h"
+#include "geomath/terrain.h"
 #include "storage/records.h"
 
 namespace cairn::cli {
@@ -42,6 +43,9 @@ struct ReportData {
   std::vector<store::ContactPoint> points;
   core::CheckData check;     // positions in UTM metres, as the engine saw them
   geo::CheckReport result;    // fits and flags
+  // The project's terrain in the check's zone (storage/terrain.h), and its stated accuracy.
+  std::optional<geo::TerrainGrid> terrain;
+  std::optional<double> terrain_sigma;
   std::optional<DeclinationSummary> declination;
   std::string declination_problem;  // why there is no summary ("" when there is one)
   geo::NetKind net = geo::NetKind::EqualArea;

@@ -6,7 +6,11 @@
 //      stations, planar_readings, linear_readings, contact_points,
 //      fitted_contacts (one point per contact at the centroid of its mapped
 //      points, with the fitted plane, its verdict and its flags) and flags
-//      (the cross-check's findings at their station or contact).
+//      (the cross-check's findings at their station or contact); with a
+//      terrain (storage/terrain.h) also predicted_traces (MultiLineString per
+//      fitted contact: `contact`, `interval` = mean half width in metres of
+//      its 95% trace band across the trace) and trace_bands (MultiPolygon of
+//      the terrain cells inside the band: `contact`, `confidence` = 0.95).
 //  - OUT ending in .geojson: one RFC 7946 FeatureCollection in WGS84
 //    longitude/latitude with the same features; RFC 7946 has no layers, so
 //    each feature carries its layer's name in the property "layer".

@@ -9,7 +9,9 @@
 
 #include "geomath/angles.h"
 #include "formats/ids.h"
+#include "geomath/terrain.h"
 #include "storage/repository.h"
+#include "storage/terrain.h"
 
 namespace fs = std::filesystem;
 
@@ -71,6 +73,7 @@ public:
     points();
     fitted_contacts();
     flags();
+    terrain_layers();
     return std::move(out_);
   }
 
@@ -268,6 +271,56 @@ private:
       return at_grid(e / c.points.size(), n / c.points.size());
     }
     return Feature{};
+  }
+
+  // predicted_traces and trace_bands (app/core/export.h), when the project has a
+  // terrain in the export's zone: each fitted contact's trace and 95% band.
+  void terrain_layers() {
+    const auto info = terrain_info(p_);
+    if (!info || info->epsg != utm_epsg(out_.zone)) return;
+    const auto grid = load_terrain(p_);
+    Layer traces{"predicted_traces", "Predicted outcrop traces",
+                 "where each fitted contact's best plane meets the terrain; interval: mean half width (m) of "
+                 "its 95% trace band across the trace",
+                 {{"contact", FieldType::Text}, {"interval", FieldType::Real}},
+                 {},
+                 "MULTILINESTRING"};
+    Layer bands{"trace_bands", "Trace bands",
+                "where each fitted contact crops out with 95% probability (the terrain's cells)",
+                {{"contact", FieldType::Text}, {"confidence", FieldType::Real}},
+                {},
+                "MULTIPOLYGON"};
+    for (const auto& fit : report_.fits) {
+      if (!fit.fit) continue;
+      const auto pred = geo::predict_contact(*grid, *fit.fit, info->vertical_accuracy.value_or(0));
+      if (!pred || pred->trace.empty()) continue;
+      Feature t;
+      for (const auto& l : pred->trace) t.grid_parts.push_back(l.pts);
+      t.lonlat_parts = lonlat(t.grid_parts);
+      t.values = {fit.contact, pred->mean_half_width ? FieldValue(*pred->mean_half_width) : FieldValue()};
+      traces.features.push_back(std::move(t));
+      if (!pred->has_band || pred->band.empty()) continue;
+      Feature b;
+      b.grid_parts = pred->band;
+      b.lonlat_parts = lonlat(b.grid_parts);
+      b.values = {fit.contact, 0.95};
+      bands.features.push_back(std::move(b));
+    }
+    out_.layers.push_back(std::move(traces));
+    out_.layers.push_back(std::move(bands));
+  }
+
+  Parts lonlat(const Parts& grid) const {
+    Parts out;
+    for (const auto& part : grid) {
+      out.emplace_back();
+      for (const auto& q : part) {
+        const auto ll = geo::from_utm({out_.zone.zone, out_.zone.northp, q[0], q[1]});
+        if (!ll) throw std::runtime_error("a predicted trace leaves UTM: " + ll.error());
+        out.back().push_back({ll->lon, ll->lat});
+      }
+    }
+    return out;
   }
 
   void fitted_contacts() {

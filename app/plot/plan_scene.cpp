@@ -195,9 +195,49 @@ void draw_attitude_symbol(Canvas& c, Pt at, double strike, double dip, AttitudeS
   }
 }
 
+namespace {
+
+// A map path as canvas points; false when it lies wholly outside the rect.
+bool path_on_canvas(const Rect& r, const PlanView& v, const std::vector<std::pair<double, double>>& pts,
+                    std::vector<Pt>& out) {
+  out.clear();
+  double x0 = INFINITY, x1 = -INFINITY, y0 = INFINITY, y1 = -INFINITY;
+  for (const auto& [e, n] : pts) {
+    const Pt p = plan_to_canvas(v, r, e, n);
+    out.push_back(p);
+    x0 = std::min(x0, p.x), x1 = std::max(x1, p.x), y0 = std::min(y0, p.y), y1 = std::max(y1, p.y);
+  }
+  return !(x1 < r.x || x0 > r.x + r.w || y1 < r.y || y0 > r.y + r.h);
+}
+
+void draw_path(Canvas& c, const Rect& r, const PlanView& v, const PlanPath& p, double line_width) {
+  std::vector<Pt> pts;
+  if (p.pts.size() >= 2 && path_on_canvas(r, v, p.pts, pts)) c.polyline(pts, p.colour, p.width * line_width);
+}
+
+void draw_ground(Canvas& c, const Rect& r, const PlanData& d, const PlanView& v, const PlanOptions& o) {
+  std::vector<Pt> pts;
+  for (const auto& a : d.shading) {
+    if (!path_on_canvas(r, v, a.ring, pts)) continue;
+    Rgba fill = a.fill;
+    if (a.shade) {
+      const double t = 0.3 * (1 - std::clamp(*a.shade, 0.0, 1.0));  // share of ink
+      auto m = [t](int bg, int ink) { return static_cast<std::uint8_t>(std::lround(bg + (ink - bg) * t)); };
+      fill = {m(o.background.r, o.ink.r), m(o.background.g, o.ink.g), m(o.background.b, o.ink.b), 255};
+    }
+    c.fill_polygon(pts, fill);
+  }
+  for (const auto& t : d.terrain_contours) draw_path(c, r, v, t, o.line_width);
+  for (const auto& a : d.bands)
+    if (path_on_canvas(r, v, a.ring, pts)) c.fill_polygon(pts, a.fill);
+}
+
+}  // namespace
+
 void draw_plan(Canvas& c, const Rect& r, const PlanData& d, const PlanView& v, const PlanOptions& o) {
   c.fill_polygon({{r.x, r.y}, {r.x + r.w, r.y}, {r.x + r.w, r.y + r.h}, {r.x, r.y + r.h}}, o.background);
   const double pad = o.symbol_length;
+  draw_ground(c, r, d, v, o);
 
   // Strike-line labels that would overlap one already placed are left out.
   std::vector<Rect> placed;
@@ -226,6 +266,7 @@ void draw_plan(Canvas& c, const Rect& r, const PlanData& d, const PlanView& v, c
       }
     }
   }
+  for (const auto& t : d.traces) draw_path(c, r, v, t, o.line_width);
   for (const auto& p : d.points) {
     const Pt at = plan_to_canvas(v, r, p.e, p.n);
     if (!near_rect(r, at, o.mark_size)) continue;

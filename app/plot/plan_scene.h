@@ -81,7 +81,30 @@ struct PlanProbe {
   std::vector<std::string> lines;
 };
 
+// A filled area of the map (hillshade patches, trace bands), a closed ring in map metres.
+struct PlanArea {
+  std::vector<std::pair<double, double>> ring;
+  Rgba fill;
+  // Hillshade patches: illumination 0..1 instead of `fill`, drawn between the
+  // theme's ink (30% at 0) and its background (at 1), so both themes keep their look.
+  std::optional<double> shade;
+};
+
+// A line on the map (terrain contours, predicted traces) in map metres.
+struct PlanPath {
+  std::vector<std::pair<double, double>> pts;
+  Rgba colour;
+  double width = 1;   // times PlanOptions::line_width
+  std::string label;  // predicted traces: the contact's name
+};
+
 struct PlanData {
+  // The ground, drawn first (app/plot/plan_terrain.h): hillshade patches, terrain
+  // contours, trace bands (translucent) and predicted outcrop traces.
+  std::vector<PlanArea> shading;
+  std::vector<PlanPath> terrain_contours;
+  std::vector<PlanArea> bands;
+  std::vector<PlanPath> traces;
   std::vector<PlanStation> stations;
   std::vector<PlanPoint> points;
   std::vector<PlanAttitude> attitudes;
@@ -136,7 +159,8 @@ double nice_length(double max_metres);
 void draw_attitude_symbol(Canvas& c, Pt at, double strike, double dip, AttitudeSymbol s, double length,
                           Rgba colour, double width, double text_size);
 
-// Draws the background, strike lines, contact points, strike-dip symbols,
+// Draws the background, the ground (shading, terrain contours, trace bands), strike lines,
+// predicted traces, contact points, strike-dip symbols,
 // stations, the probe, a scale bar and a grid-north arrow. Objects outside the
 // rect are skipped.
 void draw_plan(Canvas& c, const Rect& r, const PlanData& d, const PlanView& v, const PlanOptions& o);

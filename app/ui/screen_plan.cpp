@@ -1,13 +1,17 @@
-// Plan: stations, points mapped along contacts, strike-dip symbols and the
-// fitted contacts' strike lines in the working UTM zone; the predicted contact
+// Plan: the ground (hillshade, terrain contours, predicted traces with their
+// trace bands) when the project has a terrain, stations, points mapped along
+// contacts, strike-dip symbols and the fitted contacts' strike lines in the working UTM zone; the predicted contact
 // elevation at a tapped point; drag to pan, pinch (or the wheel) to zoom.
 #include <algorithm>
 #include <cstdio>
 #include <cmath>
 #include <map>
+#include <tuple>
 
 #include "app/plot/plan_scene.h"
+#include "app/plot/plan_terrain.h"
 #include "app/plot/symbols.h"
+#include "formats/layers.h"
 #include "app/ui/gl_picture.h"
 #include "app/ui/imgui_canvas.h"
 #include "app/plot/recording_canvas.h"
@@ -15,6 +19,8 @@
 #include "app/ui/text_util.h"
 #include "app/ui/widgets.h"
 #include "geomath/strike_lines.h"
+#include "app/core/export.h"
+#include "storage/terrain.h"
 
 namespace cairn::ui {
 
@@ -81,6 +87,21 @@ void build(App& a, const CheckResult& c) {
     ps.notes.push_back(f.contact + ": strike lines every " + fmt("%g m", interval));
     for (const auto& l : *lines)
       d.strike_lines.push_back({l.e0, l.n0, l.e1, l.n1, l.elevation, contact_col.count(f.contact_id) ? contact_col[f.contact_id] : plot::kInk});
+  }
+  // The ground (app/plot/plan_terrain.h): hillshade, terrain contours, the
+  // predicted traces and their 95% bands, computed here once per change of the
+  // data; frames show the cached picture.
+  try {
+    store::Project& pr = m.project();
+    if (const auto t = store::terrain_info(pr); t && t->epsg == formats::utm_epsg(c.data.zone)) {
+      std::vector<plot::TracedContact> traced;
+      for (const auto& f : c.report.fits)
+        if (f.fit) traced.push_back({f.contact, &*f.fit, contact_col.count(f.contact_id) ? contact_col[f.contact_id] : plot::kInk});
+      for (auto& note : plot::add_terrain(d, *store::load_terrain(pr), traced, t->vertical_accuracy.value_or(0)))
+        ps.notes.push_back(note);
+    }
+  } catch (const std::exception& e) {
+    ps.notes.push_back(std::string("terrain not drawn: ") + e.what());
   }
   // Typical distance between neighbouring stations, for deciding when labels fit.
   ps.spacing = 0;
@@ -195,6 +216,24 @@ void draw_plan_screen(App& a) {
       std::string l = f.contact + ": " + fmt("%.0f m", est->elevation);
       if (est->half_width95) l += " \xC2\xB1" + fmt("%.0f", *est->half_width95);
       pr.lines.push_back(l);
+    }
+    // Where next on the ground: the nearest stretch of each predicted trace.
+    std::map<std::string, std::tuple<double, double, double>> nearest;  // contact -> distance, e, n
+    for (const auto& t : ps.data.traces) {
+      for (size_t k = 0; k + 1 < t.pts.size(); ++k) {
+        const double ax = t.pts[k].first, ay = t.pts[k].second;
+        const double dx = t.pts[k + 1].first - ax, dy = t.pts[k + 1].second - ay, l2 = dx * dx + dy * dy;
+        const double u = l2 > 0 ? std::clamp(((pr.e - ax) * dx + (pr.n - ay) * dy) / l2, 0.0, 1.0) : 0.0;
+        const double qx = ax + u * dx, qy = ay + u * dy, d = std::hypot(qx - pr.e, qy - pr.n);
+        auto it = nearest.find(t.label);
+        if (it == nearest.end() || d < std::get<0>(it->second)) nearest[t.label] = {d, qx, qy};
+      }
+    }
+    for (const auto& [name, v] : nearest) {
+      const auto [d, qx, qy] = v;
+      const double bearing = std::fmod(std::atan2(qx - pr.e, qy - pr.n) * 180 / 3.14159265358979323846 +
+                                           ps.convergence + 720.0, 360.0);
+      pr.lines.push_back(name + " trace: " + fmt("%.0f m", d) + " at " + fmt("%03.0f", bearing));
     }
     if (pr.lines.empty()) pr.lines.push_back("no fitted contact");
     ps.data.probe = pr;

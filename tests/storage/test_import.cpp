@@ -94,8 +94,8 @@ TEST(Import, BadInputTable) {
       {"ISO 8601 format", ImportKind::Stations, "station,lat,lon,time\nS5,46,14,14/06/2025\n",
        {"bad.csv:2:4: time: '14/06/2025' is not an ISO 8601 date or date and time (YYYY-MM-DD or "
         "YYYY-MM-DDThh:mm[:ss][Z|+hh:mm])"}},
-      {"issue: position source gps, map, manual", ImportKind::Stations, "station,lat,lon,source\nS5,46,14,guess\n",
-       {"bad.csv:2:4: choice: source 'guess' is not one of: gps, map, manual"}},
+      {"issue: position source gps, map, manual (dem: from the terrain)", ImportKind::Stations, "station,lat,lon,source\nS5,46,14,guess\n",
+       {"bad.csv:2:4: choice: source 'guess' is not one of: gps, map, manual, dem"}},
       {"issue: unit must exist", ImportKind::Stations, "station,lat,lon,unit\nS5,46,14,Zz\n",
        {"bad.csv:2:4: unknown-unit: no unit 'Zz' in the project"}},
       {"issue: station code unique", ImportKind::Stations, "station,lat,lon\nS5,46,14\nS5,46,14\n",
