@@ -3,12 +3,13 @@
 # Only what is missing is installed; running it twice is cheap.
 set -euo pipefail
 want=(cmake g++ make pkg-config libeigen3-dev libgeographiclib-dev libsqlite3-dev
-      libsdl2-dev libimgui-dev libstb-dev libgps-dev libgtest-dev fonts-dejavu-core)
+      libsdl2-dev libimgui-dev libstb-dev libgps-dev libgtest-dev fonts-dejavu-core libpq-dev)
 if [ "${1:-}" = "--test" ]; then
   # Outside references for the tests: numpy, PROJ (pyproj), GDAL's ogrinfo,
-  # a virtual display for the UI, headless Chromium for the report, gpsd for GPS replay.
+  # a virtual display for the UI, headless Chromium for the report, gpsd for GPS replay,
+  # PostgreSQL + PostGIS for a throwaway survey store (tests/survey/pg_cluster.sh).
   want+=(xvfb xauth python3 python3-numpy python3-pyproj gdal-bin chromium
-         mesa-utils libgl1-mesa-dri gpsd gpsd-clients)
+         mesa-utils libgl1-mesa-dri gpsd gpsd-clients postgresql-15 postgresql-15-postgis-3)
 fi
 missing=()
 for p in "${want[@]}"; do
