@@ -65,6 +65,7 @@ struct Col {
   std::string name;
   char type;
   bool notnull;
+  std::string dflt;  // default as SQL text ("" none)
 };
 
 struct TableDef {
@@ -122,10 +123,11 @@ std::vector<TableDef> read_tables(Db& db) {
     TableDef t;
     t.name = n;
     std::vector<std::pair<int, int>> pk;
-    Stmt s(db, "SELECT name, type, \"notnull\", pk FROM pragma_table_info(?) ORDER BY cid");
+    Stmt s(db, "SELECT name, type, \"notnull\", pk, dflt_value FROM pragma_table_info(?) ORDER BY cid");
     s.bind(1, n);
     while (s.step()) {
-      t.cols.push_back({s.text(0), type_of(s.text(1)), s.int64(2) != 0});
+      // Defaults of the project schema are literals ('' or a number), valid SQL in both.
+      t.cols.push_back({s.text(0), type_of(s.text(1)), s.int64(2) != 0, s.text(4)});
       if (s.int64(3) > 0) pk.emplace_back(static_cast<int>(s.int64(3)), static_cast<int>(t.cols.size() - 1));
     }
     std::sort(pk.begin(), pk.end());
@@ -184,7 +186,7 @@ struct Template {
       const std::string n = s.text(0);
       if (n == "id" || n == "file_uuid" || n == "name" || n == "local_device" || n == "created" || n == "updated")
         continue;
-      project_cols.push_back({n, type_of(s.text(1)), false});
+      project_cols.push_back({n, type_of(s.text(1)), false, ""});
     }
   }
 };
@@ -401,7 +403,8 @@ void sync_table(Conn& c, const TableDef& t, std::vector<std::string>& steps) {
   if (have.empty()) {
     std::string sql = "CREATE TABLE cairn." + q(t.name) + " (\n  project uuid NOT NULL REFERENCES cairn.projects(uuid) ON DELETE CASCADE";
     for (const auto& col : t.cols) {
-      sql += ",\n  " + q(col.name) + " " + pg_type(col.type) + (col.notnull ? " NOT NULL" : "");
+      sql += ",\n  " + q(col.name) + " " + pg_type(col.type) + (col.notnull ? " NOT NULL" : "") +
+             (col.dflt.empty() ? "" : " DEFAULT " + col.dflt);
       if (col.type == 'a') sql += ",\n  " + q(col.name + "_kind") + " text";
     }
     std::vector<std::string> pk;
@@ -421,7 +424,8 @@ void sync_table(Conn& c, const TableDef& t, std::vector<std::string>& steps) {
   for (const auto& col : t.cols) {
     if (have.count(col.name)) continue;
     // Added columns may not be NOT NULL: rows published by older files lack them.
-    c.exec("ALTER TABLE cairn." + q(t.name) + " ADD COLUMN " + q(col.name) + " " + pg_type(col.type));
+    c.exec("ALTER TABLE cairn." + q(t.name) + " ADD COLUMN " + q(col.name) + " " + pg_type(col.type) +
+           (col.dflt.empty() ? "" : " DEFAULT " + col.dflt));
     if (col.type == 'a') c.exec("ALTER TABLE cairn." + q(t.name) + " ADD COLUMN " + q(col.name + "_kind") + " text");
     steps.push_back("column cairn." + t.name + "." + col.name);
   }
@@ -623,6 +627,17 @@ std::map<std::string, long> fill(Conn& c, Db& db, const std::vector<TableDef>& t
   return counts;
 }
 
+// COPY into a scratch table, then one INSERT into cairn.TABLE: COPY FROM cannot
+// write a table with row-level security, an INSERT ... SELECT can and is checked
+// by the policies (PostgreSQL documentation, "COPY", Notes).
+void copy_insert(Conn& c, const std::string& table, const std::string& cols, const std::string& data,
+                 const std::string& on_conflict = "") {
+  c.exec("CREATE TEMP TABLE cairn_in (LIKE cairn." + q(table) + ") ON COMMIT DROP");
+  c.copy_in("COPY cairn_in (" + cols + ") FROM STDIN", data);
+  c.exec("INSERT INTO cairn." + q(table) + " (" + cols + ") SELECT " + cols + " FROM cairn_in" + on_conflict);
+  c.exec("DROP TABLE cairn_in");
+}
+
 // Writes the rows of DB that differ from SNAP to the store, and deletes the
 // rows SNAP has that DB no longer has.
 std::map<std::string, TableWrite> write_back(Conn& c, Db& db, const std::vector<TableDef>& tables,
@@ -671,14 +686,11 @@ std::map<std::string, TableWrite> write_back(Conn& c, Db& db, const std::vector<
       c.exec("DROP TABLE cairn_gone");
     }
     if (written) {
-      c.exec("CREATE TEMP TABLE cairn_in (LIKE cairn." + q(t.name) + ") ON COMMIT DROP");
-      c.copy_in("COPY cairn_in (project, " + joined(cols) + ") FROM STDIN", data);
       std::string set;
       for (const auto& col : cols)
         if (std::find(pk.begin(), pk.end(), col) == pk.end()) set += (set.empty() ? "" : ", ") + q(col) + " = EXCLUDED." + q(col);
-      c.exec("INSERT INTO cairn." + q(t.name) + " (project, " + joined(cols) + ") SELECT project, " + joined(cols) +
-             " FROM cairn_in ON CONFLICT (project, " + joined(pk) + ") DO " + (set.empty() ? "NOTHING" : "UPDATE SET " + set));
-      c.exec("DROP TABLE cairn_in");
+      copy_insert(c, t.name, "project, " + joined(cols), data,
+                  " ON CONFLICT (project, " + joined(pk) + ") DO " + (set.empty() ? "NOTHING" : "UPDATE SET " + set));
     }
     if (written || removed) out[t.name] = {written, removed};
   }
@@ -723,7 +735,7 @@ void write_check(Conn& c, Project& p, const std::string& project, const ExportOp
     std::vector<std::string> cols;
     for (const auto& fd : l.fields) cols.push_back(fd.name);
     if (!data.empty())
-      c.copy_in(std::string("COPY cairn.") + table + " (project, fid, checked, " + joined(cols) + ", lon, lat) FROM STDIN", data);
+      copy_insert(c, table, "project, fid, checked, " + joined(cols) + ", lon, lat", data);
     (l.name == "flags" ? rep.flags : rep.fits) = fid;
   }
 }
