@@ -4,6 +4,7 @@
 #include <unistd.h>
 
 #include <algorithm>
+#include <chrono>
 #include <cmath>
 #include <cstdio>
 #include <cstdlib>
@@ -757,6 +758,86 @@ std::map<std::string, std::optional<std::string>> project_settings(Db& db, const
   return out;
 }
 
+// ---- records that need no judgement --------------------------------------------------
+
+// Natural keys of the project file (storage/SCHEMA.md: unique among live records).
+struct KeyCol {
+  const char* table;
+  const char* key;    // nullptr: no natural key
+  const char* scope;  // nullptr: the whole table
+};
+const KeyCol kRecordKeys[] = {{"people", "initials", nullptr}, {"units", "code", nullptr},   {"contacts", "name", nullptr},
+                              {"stations", "code", nullptr},    {"planes", "ref", "station"}, {"lines", "ref", "station"},
+                              {"points", nullptr, nullptr},     {"photos", nullptr, nullptr}};
+
+struct Plain {
+  long added = 0, skipped = 0, audit = 0;
+};
+
+// Takes out of COPY (a scratch copy of the published file) what merge would
+// not have to judge, so that merge_files only sees the rest: a version the
+// store already has is dropped (merge skips it), and a record the store lacks
+// whose code no live record of the store holds is added to MIRROR as it is
+// (merge adds it unchanged), with every audit row (merge adds those the target
+// lacks). A season of records published once costs a bulk copy, not a merge of
+// each record. Anything else - other versions of stored records, codes already
+// taken, records the file keeps under a clash code, devices, reviews - stays in
+// COPY for merge_files and its rules.
+Plain take_plain(Db& mirror, const std::string& copy) {
+  Plain d;
+  mirror.exec("PRAGMA foreign_keys = OFF");  // parents may come in with the merge that follows
+  {
+    Stmt a(mirror, "ATTACH DATABASE ? AS src");
+    a.bind(1, copy);
+    a.run();
+  }
+  try {
+    mirror.exec("BEGIN IMMEDIATE");
+    for (const auto& k : kRecordKeys) {
+      const std::string t = q(k.table);
+      std::vector<std::string> names;
+      {
+        Stmt s(mirror, "SELECT name FROM pragma_table_info(?) ORDER BY cid");
+        s.bind(1, k.table);
+        while (s.step()) names.push_back(s.text(0));
+      }
+      const std::string cols = joined(names);
+      mirror.exec("DELETE FROM src." + t + " WHERE EXISTS (SELECT 1 FROM main." + t + " m WHERE m.uuid = src." + t +
+                  ".uuid AND m.updated = src." + t + ".updated AND m.device = src." + t + ".device)");
+      d.skipped += mirror.changes();
+      std::string fresh = "SELECT s.uuid FROM src." + t + " s WHERE NOT EXISTS (SELECT 1 FROM main." + t +
+                          " m WHERE m.uuid = s.uuid) AND NOT EXISTS (SELECT 1 FROM src.key_clashes c WHERE c.record = s.uuid)";
+      if (k.key) {
+        fresh += " AND (s." + q(k.key) + " IS NULL OR s.deleted IS NOT NULL OR NOT EXISTS (SELECT 1 FROM main." + t +
+                 " m WHERE m." + q(k.key) + " = s." + q(k.key) + " AND m.deleted IS NULL";
+        if (k.scope) fresh += " AND m." + q(k.scope) + " IS s." + q(k.scope);
+        fresh += "))";
+      }
+      mirror.exec("CREATE TEMP TABLE cairn_fresh AS " + fresh);
+      mirror.exec("INSERT INTO main." + t + " (" + cols + ") SELECT " + cols + " FROM src." + t +
+                  " WHERE uuid IN (SELECT uuid FROM temp.cairn_fresh)");
+      d.added += mirror.changes();
+      mirror.exec("DELETE FROM src." + t + " WHERE uuid IN (SELECT uuid FROM temp.cairn_fresh)");
+      mirror.exec("DROP TABLE temp.cairn_fresh");
+    }
+    mirror.exec("INSERT OR IGNORE INTO main.audit SELECT * FROM src.audit");
+    d.audit = mirror.changes();
+    mirror.exec("DELETE FROM src.audit");
+    mirror.exec("COMMIT");
+  } catch (...) {
+    try {
+      mirror.exec("ROLLBACK");
+    } catch (...) {
+    }
+    mirror.exec("DETACH DATABASE src");
+    mirror.exec("PRAGMA foreign_keys = ON");
+    throw;
+  }
+  mirror.exec("DETACH DATABASE src");
+  mirror.exec("PRAGMA foreign_keys = ON");
+  return d;
+}
+
 bool is_owner(Conn& c) {
   return c.value("SELECT (SELECT rolsuper FROM pg_roles WHERE rolname = current_user) OR "
                  "pg_has_role(current_user, (SELECT nspowner FROM pg_namespace WHERE nspname = 'cairn'), 'MEMBER')") ==
@@ -908,13 +989,48 @@ PublishReport publish(const std::string& file, const std::string& url, const Pub
     NewProject np;
     np.name = rep.project;
     Project mirror = Project::create(scratch.file("store.cairn"), np, scratch_options(scratch, st.device, "survey store"));
+    // A scratch file: no need to wait for the disk (SQLite documentation, "PRAGMA synchronous").
+    mirror.db().exec("PRAGMA synchronous = OFF");
+    auto T = [](const char* what) {
+      static auto t0 = std::chrono::steady_clock::now();
+      if (std::getenv("CAIRN_SURVEY_TIMING"))
+        std::fprintf(stderr, "%s %.3f\n", what,
+                     std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count());
+    };
+    T("start");
     Snapshot snap;
     mirror.write([&] {
       ensure_review_tables(mirror);
       fill(c, mirror.db(), tmpl.tables, *id, {}, &snap);
     });
-    rep.merge = merge_files(mirror, {file});
-    if (rep.merge.changed || rep.project_created) {
+    T("filled");
+    // A copy of the file (SQLite documentation, "VACUUM INTO"); when it is of
+    // this build's schema, what needs no judgement goes straight in first.
+    const std::string copy = scratch.file(fs::path(file).filename().string());
+    bool plain = false;
+    {
+      Db src(file, SQLITE_OPEN_READONLY);
+      if (src.query_int("PRAGMA user_version") == kSchemaVersion) {
+        Stmt v(src, "VACUUM INTO ?");
+        v.bind(1, copy);
+        v.run();
+        plain = true;
+      }
+    }
+    if (plain) rep.plain_added = take_plain(mirror.db(), copy).added;
+    T("plain");
+    rep.merge = merge_files(mirror, {plain ? copy : file});
+    T("merged");
+    if (plain) {
+      mirror.write([&] {
+        Stmt m(mirror.db(), "UPDATE merges SET peer_path = ? WHERE peer_path = ?");
+        m.bind(1, file).bind(2, copy);
+        m.run();
+      });
+      for (auto& w : rep.merge.warnings)
+        for (size_t at; (at = w.find(copy)) != std::string::npos;) w.replace(at, copy.size(), file);
+    }
+    if (rep.merge.changed || rep.project_created || rep.plain_added > 0) {
       // A project's settings come from its first published file.
       if (c.value("SELECT settings_set FROM cairn.projects WHERE uuid = $1", {*id}) == std::optional<std::string>("f")) {
         std::string set = "settings_set = true";
@@ -926,7 +1042,9 @@ PublishReport publish(const std::string& file, const std::string& url, const Pub
         c.query("UPDATE cairn.projects SET " + set + " WHERE uuid = $1", params);
       }
       rep.tables = write_back(c, mirror.db(), tmpl.tables, *id, snap);
+      T("written");
       write_check(c, mirror, *id, o.check, rep);
+      T("checked");
       long rows = 0;
       for (const auto& [t, w] : rep.tables) rows += w.written + w.removed;
       c.query("UPDATE cairn.projects SET updated = $2 WHERE uuid = $1", {*id, utc_now()});

@@ -64,6 +64,7 @@ struct PublishReport {
   std::string project, project_uuid, role;
   bool project_created = false;
   bool changed = false;
+  long plain_added = 0;                       // new records with free codes, added without a merge
   MergeReport merge;                         // what the merge found (conflicts, clashes, warnings)
   std::map<std::string, TableWrite> tables;  // per store table
   int fits = 0, flags = 0;                   // features of the latest check written
