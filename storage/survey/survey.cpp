@@ -624,6 +624,7 @@ std::map<std::string, long> fill(Conn& c, Db& db, const std::vector<TableDef>& t
       ++n;
     });
     counts[t.name] = n;
+    if (std::getenv("CAIRN_SURVEY_TIMING")) std::fprintf(stderr, "  fill %s %ld\n", t.name.c_str(), n);
   }
   return counts;
 }
@@ -791,6 +792,7 @@ Plain take_plain(Db& mirror, const std::string& copy) {
     a.bind(1, copy);
     a.run();
   }
+  mirror.exec("PRAGMA src.cache_size = -524288; PRAGMA src.synchronous = OFF; PRAGMA src.journal_mode = OFF");
   try {
     mirror.exec("BEGIN IMMEDIATE");
     for (const auto& k : kRecordKeys) {
@@ -990,7 +992,8 @@ PublishReport publish(const std::string& file, const std::string& url, const Pub
     np.name = rep.project;
     Project mirror = Project::create(scratch.file("store.cairn"), np, scratch_options(scratch, st.device, "survey store"));
     // A scratch file: no need to wait for the disk (SQLite documentation, "PRAGMA synchronous").
-    mirror.db().exec("PRAGMA synchronous = OFF");
+    // and a page cache big enough for a season, so pages are not spilled and read back.
+    mirror.db().exec("PRAGMA synchronous = OFF; PRAGMA cache_size = -524288; PRAGMA temp_store = MEMORY");
     auto T = [](const char* what) {
       static auto t0 = std::chrono::steady_clock::now();
       if (std::getenv("CAIRN_SURVEY_TIMING"))
@@ -999,10 +1002,14 @@ PublishReport publish(const std::string& file, const std::string& url, const Pub
     };
     T("start");
     Snapshot snap;
+    // The store's rows are whole already (its own deferred foreign keys), so the
+    // copy skips SQLite's reference checks.
+    mirror.db().exec("PRAGMA foreign_keys = OFF");
     mirror.write([&] {
       ensure_review_tables(mirror);
       fill(c, mirror.db(), tmpl.tables, *id, {}, &snap);
     });
+    mirror.db().exec("PRAGMA foreign_keys = ON");
     T("filled");
     // A copy of the file (SQLite documentation, "VACUUM INTO"); when it is of
     // this build's schema, what needs no judgement goes straight in first.
