@@ -822,7 +822,12 @@ Plain take_plain(Db& mirror, const std::string& copy) {
       mirror.exec("DELETE FROM src." + t + " WHERE uuid IN (SELECT uuid FROM temp.cairn_fresh)");
       mirror.exec("DROP TABLE temp.cairn_fresh");
     }
-    mirror.exec("INSERT OR IGNORE INTO main.audit SELECT * FROM src.audit");
+    {
+      std::vector<std::string> names;
+      Stmt a(mirror, "SELECT name FROM pragma_table_info('audit') ORDER BY cid");
+      while (a.step()) names.push_back(a.text(0));
+      mirror.exec("INSERT OR IGNORE INTO main.audit (" + joined(names) + ") SELECT " + joined(names) + " FROM src.audit");
+    }
     d.audit = mirror.changes();
     mirror.exec("DELETE FROM src.audit");
     mirror.exec("COMMIT");
@@ -1066,7 +1071,10 @@ PublishReport publish(const std::string& file, const std::string& url, const Pub
       c.exec("ROLLBACK");
     }
   } catch (const PublishRefused&) {
-    c.exec("ROLLBACK");
+    try {
+      c.exec("ROLLBACK");
+    } catch (...) {
+    }
     throw;
   } catch (const pg::PgError& e) {
     try {
@@ -1160,6 +1168,7 @@ PullReport pull(const std::string& url, const std::string& out, const PullOption
                             photos + ") UNION ALL SELECT uuid FROM cairn.people WHERE project = " + p +
                             " UNION ALL SELECT uuid FROM cairn.units WHERE project = " + p +
                             " UNION ALL SELECT uuid FROM cairn.contacts WHERE project = " + p;
+  // Tables not listed here (devices, reviews, sign-offs, any a later module adds) come whole.
   std::map<std::string, std::string> where{
       {"stations", "r.uuid IN (" + stations + ")"},
       {"planes", "r.station IN (" + stations + ")"},
@@ -1173,14 +1182,11 @@ PullReport pull(const std::string& url, const std::string& out, const PullOption
       {"key_clashes", "r.record IN (" + taken + ")"},
       {"merges", "false"},
   };
-  // Tables this build does not know how to cut (added by another module) come whole.
-  auto settings_row = c.query("SELECT * FROM cairn.projects WHERE uuid = $1", {*id});
   std::map<std::string, std::optional<std::string>> settings;
   for (const auto& col : tmpl.project_cols) {
     auto v = c.value("SELECT " + q(col.name) + "::text FROM cairn.projects WHERE uuid = $1", {*id});
     settings[col.name] = v;
   }
-  (void)settings_row;
   NewProject np;
   np.name = o.project;
   if (settings["utm_zone"]) np.utm_zone = *settings["utm_zone"];
@@ -1190,8 +1196,6 @@ PullReport pull(const std::string& url, const std::string& out, const PullOption
   try {
     f.write([&] {
       ensure_review_tables(f);
-      std::string set;
-      std::vector<std::string> vals;
       for (const auto& col : tmpl.project_cols) {
         const auto& v = settings[col.name];
         if (!v) continue;
