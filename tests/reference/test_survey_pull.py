@@ -1,7 +1,7 @@
 #!/usr/bin/python3
 """cairn pull against a real survey store, and a publish killed mid-way.
 
-Outside references:
+Source: outside references, as follows:
   - The stations inside a W,S,E,N box, computed here from the project file's
     latitudes and longitudes (Python's sqlite3), against the pulled file; the
     box also checked by PostGIS (ST_MakeEnvelope / ST_Intersects).

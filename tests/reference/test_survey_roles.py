@@ -4,7 +4,7 @@ its own projects, a supervisor reads everything and writes only reviews and
 sign-offs, a refused publish names project and reason and writes nothing, and
 passwords come from the libpq password file, never from the command line.
 
-Outside references:
+Source: outside references, as follows:
   - PostgreSQL 15 documentation, "Row Security Policies" (rows another crew's
     role cannot see are not updated: UPDATE reports 0 rows; an INSERT against a
     WITH CHECK policy fails) and "Privileges" (permission denied, SQLSTATE 42501),

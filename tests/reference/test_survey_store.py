@@ -2,7 +2,7 @@
 """The survey store (cairn survey init, cairn publish) against a real PostgreSQL
 + PostGIS server, PROJ and GDAL.
 
-Outside references:
+Source: outside references, as follows:
   - PostGIS ST_X / ST_Y of every station layer feature against the latitude and
     longitude in the project files (read with Python's sqlite3, SQLite's own reader).
   - PostGIS ST_Transform to the project's UTM zone against PROJ (pyproj,

@@ -1,6 +1,6 @@
 // The survey store's library (storage/survey) against a real PostgreSQL server.
 //
-// Outside sources:
+// Source: outside references, as follows:
 //  - PostgreSQL 15 documentation, libpq "Connection URIs" (the URI examples
 //    there) for the password redaction, and "COPY", "Text Format" (\N for NULL;
 //    \b \f \n \r \t \v, \digits octal; backslash) for the COPY codec;
