@@ -1016,6 +1016,35 @@ PublishReport publish(const std::string& file, const std::string& url, const Pub
     });
     mirror.db().exec("PRAGMA foreign_keys = ON");
     T("filled");
+    // Every row of the file already in the store, the same to the last value:
+    // merge would skip them all (its own logs, conflicts and clash lists are
+    // not carried from a source, so they are not compared).
+    bool news = rep.project_created;
+    {
+      static const std::set<std::string> not_carried = {"merges", "conflicts", "conflict_values", "key_clashes"};
+      Db src(file, SQLITE_OPEN_READONLY);
+      if (src.query_int("PRAGMA user_version") != kSchemaVersion) news = true;  // merge migrates a copy
+      for (const auto& t : tmpl.tables) {
+        if (news) break;
+        if (not_carried.count(t.name)) continue;
+        Stmt has(src, "SELECT 1 FROM sqlite_master WHERE type = 'table' AND name = ?");
+        has.bind(1, t.name);
+        if (!has.step()) continue;
+        const auto& stored = snap[t.name];
+        for (const auto& [key, line] : dump_rows(src, t)) {
+          auto it = stored.find(key);
+          if (it == stored.end() || it->second != line) {
+            news = true;
+            break;
+          }
+        }
+      }
+    }
+    T("compared");
+    if (!news) {
+      c.exec("ROLLBACK");
+      return rep;
+    }
     // A copy of the file (SQLite documentation, "VACUUM INTO"); when it is of
     // this build's schema, what needs no judgement goes straight in first.
     const std::string copy = scratch.file(fs::path(file).filename().string());
