@@ -642,8 +642,10 @@ void copy_insert(Conn& c, const std::string& table, const std::string& cols, con
 
 // Writes the rows of DB that differ from SNAP to the store, and deletes the
 // rows SNAP has that DB no longer has.
+// DIRECT: the role is not subject to row-level security (the store's owner), so
+// a table of which the store held no row of the project is filled with one COPY.
 std::map<std::string, TableWrite> write_back(Conn& c, Db& db, const std::vector<TableDef>& tables,
-                                             const std::string& project, const Snapshot& snap) {
+                                             const std::string& project, const Snapshot& snap, bool direct) {
   std::map<std::string, TableWrite> out;
   const std::string lit = c.literal(project);
   for (const auto& t : tables) {
@@ -691,8 +693,11 @@ std::map<std::string, TableWrite> write_back(Conn& c, Db& db, const std::vector<
       std::string set;
       for (const auto& col : cols)
         if (std::find(pk.begin(), pk.end(), col) == pk.end()) set += (set.empty() ? "" : ", ") + q(col) + " = EXCLUDED." + q(col);
-      copy_insert(c, t.name, "project, " + joined(cols), data,
-                  " ON CONFLICT (project, " + joined(pk) + ") DO " + (set.empty() ? "NOTHING" : "UPDATE SET " + set));
+      if (direct && before.empty())
+        c.copy_in("COPY cairn." + q(t.name) + " (project, " + joined(cols) + ") FROM STDIN", data);
+      else
+        copy_insert(c, t.name, "project, " + joined(cols), data,
+                    " ON CONFLICT (project, " + joined(pk) + ") DO " + (set.empty() ? "NOTHING" : "UPDATE SET " + set));
     }
     if (written || removed) out[t.name] = {written, removed};
   }
@@ -1082,7 +1087,7 @@ PublishReport publish(const std::string& file, const std::string& url, const Pub
         }
         c.query("UPDATE cairn.projects SET " + set + " WHERE uuid = $1", params);
       }
-      rep.tables = write_back(c, mirror.db(), tmpl.tables, *id, snap);
+      rep.tables = write_back(c, mirror.db(), tmpl.tables, *id, snap, owner);
       T("written");
       write_check(c, mirror, *id, o.check, rep);
       T("checked");
