@@ -27,7 +27,11 @@
 // file, the published file is merged into it with `cairn merge`'s own code
 // (storage/merge.h: same rules, conflicts kept aside), and the rows that differ
 // are written back with COPY in one transaction. So publishing is idempotent and
-// independent of order exactly as merging is.
+// independent of order exactly as merging is. For speed, what merge would not
+// have to judge is taken before it runs: a file the store already holds whole
+// ends the publish at once, versions the store has are dropped and new records
+// with free codes are added as they are; everything else goes through
+// merge_files (storage/merge.h), whose rules are not repeated here.
 #pragma once
 #include <functional>
 #include <map>
