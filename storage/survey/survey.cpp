@@ -809,9 +809,9 @@ Plain take_plain(Db& mirror, const std::string& copy) {
         while (s.step()) names.push_back(s.text(0));
       }
       const std::string cols = joined(names);
-      mirror.exec("DELETE FROM src." + t + " WHERE EXISTS (SELECT 1 FROM main." + t + " m WHERE m.uuid = src." + t +
-                  ".uuid AND m.updated = src." + t + ".updated AND m.device = src." + t + ".device)");
-      d.skipped += mirror.changes();
+      mirror.exec("CREATE TEMP TABLE cairn_same AS SELECT s.uuid FROM src." + t + " s JOIN main." + t +
+                  " m ON m.uuid = s.uuid AND m.updated = s.updated AND m.device = s.device");
+      d.skipped += mirror.query_int("SELECT count(*) FROM temp.cairn_same");
       std::string fresh = "SELECT s.uuid FROM src." + t + " s WHERE NOT EXISTS (SELECT 1 FROM main." + t +
                           " m WHERE m.uuid = s.uuid) AND NOT EXISTS (SELECT 1 FROM src.key_clashes c WHERE c.record = s.uuid)";
       if (k.key) {
@@ -824,8 +824,14 @@ Plain take_plain(Db& mirror, const std::string& copy) {
       mirror.exec("INSERT INTO main." + t + " (" + cols + ") SELECT " + cols + " FROM src." + t +
                   " WHERE uuid IN (SELECT uuid FROM temp.cairn_fresh)");
       d.added += mirror.changes();
-      mirror.exec("DELETE FROM src." + t + " WHERE uuid IN (SELECT uuid FROM temp.cairn_fresh)");
-      mirror.exec("DROP TABLE temp.cairn_fresh");
+      // What stays for the merge is usually a few rows: keep them aside, empty
+      // the table at once (SQLite's truncate optimisation, "DELETE" documentation)
+      // and put them back, rather than deleting the many rows one by one.
+      mirror.exec("CREATE TEMP TABLE cairn_keep AS SELECT " + cols + " FROM src." + t +
+                  " WHERE uuid NOT IN (SELECT uuid FROM temp.cairn_fresh) AND uuid NOT IN (SELECT uuid FROM temp.cairn_same)");
+      mirror.exec("DELETE FROM src." + t);
+      mirror.exec("INSERT INTO src." + t + " (" + cols + ") SELECT " + cols + " FROM temp.cairn_keep");
+      mirror.exec("DROP TABLE temp.cairn_fresh; DROP TABLE temp.cairn_same; DROP TABLE temp.cairn_keep");
     }
     {
       std::vector<std::string> names;
