@@ -142,7 +142,8 @@ with server() as state, tempfile.TemporaryDirectory() as tmp:
     cairn(args.cairn, "publish", os.path.join(args.source, "demo_project", "tablet-a.cairn"), fresh.url())
     before = snapshot(fresh)
     p = subprocess.Popen([args.cairn, "publish", tablet, fresh.url()], stdout=subprocess.PIPE, stderr=subprocess.PIPE,
-                         text=True, env=dict(os.environ, CAIRN_PUBLISH_STALL="60"))
+                         text=True, env=dict(os.environ, CAIRN_PUBLISH_STALL="60", TMPDIR=tmp))
+    # (TMPDIR: the killed process cannot remove its scratch folder; this test's does.)
     line = p.stderr.readline()
     check("about to commit" in line, "the publish reached the point before COMMIT: " + line)
     pending = fresh.value("SELECT count(*) FROM pg_stat_activity WHERE datname = 'survey_kill' AND "
