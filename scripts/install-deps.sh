@@ -4,13 +4,15 @@
 set -euo pipefail
 want=(cmake g++ make pkg-config libeigen3-dev libgeographiclib-dev libsqlite3-dev
       libsdl2-dev libimgui-dev libstb-dev libgps-dev libgtest-dev fonts-dejavu-core libgdal-dev zlib1g-dev
-      libfmt-dev nlohmann-json3-dev libcli11-dev libhowardhinnant-date-dev libexpat1-dev)
+      libfmt-dev nlohmann-json3-dev libcli11-dev libhowardhinnant-date-dev libexpat1-dev libpq-dev)
 if [ "${1:-}" = "--test" ]; then
   # Outside references for the tests: numpy, PROJ (pyproj), GDAL's ogrinfo, gdaldem,
   # gdal_contour, gdallocationinfo and its Python bindings,
-  # a virtual display for the UI, headless Chromium for the report, gpsd for GPS replay.
+  # a virtual display for the UI, headless Chromium for the report, gpsd for GPS replay,
+  # PostgreSQL + PostGIS for a throwaway survey store (tests/survey/pg_cluster.sh).
   want+=(xvfb xauth python3 python3-numpy python3-pyproj gdal-bin python3-gdal chromium
-         mesa-utils libgl1-mesa-dri gpsd gpsd-clients dpkg-dev git clang-format)
+         mesa-utils libgl1-mesa-dri gpsd gpsd-clients dpkg-dev git clang-format
+         postgresql-15 postgresql-15-postgis-3)
 fi
 missing=()
 for p in "${want[@]}"; do

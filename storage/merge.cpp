@@ -427,7 +427,7 @@ public:
       rep_.warnings.push_back(path + ": " + std::to_string(photos_added) +
                               " photo record(s) added; the image files are not copied: copy them beside this file");
     merge_side_tables(src, path, sm);
-    merge_terrain_of(src, path, sm);
+    if (o_.terrain) merge_terrain_of(src, path, sm);
     const bool changed = writes_ > writes_before;
     if (changed) {
       rep_.changed = true;

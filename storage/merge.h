@@ -56,6 +56,9 @@ struct MergeOptions {
   // Test hook for the atomicity tests: throw after this many rows have been
   // written to the target (nothing: never).
   std::optional<long> fail_after;
+  // Carry the sources' terrain (storage/terrain.h). Off for a target that keeps
+  // no terrain (the survey store's mirror of a project).
+  bool terrain = true;
 };
 
 struct MergeCounts {
