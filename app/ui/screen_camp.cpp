@@ -226,10 +226,9 @@ void draw_camp(App& a) {
     });
   }
   // Open merge conflicts, read again only when the project changes.
-  static std::uint64_t conflicts_rev = 0;
-  static std::vector<store::MergeConflict> conflicts;
-  if (conflicts_rev != m.revision()) {
-    conflicts_rev = m.revision();
+  std::vector<store::MergeConflict>& conflicts = cs.conflicts;
+  if (cs.conflicts_rev != m.revision()) {
+    cs.conflicts_rev = m.revision();
     try {
       conflicts = store::list_conflicts(m.project());
     } catch (const std::exception&) {

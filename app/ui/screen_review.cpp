@@ -251,12 +251,11 @@ void audit_tab(App& a) {
     text_dim("Tap a station or a reading to see its audit trail.");
   } else {
     // Read again only when the record or the project changes.
-    static std::string for_key;
-    static std::vector<store::AuditEntry> trail;
-    static std::map<std::string, std::string> devices;
+    std::vector<store::AuditEntry>& trail = rs.trail;
+    std::map<std::string, std::string>& devices = rs.devices;
     const std::string key = rs.record + "|" + std::to_string(m.revision());
-    if (key != for_key) {
-      for_key = key;
+    if (key != rs.trail_key) {
+      rs.trail_key = key;
       trail = store::audit_trail(m.project(), rs.record);
       devices.clear();
       for (const auto& d : store::list_devices(m.project())) devices[d.meta.uuid] = d.name;

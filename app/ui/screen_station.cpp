@@ -231,7 +231,7 @@ void draw_station(App& a) {
       a.act("GPS position of " + s->code, [&](store::Project& p) { store::update(p, u); });
     }
     ImGui::SameLine();
-    static std::string typing_for;
+    std::string& typing_for = a.edit.typing_for;
     const bool typing = typing_for == s->meta.uuid;
     if (button(typing ? "Close typing" : "Type position", 0, writable)) typing_for = typing ? "" : s->meta.uuid;
     if (typing_for == s->meta.uuid && m.station(a.station)) {
