@@ -123,7 +123,10 @@ std::string format_attitude(double azimuth, double angle);
 
 NetStatistics net_statistics(const NetData& d, const NetOptions& o);
 std::vector<std::string> net_legend(const NetData& d, const NetStatistics& s, const NetOptions& o);
-NetLayout net_layout(const Rect& r, bool has_title, int legend_lines, const NetOptions& o);
+// legend_width: the widest legend line (canvas units); 0 when not known, and the
+// legend then goes beside the net only on a rectangle much wider than tall.
+// Known, the legend goes where the net comes out larger (beside or below).
+NetLayout net_layout(const Rect& r, bool has_title, int legend_lines, const NetOptions& o, double legend_width = 0);
 // Draws the whole net (title, net, legend) and returns the statistics it drew.
 NetStatistics draw_net(Canvas& c, const Rect& r, const NetData& d, const NetOptions& o);
 

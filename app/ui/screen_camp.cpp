@@ -142,8 +142,11 @@ void draw_camp(App& a) {
   const auto others = files_beside(project, {".cairn"});
   file_list(a, "others", others, list_h);
   const bool is_cairn = !cs.selected.empty() && ext_of(cs.selected) == ".cairn";
-  if (button("Merge " + (is_cairn ? fs::path(cs.selected).filename().string() : std::string("(choose a project file)")) + " into this project",
-             -1, writable && !busy && is_cairn, true)) {
+  // A long file name is shortened to the button (the list above shows it whole).
+  const std::string merge_label = "Merge " + (is_cairn ? fs::path(cs.selected).filename().string() : std::string("(choose a project file)")) +
+                                  " into this project";
+  const float merge_room = ImGui::GetContentRegionAvail().x - ImGui::GetStyle().FramePadding.x * 2;
+  if (button(fit_to_width(merge_label, merge_room) + "##merge", -1, writable && !busy && is_cairn, true)) {
     const std::string file = cs.selected;
     Model* model = &m;
     CampState* camp = &cs;

@@ -135,7 +135,7 @@ void draw_logbook(App& a) {
   }
   const std::vector<Row>& rows = a.logbook.rows;
 
-  ImGui::BeginChild("days", ImVec2(0, 0), true);
+  ImGui::BeginChild("days", ImVec2(0, fill_height()), true);
   if (rows.empty())
     text_dim(m.stations().empty() ? "No stations yet. Tap \"+ New station\" at the first outcrop."
                                   : "No station matches these filters.");
