@@ -118,6 +118,9 @@ struct CampState {
   int kind = 0;          // what the file holds (import)
   std::string contact;   // GPX points: the contact they belong to
   std::vector<std::string> log;
+  // Pick-list forms: the lithology chosen in the list, and the texts being typed.
+  std::string lithology, new_lithology, unit_code, unit_name, person_initials, person_name;
+  std::string list_error;
   // Open merge conflicts, read again only when the project changes.
   std::uint64_t conflicts_rev = 0;
   std::vector<store::MergeConflict> conflicts;

@@ -12,6 +12,7 @@
 #include "app/ui/text_util.h"
 #include "app/ui/widgets.h"
 #include "geomath/notation.h"
+#include "storage/pick_lists.h"
 #include "storage/repository.h"
 
 namespace cairn::ui {
@@ -247,7 +248,12 @@ void pad_choices(App& a, const store::Station& st, store::North north, const Dec
     }
   }
   {
-    const auto& kinds = pad.linear ? kLineKinds : kPlaneKinds;
+    // The project's structure list decides the kinds offered (an empty list: all of them).
+    std::vector<std::string> kinds;
+    for (const auto& k : pad.linear ? kLineKinds : kPlaneKinds)
+      if (store::allowed_by(m.structures(), k)) kinds.push_back(k);
+    if (kinds.empty()) kinds = pad.linear ? kLineKinds : kPlaneKinds;  // the list names only the other type
+    if (std::find(kinds.begin(), kinds.end(), pad.kind) == kinds.end()) pad.kind = kinds.front();
     std::vector<std::string> labels;
     int sel = 0;
     for (size_t i = 0; i < kinds.size(); ++i) {
