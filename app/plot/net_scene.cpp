@@ -198,7 +198,7 @@ NetStatistics net_statistics(const NetData& d, const NetOptions& o) {
   if (o.contours && static_cast<int>(poles.size()) >= std::max(1, o.contour_min_data)) {
     geo::DensityOptions dopt;
     dopt.method = o.counting;
-    dopt.grid_nodes = o.grid_nodes;
+    dopt.grid_nodes = o.grid_nodes > 0 ? o.grid_nodes : poles.size() < 200 ? 121 : 61;
     if (auto g = geo::density_grid(o.kind, poles, dopt)) {
       s.density = *g;
       s.contour_levels = geo::contour_levels(*g, o.counting == geo::CountingMethod::Kamb ? 2.0 : 1.0);

@@ -84,7 +84,9 @@ struct NetOptions {
   double grid_step = 10;
   bool contours = false;
   geo::CountingMethod counting = geo::CountingMethod::Kamb;
-  int grid_nodes = 61;
+  // Density grid nodes per side; 0: 121 for fewer than 200 poles (a Kamb count is a
+  // step function, and on few poles a coarse grid draws its rings as visible steps), else 61.
+  int grid_nodes = 0;
   int contour_min_data = 3;
   bool statistics = false;
   bool legend = true;
