@@ -269,16 +269,31 @@ ALTER TABLE project ADD COLUMN nearby_radius REAL NOT NULL DEFAULT 0
   CHECK (nearby_radius BETWEEN 0 AND 100000);
 )SQL";
 
-// Pick-lists: the project's lists of lithologies and structure kinds to choose
-// from (units and people are records and make their own lists), in the order
-// they were added (storage/pick_lists.h). An empty list does not restrict.
-const char* const kMigratePickLists = R"SQL(
+// The outcrop day's tables, one migration step:
+//  - pick_lists: the project's lists of lithologies and structure kinds to
+//    choose from (units and people are records and make their own lists), in
+//    the order they were added (storage/pick_lists.h). An empty list does not restrict.
+//  - track_points: the day track, the receiver's fixes thinned while the UI
+//    runs (geomath/track.h, storage/track.h): who carried the tablet, when,
+//    where, and how well the receiver knew it.
+const char* const kMigratePickListsAndTrack = R"SQL(
 CREATE TABLE pick_lists (
   list      TEXT NOT NULL CHECK (list IN ('lithology', 'structure')),
   code      TEXT NOT NULL CHECK (length(code) BETWEEN 1 AND 64),
   position  INTEGER NOT NULL DEFAULT 0,
   PRIMARY KEY (list, code)
 );
+CREATE TABLE track_points (
+  id          INTEGER PRIMARY KEY,
+  person      TEXT NOT NULL DEFAULT '',
+  device      TEXT NOT NULL DEFAULT '',
+  time        TEXT NOT NULL,
+  lat         REAL NOT NULL CHECK (lat BETWEEN -90 AND 90),
+  lon         REAL NOT NULL CHECK (lon BETWEEN -180 AND 180),
+  elevation   REAL,
+  h_accuracy  REAL CHECK (h_accuracy IS NULL OR h_accuracy >= 0)
+);
+CREATE INDEX track_points_time ON track_points(person, time);
 )SQL";
 
 const char* const kRecordTables[] = {"devices", "people", "units",  "contacts", "stations",
@@ -298,7 +313,7 @@ void create_schema(Db& db) {
 void migrate(Db& db, int from) {
   if (from < 1 || from > kSchemaVersion)
     throw std::logic_error("no migration from schema version " + std::to_string(from));
-  static const char* const steps[] = {nullptr, kMigrate1to2, kMigrate2to3, kMigrate3to4, kMigratePickLists};  // steps[v]: v -> v+1
+  static const char* const steps[] = {nullptr, kMigrate1to2, kMigrate2to3, kMigrate3to4, kMigratePickListsAndTrack};  // steps[v]: v -> v+1
   for (int v = from; v < kSchemaVersion; ++v) {
     db.exec(steps[v]);
     db.exec("PRAGMA user_version = " + std::to_string(v + 1));

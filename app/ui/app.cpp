@@ -17,7 +17,9 @@
 #include "app/ui/script.h"
 #include "app/ui/text_util.h"
 #include "app/ui/widgets.h"
+#include "formats/ids.h"
 #include "storage/repository.h"
+#include "storage/track.h"
 
 namespace cairn::ui {
 
@@ -104,7 +106,20 @@ void App::set_person(const std::string& uuid) {
   if (model) model->project().set_person(uuid);
 }
 
+void App::log_track() {
+  if (!model || model->project().read_only() || !fix.has_position()) return;
+  const geo::TrackFix f{static_cast<double>(SDL_GetTicks()) / 1000.0, fix.lat, fix.lon};
+  if (!geo::keep_fix(track_last_, f)) return;
+  track_last_ = f;  // also after a failure: no retry every frame
+  try {
+    store::add_track_point(model->project(), {person_, formats::utc_now(), fix.lat, fix.lon, fix.altitude, fix.h_accuracy});
+  } catch (const std::exception& e) {
+    notify(std::string("The day track was not saved: ") + e.what());
+  }
+}
+
 bool App::open_project(const std::string& path, std::string* error) {
+  track_last_.reset();
   try {
     store::OpenOptions oo = cli::cli_open_options(false);
     store::Project p = store::Project::open(path, oo);
@@ -608,6 +623,7 @@ int App::run() {
     jobs.poll();
     checker.poll();
     fix = gps.fix();
+    log_track();
     request_check();
     draw_frame();
     ++frame;

@@ -23,6 +23,7 @@
 #include "app/ui/jobs.h"
 #include "app/ui/model.h"
 #include "app/ui/theme.h"
+#include "geomath/track.h"
 #include "storage/merge.h"
 #include "storage/records.h"
 
@@ -217,6 +218,9 @@ private:
   int nav_per_row(float avail) const;  // 8 screens in one row, or 4 in two
   void draw_screen();
   bool write_screenshot(const std::string& path, std::string* error);
+  // The day track: keeps this frame's GPS fix in the project when the thinning
+  // rule (geomath/track.h) says so.
+  void log_track();
 
   SDL_Window* window_ = nullptr;
   void* gl_ = nullptr;
@@ -230,6 +234,7 @@ private:
   long long primary_finger_ = -1;
   bool want_text_ = false;
   std::string pending_screenshot_;
+  std::optional<geo::TrackFix> track_last_;  // the last fix kept in the day track (this project)
   // Time to build each frame (events to ImGui::Render, no GPU work), for --frame-stats.
   std::vector<double> build_ms_;
 };

@@ -534,8 +534,8 @@ TEST(Merge, AnOlderTabletFileIsMergedAndLeftUntouched) {
   }
   {
     Db db(a, SQLITE_OPEN_READWRITE);
-    // Back to version 2: without the v3 tables, the v4 project setting and the pick-lists.
-    db.exec("DROP TABLE pick_lists; DROP TABLE conflict_values; DROP TABLE conflicts; DROP TABLE key_clashes; "
+    // Back to version 2: without the v3 tables, the v4 project setting, the pick-lists and the track.
+    db.exec("DROP TABLE pick_lists; DROP TABLE track_points; DROP TABLE conflict_values; DROP TABLE conflicts; DROP TABLE key_clashes; "
             "ALTER TABLE project DROP COLUMN nearby_radius; PRAGMA user_version = 2");
     db.exec("PRAGMA journal_mode = DELETE");
   }
