@@ -39,7 +39,7 @@ TEST_F(UiTest, PickListsAreEditedOnTheCampScreenAndTheReadingPadOffersOnlyTheLis
   std::string s = "wait 3\nwait-idle\ntap \"Camp\"\nwait 2\n";
   s += "tap \"joint\"\nwait 2\ntap \"bedding\"\nwait 2\n";
   s += "tap \"new lithology\"\ntype \"quartz sandstone\"\nwait 2\ntap \"Add lithology\"\nwait 2\n";
-  s += "drag 1000 650 1000 200\nwait 3\n";  // a finger scrolls the Camp's right column up
+  s += "drag 1000 650 1000 200\nwait 5\nwait-for \"Add unit\"\n";  // a finger scrolls the Camp's right column up
   s += "tap \"unit code\"\ntype \"Kls\"\ntap \"unit name\"\ntype \"grey limestone\"\nwait 2\ntap \"Add unit\"\nwait 2\n";
   s += "tap \"initials\"\ntype \"BX\"\ntap \"person name\"\ntype \"Bo Xu\"\nwait 2\ntap \"Add person\"\nwait 2\n";
   s += "expect \"Units, oldest first: Kls\"\nexpect \"People: AQ, BX\"\n";
