@@ -8,7 +8,7 @@ if [ "${1:-}" = "--test" ]; then
   # Outside references for the tests: numpy, PROJ (pyproj), GDAL's ogrinfo,
   # a virtual display for the UI, headless Chromium for the report, gpsd for GPS replay.
   want+=(xvfb xauth python3 python3-numpy python3-pyproj gdal-bin chromium
-         mesa-utils libgl1-mesa-dri gpsd gpsd-clients dpkg-dev git)
+         mesa-utils libgl1-mesa-dri gpsd gpsd-clients dpkg-dev git libxml2-utils)
 fi
 missing=()
 for p in "${want[@]}"; do
