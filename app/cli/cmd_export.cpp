@@ -26,7 +26,7 @@ int run(const Args& in, std::ostream& out, std::ostream& err) {
 
   auto project = open_project(file, true, err);
   store::ExportOptions o;
-  if (*format != store::ExportFormat::CsvFolder) {
+  if (*format != store::ExportFormat::CsvFolder && *format != store::ExportFormat::Gpx) {
     try {
       const geo::MagneticModel* model = &wmm();
       o.local_declination = [model](double lat, double lon, double year) -> std::optional<double> {
@@ -39,6 +39,7 @@ int run(const Args& in, std::ostream& out, std::ostream& err) {
   const store::ExportSummary s = store::export_project(project, target, o);
   const char* what = s.format == store::ExportFormat::GeoPackage ? "GeoPackage"
                      : s.format == store::ExportFormat::GeoJson  ? "GeoJSON"
+                     : s.format == store::ExportFormat::Gpx      ? "GPX"
                                                                  : "CSV folder";
   if (json) {
     JsonWriter j(out);
@@ -67,7 +68,7 @@ int run(const Args& in, std::ostream& out, std::ostream& err) {
 
 }  // namespace
 
-CAIRN_COMMAND(Command{"export", "cairn export FILE OUT.gpkg|OUT.geojson|FOLDER [--json]",
+CAIRN_COMMAND(Command{"export", "cairn export FILE OUT.gpkg|OUT.geojson|OUT.gpx|FOLDER [--json]",
                       "export to a GeoPackage, a GeoJSON file, or CSV files that `cairn import` reads back",
                       run});
 

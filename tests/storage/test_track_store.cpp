@@ -7,7 +7,11 @@
 // 8601-1:2019, fixed-width extended format).
 #include <gtest/gtest.h>
 
+#include <cstdlib>
+
+#include "storage/export.h"
 #include "storage/project.h"
+#include "storage/repository.h"
 #include "storage/track.h"
 #include "storage_test_util.h"
 
@@ -33,4 +37,33 @@ TEST(TrackStore, FixesAreListedByPersonAndDayInTimeOrderAndBadOnesAreRefused) {
   EXPECT_THROW(add_track_point(p, {"ada", "2026-07-06T11:00:00Z", 46.0, 181.0, std::nullopt, std::nullopt}), ValidationError);
   EXPECT_THROW(add_track_point(p, {"ada", "2026-07-06T11:00:00Z", 46.0, 14.0, std::nullopt, -1.0}), ValidationError);
   EXPECT_EQ(list_track(p).size(), 4u);
+}
+
+// `cairn export FILE OUT.gpx`: one GPX 1.1 track per person and day, read back
+// by libxml2's xmllint (Debian libxml2-utils): well-formed, the points counted.
+TEST(TrackStore, DayTracksExportAsOneGpxTrackPerPersonAndDay) {
+  ASSERT_EQ(std::system("command -v xmllint >/dev/null 2>&1"), 0) << "xmllint is missing: scripts/install-deps.sh --test";
+  TempDir dir;
+  Project p = Project::create(dir.file("t.cairn"), NewProject{"track", "33N", North::True, 0}, quiet());
+  Person who;
+  who.name = "Ada Quarry";
+  who.initials = "AQ";
+  const std::string aq = add(p, who);
+  add_track_point(p, {aq, "2026-07-06T10:00:00Z", 46.5, 14.2, 1200.0, 3.0});
+  add_track_point(p, {aq, "2026-07-06T10:05:00Z", 46.501, 14.2, std::nullopt, 3.0});
+  add_track_point(p, {aq, "2026-07-07T08:00:00Z", 46.6, 14.3, std::nullopt, std::nullopt});
+  const std::string out = dir.file("day.gpx");
+  const ExportSummary s = export_project(p, out);
+  EXPECT_EQ(s.format, ExportFormat::Gpx);
+  EXPECT_EQ(std::system(("xmllint --noout '" + out + "'").c_str()), 0);
+  auto xpath = [&](const std::string& expr) {
+    const std::string cmd = "xmllint --xpath \"" + expr + "\" '" + out + "' > '" + dir.file("x.txt") + "' 2>/dev/null";
+    EXPECT_EQ(std::system(cmd.c_str()), 0) << expr;
+    std::string v = cairn::store::testing::read_file(dir.file("x.txt"));
+    while (!v.empty() && (v.back() == '\n' || v.back() == ' ')) v.pop_back();
+    return v;
+  };
+  EXPECT_EQ(xpath("count(//*[local-name()='trk'])"), "2");
+  EXPECT_EQ(xpath("count(//*[local-name()='trkpt'])"), "3");
+  EXPECT_EQ(xpath("string(//*[local-name()='trk'][1]/*[local-name()='name'])"), "AQ 2026-07-06");
 }
