@@ -9,6 +9,7 @@
 #include "geomath/notation.h"
 #include "formats/csv.h"
 #include "formats/gpx.h"
+#include "storage/pick_lists.h"
 #include "storage/repository.h"
 #include "formats/sha256.h"
 #include "formats/validate.h"
@@ -370,7 +371,21 @@ struct Context {
   North north_default = North::True;
   std::map<std::string, int> first_line;  // natural key -> line where the file first had it
   std::map<std::string, int> digests;
+  std::set<std::string> added_people;  // people this import made (a project without a person list)
+  // The project's pick-lists, read once per import when first needed.
+  std::map<PickList, std::vector<std::string>> lists;
+  const std::vector<std::string>& list(PickList l) {
+    auto it = lists.find(l);
+    if (it == lists.end()) it = lists.emplace(l, pick_list(p, l)).first;
+    return it->second;
+  }
 };
+
+// Refuses a structure kind that the project's structure list leaves out.
+void check_structure(Context& cx, Row& row, const std::string& kind) {
+  if (!kind.empty() && !allowed_by(cx.list(PickList::Structure), kind))
+    row.error("kind", "pick-list", not_in_list(PickList::Structure, kind, cx.list(PickList::Structure)));
+}
 
 bool first_in_file(Context& cx, Row& row, const std::string& column, const std::string& key, const std::string& what) {
   auto [it, inserted] = cx.first_line.emplace(key, row.line());
@@ -409,7 +424,7 @@ std::string unit_ref(Context& cx, Row& row, const std::string& column) {
   if (code.empty()) return "";
   auto u = find_unit(cx.p, code);
   if (!u) {
-    row.error(column, "unknown-unit", "no unit '" + code + "' in the project");
+    row.error(column, "unknown-unit", not_in_list(PickList::Unit, code, cx.list(PickList::Unit)));
     return "";
   }
   return u->meta.uuid;
@@ -447,17 +462,22 @@ void station_row(Context& cx, Row& row) {
   const std::string unit = row.get("unit");
   if (!unit.empty()) {
     if (auto u = find_unit(cx.p, unit)) s.unit = u->meta.uuid;
-    else row.error("unit", "unknown-unit", "no unit '" + unit + "' in the project");
+    else row.error("unit", "unknown-unit", not_in_list(PickList::Unit, unit, cx.list(PickList::Unit)));
   }
   s.time = row.time();
   s.notes = row.get("notes");
   if (!s.code.empty()) first_in_file(cx, row, "station", s.code, "station");
-  if (row.bad()) return;
+  // A project with a person list takes only its people; the first import into a
+  // project without one makes its people from the observers' initials.
   const std::string initials = row.get("observer");
+  if (!initials.empty() && !find_person(cx.p, initials) && !cx.list(PickList::Person).empty() && cx.added_people.count(initials) == 0)
+    row.error("observer", "pick-list", not_in_list(PickList::Person, initials, cx.list(PickList::Person)));
+  if (row.bad()) return;
   if (!initials.empty()) {
     if (auto who = find_person(cx.p, initials)) {
       s.observer = who->meta.uuid;
     } else {
+      cx.added_people.insert(initials);
       Person np;
       np.name = initials;
       np.initials = initials;
@@ -494,7 +514,10 @@ void north_columns(Context& cx, Row& row, North& north, double& decl, std::strin
 void plane_row(Context& cx, Row& row) {
   PlanarReading r;
   auto st = station_ref(cx, row);
-  if (auto k = row.choice("kind", parse_plane_kind, names_of_plane_kind(), std::optional<PlaneKind>{})) r.kind = *k;
+  if (auto k = row.choice("kind", parse_plane_kind, names_of_plane_kind(), std::optional<PlaneKind>{})) {
+    r.kind = *k;
+    check_structure(cx, row, std::string(to_string(*k)));
+  }
   if (row.has("attitude")) {
     r.typed = row.required("attitude");
     r.notation = PlaneNotation::Text;
@@ -553,7 +576,10 @@ void plane_row(Context& cx, Row& row) {
 void line_row(Context& cx, Row& row) {
   LinearReading r;
   auto st = station_ref(cx, row);
-  if (auto k = row.choice("kind", parse_line_kind, names_of_line_kind(), std::optional<LineKind>{})) r.kind = *k;
+  if (auto k = row.choice("kind", parse_line_kind, names_of_line_kind(), std::optional<LineKind>{})) {
+    r.kind = *k;
+    check_structure(cx, row, std::string(to_string(*k)));
+  }
   const bool by_rake = !row.get("rake").empty();
   if (by_rake) {
     if (!row.get("trend").empty() || !row.get("plunge").empty())
@@ -675,7 +701,7 @@ ImportReport import_csv(Project& p, ImportKind kind, std::string_view text, cons
     rep.errors.push_back(e);
     return rep;
   }
-  Context cx{p, rep, {}, p.info().north_default, {}, {}};
+  Context cx{p, rep, {}, p.info().north_default, {}, {}, {}, {}};
   check_header(*table, kind, filename, header_line(text), p, cx.pos, rep.errors);
   if (!rep.errors.empty()) return rep;
   all_or_nothing(p, rep, [&] {

@@ -334,6 +334,33 @@ UPDATE sqlite_schema
 PRAGMA writable_schema = RESET;
 )SQL";
 
+// Version 7, the outcrop day's tables:
+//  - pick_lists: the project's lists of lithologies and structure kinds to
+//    choose from (units and people are records and make their own lists), in
+//    the order they were added (storage/pick_lists.h). An empty list does not restrict.
+//  - track_points: the day track, the receiver's fixes thinned while the UI
+//    runs (geomath/track.h, storage/track.h): who carried the tablet, when,
+//    where, and how well the receiver knew it.
+const char* const kMigratePickListsAndTrack = R"SQL(
+CREATE TABLE pick_lists (
+  list      TEXT NOT NULL CHECK (list IN ('lithology', 'structure')),
+  code      TEXT NOT NULL CHECK (length(code) BETWEEN 1 AND 64),
+  position  INTEGER NOT NULL DEFAULT 0,
+  PRIMARY KEY (list, code)
+);
+CREATE TABLE track_points (
+  id          INTEGER PRIMARY KEY,
+  person      TEXT NOT NULL DEFAULT '',
+  device      TEXT NOT NULL DEFAULT '',
+  time        TEXT NOT NULL,
+  lat         REAL NOT NULL CHECK (lat BETWEEN -90 AND 90),
+  lon         REAL NOT NULL CHECK (lon BETWEEN -180 AND 180),
+  elevation   REAL,
+  h_accuracy  REAL CHECK (h_accuracy IS NULL OR h_accuracy >= 0)
+);
+CREATE INDEX track_points_time ON track_points(person, time);
+)SQL";
+
 const char* const kRecordTables[] = {"devices", "people", "units",  "contacts", "stations",
                                      "planes",  "lines",  "points", "photos",   nullptr};
 
@@ -351,8 +378,9 @@ void create_schema(Db& db) {
 void migrate(Db& db, int from) {
   if (from < 1 || from > kSchemaVersion)
     throw std::logic_error("no migration from schema version " + std::to_string(from));
-  static const char* const steps[] = {nullptr, kMigrate1to2, kMigrate2to3, kMigrate3to4,
-                                      kMigrateTrust, kMigrateTerrain};  // steps[v]: v -> v+1
+  static const char* const steps[] = {nullptr,       kMigrate1to2,    kMigrate2to3,
+                                      kMigrate3to4,  kMigrateTrust,   kMigrateTerrain,
+                                      kMigratePickListsAndTrack};  // steps[v]: v -> v+1
   for (int v = from; v < kSchemaVersion; ++v) {
     db.exec(steps[v]);
     db.exec("PRAGMA user_version = " + std::to_string(v + 1));

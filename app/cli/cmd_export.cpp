@@ -30,7 +30,7 @@ int run(const ExportArgs& a, std::ostream& out, std::ostream& err) {
 
   auto project = open_project(file, true, err);
   core::ExportOptions o;
-  if (*format != core::ExportFormat::CsvFolder) {
+  if (*format != core::ExportFormat::CsvFolder && *format != core::ExportFormat::Gpx) {
     try {
       const geo::MagneticModel* model = &wmm();
       o.local_declination = [model](double lat, double lon, double year) -> std::optional<double> {
@@ -43,6 +43,7 @@ int run(const ExportArgs& a, std::ostream& out, std::ostream& err) {
   const core::ExportSummary s = core::export_project(project, target, o);
   const char* what = s.format == core::ExportFormat::GeoPackage ? "GeoPackage"
                      : s.format == core::ExportFormat::GeoJson  ? "GeoJSON"
+                     : s.format == core::ExportFormat::Gpx      ? "GPX"
                                                                  : "CSV folder";
   if (json) {
     JsonWriter j(out);

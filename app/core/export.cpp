@@ -33,6 +33,7 @@ Result<ExportFormat> export_format_for(const std::string& out) {
   const std::string e = lower_extension(out);
   if (e == ".gpkg") return ExportFormat::GeoPackage;
   if (e == ".geojson") return ExportFormat::GeoJson;
+  if (e == ".gpx") return ExportFormat::Gpx;
   std::error_code ec;
   if (fs::is_directory(out, ec) || out.back() == '/' || e.empty()) return ExportFormat::CsvFolder;
   return Result<ExportFormat>::failure("cannot tell what to write from '" + out +
@@ -68,6 +69,7 @@ ExportSummary export_project(Project& p, const std::string& out, const ExportOpt
     case ExportFormat::GeoPackage: return export_geopackage(p, out, o);
     case ExportFormat::GeoJson: return export_geojson(p, out, o);
     case ExportFormat::CsvFolder: return export_csv_folder(p, out);
+    case ExportFormat::Gpx: return export_gpx_tracks(p, out);
   }
   throw std::logic_error("unknown export format");
 }

@@ -47,7 +47,7 @@ namespace cairn::core {
 
 using store::Project;
 
-enum class ExportFormat { GeoPackage, GeoJson, CsvFolder };
+enum class ExportFormat { GeoPackage, GeoJson, CsvFolder, Gpx };
 
 // The format OUT asks for, or a failure naming OUT.
 Result<ExportFormat> export_format_for(const std::string& out);
@@ -77,6 +77,9 @@ ExportSummary export_project(Project& p, const std::string& out, const ExportOpt
 
 ExportSummary export_geopackage(Project& p, const std::string& path, const ExportOptions& o = {});
 ExportSummary export_geojson(Project& p, const std::string& path, const ExportOptions& o = {});
+// The day tracks as GPX 1.1 (OUT.gpx): one track per person and day, named
+// "INITIALS YYYY-MM-DD" (app/core/export_gpx.cpp, formats/gpx_write.h).
+ExportSummary export_gpx_tracks(Project& p, const std::string& path);
 ExportSummary export_csv_folder(Project& p, const std::string& dir);
 
 }  // namespace cairn::core

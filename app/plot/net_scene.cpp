@@ -192,7 +192,7 @@ NetStatistics net_statistics(const NetData& d, const NetOptions& o) {
   if (o.contours && static_cast<int>(poles.size()) >= std::max(1, o.contour_min_data)) {
     geo::DensityOptions dopt;
     dopt.method = o.counting;
-    dopt.grid_nodes = o.grid_nodes;
+    dopt.grid_nodes = o.grid_nodes > 0 ? o.grid_nodes : poles.size() < 200 ? 121 : 61;
     if (auto g = geo::density_grid(o.kind, poles, dopt)) {
       s.density = *g;
       s.contour_levels = geo::contour_levels(*g, o.counting == geo::CountingMethod::Kamb ? 2.0 : 1.0);
@@ -207,7 +207,7 @@ std::vector<std::string> net_legend(const NetData& d, const NetStatistics& s, co
   return out;
 }
 
-NetLayout net_layout(const Rect& r, bool has_title, int legend_lines, const NetOptions& o) {
+NetLayout net_layout(const Rect& r, bool has_title, int legend_lines, const NetOptions& o, double legend_width) {
   NetLayout l;
   l.text_size = o.text_size > 0 ? o.text_size : auto_text_size(r);
   const double ts = l.text_size;
@@ -221,11 +221,18 @@ NetLayout net_layout(const Rect& r, bool has_title, int legend_lines, const NetO
   // Room for the "N" label and the cardinal ticks around the primitive.
   const double label_room = ts * 1.3 + pad;
   const double avail_h = r.y + r.h - top;
-  const bool side = legend_lines > 0 && o.legend && r.w > 1.5 * avail_h;
   double legend_h = (o.legend && legend_lines > 0) ? legend_lines * line + pad : 0;
+  bool side = legend_lines > 0 && o.legend && r.w > 1.5 * avail_h;
+  double side_diameter = std::min(avail_h - label_room - pad, r.w * 0.55);
+  if (legend_width > 0 && legend_lines > 0 && o.legend) {
+    // Beside the net when that leaves the net larger and the legend its whole width.
+    side_diameter = std::min(avail_h - label_room - pad, r.w - legend_width - 4 * pad - ts);
+    const double below_diameter = std::min(r.w - 2 * pad - ts, avail_h - label_room - legend_h - pad);
+    side = side_diameter > below_diameter;
+  }
   double diameter;
   if (side) {
-    diameter = std::max(0.0, std::min(avail_h - label_room - pad, r.w * 0.55));
+    diameter = std::max(0.0, side_diameter);
     const double net_w = diameter + 2 * pad;
     l.frame.centre = {r.x + pad + diameter / 2, top + label_room + diameter / 2};
     l.legend = {r.x + net_w + pad, top + pad, std::max(0.0, r.w - net_w - 2 * pad), avail_h - 2 * pad};
@@ -254,7 +261,17 @@ double net_height_for_width(double width, bool has_title, int legend_lines, cons
 NetStatistics draw_net(Canvas& c, const Rect& r, const NetData& d, const NetOptions& o) {
   NetStatistics s = net_statistics(d, o);
   const auto entries = legend_entries(d, s, o);
-  const NetLayout l = net_layout(r, !d.title.empty(), o.legend ? static_cast<int>(entries.size()) : 0, o);
+  // The legend's widest line, by a mean glyph width of half an em (DejaVu Sans
+  // in mixed-case text; value from memory), the marker or stroke indent included.
+  const double ts0 = o.text_size > 0 ? o.text_size : auto_text_size(r);
+  double legend_w = 0;
+  for (const auto& e : entries) {
+    size_t glyphs = 0;
+    for (unsigned char ch : e.text)
+      if ((ch & 0xC0) != 0x80) ++glyphs;
+    legend_w = std::max(legend_w, (e.kind == LegendEntry::Text ? 0.0 : ts0 * 1.6) + 0.5 * ts0 * static_cast<double>(glyphs));
+  }
+  const NetLayout l = net_layout(r, !d.title.empty(), o.legend ? static_cast<int>(entries.size()) : 0, o, legend_w);
   const NetFrame& f = l.frame;
   if (f.radius <= 0) return s;
   const double ts = l.text_size;

@@ -84,7 +84,9 @@ struct NetOptions {
   double grid_step = 10;
   bool contours = false;
   geo::CountingMethod counting = geo::CountingMethod::Kamb;
-  int grid_nodes = 61;
+  // Density grid nodes per side; 0: 121 for fewer than 200 poles (a Kamb count is a
+  // step function, and on few poles a coarse grid draws its rings as visible steps), else 61.
+  int grid_nodes = 0;
   int contour_min_data = 3;
   bool statistics = false;
   bool legend = true;
@@ -123,7 +125,10 @@ std::string format_attitude(double azimuth, double angle);
 
 NetStatistics net_statistics(const NetData& d, const NetOptions& o);
 std::vector<std::string> net_legend(const NetData& d, const NetStatistics& s, const NetOptions& o);
-NetLayout net_layout(const Rect& r, bool has_title, int legend_lines, const NetOptions& o);
+// legend_width: the widest legend line (canvas units); 0 when not known, and the
+// legend then goes beside the net only on a rectangle much wider than tall.
+// Known, the legend goes where the net comes out larger (beside or below).
+NetLayout net_layout(const Rect& r, bool has_title, int legend_lines, const NetOptions& o, double legend_width = 0);
 // Draws the whole net (title, net, legend) and returns the statistics it drew.
 NetStatistics draw_net(Canvas& c, const Rect& r, const NetData& d, const NetOptions& o);
 

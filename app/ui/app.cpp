@@ -17,7 +17,9 @@
 #include "app/ui/script.h"
 #include "app/ui/text_util.h"
 #include "app/ui/widgets.h"
+#include "formats/ids.h"
 #include "storage/repository.h"
+#include "storage/track.h"
 
 namespace cairn::ui {
 
@@ -104,7 +106,20 @@ void App::set_person(const std::string& uuid) {
   if (model) model->project().set_person(uuid);
 }
 
+void App::log_track() {
+  if (!model || model->project().read_only() || !fix.has_position()) return;
+  const geo::TrackFix f{static_cast<double>(SDL_GetTicks()) / 1000.0, fix.lat, fix.lon};
+  if (!geo::keep_fix(track_last_, f)) return;
+  track_last_ = f;  // also after a failure: no retry every frame
+  try {
+    store::add_track_point(model->project(), {person_, formats::utc_now(), fix.lat, fix.lon, fix.altitude, fix.h_accuracy});
+  } catch (const std::exception& e) {
+    notify(std::string("The day track was not saved: ") + e.what());
+  }
+}
+
 bool App::open_project(const std::string& path, std::string* error) {
+  track_last_.reset();
   try {
     store::OpenOptions oo = cli::cli_open_options(false);
     store::Project p = store::Project::open(path, oo);
@@ -432,7 +447,22 @@ int App::nav_per_row(float avail) const {
   for (Screen s : {Screen::Logbook, Screen::Station, Screen::Pad, Screen::Net, Screen::Plan, Screen::Crosscheck,
                    Screen::Camp, Screen::Review})
     widest = std::max(widest, label_width(screen_title(s)));
-  return (widest + sp) * 8 <= avail + sp ? 8 : 4;
+  if ((widest + sp) * 8 <= avail + sp) return 8;
+  // Landscape screens keep one row (the height is short there) when the titles
+  // fit on two lines in the small font, as draw_navigation squeezes them.
+  const ImVec2 display = ImGui::GetIO().DisplaySize;
+  if (display.x <= display.y) return 4;
+  float widest_squeezed = 0;
+  ImGui::PushFont(look().fonts.small);
+  for (Screen s : {Screen::Logbook, Screen::Station, Screen::Pad, Screen::Net, Screen::Plan, Screen::Crosscheck,
+                   Screen::Camp, Screen::Review}) {
+    std::string title = screen_title(s);
+    const auto sp_at = title.find(' ');
+    if (sp_at != std::string::npos) title[sp_at] = '\n';
+    widest_squeezed = std::max(widest_squeezed, ImGui::CalcTextSize(title.c_str()).x + look().m.gap * 0.5f);
+  }
+  ImGui::PopFont();
+  return (widest_squeezed + sp) * 8 <= avail + sp ? 8 : 4;
 }
 
 void App::draw_navigation() {
@@ -453,7 +483,7 @@ void App::draw_navigation() {
       const auto sp_at = title.find(' ');
       if (sp_at != std::string::npos) title[sp_at] = '\n';
       ImGui::PushFont(lk.fonts.small);
-      ImGui::PushStyleVar(ImGuiStyleVar_FramePadding, ImVec2(ImGui::GetStyle().FramePadding.x, 0));
+      ImGui::PushStyleVar(ImGuiStyleVar_FramePadding, ImVec2(lk.m.gap * 0.25f, 0));
     }
     if (chip(title + "##" + screen_title(order[i]), here, model != nullptr, w, false)) go(order[i]);
     also_label(screen_title(order[i]));
@@ -505,13 +535,16 @@ void App::draw_frame() {
   const float nav_h = look().m.tap * nav_rows + st.ItemSpacing.y * (nav_rows + 1) + 2 + st.WindowPadding.y;
   const float body_h = std::max(look().m.tap, ImGui::GetContentRegionAvail().y - nav_h);
   canvas_min = ImGui::GetCursorScreenPos();
-  ImGui::BeginChild("screen", ImVec2(0, body_h), false, ImGuiWindowFlags_NoScrollbar | ImGuiWindowFlags_NoScrollWithMouse);
+  // The screen scrolls (a finger drag) when its content is taller than the body,
+  // e.g. at 2x density on a small tablet; its lists keep at least a few rows.
+  ImGui::BeginChild("screen", ImVec2(0, body_h), false, ImGuiWindowFlags_NoScrollWithMouse);
   canvas_max = ImVec2(canvas_min.x + ImGui::GetWindowWidth(), canvas_min.y + body_h);
   try {
     draw_screen();
   } catch (const std::exception& e) {
     error_box(std::string("This screen failed: ") + e.what());
   }
+  touch_scroll();
   ImGui::EndChild();
   ImGui::Separator();
   draw_navigation();
@@ -590,6 +623,7 @@ int App::run() {
     jobs.poll();
     checker.poll();
     fix = gps.fix();
+    log_track();
     request_check();
     draw_frame();
     ++frame;

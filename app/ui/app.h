@@ -6,6 +6,7 @@
 // and nothing needs a keyboard. Events can also come from an event script
 // (script.h), pushed through SDL's own queue.
 #pragma once
+#include <cstdint>
 #include <map>
 #include <memory>
 #include <optional>
@@ -22,6 +23,8 @@
 #include "app/ui/jobs.h"
 #include "app/ui/model.h"
 #include "app/ui/theme.h"
+#include "geomath/track.h"
+#include "storage/merge.h"
 #include "storage/records.h"
 
 namespace cairn::ui {
@@ -67,6 +70,7 @@ struct PadState {
 
 struct StationEdit {
   std::string for_station;  // UUID the buffers belong to ("" = a new station)
+  std::string typing_for;   // station whose typed-position form is open ("" = closed)
   bool utm = false;         // typing easting/northing instead of lat/lon
   int field = 0;            // 0 lat/easting, 1 lon/northing, 2 elevation
   std::string a, b, elev;
@@ -115,6 +119,12 @@ struct CampState {
   int kind = 0;          // what the file holds (import)
   std::string contact;   // GPX points: the contact they belong to
   std::vector<std::string> log;
+  // Pick-list forms: the lithology chosen in the list, and the texts being typed.
+  std::string lithology, new_lithology, unit_code, unit_name, person_initials, person_name;
+  std::string list_error;
+  // Open merge conflicts, read again only when the project changes.
+  std::uint64_t conflicts_rev = 0;
+  std::vector<store::MergeConflict> conflicts;
 };
 
 struct ReviewState {
@@ -124,11 +134,23 @@ struct ReviewState {
   std::string comment;
   std::string record;  // record whose audit trail is shown
   std::string message;
+  // The audit trail shown, read again only when the record or the project changes.
+  std::string trail_key;
+  std::vector<store::AuditEntry> trail;
+  std::map<std::string, std::string> devices;  // device UUID -> name
+};
+
+// One row of the Logbook: a day heading (uuid empty) or a station.
+struct LogbookRow {
+  std::string text, uuid, code;
 };
 
 struct LogbookState {
   std::string person, unit;  // filters, "" = all
   int flags = 0;             // 0 all, 1 with flags, 2 with hazard flags
+  // The rows, built once per change of the project, the check or the filters.
+  std::string rows_key;
+  std::vector<LogbookRow> rows;
 };
 
 // One finger on the screen (pixels).
@@ -196,6 +218,9 @@ private:
   int nav_per_row(float avail) const;  // 8 screens in one row, or 4 in two
   void draw_screen();
   bool write_screenshot(const std::string& path, std::string* error);
+  // The day track: keeps this frame's GPS fix in the project when the thinning
+  // rule (geomath/track.h) says so.
+  void log_track();
 
   SDL_Window* window_ = nullptr;
   void* gl_ = nullptr;
@@ -209,6 +234,7 @@ private:
   long long primary_finger_ = -1;
   bool want_text_ = false;
   std::string pending_screenshot_;
+  std::optional<geo::TrackFix> track_last_;  // the last fix kept in the day track (this project)
   // Time to build each frame (events to ImGui::Render, no GPU work), for --frame-stats.
   std::vector<double> build_ms_;
 };

@@ -1,5 +1,7 @@
 #include "app/ui/model.h"
 
+#include "storage/pick_lists.h"
+
 #include <algorithm>
 #include <cstdio>
 #include <cstdlib>
@@ -52,6 +54,13 @@ void Model::reload() {
   photos_ = store::list_photos(project_);
   reviews_ = store::list_flag_reviews(project_);
   signoffs_ = store::list_signoffs(project_);
+  try {
+    structures_ = store::pick_list(project_, store::PickList::Structure);
+    lithologies_ = store::pick_list(project_, store::PickList::Lithology);
+  } catch (const std::exception&) {
+    structures_.clear();  // a file from before pick-lists, opened read-only
+    lithologies_.clear();
+  }
   index_by_uuid(stations_, station_ix_);
   index_by_uuid(units_, unit_ix_);
   index_by_uuid(contacts_, contact_ix_);

@@ -60,6 +60,9 @@ public:
   const std::vector<store::Photo>& photos() const { return photos_; }
   const std::vector<store::FlagReview>& reviews() const { return reviews_; }
   const std::vector<store::DaySignoff>& signoffs() const { return signoffs_; }
+  // The project's structure-kind and lithology pick-lists (storage/pick_lists.h; empty: not restricted).
+  const std::vector<std::string>& structures() const { return structures_; }
+  const std::vector<std::string>& lithologies() const { return lithologies_; }
 
   const store::Station* station(const std::string& uuid) const;
   const store::Unit* unit(const std::string& uuid) const;
@@ -117,6 +120,7 @@ private:
   std::vector<store::Photo> photos_;
   std::vector<store::FlagReview> reviews_;
   std::vector<store::DaySignoff> signoffs_;
+  std::vector<std::string> structures_, lithologies_;
   std::unordered_map<std::string, size_t> station_ix_, unit_ix_, contact_ix_, person_ix_, plane_ix_;
   std::optional<LastAction> last_;
   std::shared_ptr<const CheckResult> check_;

@@ -1,5 +1,5 @@
 // Camp: import CSV and GPX files, merge other tablets' project files into this
-// one, export, and run a full check, each on the worker thread with a progress
+// one, export, edit the project's pick-lists, and run a full check, each on the worker thread with a progress
 // bar while the UI keeps drawing. Files are chosen from the project's folder
 // by tapping them, so no keyboard is needed.
 #include <algorithm>
@@ -13,6 +13,9 @@
 #include "storage/import.h"
 #include "app/core/export.h"
 #include "storage/merge.h"
+#include "storage/pick_lists.h"
+#include "storage/repository.h"
+#include <imgui_stdlib.h>
 
 namespace cairn::ui {
 
@@ -66,6 +69,125 @@ void file_list(App& a, const char* id, const std::vector<fs::path>& files, float
   if (files.empty()) text_dim("none in the project's folder");
   touch_scroll();
   ImGui::EndChild();
+}
+
+// A text field one tap high with a hint, recorded for the event script under LABEL.
+void text_field(const char* label, const char* hint, std::string* value, float width) {
+  wrap_if_past_edge(width);
+  ImGui::SetNextItemWidth(width);
+  ImGui::InputTextWithHint((std::string("##") + label).c_str(), hint, value);
+  this_frame().targets.push_back({label, ImGui::GetItemRectMin(), ImGui::GetItemRectMax(), true});
+  record_box(label);
+}
+
+// The project's pick-lists, edited here so that no mapper types a code at the
+// outcrop: structure kinds (chips: tap to list or unlist), lithologies (add by
+// name, tap one then remove it), units and people (added as records). Every
+// change is one undoable action.
+void pick_lists(App& a) {
+  Model& m = *a.model;
+  Look& lk = look();
+  CampState& cs = a.camp;
+  const bool writable = !m.project().read_only();
+  auto change = [&](const std::string& label, const std::function<void(store::Project&)>& f,
+                    const std::function<void(store::Project&)>& undo) {
+    cs.list_error.clear();
+    if (!m.act_custom(label, f, undo, &cs.list_error)) return false;
+    a.request_check();
+    return true;
+  };
+  heading("Pick-lists");
+  text_dim("Structure kinds offered on the Reading pad (none chosen: all of them)");
+  {
+    std::vector<std::string> kinds;
+    for (const std::string& names : {store::names_of_plane_kind(), store::names_of_line_kind()}) {
+      size_t at = 0;
+      while (at <= names.size()) {
+        const size_t comma = names.find(", ", at);
+        kinds.push_back(names.substr(at, comma == std::string::npos ? std::string::npos : comma - at));
+        if (comma == std::string::npos) break;
+        at = comma + 2;
+      }
+    }
+    ImGui::PushID("structures");
+    for (size_t i = 0; i < kinds.size(); ++i) {
+      const std::string& k = kinds[i];
+      const bool listed = std::find(m.structures().begin(), m.structures().end(), k) != m.structures().end();
+      ImGui::PushID(static_cast<int>(i));
+      if (i > 0) same_line_if_fits(label_width((listed ? "\xE2\x9C\x93 " : "") + k));
+      if (chip(k, listed, writable)) {
+        if (listed)
+          change("unlist " + k, [&](store::Project& p) { store::remove_pick(p, store::PickList::Structure, k); },
+                 [k](store::Project& p) { store::add_pick(p, store::PickList::Structure, k); });
+        else
+          change("list " + k, [&](store::Project& p) { store::add_pick(p, store::PickList::Structure, k); },
+                 [k](store::Project& p) { store::remove_pick(p, store::PickList::Structure, k); });
+      }
+      ImGui::PopID();
+    }
+    ImGui::PopID();
+  }
+  const float field_w = std::min(ImGui::GetContentRegionAvail().x, lk.m.tap * 8);
+  text_dim("Lithologies");
+  {
+    ImGui::PushID("lithologies");
+    const auto& lith = m.lithologies();
+    int sel = -1;
+    for (size_t i = 0; i < lith.size(); ++i)
+      if (lith[i] == cs.lithology) sel = static_cast<int>(i);
+    const int hit = chip_row(lith, sel, writable);
+    if (hit >= 0) cs.lithology = lith[static_cast<size_t>(hit)];
+    ImGui::PopID();
+    text_field("new lithology", "lithology, e.g. quartz sandstone", &cs.new_lithology, field_w);
+    ImGui::SameLine();
+    if (button("Add lithology", 0, writable && !cs.new_lithology.empty())) {
+      const std::string code = cs.new_lithology;
+      if (change("lithology " + code, [&](store::Project& p) { store::add_pick(p, store::PickList::Lithology, code); },
+                 [code](store::Project& p) { store::remove_pick(p, store::PickList::Lithology, code); }))
+        cs.new_lithology.clear();
+    }
+    if (sel >= 0 && button("Remove " + cs.lithology, 0, writable)) {
+      const std::string code = cs.lithology;
+      if (change("remove lithology " + code, [&](store::Project& p) { store::remove_pick(p, store::PickList::Lithology, code); },
+                 [code](store::Project& p) { store::add_pick(p, store::PickList::Lithology, code); }))
+        cs.lithology.clear();
+    }
+  }
+  std::string units;
+  for (const auto& u : m.units()) units += (units.empty() ? "" : ", ") + u.code;
+  text_dim("Units, oldest first: " + (units.empty() ? std::string("none yet") : units));
+  text_field("unit code", "code, e.g. Kls", &cs.unit_code, field_w * 0.5f);
+  ImGui::SameLine();
+  text_field("unit name", "name", &cs.unit_name, field_w);
+  ImGui::SameLine();
+  if (button("Add unit", 0, writable && !cs.unit_code.empty() && !cs.unit_name.empty())) {
+    store::Unit u;
+    u.code = cs.unit_code;
+    u.name = cs.unit_name;
+    u.age_rank = 1;
+    for (const auto& v : m.units()) u.age_rank = std::max(u.age_rank, v.age_rank + 1);  // the youngest so far
+    if (change("unit " + u.code, [&](store::Project& p) { store::add(p, u); }, nullptr)) {
+      cs.unit_code.clear();
+      cs.unit_name.clear();
+    }
+  }
+  std::string people;
+  for (const auto& who : m.people()) people += (people.empty() ? "" : ", ") + who.initials;
+  text_dim("People: " + (people.empty() ? std::string("none yet") : people));
+  text_field("initials", "initials", &cs.person_initials, field_w * 0.5f);
+  ImGui::SameLine();
+  text_field("person name", "name", &cs.person_name, field_w);
+  ImGui::SameLine();
+  if (button("Add person", 0, writable && !cs.person_initials.empty() && !cs.person_name.empty())) {
+    store::Person who;
+    who.initials = cs.person_initials;
+    who.name = cs.person_name;
+    if (change("person " + who.initials, [&](store::Project& p) { store::add(p, who); }, nullptr)) {
+      cs.person_initials.clear();
+      cs.person_name.clear();
+    }
+  }
+  if (!cs.list_error.empty()) error_box(cs.list_error);
 }
 
 }  // namespace
@@ -142,8 +264,11 @@ void draw_camp(App& a) {
   const auto others = files_beside(project, {".cairn"});
   file_list(a, "others", others, list_h);
   const bool is_cairn = !cs.selected.empty() && ext_of(cs.selected) == ".cairn";
-  if (button("Merge " + (is_cairn ? fs::path(cs.selected).filename().string() : std::string("(choose a project file)")) + " into this project",
-             -1, writable && !busy && is_cairn, true)) {
+  // A long file name is shortened to the button (the list above shows it whole).
+  const std::string merge_label = "Merge " + (is_cairn ? fs::path(cs.selected).filename().string() : std::string("(choose a project file)")) +
+                                  " into this project";
+  const float merge_room = ImGui::GetContentRegionAvail().x - ImGui::GetStyle().FramePadding.x * 2;
+  if (button(fit_to_width(merge_label, merge_room) + "##merge", -1, writable && !busy && is_cairn, true)) {
     const std::string file = cs.selected;
     Model* model = &m;
     CampState* camp = &cs;
@@ -226,10 +351,9 @@ void draw_camp(App& a) {
     });
   }
   // Open merge conflicts, read again only when the project changes.
-  static std::uint64_t conflicts_rev = 0;
-  static std::vector<store::MergeConflict> conflicts;
-  if (conflicts_rev != m.revision()) {
-    conflicts_rev = m.revision();
+  std::vector<store::MergeConflict>& conflicts = cs.conflicts;
+  if (cs.conflicts_rev != m.revision()) {
+    cs.conflicts_rev = m.revision();
     try {
       conflicts = store::list_conflicts(m.project());
     } catch (const std::exception&) {
@@ -240,6 +364,7 @@ void draw_camp(App& a) {
     heading(std::to_string(conflicts.size()) + " merge conflict" + (conflicts.size() == 1 ? "" : "s") + " to decide");
     for (size_t i = 0; i < conflicts.size() && i < 20; ++i) text_wrapped(conflicts[i].label);
   }
+  pick_lists(a);
   heading("Log");
   if (cs.log.empty()) text_dim("Nothing yet this session.");
   for (const auto& l : cs.log) text_wrapped(l);

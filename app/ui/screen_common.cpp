@@ -52,17 +52,21 @@ std::string reading_summary(const store::LinearReading& r) {
   return s;
 }
 
+void take_fix_position(store::Station& s, const GpsFix& fix) {
+  s.lat = fix.lat;
+  s.lon = fix.lon;
+  s.elevation = fix.altitude;
+  s.h_accuracy = fix.h_accuracy;
+  s.v_accuracy = fix.v_accuracy;
+  s.source = store::PositionSource::Gps;
+}
+
 void new_station(App& a) {
   Model& m = *a.model;
   if (a.fix.has_position()) {
     store::Station s;
     s.code = m.next_station_code(a.person());
-    s.lat = a.fix.lat;
-    s.lon = a.fix.lon;
-    s.elevation = a.fix.altitude;
-    s.h_accuracy = a.fix.h_accuracy;
-    s.v_accuracy = a.fix.v_accuracy;
-    s.source = store::PositionSource::Gps;
+    take_fix_position(s, a.fix);
     s.observer = a.person();
     s.time = now_local_iso();
     // A new station takes the unit of the last one: mappers walk along a unit.
@@ -92,7 +96,7 @@ void draw_open(App& a) {
   }
   std::sort(found.begin(), found.end());
   found.erase(std::unique(found.begin(), found.end()), found.end());
-  ImGui::BeginChild("files", ImVec2(0, ImGui::GetContentRegionAvail().y - lk.m.tap * 3.2f));
+  ImGui::BeginChild("files", ImVec2(0, std::max(lk.m.tap * 2, ImGui::GetContentRegionAvail().y - lk.m.tap * 3.2f)));
   for (const auto& f : found) {
     ImGui::PushID(f.string().c_str());
     if (button(f.filename().string() + "   (" + f.parent_path().string() + ")", -1)) {

@@ -182,8 +182,12 @@ void draw_crosscheck(App& a) {
   for (auto s : {geo::Severity::Hazard, geo::Severity::Conflict, geo::Severity::Query, geo::Severity::Note})
     if (counts[s]) summary += ",  " + std::to_string(counts[s]) + " " + geo::severity_name(s);
   summary += "   (" + std::to_string(c->report.fits.size()) + " contacts fitted)";
+  // The summary and the severity filter share a line when they fit (more rows for the list).
+  ImGui::AlignTextToFramePadding();
   heading(summary);
   {
+    ImGui::SameLine();
+    wrap_if_past_edge(ImGui::CalcTextSize("Show from").x + label_width("\xE2\x9C\x93 note") * 2);
     ImGui::AlignTextToFramePadding();
     text_dim("Show from");
     ImGui::SameLine();
@@ -206,7 +210,7 @@ void draw_crosscheck(App& a) {
     a.opts.flag.clear();
   }
 
-  ImGui::BeginChild("flags", ImVec2(0, 0), true);
+  ImGui::BeginChild("flags", ImVec2(0, fill_height()), true);
   std::string last_station = "\x01";
   for (size_t i = 0; i < c->report.flags.size(); ++i) {
     const auto& f = c->report.flags[i];
@@ -229,14 +233,7 @@ void draw_crosscheck(App& a) {
       ImGui::PushStyleColor(ImGuiCol_Text, ImGui::ColorConvertU32ToFloat4(lk.pal.caution_text));
     }
     // Long messages are cut to the row; the whole text is in the flag's window.
-    std::string shown = line;
-    const float w = ImGui::GetContentRegionAvail().x - ImGui::GetStyle().FramePadding.x * 2;
-    while (shown.size() > 8 && ImGui::CalcTextSize(shown.c_str()).x > w) shown.resize(shown.size() - 4);
-    if (shown.size() < line.size()) {
-      while (!shown.empty() && (static_cast<unsigned char>(shown.back()) & 0xC0) == 0x80) shown.pop_back();
-      if (!shown.empty()) shown.pop_back();
-      shown += "\xE2\x80\xA6";
-    }
+    const std::string shown = fit_to_width(line, ImGui::GetContentRegionAvail().x - ImGui::GetStyle().FramePadding.x * 2);
     if (button(shown + "##flag", -1)) {
       cs.open_key = key;
       cs.acknowledged = false;

@@ -16,10 +16,7 @@ struct StationFlags {
   geo::Severity worst = geo::Severity::Note;
 };
 
-// One row of the list: a day heading (uuid empty) or a station.
-struct Row {
-  std::string text, uuid, code;
-};
+using Row = LogbookRow;
 
 std::vector<Row> build_rows(const App& a) {
   const Model& m = *a.model;
@@ -132,14 +129,13 @@ void draw_logbook(App& a) {
   auto check = m.check();
   const std::string key = std::to_string(m.revision()) + "|" + std::to_string(check ? check->revision : 0) + "|" +
                           a.logbook.person + "|" + a.logbook.unit + "|" + std::to_string(a.logbook.flags);
-  static std::string built_for;
-  static std::vector<Row> rows;
-  if (key != built_for) {
-    built_for = key;
-    rows = build_rows(a);
+  if (key != a.logbook.rows_key) {
+    a.logbook.rows_key = key;
+    a.logbook.rows = build_rows(a);
   }
+  const std::vector<Row>& rows = a.logbook.rows;
 
-  ImGui::BeginChild("days", ImVec2(0, 0), true);
+  ImGui::BeginChild("days", ImVec2(0, fill_height()), true);
   if (rows.empty())
     text_dim(m.stations().empty() ? "No stations yet. Tap \"+ New station\" at the first outcrop."
                                   : "No station matches these filters.");

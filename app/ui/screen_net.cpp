@@ -47,7 +47,7 @@ void draw_net_screen(App& a) {
 
   const float avail = ImGui::GetContentRegionAvail().x;
   const bool two = avail > lk.m.tap * 16;
-  const float left_w = two ? std::min(avail * 0.42f, lk.m.tap * 10.0f) : avail;
+  const float left_w = two ? std::min(avail * 0.36f, lk.m.tap * 8.5f) : avail;  // the net takes the rest
   ImGui::BeginChild("netfilters", ImVec2(left_w, two ? 0 : lk.m.tap * 5), false);
   {
     ImGui::PushID("display");

@@ -12,6 +12,7 @@
 #include "app/ui/text_util.h"
 #include "app/ui/widgets.h"
 #include "geomath/notation.h"
+#include "storage/pick_lists.h"
 #include "storage/repository.h"
 
 namespace cairn::ui {
@@ -75,31 +76,34 @@ Parsed parse(const PadState& pad, const Model& m) {
   return r;
 }
 
-}  // namespace
+// ---- the steps of the Reading pad -------------------------------------------------
 
-void draw_pad(App& a) {
-  Model& m = *a.model;
+// The declination added to a magnetic reading at this station today (0 for a
+// true-north reading and for a rake, which is measured on its host plane).
+struct Declination {
+  double degrees = 0;
+  std::string note;  // shown under the north reference ("" = none)
+};
+
+Declination pad_declination(Model& m, const PadState& pad, const store::Station& st, store::North north) {
+  Declination d;
+  if (north != store::North::Magnetic || (pad.linear && pad.notation == 1)) return d;
+  try {
+    const auto v = m.project().declination_at(st.lat, st.lon, "");
+    d.degrees = v.degrees;
+    d.note = "declination " + fmt("%.1f\xC2\xB0", std::abs(v.degrees)) + (v.degrees >= 0 ? " E" : " W") + " (" + v.source +
+             ") will be added";
+  } catch (const std::exception& e) {
+    d.note = e.what();
+  }
+  return d;
+}
+
+// The heading, the notation chips, the text as typed (large) and what it means.
+void pad_typed(App& a, const store::Station& st, const Parsed& parsed) {
   Look& lk = look();
   PadState& pad = a.pad;
-  const store::Station* st = m.station(a.station);
-  if (!st) {
-    text("Choose a station first: the Reading pad adds readings to the station open on the Station sheet.");
-    if (button("Go to the Logbook", 0, true, true)) a.go(Screen::Logbook);
-    return;
-  }
-  const bool writable = !m.project().read_only();
-  const store::North north = pad.north.value_or(m.info().north_default);
-
-  // Wide screens: keypad | chips | live check; narrower: keypad | chips and check; narrow: one column.
-  const float avail = ImGui::GetContentRegionAvail().x;
-  const bool three = avail > lk.m.tap * 24;
-  const bool two = avail > lk.m.tap * 16;
-  const float left_w = three ? avail * 0.37f : two ? std::min(avail * 0.5f, lk.m.tap * 11.5f) : avail;
-  const float mid_w = three ? avail * 0.31f : 0;
-
-  // ---- left: what is typed, the keypad, record --------------------------------------
-  ImGui::BeginChild("padleft", ImVec2(left_w, 0), false);
-  heading("Station " + st->code + ": new " + (pad.linear ? "linear" : "planar") + " reading");
+  heading("Station " + st.code + ": new " + (pad.linear ? "linear" : "planar") + " reading");
   {
     std::vector<std::string> labels = pad.linear ? std::vector<std::string>{"trend/plunge", "rake"}
                                                  : std::vector<std::string>{"strike/dip (RHR)", "dip direction/dip", "quadrant"};
@@ -108,22 +112,22 @@ void draw_pad(App& a) {
     ImGui::PopID();
     if (hit >= 0) pad.notation = hit;
   }
-
-  const Parsed parsed = parse(pad, m);
-  // The text as typed, large.
-  {
-    const ImVec2 p = ImGui::GetCursorScreenPos();
-    const float w = ImGui::GetContentRegionAvail().x, h = lk.m.tap * 1.3f;
-    ImDrawList* dl = ImGui::GetWindowDrawList();
-    dl->AddRectFilled(p, ImVec2(p.x + w, p.y + h), lk.pal.panel, 4);
-    dl->AddRect(p, ImVec2(p.x + w, p.y + h), parsed.error.empty() ? lk.pal.border : lk.pal.error, 4, 0, 3);
-    const std::string shown = pad.text + "\xE2\x96\x8F";
-    ImGui::PushFont(lk.fonts.big);
-    dl->AddText(ImVec2(p.x + lk.m.gap, p.y + (h - ImGui::GetFontSize()) / 2), lk.pal.text, shown.c_str());
-    ImGui::PopFont();
-    ImGui::Dummy(ImVec2(w, h));
-    this_frame().texts.push_back("typed: " + pad.text);
+  const ImVec2 p = ImGui::GetCursorScreenPos();
+  const float w = ImGui::GetContentRegionAvail().x, h = lk.m.tap * 1.3f;
+  ImDrawList* dl = ImGui::GetWindowDrawList();
+  dl->AddRectFilled(p, ImVec2(p.x + w, p.y + h), lk.pal.panel, 4);
+  dl->AddRect(p, ImVec2(p.x + w, p.y + h), parsed.error.empty() ? lk.pal.border : lk.pal.error, 4, 0, 3);
+  ImGui::PushFont(lk.fonts.big);
+  // A long text shows its end, where the typing happens.
+  std::string shown = pad.text + "\xE2\x96\x8F";
+  while (shown.size() > 4 && ImGui::CalcTextSize(shown.c_str()).x > w - 2 * lk.m.gap) {
+    shown.erase(0, 1);
+    while (!shown.empty() && (static_cast<unsigned char>(shown[0]) & 0xC0) == 0x80) shown.erase(0, 1);
   }
+  dl->AddText(ImVec2(p.x + lk.m.gap, p.y + (h - ImGui::GetFontSize()) / 2), lk.pal.text, shown.c_str());
+  ImGui::PopFont();
+  ImGui::Dummy(ImVec2(w, h));
+  this_frame().texts.push_back("typed: " + pad.text);
   if (!parsed.error.empty()) error_box(parsed.error);
   else if (!parsed.meaning.empty()) text_wrapped(parsed.meaning);
   else
@@ -131,12 +135,16 @@ void draw_pad(App& a) {
                         : pad.notation == 0 ? "Type strike/dip by the right-hand rule, e.g. 030/40"
                         : pad.notation == 1 ? "Type dip direction/dip, e.g. 120/40"
                                             : "Type quadrant notation, e.g. N30E 40SE");
+}
 
+// The keypad, four keys a row across the column; a key tapped edits the text.
+void pad_keys(App& a) {
+  Look& lk = look();
+  PadState& pad = a.pad;
   const float kw = (ImGui::GetContentRegionAvail().x - ImGui::GetStyle().ItemSpacing.x * 3) / 4;
-  const float kh = lk.m.tap;
   const std::string key = keypad({"7", "8", "9", "N", "4", "5", "6", "S", "1", "2", "3", "E", ".", "0", "/", "W",
                                   "space", "\xE2\x8C\xAB", "Clear", ""},
-                                 4, kw, kh);
+                                 4, kw, lk.m.tap);
   if (key == "\xE2\x8C\xAB") {
     if (!pad.text.empty()) pad.text.pop_back();
   } else if (key == "Clear") {
@@ -150,69 +158,83 @@ void draw_pad(App& a) {
     pad.error.clear();
     pad.status.clear();
   }
+}
 
-  if (button("Record reading", -1, writable, true)) {
+// Writes the typed planar reading (an audited insert); pad.status or pad.error says how it went.
+void record_planar(App& a, const store::Station& st, store::North north) {
+  Model& m = *a.model;
+  PadState& pad = a.pad;
+  store::PlanarReading r;
+  r.station = st.meta.uuid;
+  r.kind = store::parse_plane_kind(pad.kind).value_or(store::PlaneKind::Bedding);
+  r.typed = pad.text;
+  r.notation = pad.notation == 0 ? store::PlaneNotation::StrikeDip
+               : pad.notation == 1 ? store::PlaneNotation::DipDirectionDip
+                                   : store::PlaneNotation::Text;
+  r.north = north;
+  if (pad.quality > 0) r.quality = pad.quality;
+  r.facing = pad.facing;
+  r.contact = pad.contact;
+  r.ref = m.next_ref(st.meta.uuid, false);
+  r.time = now_local_iso();
+  r.observer = a.person();
+  std::string err;
+  const std::string label = "reading " + r.ref + " " + pad.text + " at " + st.code;
+  if (a.act(label, [&](store::Project& p) { store::add(p, r); }, &err)) {
+    pad.status = "Recorded " + r.ref + ": " + geo::format_strike_dip({r.strike, r.dip}) + " " + kind_label(pad.kind);
+    pad.text.clear();
+  } else {
+    pad.error = err;
+  }
+}
+
+// The same for a linear reading (trend/plunge, or a rake on its host plane).
+void record_linear(App& a, const store::Station& st, store::North north) {
+  Model& m = *a.model;
+  PadState& pad = a.pad;
+  store::LinearReading r;
+  r.station = st.meta.uuid;
+  r.kind = store::parse_line_kind(pad.kind).value_or(store::LineKind::Lineation);
+  r.typed = pad.text;
+  r.north = north;
+  if (pad.notation == 1) {
+    r.host_plane = pad.host_plane;
+    r.rake = 0;  // storage reads the rake from `typed`
+  }
+  r.ref = m.next_ref(st.meta.uuid, true);
+  r.time = now_local_iso();
+  r.observer = a.person();
+  std::string err;
+  const std::string label = "reading " + r.ref + " " + pad.text + " at " + st.code;
+  if (a.act(label, [&](store::Project& p) { store::add(p, r); }, &err)) {
+    pad.status = "Recorded " + r.ref + ": " + geo::format_trend_plunge({r.trend, r.plunge}) + " " + kind_label(pad.kind);
+    pad.text.clear();
+  } else {
+    pad.error = err;
+  }
+}
+
+// "Record reading" (nothing is written when the text is empty or invalid), its outcome, and the way back.
+void pad_record(App& a, const store::Station& st, const Parsed& parsed, store::North north) {
+  Look& lk = look();
+  PadState& pad = a.pad;
+  if (button("Record reading", -1, !a.model->project().read_only(), true)) {
     pad.status.clear();
     pad.error.clear();
-    if (pad.text.empty()) {
-      pad.error = "nothing typed: type the attitude on the keypad";
-    } else if (!parsed.error.empty()) {
-      pad.error = parsed.error;  // nothing is written
-    } else if (!pad.linear) {
-      store::PlanarReading r;
-      r.station = st->meta.uuid;
-      r.kind = store::parse_plane_kind(pad.kind).value_or(store::PlaneKind::Bedding);
-      r.typed = pad.text;
-      r.notation = pad.notation == 0 ? store::PlaneNotation::StrikeDip
-                   : pad.notation == 1 ? store::PlaneNotation::DipDirectionDip
-                                       : store::PlaneNotation::Text;
-      r.north = north;
-      if (pad.quality > 0) r.quality = pad.quality;
-      r.facing = pad.facing;
-      r.contact = pad.contact;
-      r.ref = m.next_ref(st->meta.uuid, false);
-      r.time = now_local_iso();
-      r.observer = a.person();
-      std::string err;
-      const std::string label = "reading " + r.ref + " " + pad.text + " at " + st->code;
-      if (a.act(label, [&](store::Project& p) { store::add(p, r); }, &err)) {
-        pad.status = "Recorded " + r.ref + ": " + geo::format_strike_dip({r.strike, r.dip}) + " " + kind_label(pad.kind);
-        pad.text.clear();
-      } else {
-        pad.error = err;
-      }
-    } else {
-      store::LinearReading r;
-      r.station = st->meta.uuid;
-      r.kind = store::parse_line_kind(pad.kind).value_or(store::LineKind::Lineation);
-      r.typed = pad.text;
-      r.north = north;
-      if (pad.notation == 1) {
-        r.host_plane = pad.host_plane;
-        r.rake = 0;  // storage reads the rake from `typed`
-      }
-      r.ref = m.next_ref(st->meta.uuid, true);
-      r.time = now_local_iso();
-      r.observer = a.person();
-      std::string err;
-      const std::string label = "reading " + r.ref + " " + pad.text + " at " + st->code;
-      if (a.act(label, [&](store::Project& p) { store::add(p, r); }, &err)) {
-        pad.status = "Recorded " + r.ref + ": " + geo::format_trend_plunge({r.trend, r.plunge}) + " " + kind_label(pad.kind);
-        pad.text.clear();
-      } else {
-        pad.error = err;
-      }
-    }
+    if (pad.text.empty()) pad.error = "nothing typed: type the attitude on the keypad";
+    else if (!parsed.error.empty()) pad.error = parsed.error;
+    else if (!pad.linear) record_planar(a, st, north);
+    else record_linear(a, st, north);
   }
   if (!pad.error.empty()) error_box("Not recorded: " + pad.error);
   if (!pad.status.empty()) text_colour(lk.pal.ok, pad.status);
   if (button("Back to the Station sheet", -1)) a.go(Screen::Station);
-  touch_scroll();
-  ImGui::EndChild();
-  if (two) ImGui::SameLine();
+}
 
-  // ---- right: chips and the live check -------------------------------------------------
-  ImGui::BeginChild("padright", ImVec2(mid_w, 0), false);
+// Plane or line, the kind, the contact, the north reference, quality and facing (or the host plane of a rake).
+void pad_choices(App& a, const store::Station& st, store::North north, const Declination& decl) {
+  Model& m = *a.model;
+  PadState& pad = a.pad;
   {
     ImGui::PushID("type");
     const int hit = chip_row({"plane", "line"}, pad.linear ? 1 : 0);
@@ -226,7 +248,12 @@ void draw_pad(App& a) {
     }
   }
   {
-    const auto& kinds = pad.linear ? kLineKinds : kPlaneKinds;
+    // The project's structure list decides the kinds offered (an empty list: all of them).
+    std::vector<std::string> kinds;
+    for (const auto& k : pad.linear ? kLineKinds : kPlaneKinds)
+      if (store::allowed_by(m.structures(), k)) kinds.push_back(k);
+    if (kinds.empty()) kinds = pad.linear ? kLineKinds : kPlaneKinds;  // the list names only the other type
+    if (std::find(kinds.begin(), kinds.end(), pad.kind) == kinds.end()) pad.kind = kinds.front();
     std::vector<std::string> labels;
     int sel = 0;
     for (size_t i = 0; i < kinds.size(); ++i) {
@@ -260,18 +287,7 @@ void draw_pad(App& a) {
     ImGui::PopID();
     if (hit >= 0) pad.north = hit == 1 ? store::North::Magnetic : store::North::True;
   }
-  // Declination for a magnetic reading, at this station today.
-  double declination = 0;
-  if (north == store::North::Magnetic && !(pad.linear && pad.notation == 1)) {
-    try {
-      const auto d = m.project().declination_at(st->lat, st->lon, "");
-      declination = d.degrees;
-      text_dim("declination " + fmt("%.1f\xC2\xB0", std::abs(d.degrees)) + (d.degrees >= 0 ? " E" : " W") + " (" + d.source +
-               ") will be added");
-    } catch (const std::exception& e) {
-      text_dim(e.what());
-    }
-  }
+  if (!decl.note.empty()) text_dim(decl.note);
   if (!pad.linear) {
     text_dim("Quality");
     ImGui::PushID("quality");
@@ -288,7 +304,7 @@ void draw_pad(App& a) {
     std::vector<std::string> hosts;
     std::vector<std::string> ids;
     int hsel = -1;
-    for (const auto* p : m.planes_of(st->meta.uuid)) {
+    for (const auto* p : m.planes_of(st.meta.uuid)) {
       hosts.push_back((p->ref.empty() ? std::string() : p->ref + " ") + geo::format_strike_dip({p->strike, p->dip}));
       ids.push_back(p->meta.uuid);
       if (p->meta.uuid == pad.host_plane) hsel = static_cast<int>(ids.size()) - 1;
@@ -299,15 +315,14 @@ void draw_pad(App& a) {
     ImGui::PopID();
     if (h >= 0) pad.host_plane = ids[static_cast<size_t>(h)];
   }
+}
 
-  if (three) {
-    touch_scroll();
-    ImGui::EndChild();
-    ImGui::SameLine();
-    ImGui::BeginChild("padcheck", ImVec2(0, 0), false);
-    heading("Live check");
-  }
-  // The live net: this reading (true north) and the contact's fitted plane.
+// The live check: a small net with the reading (true north) and its contact's
+// fitted plane, and the misfit with the verdict the cross-check would give.
+void pad_live_check(App& a, const Parsed& parsed, double declination) {
+  Model& m = *a.model;
+  Look& lk = look();
+  const PadState& pad = a.pad;
   std::optional<geo::Plane> reading_true;
   if (parsed.plane) reading_true = geo::Plane{std::fmod(parsed.plane->strike + declination + 360.0, 360.0), parsed.plane->dip};
   std::optional<geo::Line> line_true;
@@ -328,8 +343,8 @@ void draw_pad(App& a) {
     ImGuiCanvas canvas(ImGui::GetWindowDrawList(), lk.fonts.small, lk.theme);
     plot::draw_net(canvas, plot::Rect{p.x, p.y, size, size}, d, o);
     ImGui::Dummy(ImVec2(size, size));
+    record_box("live net");
   }
-  // The misfit and its verdict, as the cross-check would judge it.
   if (!pad.linear && pad.contact.empty()) {
     text_dim("Choose the contact this reading represents to compare it with the contact's fitted plane.");
   } else if (!pad.linear && !fit) {
@@ -352,6 +367,55 @@ void draw_pad(App& a) {
         text_wrapped("Check the reading (local structure, cross-bedding, a slumped block, or an error: re-measure).");
     }
   }
+}
+
+}  // namespace
+
+void draw_pad(App& a) {
+  Model& m = *a.model;
+  Look& lk = look();
+  const store::Station* st = m.station(a.station);
+  if (!st) {
+    text("Choose a station first: the Reading pad adds readings to the station open on the Station sheet.");
+    if (button("Go to the Logbook", 0, true, true)) a.go(Screen::Logbook);
+    return;
+  }
+  const store::North north = a.pad.north.value_or(m.info().north_default);
+  const Declination decl = pad_declination(m, a.pad, *st, north);
+  const Parsed parsed = parse(a.pad, m);
+
+  // Wide screens: keypad | choices | live check; narrower: keypad | choices and
+  // check; narrow (portrait): one scrolling column, everything in it.
+  const float avail = ImGui::GetContentRegionAvail().x;
+  const int columns = avail > lk.m.tap * 24 ? 3 : avail > lk.m.tap * 16 ? 2 : 1;
+  const float left_w = columns == 3 ? avail * 0.37f : columns == 2 ? std::min(avail * 0.5f, lk.m.tap * 11.5f) : avail;
+  const float mid_w = columns == 3 ? avail * 0.31f : 0;
+
+  ImGui::BeginChild("padleft", ImVec2(left_w, 0), false);
+  pad_typed(a, *st, parsed);
+  pad_keys(a);
+  pad_record(a, *st, parsed, north);
+  if (columns == 1) {
+    pad_choices(a, *st, north, decl);
+    heading("Live check");
+    pad_live_check(a, parse(a.pad, m), decl.degrees);
+  }
+  touch_scroll();
+  ImGui::EndChild();
+  if (columns == 1) return;
+
+  ImGui::SameLine();
+  ImGui::BeginChild("padright", ImVec2(mid_w, 0), false);
+  pad_choices(a, *st, north, decl);
+  if (columns == 3) {
+    touch_scroll();
+    ImGui::EndChild();
+    ImGui::SameLine();
+    ImGui::BeginChild("padcheck", ImVec2(0, 0), false);
+    heading("Live check");
+  }
+  // Parsed again: a choice made this frame (notation, host plane) changes what the text means.
+  pad_live_check(a, parse(a.pad, m), decl.degrees);
   touch_scroll();
   ImGui::EndChild();
 }

@@ -148,6 +148,7 @@ void draw_plan_screen(App& a) {
   ImGui::SameLine();
   const bool fit_all = button("Show all");
   ImGui::SameLine();
+  wrap_if_past_edge(ImGui::CalcTextSize("Strike lines every").x);
   ImGui::AlignTextToFramePadding();
   text_dim("Strike lines every");
   ImGui::SameLine();
@@ -283,7 +284,17 @@ void draw_plan_screen(App& a) {
   text_dim("grid north; UTM " + std::to_string(c->data.zone.zone) + (c->data.zone.northp ? "N" : "S") + ", " +
            std::to_string(ps.data.stations.size()) + " stations" +
            (o.station_labels ? std::string() : "; zoom in for station codes"));
-  for (const auto& n : ps.notes) text_dim(n);
+  // The notes over the map, as many as fit above its bottom edge.
+  const float line_h = ImGui::GetTextLineHeightWithSpacing();
+  for (size_t i = 0; i < ps.notes.size(); ++i) {
+    const bool last_that_fits = ImGui::GetCursorScreenPos().y + 2 * line_h > r.y + r.h;
+    if (last_that_fits && i + 1 < ps.notes.size()) {
+      text_dim("+" + std::to_string(ps.notes.size() - i) + " more contacts");
+      break;
+    }
+    if (ImGui::GetCursorScreenPos().y + line_h > r.y + r.h) break;
+    text_dim(ps.notes[i]);
+  }
 }
 
 }  // namespace cairn::ui

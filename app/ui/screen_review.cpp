@@ -43,7 +43,8 @@ void flags_tab(App& a) {
                        (f.ref.empty() ? std::string() : " " + f.ref) + (status.empty() ? "" : "   [" + status + "]");
     ImGui::PushID(static_cast<int>(i));
     ImGui::PushStyleVar(ImGuiStyleVar_ButtonTextAlign, ImVec2(0.0f, 0.5f));
-    if (chip(line, key == rs.flag_key, true, -1)) {
+    // Shortened to the row: the whole flag is shown beside the list.
+    if (row_chip(line + "##" + key, key == rs.flag_key)) {
       rs.flag_key = key;
       rs.comment.clear();
       rs.message.clear();
@@ -128,7 +129,7 @@ void days_tab(App& a) {
   if (auto c = m.check())
     for (const auto& f : c->report.flags)
       if (!f.station_id.empty()) ++flags[day_of_station[f.station_id]];
-  ImGui::BeginChild("rdays", ImVec2(0, 0), true);
+  ImGui::BeginChild("rdays", ImVec2(0, fill_height()), true);
   for (auto it = stations.rbegin(); it != stations.rend(); ++it) {
     const std::string& day = it->first;
     heading(day + "   " + std::to_string(it->second) + " stations, " + std::to_string(readings[day]) + " readings, " +
@@ -178,16 +179,16 @@ void audit_tab(App& a) {
   ImGui::PushStyleVar(ImGuiStyleVar_ButtonTextAlign, ImVec2(0.0f, 0.5f));
   for (const auto& s : m.stations()) {
     ImGui::PushID(s.meta.uuid.c_str());
-    if (chip("station " + s.code, rs.record == s.meta.uuid, true, -1)) rs.record = s.meta.uuid;
+    if (row_chip("station " + s.code, rs.record == s.meta.uuid)) rs.record = s.meta.uuid;
     ImGui::Indent();
     for (const auto* p : m.planes_of(s.meta.uuid)) {
       ImGui::PushID(p->meta.uuid.c_str());
-      if (chip(reading_summary(*p), rs.record == p->meta.uuid, true, -1)) rs.record = p->meta.uuid;
+      if (row_chip(reading_summary(*p), rs.record == p->meta.uuid)) rs.record = p->meta.uuid;
       ImGui::PopID();
     }
     for (const auto* l : m.lines_of(s.meta.uuid)) {
       ImGui::PushID(l->meta.uuid.c_str());
-      if (chip(reading_summary(*l), rs.record == l->meta.uuid, true, -1)) rs.record = l->meta.uuid;
+      if (row_chip(reading_summary(*l), rs.record == l->meta.uuid)) rs.record = l->meta.uuid;
       ImGui::PopID();
     }
     ImGui::Unindent();
@@ -202,12 +203,11 @@ void audit_tab(App& a) {
     text_dim("Tap a station or a reading to see its audit trail.");
   } else {
     // Read again only when the record or the project changes.
-    static std::string for_key;
-    static std::vector<store::AuditEntry> trail;
-    static std::map<std::string, std::string> devices;
+    std::vector<store::AuditEntry>& trail = rs.trail;
+    std::map<std::string, std::string>& devices = rs.devices;
     const std::string key = rs.record + "|" + std::to_string(m.revision());
-    if (key != for_key) {
-      for_key = key;
+    if (key != rs.trail_key) {
+      rs.trail_key = key;
       trail = store::audit_trail(m.project(), rs.record);
       devices.clear();
       for (const auto& d : store::list_devices(m.project())) devices[d.meta.uuid] = d.name;

@@ -64,12 +64,15 @@ bool position_form(App& a, const store::Station* existing) {
     if (hit == 0) e.utm = false;
     if (hit == 1 && zone) e.utm = true;
   }
-  const float fw = std::min(ImGui::GetContentRegionAvail().x, lk.m.tap * 9);
+  const float fw = std::min(ImGui::GetContentRegionAvail().x, lk.m.tap * 12);
   if (field(e.utm ? "Easting m" : "Latitude \xC2\xB0", e.a, e.field == 0, fw)) e.field = 0;
   if (field(e.utm ? "Northing m" : "Longitude \xC2\xB0", e.b, e.field == 1, fw)) e.field = 1;
   if (field("Elevation m", e.elev, e.field == 2, fw)) e.field = 2;
   text_dim(e.utm ? "Easting and northing in metres." : "Decimal degrees, WGS84; south and west negative.");
-  const float kw = lk.m.tap * 1.6f, kh = lk.m.tap * 1.15f;
+  // Three keys a row across the column (a comfortable thumb reach: at most 2.6 taps wide each).
+  const float kw = std::clamp((ImGui::GetContentRegionAvail().x - ImGui::GetStyle().ItemSpacing.x * 2) / 3, lk.m.tap * 1.6f,
+                              lk.m.tap * 2.6f),
+              kh = lk.m.tap * 1.15f;
   const std::string k = keypad({"7", "8", "9", "4", "5", "6", "1", "2", "3", "-", "0", ".", "\xE2\x8C\xAB", "Clear", "Next"}, 3, kw, kh);
   std::string* target = e.field == 0 ? &e.a : e.field == 1 ? &e.b : &e.elev;
   if (k == "\xE2\x8C\xAB") {
@@ -196,6 +199,201 @@ void where_next(App& a, const store::Station& s) {
   if (shown == 0) text_dim("No contact has a usable fit yet (a contact needs at least three mapped points).");
 }
 
+// ---- the steps of the Station sheet ------------------------------------------------
+
+// No station open: a new one, from the GPS fix or typed.
+void station_new(App& a) {
+  Model& m = *a.model;
+  if (!a.station.empty()) {
+    text("This station has been deleted.");
+    if (button("Back to the Logbook")) a.go(Screen::Logbook);
+    return;
+  }
+  heading("New station " + m.next_station_code(a.person()));
+  text_dim(a.fix.has_position() ? "A GPS fix is available: " + describe(a.fix) : describe(a.fix) + ": type the position.");
+  if (a.fix.has_position() && button("Use the GPS position", 0, true, true)) {
+    new_station(a);
+    return;
+  }
+  ImGui::BeginChild("newform", ImVec2(0, 0));
+  position_form(a, nullptr);
+  touch_scroll();
+  ImGui::EndChild();
+}
+
+// "Station CODE", when and by whom, and "+ New reading".
+void station_header(App& a, const store::Station& s) {
+  Model& m = *a.model;
+  const store::Person* obs = m.person(s.observer);
+  ImGui::AlignTextToFramePadding();
+  heading("Station " + s.code);
+  ImGui::SameLine();
+  ImGui::AlignTextToFramePadding();
+  std::string when = s.time.empty() ? Model::day_of(s) : s.time.substr(0, 10);
+  if (s.time.size() >= 16) when += " " + s.time.substr(11, 5);
+  text_dim(when + (obs ? "   " + obs->initials + " (" + obs->name + ")" : std::string()));
+  ImGui::SameLine();
+  if (button("+ New reading", 0, !m.project().read_only(), true)) {
+    a.pad = PadState{};
+    a.go(Screen::Pad);
+  }
+}
+
+// The position, how it was taken, and the buttons to take it again (GPS or
+// typed). Returns false when the station went away (an undo in the form).
+bool station_position(App& a, const store::Station*& s) {
+  Model& m = *a.model;
+  const bool writable = !m.project().read_only();
+  heading("Position");
+  std::string pos = lat_lon_text(s->lat, s->lon);
+  if (s->elevation) pos += ",  " + fmt("%.0f m", *s->elevation);
+  text_wrapped(pos);
+  std::string how = std::string("from ") + std::string(store::to_string(s->source));
+  if (s->h_accuracy) how += ",  \xC2\xB1" + fmt("%.0f m", *s->h_accuracy) + " horizontal";
+  if (s->v_accuracy) how += ",  \xC2\xB1" + fmt("%.0f m", *s->v_accuracy) + " vertical";
+  text_dim(how);
+  if (button("Use GPS position", 0, writable && a.fix.has_position())) {
+    store::Station u = *s;
+    take_fix_position(u, a.fix);
+    a.act("GPS position of " + s->code, [&](store::Project& p) { store::update(p, u); });
+  }
+  ImGui::SameLine();
+  std::string& typing_for = a.edit.typing_for;
+  const bool typing = typing_for == s->meta.uuid;
+  if (button(typing ? "Close typing" : "Type position", 0, writable)) typing_for = typing ? "" : s->meta.uuid;
+  if (typing_for == s->meta.uuid && m.station(a.station)) {
+    if (position_form(a, s)) typing_for.clear();
+    s = m.station(a.station);
+    if (!s) return false;
+  }
+  return true;
+}
+
+// The station's unit as chips (a tap changes it, audited).
+void station_unit(App& a, const store::Station*& s) {
+  Model& m = *a.model;
+  heading("Unit");
+  std::vector<std::string> units{"none"};
+  int sel = 0;
+  for (size_t i = 0; i < m.units().size(); ++i) {
+    units.push_back(m.units()[i].code);
+    if (m.units()[i].meta.uuid == s->unit) sel = static_cast<int>(i) + 1;
+  }
+  ImGui::PushID("unit");
+  const int hit = chip_row(units, sel, !m.project().read_only());
+  ImGui::PopID();
+  if (hit >= 0 && hit != sel) {
+    store::Station u = *s;
+    u.unit = hit == 0 ? "" : m.units()[static_cast<size_t>(hit - 1)].meta.uuid;
+    a.act("unit of " + s->code, [&](store::Project& p) { store::update(p, u); });
+    s = m.station(a.station);
+  }
+}
+
+// The notes, saved when the field is left after an edit.
+void station_notes(App& a, const store::Station*& s) {
+  Model& m = *a.model;
+  const bool writable = !m.project().read_only();
+  heading("Notes");
+  ImGui::InputTextMultiline("##notes", &a.edit.notes, ImVec2(-1, look().m.tap * 2.2f), writable ? 0 : ImGuiInputTextFlags_ReadOnly);
+  this_frame().targets.push_back({"notes", ImGui::GetItemRectMin(), ImGui::GetItemRectMax(), writable});
+  record_box("notes");
+  if (ImGui::IsItemDeactivatedAfterEdit() && a.edit.notes != s->notes) {
+    store::Station u = *s;
+    u.notes = a.edit.notes;
+    a.act("notes of " + s->code, [&](store::Project& p) { store::update(p, u); });
+    s = m.station(a.station);
+  }
+}
+
+// Adds the photo file typed in the form as a reference of station S (with its SHA-256).
+void add_typed_photo(App& a, const store::Station& s) {
+  Model& m = *a.model;
+  // The photo's SHA-256 proves later which file was meant; a relative name is
+  // looked for beside the project file.
+  const std::string path = a.edit.photo_path;
+  std::string full = path;
+  if (!path.empty() && path[0] != '/') {
+    const auto slash = m.path().rfind('/');
+    full = (slash == std::string::npos ? std::string() : m.path().substr(0, slash + 1)) + path;
+  }
+  std::ifstream f(full, std::ios::binary);
+  if (!f) {
+    a.edit.error = "cannot read the photo file " + full + ": a photo reference needs the file (its SHA-256 is stored)";
+    return;
+  }
+  std::stringstream ss;
+  ss << f.rdbuf();
+  store::Photo ph;
+  ph.station = s.meta.uuid;
+  ph.path = path;
+  ph.sha256 = formats::sha256_hex(ss.str());
+  ph.time = now_local_iso();
+  std::string err;
+  if (a.act("photo " + path, [&](store::Project& p) { store::add(p, ph); }, &err)) a.edit.photo_path.clear();
+  else a.edit.error = err;
+}
+
+// The station's photo references and a field to add one by its file name.
+void station_photos(App& a, const store::Station& s) {
+  Model& m = *a.model;
+  Look& lk = look();
+  const bool writable = !m.project().read_only();
+  heading("Photos");
+  for (const store::Photo* ph : m.photos_of(s.meta.uuid))
+    text_wrapped(ph->path + (ph->caption.empty() ? std::string() : "   " + ph->caption));
+  const float button_w = label_width("Add photo") + ImGui::GetStyle().ItemSpacing.x;
+  const bool one_line = ImGui::GetContentRegionAvail().x - button_w >= lk.m.tap * 4;
+  ImGui::SetNextItemWidth(one_line ? ImGui::GetContentRegionAvail().x - button_w : -1);
+  ImGui::InputTextWithHint("##photo", "photo file, e.g. DSC0412.JPG", &a.edit.photo_path);
+  this_frame().targets.push_back({"photo file", ImGui::GetItemRectMin(), ImGui::GetItemRectMax(), writable});
+  record_box("photo file");
+  if (one_line) ImGui::SameLine();
+  if (button("Add photo", 0, writable && !a.edit.photo_path.empty())) add_typed_photo(a, s);
+  if (!a.edit.error.empty()) error_box(a.edit.error);
+}
+
+// The station's readings, each with its worst flag and a Delete button; the
+// reading opened from a flag is framed.
+void station_readings(App& a, const store::Station& s) {
+  Model& m = *a.model;
+  Look& lk = look();
+  const bool writable = !m.project().read_only();
+  std::map<std::string, geo::Severity> worst;
+  if (auto c = m.check())
+    for (const auto& f : c->report.flags)
+      if (!f.reading.empty()) worst[f.reading] = std::max(worst.count(f.reading) ? worst[f.reading] : f.severity, f.severity);
+  heading("Readings");
+  const auto planes = m.planes_of(s.meta.uuid);
+  const auto lines = m.lines_of(s.meta.uuid);
+  if (planes.empty() && lines.empty()) text_dim("No readings yet.");
+  auto row = [&](const std::string& uuid, const std::string& summary, store::Kind kind, const std::string& what) {
+    ImGui::PushID(uuid.c_str());
+    if (uuid == a.reading) {
+      const ImVec2 p = ImGui::GetCursorScreenPos();
+      ImGui::GetWindowDrawList()->AddRectFilled(p, ImVec2(p.x + ImGui::GetContentRegionAvail().x, p.y + lk.m.tap), lk.pal.panel);
+      ImGui::GetWindowDrawList()->AddRect(p, ImVec2(p.x + ImGui::GetContentRegionAvail().x, p.y + lk.m.tap), lk.pal.accent, 0, 0, 3);
+    }
+    if (button("Delete", 0, writable)) {
+      a.act("delete " + what, [&](store::Project& p) { store::soft_delete(p, kind, uuid); });
+      if (a.reading == uuid) a.reading.clear();
+    }
+    ImGui::SameLine();
+    ImGui::AlignTextToFramePadding();
+    std::string t = summary;
+    if (auto it = worst.find(uuid); it != worst.end()) t = severity_label(it->second) + "  " + t;
+    text_wrapped(t);
+    ImGui::PopID();
+  };
+  for (const auto* p : planes) {
+    std::string summary = reading_summary(*p);
+    if (const store::Contact* c = m.contact(p->contact)) summary += "   " + c->name;
+    row(p->meta.uuid, summary, store::Kind::Plane, "reading " + (p->ref.empty() ? p->typed : p->ref));
+  }
+  for (const auto* l : lines) row(l->meta.uuid, reading_summary(*l), store::Kind::Line, "reading " + (l->ref.empty() ? l->typed : l->ref));
+  repeated_surfaces(planes);
+}
+
 }  // namespace
 
 void draw_station(App& a) {
@@ -203,188 +401,41 @@ void draw_station(App& a) {
   Look& lk = look();
   const store::Station* s = m.station(a.station);
   if (!s) {
-    if (!a.station.empty()) {
-      text("This station has been deleted.");
-      if (button("Back to the Logbook")) a.go(Screen::Logbook);
-      return;
-    }
-    heading("New station " + m.next_station_code(a.person()));
-    text_dim(a.fix.has_position() ? "A GPS fix is available: " + describe(a.fix) : describe(a.fix) + ": type the position.");
-    if (a.fix.has_position() && button("Use the GPS position", 0, true, true)) {
-      new_station(a);
-      return;
-    }
-    ImGui::BeginChild("newform", ImVec2(0, 0));
-    position_form(a, nullptr);
-    touch_scroll();
-    ImGui::EndChild();
+    station_new(a);
     return;
   }
   if (a.edit.for_station != s->meta.uuid) {
+    const std::string typing_for = a.edit.typing_for;
     a.edit = StationEdit{};
     a.edit.for_station = s->meta.uuid;
     a.edit.notes = s->notes;
+    a.edit.typing_for = typing_for;
   }
-  const bool writable = !m.project().read_only();
-  const store::Person* obs = m.person(s->observer);
-  ImGui::AlignTextToFramePadding();
-  heading("Station " + s->code);
-  ImGui::SameLine();
-  ImGui::AlignTextToFramePadding();
-  std::string when = s->time.empty() ? Model::day_of(*s) : s->time.substr(0, 10);
-  if (s->time.size() >= 16) when += " " + s->time.substr(11, 5);
-  text_dim(when + (obs ? "   " + obs->initials + " (" + obs->name + ")" : std::string()));
-  ImGui::SameLine();
-  if (button("+ New reading", 0, writable, true)) {
-    a.pad = PadState{};
-    a.go(Screen::Pad);
-  }
+  station_header(a, *s);
 
+  // Two columns (position, unit, notes, photos | readings, where next) when they fit.
   const float avail = ImGui::GetContentRegionAvail().x;
   const bool two = avail > lk.m.tap * 18;
-  const float left_w = two ? avail * 0.48f : avail;
-  ImGui::BeginChild("left", ImVec2(left_w, 0), false);
-  {
-    heading("Position");
-    std::string pos = lat_lon_text(s->lat, s->lon);
-    if (s->elevation) pos += ",  " + fmt("%.0f m", *s->elevation);
-    text(pos);
-    std::string how = std::string("from ") + std::string(store::to_string(s->source));
-    if (s->h_accuracy) how += ",  \xC2\xB1" + fmt("%.0f m", *s->h_accuracy) + " horizontal";
-    if (s->v_accuracy) how += ",  \xC2\xB1" + fmt("%.0f m", *s->v_accuracy) + " vertical";
-    text_dim(how);
-    if (button("Use GPS position", 0, writable && a.fix.has_position())) {
-      store::Station u = *s;
-      u.lat = a.fix.lat;
-      u.lon = a.fix.lon;
-      u.elevation = a.fix.altitude;
-      u.h_accuracy = a.fix.h_accuracy;
-      u.v_accuracy = a.fix.v_accuracy;
-      u.source = store::PositionSource::Gps;
-      a.act("GPS position of " + s->code, [&](store::Project& p) { store::update(p, u); });
-    }
-    ImGui::SameLine();
-    static std::string typing_for;
-    const bool typing = typing_for == s->meta.uuid;
-    if (button(typing ? "Close typing" : "Type position", 0, writable)) typing_for = typing ? "" : s->meta.uuid;
-    if (typing_for == s->meta.uuid && m.station(a.station)) {
-      if (position_form(a, s)) typing_for.clear();
-      s = m.station(a.station);
-      if (!s) {
-        ImGui::EndChild();
-        return;
-      }
-    }
-
-    heading("Unit");
-    std::vector<std::string> units{"none"};
-    int sel = 0;
-    for (size_t i = 0; i < m.units().size(); ++i) {
-      units.push_back(m.units()[i].code);
-      if (m.units()[i].meta.uuid == s->unit) sel = static_cast<int>(i) + 1;
-    }
-    ImGui::PushID("unit");
-    const int hit = chip_row(units, sel, writable);
-    ImGui::PopID();
-    if (hit >= 0 && hit != sel) {
-      store::Station u = *s;
-      u.unit = hit == 0 ? "" : m.units()[static_cast<size_t>(hit - 1)].meta.uuid;
-      a.act("unit of " + s->code, [&](store::Project& p) { store::update(p, u); });
-      s = m.station(a.station);
-    }
-
-    heading("Notes");
-    ImGui::InputTextMultiline("##notes", &a.edit.notes, ImVec2(-1, lk.m.tap * 2.2f),
-                              writable ? 0 : ImGuiInputTextFlags_ReadOnly);
-    this_frame().targets.push_back({"notes", ImGui::GetItemRectMin(), ImGui::GetItemRectMax(), writable});
-    if (ImGui::IsItemDeactivatedAfterEdit() && a.edit.notes != s->notes) {
-      store::Station u = *s;
-      u.notes = a.edit.notes;
-      a.act("notes of " + s->code, [&](store::Project& p) { store::update(p, u); });
-      s = m.station(a.station);
-    }
-
-    heading("Photos");
-    for (const store::Photo* ph : m.photos_of(s->meta.uuid))
-      text(ph->path + (ph->caption.empty() ? std::string() : "   " + ph->caption));
-    ImGui::SetNextItemWidth(std::max(lk.m.tap * 4, ImGui::GetContentRegionAvail().x - label_width("Add photo") -
-                                                       ImGui::GetStyle().ItemSpacing.x));
-    ImGui::InputTextWithHint("##photo", "photo file, e.g. DSC0412.JPG", &a.edit.photo_path);
-    this_frame().targets.push_back({"photo file", ImGui::GetItemRectMin(), ImGui::GetItemRectMax(), writable});
-    ImGui::SameLine();
-    if (button("Add photo", 0, writable && !a.edit.photo_path.empty())) {
-      // The photo's SHA-256 proves later which file was meant; a relative name is
-      // looked for beside the project file.
-      std::string path = a.edit.photo_path;
-      std::string full = path;
-      if (!path.empty() && path[0] != '/') {
-        const auto slash = m.path().rfind('/');
-        full = (slash == std::string::npos ? std::string() : m.path().substr(0, slash + 1)) + path;
-      }
-      std::ifstream f(full, std::ios::binary);
-      if (!f) {
-        a.edit.error = "cannot read the photo file " + full + ": a photo reference needs the file (its SHA-256 is stored)";
-      } else {
-        std::stringstream ss;
-        ss << f.rdbuf();
-        store::Photo ph;
-        ph.station = s->meta.uuid;
-        ph.path = path;
-        ph.sha256 = formats::sha256_hex(ss.str());
-        ph.time = now_local_iso();
-        std::string err;
-        if (a.act("photo " + path, [&](store::Project& p) { store::add(p, ph); }, &err)) a.edit.photo_path.clear();
-        else a.edit.error = err;
-      }
-    }
-    if (!a.edit.error.empty()) error_box(a.edit.error);
-    if (!two) where_next(a, *s);
-    touch_scroll();
+  ImGui::BeginChild("left", ImVec2(two ? avail * 0.48f : avail, 0), false);
+  if (!station_position(a, s)) {
+    ImGui::EndChild();
+    return;
   }
+  station_unit(a, s);
+  station_notes(a, s);
+  station_photos(a, *s);
+  if (!two) {
+    station_readings(a, *s);
+    where_next(a, *s);
+  }
+  touch_scroll();
   ImGui::EndChild();
-  if (two) ImGui::SameLine();
-
+  if (!two) return;
+  ImGui::SameLine();
   ImGui::BeginChild("right", ImVec2(0, 0), false);
-  {
-    // Flags by reading, from the newest check.
-    std::map<std::string, geo::Severity> worst;
-    if (auto c = m.check())
-      for (const auto& f : c->report.flags)
-        if (!f.reading.empty()) worst[f.reading] = std::max(worst.count(f.reading) ? worst[f.reading] : f.severity, f.severity);
-    heading("Readings");
-    const auto planes = m.planes_of(s->meta.uuid);
-    const auto lines = m.lines_of(s->meta.uuid);
-    if (planes.empty() && lines.empty()) text_dim("No readings yet.");
-    auto row = [&](const std::string& uuid, const std::string& summary, store::Kind kind, const std::string& what) {
-      ImGui::PushID(uuid.c_str());
-      if (uuid == a.reading) {
-        const ImVec2 p = ImGui::GetCursorScreenPos();
-        ImGui::GetWindowDrawList()->AddRectFilled(p, ImVec2(p.x + ImGui::GetContentRegionAvail().x, p.y + lk.m.tap),
-                                                  lk.pal.panel);
-        ImGui::GetWindowDrawList()->AddRect(p, ImVec2(p.x + ImGui::GetContentRegionAvail().x, p.y + lk.m.tap),
-                                            lk.pal.accent, 0, 0, 3);
-      }
-      if (button("Delete", 0, writable)) {
-        a.act("delete " + what, [&](store::Project& p) { store::soft_delete(p, kind, uuid); });
-        if (a.reading == uuid) a.reading.clear();
-      }
-      ImGui::SameLine();
-      ImGui::AlignTextToFramePadding();
-      std::string t = summary;
-      if (auto it = worst.find(uuid); it != worst.end()) t = severity_label(it->second) + "  " + t;
-      text_wrapped(t);
-      ImGui::PopID();
-    };
-    for (const auto* p : planes) {
-      std::string summary = reading_summary(*p);
-      if (const store::Contact* c = m.contact(p->contact)) summary += "   " + c->name;
-      row(p->meta.uuid, summary, store::Kind::Plane, "reading " + (p->ref.empty() ? p->typed : p->ref));
-    }
-    for (const auto* l : lines) row(l->meta.uuid, reading_summary(*l), store::Kind::Line, "reading " + (l->ref.empty() ? l->typed : l->ref));
-    repeated_surfaces(planes);
-    if (two) where_next(a, *s);
-    touch_scroll();
-  }
+  station_readings(a, *s);
+  where_next(a, *s);
+  touch_scroll();
   ImGui::EndChild();
 }
 

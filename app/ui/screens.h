@@ -20,6 +20,8 @@ void draw_review(App& a);      // Review
 
 // Shared by several screens.
 
+// Sets the station's position, accuracies and source from a GPS fix.
+void take_fix_position(store::Station& s, const GpsFix& fix);
 // Creates a station at once from the GPS fix, or opens the Station sheet's
 // form for typed coordinates when there is no fix.
 void new_station(App& a);

@@ -54,8 +54,8 @@ bool number(const std::string& s, double* v) {
 }
 
 const std::vector<std::pair<std::string, size_t>> kArity = {
-    {"tap", 1},   {"touch", 1},      {"tap-at", 2}, {"drag", 4},       {"pinch", 3}, {"type", 1},
-    {"key", 1},   {"wait", 0},       {"wait-idle", 0}, {"wait-for", 1}, {"expect", 1}, {"expect-not", 1},
+    {"tap", 1},   {"tap-if", 1}, {"touch", 1},      {"tap-at", 2}, {"drag", 4},       {"pinch", 3}, {"type", 1},
+    {"key", 1},   {"wait", 0},       {"wait-idle", 0}, {"wait-for", 1}, {"expect", 1}, {"expect-not", 1}, {"expect-fit", 0},
     {"screenshot", 1}, {"quit", 0}};
 
 }  // namespace
@@ -185,16 +185,17 @@ bool Script::run(App& app, const Command& c) {
     return false;
   };
 
-  if (cmd == "tap" || cmd == "touch") {
+  if (cmd == "tap" || cmd == "tap-if" || cmd == "touch") {
     int nth = 1;
     if (c.words.size() > 2) nth = std::max(1, std::atoi(c.words[2].c_str()));
     ImVec2 at;
     if (!find_target(c.words[1], nth, &at)) {
+      if (cmd == "tap-if") return true;
       std::string have;
       for (const auto& t : last_frame().targets) have += (have.empty() ? "" : ", ") + visible_label(t.label);
       return fail(c, "no target '" + c.words[1] + "' (number " + std::to_string(nth) + ") on screen; targets: " + have);
     }
-    if (cmd == "tap") {
+    if (cmd != "touch") {
       SDL_Event m = mouse(SDL_MOUSEMOTION, at.x, at.y), d = mouse(SDL_MOUSEBUTTONDOWN, at.x, at.y);
       SDL_PushEvent(&m);
       SDL_PushEvent(&d);
@@ -310,6 +311,13 @@ bool Script::run(App& app, const Command& c) {
     for (const auto& t : last_frame().texts)
       if (t.find(c.words[1]) != std::string::npos) return fail(c, "did not expect '" + c.words[1] + "' on screen: " + t);
     return true;
+  }
+  if (cmd == "expect-fit") {
+    const auto problems = layout_problems(last_frame(), ImGui::GetIO().DisplaySize);
+    if (problems.empty()) return true;
+    std::string list;
+    for (const auto& p : problems) list += "\n  " + p;
+    return fail(c, std::to_string(problems.size()) + " layout problem" + (problems.size() == 1 ? "" : "s") + ":" + list);
   }
   if (cmd == "screenshot") {
     app.request_screenshot(c.words[1]);

@@ -4,6 +4,7 @@
 //
 // One command per line; arguments are words or "double-quoted text"; # starts a comment.
 //   tap LABEL [N]       mouse press and release on the Nth target labelled LABEL (default 1)
+//   tap-if LABEL [N]    the same when such a target is on screen, else nothing
 //   touch LABEL [N]     the same with a finger (SDL_FINGERDOWN / SDL_FINGERUP)
 //   tap-at X Y          mouse press and release at window pixels
 //   drag X0 Y0 X1 Y1    finger drag in 8 steps
@@ -15,6 +16,8 @@
 //   wait-for TEXT [S]   let frames pass until TEXT is on screen (fail after S seconds, default 20)
 //   expect TEXT         fail unless some text or target label on screen contains TEXT
 //   expect-not TEXT     fail if some text on screen contains TEXT
+//   expect-fit          fail if a widget of the last frame lies outside the window, is cut by the
+//                       edge of its region, or has a label wider than itself (widgets.h, layout_problems)
 //   screenshot FILE     write a PNG of the next frame
 //   quit                end (also at the end of the file)
 // Labels are matched against what a target shows (the text before any "##").

@@ -2,6 +2,7 @@
 
 #include <algorithm>
 #include <cmath>
+#include <cstdio>
 
 #include <imgui_internal.h>
 
@@ -21,7 +22,50 @@ void record_target(const std::string& label, bool enabled) {
 
 ImVec4 to_vec4(ImU32 c) { return ImGui::ColorConvertU32ToFloat4(c); }
 
+// A label's text width in the current font (several lines: the widest).
+float text_width(const std::string& label) { return ImGui::CalcTextSize(visible_label(label).c_str(), nullptr, true).x; }
+
+// The room a framed widget of the last item's width leaves for its label.
+float label_room() { return ImGui::GetItemRectSize().x - 2 * ImGui::GetStyle().FramePadding.x; }
+
+std::string px(float v) {
+  char b[32];
+  std::snprintf(b, sizeof b, "%.1f", static_cast<double>(v));
+  return b;
+}
+
 }  // namespace
+
+void record_box(const std::string& what, float text_w, float room_w) {
+  if (!ImGui::IsItemVisible()) return;
+  const ImGuiWindow* w = ImGui::GetCurrentWindow();
+  const bool scrolls = !(w->Flags & ImGuiWindowFlags_NoScrollbar);
+  this_frame().boxes.push_back({what, ImGui::GetItemRectMin(), ImGui::GetItemRectMax(), w->InnerClipRect.Min, w->InnerClipRect.Max,
+                                scrolls, text_w, room_w});
+}
+
+std::vector<std::string> layout_problems(const FrameRecord& f, ImVec2 display) {
+  // Half a pixel of slack for rounding (ImGui places items at whole pixels).
+  const float eps = 0.5f;
+  std::vector<std::string> out;
+  for (const Box& b : f.boxes) {
+    const std::string name = "'" + visible_label(b.what) + "' at (" + px(b.min.x) + "," + px(b.min.y) + ")-(" + px(b.max.x) +
+                             "," + px(b.max.y) + ")";
+    // What shows of the box: its part inside the region that clips it.
+    const ImVec2 lo(std::max(b.min.x, b.clip_min.x), std::max(b.min.y, b.clip_min.y));
+    const ImVec2 hi(std::min(b.max.x, b.clip_max.x), std::min(b.max.y, b.clip_max.y));
+    if (lo.x < -eps || lo.y < -eps || hi.x > display.x + eps || hi.y > display.y + eps)
+      out.push_back(name + " lies outside the " + px(display.x) + "x" + px(display.y) + " window");
+    else if (b.min.x < b.clip_min.x - eps || b.max.x > b.clip_max.x + eps)
+      out.push_back(name + " is cut by the side of its region (x " + px(b.clip_min.x) + " to " + px(b.clip_max.x) + ")");
+    else if (!b.scrolls && (b.min.y < b.clip_min.y - eps || b.max.y > b.clip_max.y + eps))
+      out.push_back(name + " is cut by the top or bottom of a region that does not scroll (y " + px(b.clip_min.y) + " to " +
+                    px(b.clip_max.y) + ")");
+    if (b.room_w > 0 && b.text_w > b.room_w + eps)
+      out.push_back(name + ": label " + px(b.text_w) + " px wide in a widget with room for " + px(b.room_w) + " px");
+  }
+  return out;
+}
 
 FrameRecord& this_frame() { return g_frames[g_current]; }
 const FrameRecord& last_frame() { return g_frames[1 - g_current]; }
@@ -29,6 +73,7 @@ void finish_frame_record() {
   g_current = 1 - g_current;
   g_frames[g_current].targets.clear();
   g_frames[g_current].texts.clear();
+  g_frames[g_current].boxes.clear();
 }
 
 std::string visible_label(const std::string& label) {
@@ -52,8 +97,30 @@ void same_line_if_fits(float next_width) {
   if (x + next_width <= right) ImGui::SameLine();
 }
 
+void wrap_if_past_edge(float next_width) {
+  const ImGuiWindow* win = ImGui::GetCurrentWindow();
+  const float line_start = win->Pos.x + win->DC.Indent.x + win->DC.ColumnsOffset.x;
+  const float right = ImGui::GetWindowPos().x + ImGui::GetWindowContentRegionMax().x;
+  if (win->DC.CursorPos.x > line_start + 1 && win->DC.CursorPos.x + next_width > right + 0.5f) ImGui::NewLine();
+}
+
+std::string fit_to_width(const std::string& s, float width) {
+  if (ImGui::CalcTextSize(s.c_str()).x <= width) return s;
+  const std::string ell = "\xE2\x80\xA6";  // U+2026 horizontal ellipsis
+  std::string shown = s;
+  while (!shown.empty() && ImGui::CalcTextSize((shown + ell).c_str()).x > width) {
+    shown.pop_back();
+    // Never cut a UTF-8 character in two.
+    while (!shown.empty() && (static_cast<unsigned char>(shown.back()) & 0xC0) == 0x80) shown.pop_back();
+    if (!shown.empty() && (static_cast<unsigned char>(shown.back()) & 0xC0) == 0xC0) shown.pop_back();
+  }
+  return shown + ell;
+}
+
 bool button(const std::string& label, float width, bool enabled, bool primary) {
   const float h = g_look.m.tap;
+  // A button of its own width that would run past the right edge starts a new line.
+  if (width >= 0) wrap_if_past_edge(width == 0 ? label_width(label) : width);
   float w = width == 0 ? label_width(label) : width < 0 ? ImGui::GetContentRegionAvail().x : width;
   if (primary) {
     ImGui::PushStyleColor(ImGuiCol_Button, to_vec4(g_look.pal.accent));
@@ -65,6 +132,7 @@ bool button(const std::string& label, float width, bool enabled, bool primary) {
   if (!enabled) ImGui::EndDisabled();
   if (primary) ImGui::PopStyleColor(3);
   record_target(label, enabled);
+  record_box(label, text_width(label), label_room());
   return hit && enabled;
 }
 
@@ -78,6 +146,15 @@ bool chip(const std::string& label, bool selected, bool enabled, float width, bo
   // Record the chip also under its plain label (the check mark is decoration).
   if (selected && mark) record_target(label, enabled);
   if (selected) ImGui::PopStyleColor(3);
+  return hit;
+}
+
+bool row_chip(const std::string& label, bool selected) {
+  const float room = ImGui::GetContentRegionAvail().x - ImGui::GetStyle().FramePadding.x * 2 -
+                     (selected ? ImGui::CalcTextSize("\xE2\x9C\x93 ").x : 0.0f);
+  const std::string shown = fit_to_width(visible_label(label), room);
+  const bool hit = chip(shown + "##" + label, selected, true, -1);
+  if (shown != visible_label(label)) record_target(label, true);
   return hit;
 }
 
@@ -95,6 +172,7 @@ int chip_row(const std::vector<std::string>& labels, int selected, bool enabled)
 
 void text(const std::string& s) {
   ImGui::TextUnformatted(s.c_str());
+  record_box(s);
   this_frame().texts.push_back(s);
 }
 
@@ -106,6 +184,7 @@ void text_colour(ImU32 colour, const std::string& s) {
   ImGui::TextUnformatted(s.c_str());
   ImGui::PopTextWrapPos();
   ImGui::PopStyleColor();
+  record_box(s);
   this_frame().texts.push_back(s);
 }
 
@@ -113,12 +192,13 @@ void text_wrapped(const std::string& s) {
   ImGui::PushTextWrapPos(0.0f);
   ImGui::TextUnformatted(s.c_str());
   ImGui::PopTextWrapPos();
+  record_box(s);
   this_frame().texts.push_back(s);
 }
 
 void heading(const std::string& s) {
   ImGui::PushFont(g_look.fonts.bold);
-  text(s);
+  text_wrapped(s);
   ImGui::PopFont();
 }
 
@@ -194,9 +274,12 @@ bool field(const std::string& label, const std::string& value, bool selected, fl
               selected ? 4.0f : 2.0f);
   const std::string shown = visible_label(label) + ": " + value + (selected ? "\xE2\x96\x8F" : "");  // caret-like bar
   dl->AddText(ImVec2(p.x + g_look.m.gap, p.y + (h - g_look.m.font) / 2), g_look.pal.text, shown.c_str());
+  record_box(label, ImGui::CalcTextSize(shown.c_str()).x, width - 2 * g_look.m.gap);
   this_frame().texts.push_back(shown);
   return hit;
 }
+
+float fill_height(float min_taps) { return std::max(ImGui::GetContentRegionAvail().y, g_look.m.tap * min_taps); }
 
 void touch_scroll() {
   ImGuiContext& g = *ImGui::GetCurrentContext();
@@ -223,8 +306,20 @@ std::string keypad(const std::vector<std::string>& keys, int columns, float key_
     if (keys[i].empty()) {
       ImGui::Dummy(ImVec2(key_w, key_h));
     } else {
+      // A word key ("Clear", "space") too wide for the big font takes the bold body font.
+      const float room = key_w - 2 * ImGui::GetStyle().FramePadding.x;
+      const bool smaller = text_width(keys[i]) > room;
+      if (smaller) {
+        ImGui::PushFont(g_look.fonts.bold);
+        if (text_width(keys[i]) > room) {
+          ImGui::PopFont();
+          ImGui::PushFont(g_look.fonts.small);
+        }
+      }
       const bool pressed = ImGui::Button(keys[i].c_str(), ImVec2(key_w, key_h));
       this_frame().targets.push_back({"key " + keys[i], ImGui::GetItemRectMin(), ImGui::GetItemRectMax(), true});
+      record_box("key " + keys[i], text_width(keys[i]), label_room());
+      if (smaller) ImGui::PopFont();
       if (pressed) hit = keys[i];
     }
     ImGui::PopID();

@@ -1,6 +1,7 @@
 // GPS in the touch UI: gpsfake (from Debian's gpsd-clients) replays an
 // invented NMEA 0183 log through a real gpsd; the UI reads it with libgps,
-// shows the fix, and "+ New station" makes a station at the fix in one tap.
+// shows the fix, and "+ New station" makes a station at the fix in one tap;
+// the fix is also kept in the project's day track.
 //
 // The log (tests/app/data/field.nmea, invented place) repeats three sentences
 // of NMEA 0183 (NMEA 0183 standard, sentence layouts as published):
@@ -16,6 +17,7 @@
 #include <unistd.h>
 
 #include "storage/repository.h"
+#include "storage/track.h"
 #include "tests/app/ui_test_support.h"
 
 using namespace cairn;
@@ -102,4 +104,12 @@ TEST_F(UiTest, NewStationAtTheFixReplayedThroughGpsd) {
   EXPECT_EQ(st->source, store::PositionSource::Gps);
   ASSERT_TRUE(st->h_accuracy);  // gpsd's estimate from the DOPs: present and positive
   EXPECT_GT(*st->h_accuracy, 0);
+
+  // The day track: the UI ran with a fix, so the fix is in the file (the log
+  // stands still, so one fix is kept until five minutes pass: geomath/track.h).
+  const auto track = store::list_track(p);
+  ASSERT_FALSE(track.empty());
+  EXPECT_NEAR(track.front().lat, 61.0 + 10.9100 / 60.0, 1e-7);
+  EXPECT_NEAR(track.front().lon, -(135.0 + 35.4000 / 60.0), 1e-7);
+  EXPECT_EQ(track.front().person, store::find_person(p, "AQ")->meta.uuid);  // the person at the tablet
 }

@@ -97,7 +97,7 @@ TEST(Import, BadInputTable) {
       {"issue: position source gps, map, manual (dem: from the terrain)", ImportKind::Stations, "station,lat,lon,source\nS5,46,14,guess\n",
        {"bad.csv:2:4: choice: source 'guess' is not one of: gps, map, manual, dem"}},
       {"issue: unit must exist", ImportKind::Stations, "station,lat,lon,unit\nS5,46,14,Zz\n",
-       {"bad.csv:2:4: unknown-unit: no unit 'Zz' in the project"}},
+       {"bad.csv:2:4: unknown-unit: unit 'Zz' is not in the project's unit list (Pgs, Qm)"}},
       {"issue: station code unique", ImportKind::Stations, "station,lat,lon\nS5,46,14\nS5,46,14\n",
        {"bad.csv:3:1: duplicate: station 'S5' appears twice in this file (first on line 2)"}},
       {"issue: re-import is a no-op, not an overwrite", ImportKind::Stations, "station,lat,lon,elevation\nS1,46.5,14.25,1250\n",
@@ -157,7 +157,7 @@ TEST(Import, BadInputTable) {
       {"colour as #RRGGBB (common practice)", ImportKind::Units, "unit,name,age_rank,colour\nX,x,3,red\n",
        {"bad.csv:2:4: colour: colour 'red' is not of the form #RRGGBB"}},
       {"issue: units of a contact exist", ImportKind::Contacts, "contact,lower_unit,upper_unit,type\nA-B,Pgs,Zz,fault\n",
-       {"bad.csv:2:3: unknown-unit: no unit 'Zz' in the project"}},
+       {"bad.csv:2:3: unknown-unit: unit 'Zz' is not in the project's unit list (Pgs, Qm)"}},
       {"issue: contact types", ImportKind::Contacts, "contact,lower_unit,upper_unit,type\nA-B,Pgs,Qm,sheared\n",
        {"bad.csv:2:4: choice: type 'sheared' is not one of: depositional, unconformity, fault, intrusive"}},
   };
