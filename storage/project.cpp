@@ -220,7 +220,7 @@ Project Project::open(const std::string& path, OpenOptions options) {
   auto open_read_only = [&](const std::string& why) {
     const std::string sentence = why + "; " + newest_backup_sentence(path, bdir);
     try {
-      impl->db = Db(path, SQLITE_OPEN_READONLY);
+      impl->db = Db(path, SQLITE_OPEN_READONLY, options.untrusted ? Trust::Untrusted : Trust::Own);
       set_pragmas(impl->db, options, false);
       impl->db.query_int("SELECT count(*) FROM project");  // readable at all?
     } catch (const std::exception& e) {
@@ -233,7 +233,8 @@ Project Project::open(const std::string& path, OpenOptions options) {
 
   bool writable = !options.read_only;
   try {
-    impl->db = Db(path, writable ? SQLITE_OPEN_READWRITE : SQLITE_OPEN_READONLY);
+    impl->db = Db(path, writable ? SQLITE_OPEN_READWRITE : SQLITE_OPEN_READONLY,
+                  options.untrusted ? Trust::Untrusted : Trust::Own);
     sqlite3_busy_timeout(impl->db.handle(), options.busy_timeout_ms);
     const int64_t app = impl->db.query_int("PRAGMA application_id");
     const int64_t version = impl->db.query_int("PRAGMA user_version");

@@ -48,6 +48,9 @@ struct OpenOptions {
   std::string device_name;  // recorded for a device the file has not seen yet
   std::string person;       // person UUID at the keyboard (audit trail); "" when unknown
   bool read_only = false;   // open for reading only (no backup, no migration)
+  // A copy of a file from another device (merge): its triggers and views are
+  // disabled for the connection (storage/sqlite.h, Trust::Untrusted).
+  bool untrusted = false;
   bool backups = true;
   int backup_keep = 10;          // how many rolling backups to keep (>= 1)
   int backup_interval_s = 300;   // seconds between backups while editing
