@@ -75,9 +75,11 @@ std::optional<TextFault> scan(std::string_view t, bool check_controls, bool mult
       f.message = "control character " + u4(cp) + " is not allowed in text";
       return f;
     }
-    if (cp == '\n') {
-      ++f.line;
+    if (cp == '\n' || (cp == '\r' && (i + 1 >= t.size() || t[i + 1] != '\n'))) {
+      ++f.line;  // LF, CRLF or a lone CR ends a line
       f.column = 1;
+    } else if (cp == '\r') {
+      // the CR of a CRLF: the LF ends the line
     } else {
       ++f.column;
     }
@@ -120,14 +122,6 @@ std::string terminal_safe(std::string_view t) {
     i += n;
   }
   return out;
-}
-
-std::string formula_safe(std::string_view cell) {
-  if (cell.empty()) return std::string(cell);
-  const char c = cell.front();
-  if (c != '=' && c != '+' && c != '-' && c != '@' && c != '\t' && c != '\r') return std::string(cell);
-  if ((c == '-' || c == '+') && parse_decimal(cell)) return std::string(cell);  // a plain number
-  return "'" + std::string(cell);
 }
 
 bool looks_like_utf16(std::string_view t) {

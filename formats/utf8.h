@@ -34,11 +34,6 @@ Check check_text(std::string_view text, const std::string& what, bool multiline 
 // escape sequences to the terminal. Valid printable UTF-8 is kept.
 std::string terminal_safe(std::string_view text);
 
-// A CSV cell a spreadsheet will not run as a formula (OWASP, "CSV Injection"):
-// a cell that begins with '=', '+', '-', '@', tab or carriage return is
-// prefixed with a single quote, unless it is a plain decimal number ("-12.5").
-std::string formula_safe(std::string_view cell);
-
 // True when TEXT is UTF-16 or UTF-32 (a byte-order mark, or zero bytes among the
 // first characters): the readers then say to save the file as UTF-8.
 bool looks_like_utf16(std::string_view text);

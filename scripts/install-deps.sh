@@ -3,7 +3,7 @@
 # Only what is missing is installed; running it twice is cheap.
 set -euo pipefail
 want=(cmake g++ make pkg-config libeigen3-dev libgeographiclib-dev libsqlite3-dev
-      libsdl2-dev libimgui-dev libstb-dev libgps-dev libgtest-dev fonts-dejavu-core)
+      libsdl2-dev libimgui-dev libstb-dev libgps-dev libgtest-dev fonts-dejavu-core libexpat1-dev)
 if [ "${1:-}" = "--test" ]; then
   # Outside references for the tests: numpy, PROJ (pyproj), GDAL's ogrinfo,
   # a virtual display for the UI, headless Chromium for the report, gpsd for GPS replay.

@@ -652,16 +652,12 @@ ImportReport import_csv(Project& p, ImportKind kind, std::string_view text, cons
   ImportReport rep;
   auto table = parse_csv(text, filename);
   if (!table) {
-    // csv.h reports "FILE:LINE: message"; give it the column-and-rule shape of every other error.
-    std::string e = table.error();
-    const size_t a = e.find(':', filename.size() + 1);
-    if (e.rfind(filename + ":", 0) == 0 && a != std::string::npos)
-      e = e.substr(0, a) + ":1: csv:" + e.substr(a + 1);
-    else
-      e = filename + ":1:1: csv: " + e;
-    rep.errors.push_back(e);
+    rep.errors.push_back(table.error());  // already "FILE:LINE:COLUMN: rule: message"
     return rep;
   }
+  // Cells written by list_csv were made safe for spreadsheets (formats/csv.h).
+  for (auto& row : table.value().rows)
+    for (auto& cell : row) cell = from_formula_safe(cell);
   Context cx{p, rep, {}, p.info().north_default, {}, {}};
   check_header(*table, kind, filename, header_line(text), p, cx.pos, rep.errors);
   if (!rep.errors.empty()) return rep;

@@ -5,6 +5,8 @@
 
 #include "app/cli/command.h"
 #include "app/cli/project_access.h"
+#include "formats/limits.h"
+#include "formats/utf8.h"
 #include "storage/import.h"
 
 namespace cairn::cli {
@@ -24,12 +26,16 @@ int run(const Args& in, std::ostream& out, std::ostream& err) {
   const auto kind = store::parse_import_kind(kind_name);
   if (!waypoints && !kind) throw std::invalid_argument("KIND '" + kind_name + "' is not one of: " + kKinds);
   if (contact && !waypoints) throw std::invalid_argument("--contact goes with KIND waypoints only");
-  const std::string text = read_text_file(path);
+  // At most kMaxImportBytes are read (formats/limits.h): /dev/zero or a huge
+  // file is refused instead of filling the memory.
+  auto read = formats::read_file_limited(path);
+  if (!read) throw std::runtime_error(formats::terminal_safe(read.error()));
+  const std::string& text = read.value();
   auto project = open_project(file, false, err);
   const store::ImportReport rep = waypoints ? store::import_gpx(project, text, path, contact.value_or(""))
                                             : store::import_csv(project, *kind, text, path);
   if (!rep.ok()) {
-    for (const auto& e : rep.errors) err << e << "\n";
+    for (const auto& e : rep.errors) err << formats::terminal_safe(e) << "\n";
     err << "nothing imported: " << rep.errors.size() << (rep.errors.size() == 1 ? " problem" : " problems")
         << " in " << path << "\n";
     return 1;

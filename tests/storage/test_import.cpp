@@ -160,6 +160,17 @@ TEST(Import, BadInputTable) {
        {"bad.csv:2:3: unknown-unit: no unit 'Zz' in the project"}},
       {"issue: contact types", ImportKind::Contacts, "contact,lower_unit,upper_unit,type\nA-B,Pgs,Qm,sheared\n",
        {"bad.csv:2:4: choice: type 'sheared' is not one of: depositional, unconformity, fault, intrusive"}},
+      // ---- text and encoding (formats/utf8.h, formats/csv.h) ----
+      {"RFC 3629: Latin-1 text is not UTF-8", ImportKind::Stations, "station,lat,lon,notes\nS5,46,14,\xE9" "boulis\n",
+       {"bad.csv:2:10: utf8: invalid UTF-8 (byte 0xE9); save the file as UTF-8"}},
+      {"ECMA-48: ESC starts a terminal control sequence", ImportKind::Stations,
+       "station,lat,lon,notes\nS5,46,14,\"spur\x1B]0;x\x07\"\n",
+       {"bad.csv:2:15: control: control character U+001B is not allowed in text"}},
+      {"UTF-16 (a spreadsheet's \"Unicode text\")", ImportKind::Units, "\xFF\xFEu",
+       {"bad.csv:1:1: encoding: the file is UTF-16 or UTF-32 text; save it as UTF-8 (\"CSV UTF-8\") and import it "
+        "again"}},
+      {"RFC 4180: a quoted field ends at its quote", ImportKind::Units, "unit,name,age_rank\n\"X\" y,x,3\n",
+       {"bad.csv:2:1: csv: text after a closing quote (column 1)"}},
   };
   Field f;
   const int64_t before = f.total();
