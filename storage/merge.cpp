@@ -13,6 +13,7 @@
 #include "storage/schema.h"
 #include "formats/sha256.h"
 #include "storage/sqlite.h"
+#include "formats/temp_files.h"
 #include "formats/utf8.h"
 #include "formats/validate.h"
 #include "storage/reviews.h"
@@ -250,20 +251,6 @@ private:
 
 // ---- a source, copied and checked -------------------------------------------------
 
-class TempDir {
-public:
-  TempDir() {
-    std::string tmpl = (fs::temp_directory_path() / "cairn-merge-XXXXXX").string();
-    if (!mkdtemp(tmpl.data())) throw std::runtime_error("cannot make a temporary folder for the merge");
-    path_ = tmpl;
-  }
-  ~TempDir() {
-    std::error_code ec;
-    fs::remove_all(path_, ec);
-  }
-  fs::path path_;
-};
-
 const char* const kRecordOrder[] = {"people", "units", "contacts", "stations", "planes", "lines", "points", "photos"};
 
 // Tables of Cairn's own schema that merge reads or leaves alone.
@@ -368,22 +355,24 @@ void snapshot(const std::string& path, const std::string& dest, std::vector<std:
 
 void validate_source(Db& db, const std::string& path);
 
+// A source copied beside the camp file (formats/temp_files.h: removed on any
+// exit, SIGTERM included, and after a SIGKILL at the camp file's next opening).
 struct Source {
-  TempDir dir;
+  TempPath copy_file, backups;
   std::optional<Project> project;
   ProjectInfo info;
   std::vector<std::string> notes;    // for the report's warnings
   std::vector<std::string> ignored;  // "table x", "trigger y", "view z"
 
-  explicit Source(const std::string& path) {
+  Source(const std::string& path, const std::string& camp) : copy_file(camp), backups(camp) {
     std::error_code ec;
     if (!fs::exists(path, ec)) throw std::runtime_error("no project file " + path);
-    const std::string copy = (dir.path_ / "source.cairn").string();
+    const std::string copy = copy_file.path();
     snapshot(path, copy, notes, ignored);
     OpenOptions o;
     o.backups = false;
     o.untrusted = true;
-    o.backup_dir = (dir.path_ / "backups").string();
+    o.backup_dir = backups.path();  // only a migration of an older file writes one
     try {
       project.emplace(Project::open(copy, o));  // migrates the copy when it is older
     } catch (const std::exception& e) {
@@ -1154,7 +1143,7 @@ MergeReport merge_files(Project& target, const std::vector<std::string>& sources
   }
   // Check and copy every source before anything is written.
   std::vector<std::unique_ptr<Source>> copies;
-  for (const auto& s : sources) copies.push_back(std::make_unique<Source>(s));
+  for (const auto& s : sources) copies.push_back(std::make_unique<Source>(s, target.path()));
 
   MergeReport rep;
   target.write([&] {
