@@ -6,9 +6,11 @@ want=(cmake g++ make pkg-config libeigen3-dev libgeographiclib-dev libsqlite3-de
       libsdl2-dev libimgui-dev libstb-dev libgps-dev libgtest-dev fonts-dejavu-core libexpat1-dev)
 if [ "${1:-}" = "--test" ]; then
   # Outside references for the tests: numpy, PROJ (pyproj), GDAL's ogrinfo,
-  # a virtual display for the UI, headless Chromium for the report, gpsd for GPS replay.
+  # a virtual display for the UI, headless Chromium for the report, gpsd for GPS replay,
+  # clang with its libFuzzer and sanitizer runtimes for scripts/ci-sanitize.sh.
   want+=(xvfb xauth python3 python3-numpy python3-pyproj gdal-bin chromium
-         mesa-utils libgl1-mesa-dri gpsd gpsd-clients dpkg-dev git)
+         mesa-utils libgl1-mesa-dri gpsd gpsd-clients dpkg-dev git
+         clang libclang-rt-14-dev ccache)
 fi
 missing=()
 for p in "${want[@]}"; do
