@@ -272,6 +272,12 @@ Project Project::open(const std::string& path, OpenOptions options) {
   impl->path = path;
   impl->options = options;
   const std::string bdir = options.backup_dir;
+  // A file of zero bytes (a copy that never finished, a card pulled out) is
+  // said as such, and left as it is: SQLite would take it for a new database.
+  if (fs::is_regular_file(path, ec) && fs::file_size(path, ec) == 0 && !(fs::exists(path + "-wal", ec) && fs::file_size(path + "-wal", ec) > 0))
+    throw std::runtime_error(path + " is empty (0 bytes): it holds no project, perhaps because copying it did not "
+                             "finish; " + newest_backup_sentence(path, bdir) +
+                             " (cairn restore FILE BACKUP); the file has not been changed");
   auto open_read_only = [&](const std::string& why) {
     const std::string sentence = why + "; " + newest_backup_sentence(path, bdir);
     try {

@@ -127,3 +127,26 @@ TEST(Backups, RestoreKeepsThePresentStateFirst) {
   cairn::store::testing::write_file(d.file("junk.cairn"), std::string(4096, 'j'));
   EXPECT_THROW(restore_from_backup(p, d.file("junk.cairn")), std::runtime_error);
 }
+
+TEST(Backups, AZeroLengthFileIsSaidAndNamesTheNewestBackup) {
+  // SQLite documentation, "Database File Format": a database file is at least
+  // one page; a file of 0 bytes is read by SQLite as a new, empty database.
+  TempDir d;
+  const std::string f = d.file("camp.cairn");
+  {
+    Project p = Project::create(f, NewProject{"camp", "", North::True, 0}, with_backups());
+    add_station(p, "S1");
+  }
+  const auto b = list_backups(f);
+  ASSERT_EQ(b.size(), 1u);
+  cairn::store::testing::write_file(f, "");
+  try {
+    Project::open(f, with_backups());
+    FAIL() << "an empty file opened";
+  } catch (const std::runtime_error& e) {
+    const std::string m = e.what();
+    EXPECT_NE(m.find(f + " is empty (0 bytes)"), std::string::npos) << m;
+    EXPECT_NE(m.find("the newest backup is " + b.back()), std::string::npos) << m;
+  }
+  EXPECT_EQ(fs::file_size(f), 0u) << "left as it was";
+}
