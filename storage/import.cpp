@@ -648,7 +648,8 @@ std::string_view to_string(ImportKind k) {
 
 const std::vector<std::string>& import_columns(ImportKind k) { return columns().at(k); }
 
-ImportReport import_csv(Project& p, ImportKind kind, std::string_view text, const std::string& filename) {
+ImportReport import_csv(Project& p, ImportKind kind, std::string_view text, const std::string& filename,
+                        const ImportProgress& progress) {
   ImportReport rep;
   auto table = parse_csv(text, filename);
   if (!table) {
@@ -662,7 +663,9 @@ ImportReport import_csv(Project& p, ImportKind kind, std::string_view text, cons
   check_header(*table, kind, filename, header_line(text), p, cx.pos, rep.errors);
   if (!rep.errors.empty()) return rep;
   all_or_nothing(p, rep, [&] {
-    for (size_t r = 0; r < table->rows.size(); ++r) {
+    const size_t total = table->rows.size();
+    for (size_t r = 0; r < total; ++r) {
+      if (progress && r % 1000 == 0) progress(r, total);
       Row row(*table, r, filename, rep.errors);
       switch (kind) {
         case ImportKind::Units: unit_row(cx, row); break;
@@ -673,6 +676,7 @@ ImportReport import_csv(Project& p, ImportKind kind, std::string_view text, cons
         case ImportKind::Points: point_row(cx, row); break;
       }
     }
+    if (progress) progress(total, total);
   });
   return rep;
 }

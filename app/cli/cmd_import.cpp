@@ -1,5 +1,6 @@
 // `cairn import FILE KIND PATH [--contact NAME]`: reads a CSV (or, for
 // waypoints, a GPX 1.1 file) into a project, all or nothing.
+#include <chrono>
 #include <ostream>
 #include <stdexcept>
 
@@ -32,8 +33,20 @@ int run(const Args& in, std::ostream& out, std::ostream& err) {
   if (!read) throw std::runtime_error(formats::terminal_safe(read.error()));
   const std::string& text = read.value();
   auto project = open_project(file, false, err);
+  // A progress line on stderr once an import has run for 2 s: rows checked
+  // and rows per second (a terminal sees it rewritten in place).
+  const auto start = std::chrono::steady_clock::now();
+  bool shown = false;
+  auto progress = [&](size_t done, size_t total) {
+    const double s = std::chrono::duration<double>(std::chrono::steady_clock::now() - start).count();
+    if (s < 2.0) return;
+    shown = true;
+    err << "\rimporting " << formats::terminal_safe(path) << ": " << done << " of " << total << " rows ("
+        << static_cast<long>(done / s) << " rows/s)" << std::flush;
+  };
   const store::ImportReport rep = waypoints ? store::import_gpx(project, text, path, contact.value_or(""))
-                                            : store::import_csv(project, *kind, text, path);
+                                            : store::import_csv(project, *kind, text, path, progress);
+  if (shown) err << "\n";
   if (!rep.ok()) {
     for (const auto& e : rep.errors) err << formats::terminal_safe(e) << "\n";
     err << "nothing imported: " << rep.errors.size() << (rep.errors.size() == 1 ? " problem" : " problems")

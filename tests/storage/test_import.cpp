@@ -183,6 +183,22 @@ TEST(Import, BadInputTable) {
   }
 }
 
+TEST(Import, ProgressCountsEveryRowUpToTheTotal) {
+  // The progress line's numbers: rows checked of the rows RFC 4180 counts in
+  // the file (the header is no row), ending at the total.
+  TempDir dir;
+  Project p = Project::create(dir.file("f.cairn"), NewProject{"field", "", North::True, 0}, quiet());
+  std::string csv = "station,lat,lon\n";
+  for (int i = 0; i < 2500; ++i) csv += "S" + std::to_string(i) + ",46.5,14.25\n";
+  std::vector<std::pair<size_t, size_t>> calls;
+  const ImportReport r = import_csv(p, ImportKind::Stations, csv, "many.csv",
+                                    [&](size_t done, size_t total) { calls.emplace_back(done, total); });
+  ASSERT_TRUE(r.ok());
+  ASSERT_FALSE(calls.empty());
+  EXPECT_EQ(calls.back(), std::make_pair(size_t{2500}, size_t{2500}));
+  for (size_t i = 1; i < calls.size(); ++i) EXPECT_LE(calls[i - 1].first, calls[i].first);
+}
+
 TEST(Import, EasternAndNorthingNeedAZone) {
   Field f("");
   ImportReport r = import_csv(f.p, ImportKind::Stations, "station,easting,northing\nS5,500000,0\n", "e.csv");
