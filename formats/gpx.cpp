@@ -1,5 +1,7 @@
 #include "formats/gpx.h"
 
+#include "formats/limits.h"
+#include "formats/utf8.h"
 #include "formats/validate.h"
 #include "formats/xml.h"
 
@@ -37,6 +39,11 @@ GpxFile parse_gpx(std::string_view text, const std::string& filename) {
   if (const auto* c = root.attribute("creator")) out.creator = *c;
   for (const XmlElement& w : root.children) {
     if (w.ns != kGpx11 || w.local != "wpt") continue;
+    if (out.waypoints.size() >= kMaxImportRows) {
+      at(w, "too-large", "more than " + std::to_string(kMaxImportRows) +
+                             " waypoints, the most Cairn imports from one file; split it");
+      break;
+    }
     GpxWaypoint p;
     p.line = w.line;
     p.column = w.column;
@@ -66,10 +73,19 @@ GpxFile parse_gpx(std::string_view text, const std::string& filename) {
       if (auto b = check_time(trimmed(e->text), &norm)) at(*e, b->rule, b->message);
       else p.time = norm;
     }
-    if (const XmlElement* e = w.child(kGpx11, "name")) p.name = trimmed(e->text);
-    if (const XmlElement* e = w.child(kGpx11, "cmt")) p.comment = trimmed(e->text);
-    if (const XmlElement* e = w.child(kGpx11, "desc")) p.description = trimmed(e->text);
-    if (const XmlElement* e = w.child(kGpx11, "sym")) p.symbol = trimmed(e->text);
+    // Text fields: XML already refuses C0 controls; DEL and C1 controls
+    // (allowed by XML 1.0) are refused here, line breaks only in comments.
+    auto text = [&](const char* tag, bool multiline, std::string& to) {
+      const XmlElement* e = w.child(kGpx11, tag);
+      if (!e) return;
+      const std::string v = trimmed(e->text);
+      if (auto b = check_text(v, tag, multiline)) at(*e, b->rule, b->message);
+      else to = v;
+    };
+    text("name", false, p.name);
+    text("cmt", true, p.comment);
+    text("desc", true, p.description);
+    text("sym", false, p.symbol);
     if (out.errors.size() == errors_before) out.waypoints.push_back(std::move(p));
   }
   return out;

@@ -1,10 +1,12 @@
 #include "formats/validate.h"
 
+#include <algorithm>
 #include <cctype>
 #include <charconv>
 #include <cmath>
 #include <cstdio>
 
+#include "formats/ids.h"
 #include "formats/iso8601.h"
 
 namespace cairn::formats {
@@ -82,6 +84,49 @@ Check check_time(const std::string& v, std::string* normalised) {
   auto t = parse_iso8601(v);
   if (!t) return Broken{"time", t.error()};
   if (normalised) *normalised = t->text;
+  return std::nullopt;
+}
+
+Check check_direction(double v, const std::string& what) {
+  if (std::isfinite(v) && v >= 0 && v <= 360) return std::nullopt;
+  return Broken{"angle", what + " " + format_number(v) + " is outside 0..360"};
+}
+
+Check check_inclination(double v, const std::string& what) {
+  if (std::isfinite(v) && v >= 0 && v <= 90) return std::nullopt;
+  return Broken{"angle", what + " " + format_number(v) + " is outside 0..90"};
+}
+
+Check check_rake(double v) {
+  if (std::isfinite(v) && v >= 0 && v <= 180) return std::nullopt;
+  return Broken{"angle", "rake " + format_number(v) + " is outside 0..180"};
+}
+
+Check check_declination(double v) {
+  if (std::isfinite(v) && std::abs(v) <= 180) return std::nullopt;
+  return Broken{"declination-range", "declination " + format_number(v) + " is outside -180..180 degrees"};
+}
+
+Check check_uuid(const std::string& v, const std::string& what) {
+  if (is_uuid(v)) return std::nullopt;
+  return Broken{"uuid", what + " '" + v.substr(0, 80) + "' is not a UUID"};
+}
+
+Check check_photo_path(const std::string& v) {
+  const auto bad = [&](const std::string& why) {
+    return Broken{"photo-path", "photo path '" + v.substr(0, 200) + "' " + why +
+                                    "; photos are named relative to the project folder"};
+  };
+  if (v.empty()) return bad("is empty");
+  if (v.front() == '/') return bad("is absolute");
+  if (v.find('\\') != std::string::npos) return bad("contains a backslash");
+  if (v.size() >= 2 && v[1] == ':') return bad("names a drive");
+  size_t i = 0;
+  while (i <= v.size()) {
+    const size_t j = std::min(v.find('/', i), v.size());
+    if (v.compare(i, j - i, "..") == 0) return bad("climbs out of the project folder");
+    i = j + 1;
+  }
   return std::nullopt;
 }
 

@@ -36,6 +36,17 @@ Check check_colour(const std::string& v);  // "colour": #RRGGBB
 Check check_sha256(const std::string& v);  // "sha256": 64 lower-case hex digits
 // "time": ISO 8601; on success *normalised receives parse_iso8601's text.
 Check check_time(const std::string& v, std::string* normalised);
+// "angle": a direction (strike, trend) 0..360, an inclination (dip, plunge)
+// 0..90, a rake 0..180 degrees; `what` names it ("strike").
+Check check_direction(double v, const std::string& what);
+Check check_inclination(double v, const std::string& what);
+Check check_rake(double v);
+Check check_declination(double v);       // "declination-range": -180..180
+// "uuid": a canonical lower-case UUID (RFC 9562, section 4); `what` names the field.
+Check check_uuid(const std::string& v, const std::string& what);
+// "photo-path": a photo's path relative to the project folder that stays in
+// it: not empty, not absolute, no ".." part, no backslash or drive letter.
+Check check_photo_path(const std::string& v);
 
 // The Okabe-Ito colour-blind-safe palette (Okabe & Ito, 2008), without its
 // black, cycled by age rank: the default colour of a unit.

@@ -1,8 +1,11 @@
-// A small, strict XML 1.0 reader (W3C XML 1.0, Fifth Edition, and
-// "Namespaces in XML 1.0"), enough for GPX files from handheld receivers:
-// elements, attributes, namespaces, character data, CDATA sections, comments,
-// processing instructions, the five predefined entities and character
-// references. A DOCTYPE is refused (GPX needs none). UTF-8 only.
+// XML 1.0 with namespaces, read by Debian's expat (a streaming parser, fed in
+// pieces), into a small tree for the GPX reader: elements, attributes,
+// namespaces, character data. The encoding declared by the file is honoured
+// (UTF-8, UTF-16, ISO-8859-1, US-ASCII) and any other is refused; text comes
+// out as UTF-8. A DOCTYPE or entity declaration is refused (GPX needs none);
+// nesting deeper than kMaxXmlDepth, more than kMaxXmlAttributes on one
+// element, text longer than kMaxFieldBytes and files larger than
+// kMaxImportBytes are refused (formats/limits.h).
 #pragma once
 #include <string>
 #include <string_view>
@@ -33,7 +36,7 @@ struct XmlElement {
   const std::string* attribute(std::string_view local) const;
 };
 
-// Parses a whole document. Errors read "FILE:LINE:COLUMN: message".
+// Parses a whole document. Errors read "FILE:LINE:COLUMN: xml: message".
 Result<XmlElement> parse_xml(std::string_view text, const std::string& filename);
 
 }  // namespace cairn::formats

@@ -56,7 +56,12 @@ public:
 
 private:
   struct Entry { double e, n; size_t id; };
-  static long long pack(long i, long j) { return (static_cast<long long>(i) << 32) ^ (j & 0xffffffffLL); }
+  // Shifted as unsigned: a left shift of a negative value is undefined in C++17
+  // (found by UndefinedBehaviorSanitizer); the bits, and so the keys, are the same.
+  static long long pack(long i, long j) {
+    return static_cast<long long>((static_cast<unsigned long long>(i) << 32) ^
+                                  (static_cast<unsigned long long>(j) & 0xffffffffULL));
+  }
   long long key(double e, double n) const {
     return pack(static_cast<long>(std::floor(e / cell_)), static_cast<long>(std::floor(n / cell_)));
   }

@@ -12,3 +12,5 @@ cmake -S "$here" -B "$here/build" -DCMAKE_BUILD_TYPE=Release -DCAIRN_WERROR=$wer
 cmake --build "$here/build" -j"$(nproc)"
 cd "$here/build"
 ctest --output-on-failure -j"$(nproc)" --timeout 900
+# Then the suite once more under ASan+UBSan, and each fuzzer briefly (about 10 min on 2 cores).
+bash "$here/scripts/ci-sanitize.sh"

@@ -687,25 +687,24 @@ std::string_view to_string(ImportKind k) {
 
 const std::vector<std::string>& import_columns(ImportKind k) { return columns().at(k); }
 
-ImportReport import_csv(Project& p, ImportKind kind, std::string_view text, const std::string& filename) {
+ImportReport import_csv(Project& p, ImportKind kind, std::string_view text, const std::string& filename,
+                        const ImportProgress& progress) {
   ImportReport rep;
   auto table = parse_csv(text, filename);
   if (!table) {
-    // csv.h reports "FILE:LINE: message"; give it the column-and-rule shape of every other error.
-    std::string e = table.error();
-    const size_t a = e.find(':', filename.size() + 1);
-    if (e.rfind(filename + ":", 0) == 0 && a != std::string::npos)
-      e = e.substr(0, a) + ":1: csv:" + e.substr(a + 1);
-    else
-      e = filename + ":1:1: csv: " + e;
-    rep.errors.push_back(e);
+    rep.errors.push_back(table.error());  // already "FILE:LINE:COLUMN: rule: message"
     return rep;
   }
+  // Cells written by list_csv were made safe for spreadsheets (formats/csv.h).
+  for (auto& row : table.value().rows)
+    for (auto& cell : row) cell = from_formula_safe(cell);
   Context cx{p, rep, {}, p.info().north_default, {}, {}, {}, {}};
   check_header(*table, kind, filename, header_line(text), p, cx.pos, rep.errors);
   if (!rep.errors.empty()) return rep;
   all_or_nothing(p, rep, [&] {
-    for (size_t r = 0; r < table->rows.size(); ++r) {
+    const size_t total = table->rows.size();
+    for (size_t r = 0; r < total; ++r) {
+      if (progress && r % 1000 == 0) progress(r, total);
       Row row(*table, r, filename, rep.errors);
       switch (kind) {
         case ImportKind::Units: unit_row(cx, row); break;
@@ -716,6 +715,7 @@ ImportReport import_csv(Project& p, ImportKind kind, std::string_view text, cons
         case ImportKind::Points: point_row(cx, row); break;
       }
     }
+    if (progress) progress(total, total);
   });
   return rep;
 }

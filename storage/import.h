@@ -13,6 +13,8 @@
 // (with the number of identical rows before it in the file, so that two
 // identical readings in one file stay two readings).
 #pragma once
+#include <cstddef>
+#include <functional>
 #include <optional>
 #include <string>
 #include <string_view>
@@ -53,7 +55,11 @@ struct ImportReport {
 // the project's; `declination` (degrees east) overrides the magnetic model for
 // magnetic readings. A station's `observer` is a person's initials (a new person
 // is added for unknown initials); readings take their station's observer.
-ImportReport import_csv(Project& p, ImportKind kind, std::string_view text, const std::string& filename);
+// PROGRESS, when given, is called as rows are checked (rows done, rows in the
+// file), at least at the end, for a progress line.
+using ImportProgress = std::function<void(size_t done, size_t total)>;
+ImportReport import_csv(Project& p, ImportKind kind, std::string_view text, const std::string& filename,
+                        const ImportProgress& progress = {});
 
 // Imports the waypoints of a GPX 1.1 file: as stations (the waypoint name is
 // the station code, `desc` or `cmt` its notes), or, when `contact` names a

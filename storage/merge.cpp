@@ -13,7 +13,10 @@
 #include "storage/schema.h"
 #include "formats/sha256.h"
 #include "storage/sqlite.h"
+#include "formats/temp_files.h"
+#include "formats/utf8.h"
 #include "formats/validate.h"
+#include "storage/reviews.h"
 #include "storage/terrain.h"
 
 namespace fs = std::filesystem;
@@ -112,7 +115,16 @@ void bind_value(Stmt& s, int i, const Value& v) {
   }
 }
 
-std::string quoted(const std::string& name) { return "\"" + name + "\""; }
+// An SQL identifier in double quotes, its own quotes doubled (SQLite
+// documentation, "SQL Keywords": quoting identifiers).
+std::string quoted(const std::string& name) {
+  std::string q = "\"";
+  for (char c : name) {
+    if (c == '"') q += '"';
+    q += c;
+  }
+  return q + "\"";
+}
 
 // ---- tables --------------------------------------------------------------------
 
@@ -240,26 +252,63 @@ private:
 
 // ---- a source, copied and checked -------------------------------------------------
 
-class TempDir {
-public:
-  TempDir() {
-    std::string tmpl = (fs::temp_directory_path() / "cairn-merge-XXXXXX").string();
-    if (!mkdtemp(tmpl.data())) throw std::runtime_error("cannot make a temporary folder for the merge");
-    path_ = tmpl;
-  }
-  ~TempDir() {
-    std::error_code ec;
-    fs::remove_all(path_, ec);
-  }
-  fs::path path_;
-};
+const char* const kRecordOrder[] = {"people", "units", "contacts", "stations", "planes", "lines", "points", "photos"};
 
-// Copies PATH into DEST after checking that it is a Cairn project this build can read.
-void snapshot(const std::string& path, const std::string& dest) {
+// Tables of Cairn's own schema that merge reads or leaves alone.
+const std::set<std::string> kOwnTables = {"project",         "devices",     "audit",  "merges",   "conflicts",
+                                          "conflict_values", "key_clashes", "people", "units",    "contacts",
+                                          "stations",        "planes",      "lines",  "points",   "photos",
+                                          // the terrain merges on its own rules (storage/terrain.h); the
+                                          // pick-lists and day track stay with their camp (storage/SCHEMA.md)
+                                          "terrain", "terrain_tiles", "pick_lists", "track_points"};
+
+// Tables Cairn's modules keep beside the records (rows with the record columns
+// but no audit trail, merged by UUID), each with the function that creates it
+// in a camp file that has not got it yet. Only these are ever created by a
+// merge, always from Cairn's own schema text, never from a source file's.
+struct SideTable {
+  const char* name;
+  void (*ensure)(Project&);
+};
+const SideTable kSideTables[] = {{"flag_reviews", ensure_review_tables}, {"day_signoffs", ensure_review_tables}};
+
+bool is_side_table(const std::string& name) {
+  for (const auto& t : kSideTables)
+    if (name == t.name) return true;
+  return false;
+}
+
+// Opens a source file read-only with triggers and views off; a file on
+// read-only media (no -shm can be made beside it) is read immutable, as it
+// lies on disk.
+Db open_source(const std::string& path, std::vector<std::string>& notes) {
+  try {
+    Db d(path, SQLITE_OPEN_READONLY, Trust::Untrusted);
+    d.query_int("SELECT count(*) FROM sqlite_master");
+    return d;
+  } catch (const SqlError& first) {
+    try {
+      Db d(immutable_uri(path), SQLITE_OPEN_READONLY | SQLITE_OPEN_URI, Trust::Untrusted);
+      d.query_int("SELECT count(*) FROM sqlite_master");
+      notes.push_back(path + " could not be opened normally (" + first.what() +
+                      "); it was read as it lies on disk (immutable), without its -wal");
+      return d;
+    } catch (const SqlError&) {
+      throw first;
+    }
+  }
+}
+
+// Checks PATH (application id, schema version, integrity, the kinds of its
+// tables) and copies its pages into DEST with SQLite's online backup API, which
+// runs none of the file's SQL. Tables Cairn does not know, triggers and views
+// are named in NOTES and never run or adopted.
+void snapshot(const std::string& path, const std::string& dest, std::vector<std::string>& notes,
+              std::vector<std::string>& ignored) {
   Db src;
   int64_t app = 0, version = 0;
   try {
-    src = Db(path, SQLITE_OPEN_READONLY);
+    src = open_source(path, notes);
     app = src.query_int("PRAGMA application_id");
     version = src.query_int("PRAGMA user_version");
   } catch (const SqlError& e) {
@@ -269,30 +318,65 @@ void snapshot(const std::string& path, const std::string& dest) {
   if (version > kSchemaVersion)
     throw std::runtime_error(path + " was written by a newer version of Cairn (schema version " +
                              std::to_string(version) + "); merge it with a newer Cairn");
-  // VACUUM INTO writes a consistent snapshot, also from a read-only connection
-  // (SQLite documentation, "VACUUM", section "VACUUM INTO").
   try {
-    Stmt v(src, "VACUUM INTO ?");
-    v.bind(1, dest);
-    v.run();
+    Stmt ic(src, "PRAGMA integrity_check(20)");
+    std::string first;
+    while (ic.step())
+      if (first.empty()) first = ic.text(0);
+    if (first != "ok")
+      throw std::runtime_error(path + " failed its integrity check (" + terminal_safe(first) +
+                               "); restore it from one of its backups before merging");
+    Stmt m(src, "SELECT type, name FROM sqlite_master WHERE name NOT LIKE 'sqlite\\_%' ESCAPE '\\' ORDER BY name");
+    while (m.step()) {
+      const std::string type = m.text(0), name = m.text(1);
+      const bool own = kOwnTables.count(name) > 0 || is_side_table(name);
+      if (own && type != "table")
+        throw std::runtime_error(path + " is not a Cairn project file: '" + terminal_safe(name) + "' is a " +
+                                 terminal_safe(type) + ", not a table");
+      if (type == "table" && !own) {
+        ignored.push_back("table " + name);
+        notes.push_back(path + ": table " + terminal_safe(name) + " is not a Cairn table; it was not merged");
+      } else if (type == "trigger" || type == "view") {
+        ignored.push_back(type + " " + name);
+        notes.push_back(path + ": " + type + " " + terminal_safe(name) + " was neither run nor merged");
+      }
+    }
+  } catch (const SqlError& e) {
+    throw std::runtime_error(path + " cannot be read (" + std::string(e.what()) +
+                             "); restore it from one of its backups before merging");
+  }
+  try {
+    Db out(dest, SQLITE_OPEN_READWRITE | SQLITE_OPEN_CREATE, Trust::Untrusted);
+    sqlite3_backup* b = sqlite3_backup_init(out.handle(), "main", src.handle(), "main");
+    if (!b) throw SqlError(out.errmsg(), 0);
+    const int rc = sqlite3_backup_step(b, -1);
+    sqlite3_backup_finish(b);
+    if (rc != SQLITE_DONE) throw SqlError(sqlite3_errstr(rc), rc);
   } catch (const SqlError& e) {
     throw std::runtime_error("copying " + path + ": " + e.what());
   }
 }
 
+void validate_source(Db& db, const std::string& path);
+
+// A source copied beside the camp file (formats/temp_files.h: removed on any
+// exit, SIGTERM included, and after a SIGKILL at the camp file's next opening).
 struct Source {
-  TempDir dir;
+  TempPath copy_file, backups;
   std::optional<Project> project;
   ProjectInfo info;
+  std::vector<std::string> notes;    // for the report's warnings
+  std::vector<std::string> ignored;  // "table x", "trigger y", "view z"
 
-  explicit Source(const std::string& path) {
+  Source(const std::string& path, const std::string& camp) : copy_file(camp), backups(camp) {
     std::error_code ec;
     if (!fs::exists(path, ec)) throw std::runtime_error("no project file " + path);
-    const std::string copy = (dir.path_ / "source.cairn").string();
-    snapshot(path, copy);
+    const std::string copy = copy_file.path();
+    snapshot(path, copy, notes, ignored);
     OpenOptions o;
     o.backups = false;
-    o.backup_dir = (dir.path_ / "backups").string();
+    o.untrusted = true;
+    o.backup_dir = backups.path();  // only a migration of an older file writes one
     try {
       project.emplace(Project::open(copy, o));  // migrates the copy when it is older
     } catch (const std::exception& e) {
@@ -303,14 +387,13 @@ struct Source {
     }
     if (!project->problem().empty())
       throw std::runtime_error(path + " failed its integrity check; restore it from one of its backups before merging");
+    validate_source(db(), path);
     info = project->info();
   }
   Db& db() { return project->db(); }
 };
 
 // ---- the merge of one source -----------------------------------------------------------
-
-const char* const kRecordOrder[] = {"people", "units", "contacts", "stations", "planes", "lines", "points", "photos"};
 
 // Who points at what (for the dangling-reference warnings).
 struct Ref {
@@ -325,6 +408,90 @@ const Ref kRefs[] = {{"contacts", "lower_unit", "units"}, {"contacts", "upper_un
                      {"lines", "host_plane", "planes"},   {"lines", "observer", "people"},
                      {"points", "contact", "contacts"},   {"points", "observer", "people"},
                      {"photos", "station", "stations"}};
+
+// ---- every source record passes the rules of the record API ------------------------
+
+bool is_reference(const std::string& table, const std::string& column) {
+  for (const Ref& r : kRefs)
+    if (table == r.table && column == r.column) return true;
+  return column == "person" || column == "device" || column == "record" || column == "uuid";
+}
+
+// The rule one stored value of a source file breaks, if any: its storage class
+// must be the column's, and its value pass the same rules (formats/validate.h,
+// formats/utf8.h) that the record API and the importers apply.
+Check check_cell(const std::string& table, const Column& c, const Stmt& s, int i) {
+  const int sc = s.storage_class(i);
+  const std::string& n = c.name;
+  if (sc == SQLITE_NULL) return std::nullopt;
+  if (sc == SQLITE_BLOB) return Broken{"type", n + " holds binary data, not a value"};
+  if (c.affinity == Affinity::Text) {
+    if (sc != SQLITE_TEXT) return Broken{"type", n + " holds a number where text belongs"};
+    const std::string v = s.text(i);
+    const bool multiline = n == "notes" || n == "comment" || n == "caption" || n == "old_values" || n == "new_values";
+    if (auto b = check_text(v, n, multiline)) return b;
+    if (is_reference(table, n)) {
+      if (v.empty() && n != "uuid" && n != "device" && n != "record") return std::nullopt;
+      return check_uuid(v, n);
+    }
+    if (n == "created" || n == "updated" || n == "deleted" || n == "time" || n == "at") {
+      if (auto b = check_time(v, nullptr)) return Broken{b->rule, n + ": " + b->message};
+      return std::nullopt;
+    }
+    if (n == "colour") return check_colour(v);
+    if (n == "sha256") return check_sha256(v);
+    if (table == "photos" && n == "path") return check_photo_path(v);
+    return std::nullopt;
+  }
+  if (c.affinity == Affinity::Integer) {
+    if (sc != SQLITE_INTEGER) return Broken{"type", n + " is not a whole number"};
+    const int64_t v = s.int64(i);
+    const int clamped = static_cast<int>(std::clamp<int64_t>(v, -1000000, 1000000));
+    if (n == "quality") return check_quality(clamped);
+    if (n == "age_rank") return check_age_rank(clamped);
+    return std::nullopt;
+  }
+  if (sc != SQLITE_INTEGER && sc != SQLITE_FLOAT) return Broken{"type", n + " holds text where a number belongs"};
+  const double v = s.real(i);
+  if (n == "lat") return check_latitude(v);
+  if (n == "lon") return check_longitude(v);
+  if (n == "elevation") return check_elevation(v);
+  if (n == "h_accuracy" || n == "v_accuracy") return check_accuracy(v, n);
+  if (n == "strike" || n == "measured_strike" || n == "trend" || n == "measured_trend") return check_direction(v, n);
+  if (n == "dip" || n == "measured_dip" || n == "plunge" || n == "measured_plunge") return check_inclination(v, n);
+  if (n == "rake") return check_rake(v);
+  if (n == "declination") return check_declination(v);
+  if (!std::isfinite(v)) return Broken{"number", n + " is not a finite number"};
+  return std::nullopt;
+}
+
+// Reads every row that a merge takes from a source (devices, audit rows,
+// records, code clashes, side tables) and refuses the first bad value, naming
+// the file, table, record UUID and rule. Runs before anything is written.
+void validate_source(Db& db, const std::string& path) {
+  std::vector<std::string> tables = {"devices", "audit", "key_clashes"};
+  for (const char* t : kRecordOrder) tables.push_back(t);
+  for (const auto& side : kSideTables) {
+    Stmt h(db, "SELECT 1 FROM sqlite_master WHERE type = 'table' AND name = ?");
+    h.bind(1, side.name);
+    if (h.step()) tables.push_back(side.name);
+  }
+  for (const auto& name : tables) {
+    const Table t = table_info(db, name);
+    Stmt s(db, "SELECT " + t.list() + " FROM " + quoted(name));
+    const int id_col = t.uuid >= 0 ? t.uuid : t.col("record");
+    while (s.step()) {
+      for (size_t i = 0; i < t.cols.size(); ++i) {
+        const Check b = check_cell(name, t.cols[i], s, static_cast<int>(i));
+        if (!b) continue;
+        const std::string id = id_col >= 0 ? terminal_safe(s.text(id_col).substr(0, 80)) : std::string("?");
+        throw std::runtime_error(path + ": table " + name + ", record " + id + ": " + b->rule + ": " +
+                                 terminal_safe(b->message) +
+                                 "; nothing was merged. Correct the record on the tablet, or leave this file out");
+      }
+    }
+  }
+}
 
 struct Candidate {
   enum Origin { Current, Kept, Incoming } origin;
@@ -347,6 +514,8 @@ public:
     SourceMerge sm;
     const long writes_before = writes_;
     sm.path = path;
+    sm.ignored = src.ignored;
+    for (const auto& n : src.notes) rep_.warnings.push_back(n);
     sm.file_uuid = src.info.file_uuid;
     sm.name = src.info.name;
     const ProjectInfo mine = p_.info();
@@ -462,35 +631,24 @@ public:
   }
 
 private:
-  // Tables a module keeps beside the records (e.g. flag reviews and day
+  // Tables a module keeps beside the records (kSideTables: flag reviews, day
   // sign-offs): rows with the record columns but no audit trail, written once
   // and then only withdrawn. They merge by UUID; of two versions the newer wins.
+  // A side table the camp file lacks is made by its module's own function;
+  // tables Cairn does not know were named in the report and are left alone.
   void merge_side_tables(Source& src, const std::string& path, SourceMerge& sm) {
-    static const std::set<std::string> known = {"project", "devices", "audit", "merges", "conflicts",
-                                                "conflict_values", "key_clashes", "people", "units", "contacts",
-                                                "stations", "planes", "lines", "points", "photos",
-                                                "terrain", "terrain_tiles"};
-    std::vector<std::pair<std::string, std::string>> side;
-    {
-      Stmt s(src.db(), "SELECT name, sql FROM sqlite_master WHERE type = 'table' AND name NOT LIKE 'sqlite_%' "
-                       "ORDER BY name");
-      while (s.step())
-        if (!known.count(s.text(0))) side.emplace_back(s.text(0), s.text(1));
-    }
-    for (const auto& [name, sql] : side) {
+    auto has = [](Db& db, const std::string& name) {
+      Stmt s(db, "SELECT 1 FROM sqlite_master WHERE type = 'table' AND name = ?");
+      s.bind(1, name);
+      return s.step();
+    };
+    for (const SideTable& side : kSideTables) {
+      const std::string name = side.name;
+      if (!has(src.db(), name)) continue;
       const Table ts = table_info(src.db(), name);
       if (ts.uuid < 0 || ts.updated < 0 || ts.device < 0 || ts.deleted < 0) continue;  // not record-like
-      bool have = false;
-      {
-        Stmt s(db_, "SELECT 1 FROM sqlite_master WHERE type = 'table' AND name = ?");
-        s.bind(1, name);
-        have = s.step();
-      }
-      if (!have) {
-        db_.exec(sql);
-        Stmt ix(src.db(), "SELECT sql FROM sqlite_master WHERE type = 'index' AND tbl_name = ? AND sql IS NOT NULL");
-        ix.bind(1, name);
-        while (ix.step()) db_.exec(ix.text(0));
+      if (!has(db_, name)) {
+        side.ensure(p_);
         wrote();
       }
       const Table t = table_info(db_, name);
@@ -1000,7 +1158,7 @@ MergeReport merge_files(Project& target, const std::vector<std::string>& sources
   }
   // Check and copy every source before anything is written.
   std::vector<std::unique_ptr<Source>> copies;
-  for (const auto& s : sources) copies.push_back(std::make_unique<Source>(s));
+  for (const auto& s : sources) copies.push_back(std::make_unique<Source>(s, target.path()));
 
   MergeReport rep;
   target.write([&] {

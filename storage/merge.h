@@ -30,6 +30,17 @@
 // failure rolls everything back and is rethrown. Each source is first copied
 // with SQLite's online backup API and, when written by an older Cairn,
 // migrated in the copy; the source file itself is only read.
+//
+// Trust. A source file is untrusted input (it may have been edited by hand or
+// damaged). It is opened read-only (immutable when it lies on read-only
+// media) with SQLite's defensive settings, trusted_schema off and its triggers
+// and views disabled; its application id, schema version and PRAGMA
+// integrity_check are checked before anything is read; its pages are copied
+// without running any of its SQL. No SQL text read from a file is ever run:
+// tables Cairn does not know are named in the report (SourceMerge::ignored),
+// not adopted. Every value of every row taken from it passes the rules of the
+// record API (storage/SCHEMA.md, "Bad input"); the first bad value refuses the
+// merge, naming the file, table, record UUID and rule, before anything is written.
 #pragma once
 #include <cstddef>
 #include <functional>
@@ -116,6 +127,9 @@ struct SourceMerge {
   std::map<std::string, MergeCounts> by_person;  // person UUID ("" = unknown) -> counts
   int devices_added = 0;
   int audit_added = 0;  // audit rows new to the target
+  // What the source holds that Cairn does not merge: "table NAME" for a table
+  // Cairn does not know, "trigger NAME", "view NAME". Never run, never adopted.
+  std::vector<std::string> ignored;
 };
 
 struct MergeReport {

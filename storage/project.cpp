@@ -7,13 +7,20 @@
 #include <chrono>
 #include <cmath>
 #include <ctime>
+#include <cstring>
 #include <filesystem>
+#include <memory>
+#include <set>
+#include <sstream>
+#include <fstream>
 #include <thread>
 
 #include "geomath/geodesy.h"
 #include "geomath/magnetic.h"
 #include "formats/ids.h"
 #include "formats/iso8601.h"
+#include "formats/sha256.h"
+#include "formats/temp_files.h"
 #include "storage/schema.h"
 
 namespace fs = std::filesystem;
@@ -81,47 +88,86 @@ void register_device(Db& db, const std::string& id, const std::string& name) {
   ins.run();
 }
 
-// One backup of the open database `src` (file `path`) into `dir`, keeping the newest `keep`.
-std::string make_backup(Db& src, const std::string& path, const std::string& dir, int keep) {
+// A copy of the open database `src` (file `path`) into TMP with the online
+// backup API, in rollback-journal mode so that it is one self-contained file.
+void copy_database(Db& src, const std::string& path, const std::string& tmp) {
+  Db dest(tmp, SQLITE_OPEN_READWRITE | SQLITE_OPEN_CREATE);
+  sqlite3_backup* b = sqlite3_backup_init(dest.handle(), "main", src.handle(), "main");
+  if (!b) throw SqlError("backup: " + dest.errmsg(), 0);
+  int rc;
+  do {
+    rc = sqlite3_backup_step(b, -1);
+    if (rc == SQLITE_BUSY || rc == SQLITE_LOCKED) std::this_thread::sleep_for(std::chrono::milliseconds(20));
+  } while (rc == SQLITE_OK || rc == SQLITE_BUSY || rc == SQLITE_LOCKED);
+  sqlite3_backup_finish(b);
+  if (rc != SQLITE_DONE) throw SqlError("backup of " + path + " failed: " + sqlite3_errstr(rc), rc);
+  dest.exec("PRAGMA journal_mode = DELETE");
+}
+
+std::string file_digest(const std::string& path) {
+  std::ifstream f(path, std::ios::binary);
+  std::stringstream ss;
+  ss << f.rdbuf();
+  return sha256_hex(ss.str());
+}
+
+// The day of a backup from its name (NAME-YYYYMMDDThhmmss...): "YYYYMMDD".
+std::string backup_day(const std::string& backup, const std::string& path) {
+  const std::string name = fs::path(backup).filename().string();
+  const size_t at = stem_of(path).size() + 1;
+  return name.size() >= at + 8 ? name.substr(at, 8) : name;
+}
+
+// Keeps the newest KEEP backups and, of older ones, the newest of each day.
+void prune_backups(const std::string& path, const std::string& dir, int keep) {
+  auto all = list_backups(path, dir);  // oldest first
+  const size_t k = static_cast<size_t>(std::max(1, keep));
+  std::set<std::string> days_kept;
+  for (size_t i = all.size(); i-- > 0;) {
+    const bool recent = all.size() - i <= k;
+    const bool first_of_day = days_kept.insert(backup_day(all[i], path)).second;
+    if (recent || first_of_day) continue;
+    std::error_code ec;
+    fs::remove(all[i], ec);
+  }
+}
+
+// Publishes the copy TMP as the newest backup of PATH in DIR, unless the
+// newest backup already holds the same bytes (then TMP is dropped and that
+// one is named). Returns the backup's path.
+std::string publish_backup(TempPath& tmp, const std::string& path, const std::string& dir, int keep) {
   const fs::path folder = backup_folder(path, dir);
-  fs::create_directories(folder);
+  const auto existing = list_backups(path, dir);
+  if (!existing.empty() && fs::file_size(existing.back()) == fs::file_size(tmp.path()) &&
+      file_digest(existing.back()) == file_digest(tmp.path()))
+    return existing.back();  // the same state: no second copy (tmp is removed with its TempPath)
   std::string stamp = utc_now();  // 2025-06-14T09:32:10.123Z -> 20250614T093210123Z
   stamp.erase(std::remove_if(stamp.begin(), stamp.end(), [](char c) { return c == '-' || c == ':' || c == '.'; }),
               stamp.end());
   fs::path target = folder / (stem_of(path) + "-" + stamp + ".cairn");
   for (int n = 2; fs::exists(target); ++n)
     target = folder / (stem_of(path) + "-" + stamp + "-" + std::to_string(n) + ".cairn");
-  // Written under a temporary name and renamed, so a crash never leaves a
-  // half-written file that looks like the newest backup.
-  const fs::path tmp = target.string() + ".tmp";
-  {
-    Db dest(tmp.string(), SQLITE_OPEN_READWRITE | SQLITE_OPEN_CREATE);
-    sqlite3_backup* b = sqlite3_backup_init(dest.handle(), "main", src.handle(), "main");
-    if (!b) throw SqlError("backup: " + dest.errmsg(), 0);
-    int rc;
-    do {
-      rc = sqlite3_backup_step(b, -1);
-      if (rc == SQLITE_BUSY || rc == SQLITE_LOCKED) std::this_thread::sleep_for(std::chrono::milliseconds(20));
-    } while (rc == SQLITE_OK || rc == SQLITE_BUSY || rc == SQLITE_LOCKED);
-    sqlite3_backup_finish(b);
-    if (rc != SQLITE_DONE) {
-      const std::string msg = sqlite3_errstr(rc);
-      dest.close();
-      std::error_code ec;
-      fs::remove(tmp, ec);
-      throw SqlError("backup of " + path + " failed: " + msg, rc);
-    }
-    // A backup is one self-contained file: no -wal beside it.
-    dest.exec("PRAGMA journal_mode = DELETE");
-  }
-  fs::rename(tmp, target);
-  auto all = list_backups(path, dir);
-  const size_t k = static_cast<size_t>(std::max(1, keep));
-  for (size_t i = 0; i + k < all.size(); ++i) {
-    std::error_code ec;
-    fs::remove(all[i], ec);
-  }
+  fs::rename(tmp.path(), target);
+  tmp.release();
+  prune_backups(path, dir, keep);
   return target.string();
+}
+
+// A copy of `src` under a temporary name in the backup folder (removed on any
+// exit unless published; formats/temp_files.h).
+std::unique_ptr<TempPath> stage_backup(Db& src, const std::string& path, const std::string& dir) {
+  const fs::path folder = backup_folder(path, dir);
+  fs::create_directories(folder);
+  auto tmp = std::make_unique<TempPath>((folder / stem_of(path)).string());
+  copy_database(src, path, tmp->path());
+  return tmp;
+}
+
+// One backup of the open database `src` (file `path`) into `dir`, deduplicated
+// and pruned as above. Returns its path.
+std::string make_backup(Db& src, const std::string& path, const std::string& dir, int keep) {
+  auto tmp = stage_backup(src, path, dir);
+  return publish_backup(*tmp, path, dir, keep);
 }
 
 // Validates the project settings; returns the normalised UTM zone ("" when none).
@@ -146,6 +192,15 @@ Result<std::string> parse_utm_zone(const std::string& text) {
   if (!z->northp)
     return Result<std::string>::failure("UTM zone '" + text + "' needs its hemisphere, N or S (e.g. 33N)");
   return std::to_string(z->zone) + (*z->northp ? "N" : "S");
+}
+
+bool is_project_file(const std::string& path) {
+  std::ifstream f(path, std::ios::binary);
+  unsigned char h[100] = {};
+  if (!f.read(reinterpret_cast<char*>(h), sizeof h)) return false;
+  if (std::memcmp(h, "SQLite format 3", 16) != 0) return false;
+  const uint32_t app = (uint32_t{h[68]} << 24) | (uint32_t{h[69]} << 16) | (uint32_t{h[70]} << 8) | h[71];
+  return app == static_cast<uint32_t>(kApplicationId);
 }
 
 std::vector<std::string> list_backups(const std::string& path, const std::string& dir) {
@@ -206,10 +261,16 @@ Project Project::open(const std::string& path, OpenOptions options) {
   impl->path = path;
   impl->options = options;
   const std::string bdir = options.backup_dir;
+  // A file of zero bytes (a copy that never finished, a card pulled out) is
+  // said as such, and left as it is: SQLite would take it for a new database.
+  if (fs::is_regular_file(path, ec) && fs::file_size(path, ec) == 0 && !(fs::exists(path + "-wal", ec) && fs::file_size(path + "-wal", ec) > 0))
+    throw std::runtime_error(path + " is empty (0 bytes): it holds no project, perhaps because copying it did not "
+                             "finish; " + newest_backup_sentence(path, bdir) +
+                             " (cairn restore FILE BACKUP); the file has not been changed");
   auto open_read_only = [&](const std::string& why) {
     const std::string sentence = why + "; " + newest_backup_sentence(path, bdir);
     try {
-      impl->db = Db(path, SQLITE_OPEN_READONLY);
+      impl->db = Db(path, SQLITE_OPEN_READONLY, options.untrusted ? Trust::Untrusted : Trust::Own);
       set_pragmas(impl->db, options, false);
       impl->db.query_int("SELECT count(*) FROM project");  // readable at all?
     } catch (const std::exception& e) {
@@ -221,8 +282,11 @@ Project Project::open(const std::string& path, OpenOptions options) {
   };
 
   bool writable = !options.read_only;
+  // Leftovers of a run that was killed (a merge's copy, a backup half written).
+  if (writable && !options.untrusted) remove_stale_temp_files(path);
   try {
-    impl->db = Db(path, writable ? SQLITE_OPEN_READWRITE : SQLITE_OPEN_READONLY);
+    impl->db = Db(path, writable ? SQLITE_OPEN_READWRITE : SQLITE_OPEN_READONLY,
+                  options.untrusted ? Trust::Untrusted : Trust::Own);
     sqlite3_busy_timeout(impl->db.handle(), options.busy_timeout_ms);
     const int64_t app = impl->db.query_int("PRAGMA application_id");
     const int64_t version = impl->db.query_int("PRAGMA user_version");
@@ -276,14 +340,12 @@ Project Project::open(const std::string& path, OpenOptions options) {
   if (impl->device.empty()) impl->device = impl->db.query_text("SELECT local_device FROM project");
   Project p(std::move(impl));
   if (writable) {
+    // Registering this device is bookkeeping, not the session's first change:
+    // no backup for it (the session's backup comes with its first real write).
+    const bool backups = p.impl_->options.backups;
+    p.impl_->options.backups = false;
     p.write([&] { register_device(p.db(), p.impl_->device, options.device_name); });
-    if (options.backups) {
-      try {
-        p.backup_now();
-      } catch (const std::exception& e) {
-        p.impl_->backup_error = e.what();
-      }
-    }
+    p.impl_->options.backups = backups;
   }
   return p;
 }
@@ -381,6 +443,17 @@ void Project::write(const std::function<void()>& f) {
     --impl_->depth;
     return;
   }
+  // The session's backup: the file as it was before its first change, staged
+  // now and kept only when the change commits, so a refused import leaves no
+  // backup behind (and one identical to the newest is not kept twice).
+  std::unique_ptr<TempPath> staged;
+  if (impl_->options.backups && !impl_->have_backup) {
+    try {
+      staged = stage_backup(impl_->db, impl_->path, impl_->options.backup_dir);
+    } catch (const std::exception& e) {
+      impl_->backup_error = e.what();
+    }
+  }
   impl_->db.exec("BEGIN IMMEDIATE");
   impl_->depth = 1;
   try {
@@ -396,6 +469,17 @@ void Project::write(const std::function<void()>& f) {
     throw;
   }
   impl_->depth = 0;
+  if (staged) {
+    try {
+      publish_backup(*staged, impl_->path, impl_->options.backup_dir, impl_->options.backup_keep);
+      impl_->last_backup = std::chrono::steady_clock::now();
+      impl_->have_backup = true;
+      impl_->backup_error.clear();
+      return;
+    } catch (const std::exception& e) {
+      impl_->backup_error = e.what();
+    }
+  }
   // A rolling backup once the edits have gone on long enough since the last one.
   if (impl_->options.backups) {
     const auto now = std::chrono::steady_clock::now();
@@ -416,6 +500,29 @@ std::string Project::backup_now() {
   impl_->have_backup = true;
   impl_->backup_error.clear();
   return b;
+}
+
+std::string restore_from_backup(Project& p, const std::string& backup) {
+  if (p.read_only()) throw std::runtime_error(p.path() + " is open read-only; nothing can be restored into it");
+  std::error_code ec;
+  if (!fs::exists(backup, ec)) throw std::runtime_error("no backup " + backup);
+  if (fs::equivalent(backup, p.path(), ec)) throw std::runtime_error(backup + " is the project file itself");
+  if (!is_project_file(backup)) throw std::runtime_error(backup + " is not a Cairn project file");
+  Db src(backup, SQLITE_OPEN_READONLY, Trust::Untrusted);
+  const int64_t version = src.query_int("PRAGMA user_version");
+  if (version > kSchemaVersion)
+    throw std::runtime_error(backup + " was written by a newer version of Cairn; restore it with that version");
+  if (src.query_text("PRAGMA integrity_check(1)") != "ok")
+    throw std::runtime_error(backup + " fails its integrity check; pick another backup");
+  const std::string kept = p.backup_now();
+  sqlite3_backup* b = sqlite3_backup_init(p.db().handle(), "main", src.handle(), "main");
+  if (!b) throw std::runtime_error("cannot restore " + backup + ": " + p.db().errmsg());
+  const int rc = sqlite3_backup_step(b, -1);
+  sqlite3_backup_finish(b);
+  if (rc != SQLITE_DONE)
+    throw std::runtime_error("restoring " + backup + " failed (" + sqlite3_errstr(rc) + "); " + p.path() +
+                             " is as it was, and its state is also kept in " + kept);
+  return kept;
 }
 
 }  // namespace cairn::store

@@ -11,9 +11,13 @@
 // database, is opened read-only (or refused when even that fails) with a message
 // that names the newest backup.
 //
-// Rolling backups use SQLite's online backup API (sqlite3_backup_*): one when a
-// file is opened for writing, and one after each write that comes at least
-// `backup_interval_s` after the last backup; the newest `backup_keep` are kept.
+// Rolling backups use SQLite's online backup API (sqlite3_backup_*): one per
+// writable session, of the file as it was before the session's first change
+// (staged before the change and kept only when it commits, so a refused import
+// leaves none), then one after each write that comes at least
+// `backup_interval_s` after the last backup. A backup whose bytes equal the
+// newest one's is not kept twice. The newest `backup_keep` distinct states are
+// kept, and of older ones the newest of each day.
 //
 // The schema version is PRAGMA user_version: an older file is backed up and
 // migrated forward on open; a newer one is refused and left untouched.
@@ -48,6 +52,9 @@ struct OpenOptions {
   std::string device_name;  // recorded for a device the file has not seen yet
   std::string person;       // person UUID at the keyboard (audit trail); "" when unknown
   bool read_only = false;   // open for reading only (no backup, no migration)
+  // A copy of a file from another device (merge): its triggers and views are
+  // disabled for the connection (storage/sqlite.h, Trust::Untrusted).
+  bool untrusted = false;
   bool backups = true;
   int backup_keep = 10;          // how many rolling backups to keep (>= 1)
   int backup_interval_s = 300;   // seconds between backups while editing
@@ -129,6 +136,18 @@ private:
 // Backups of the project file PATH in DIR (PATH + ".backups" when DIR is ""),
 // oldest first. Usable without opening the file (e.g. to name them in errors).
 std::vector<std::string> list_backups(const std::string& path, const std::string& dir = "");
+
+// True when PATH is an SQLite database whose header carries Cairn's application
+// id (SQLite documentation, "Database File Format", section 1.3: the header
+// string at offset 0, the application id big-endian at offset 68). Reads 100
+// bytes; runs no SQL.
+bool is_project_file(const std::string& path);
+
+// Puts the contents of BACKUP (a backup of P, or any sound Cairn project file)
+// into P, after making a backup of P as it is now. BACKUP must pass
+// PRAGMA integrity_check and be no newer than this Cairn. Returns the path of
+// the backup that holds P's state from before the restore.
+std::string restore_from_backup(Project& p, const std::string& backup);
 
 // A UTM zone as Cairn writes it ("33N"), or a failure naming the text.
 Result<std::string> parse_utm_zone(const std::string& text);

@@ -2,6 +2,8 @@
 
 #include <sqlite3.h>
 
+#include <cctype>
+
 namespace cairn::store {
 
 namespace {
@@ -12,7 +14,23 @@ namespace {
 }
 }  // namespace
 
-Db::Db(const std::string& path, int flags) {
+std::string immutable_uri(const std::string& path) {
+  // Percent-encode everything but unreserved characters and '/' (RFC 3986, section 2.3).
+  std::string uri = "file:";
+  static const char* hex = "0123456789ABCDEF";
+  for (unsigned char c : path) {
+    if (std::isalnum(c) || c == '/' || c == '-' || c == '.' || c == '_' || c == '~') {
+      uri += static_cast<char>(c);
+    } else {
+      uri += '%';
+      uri += hex[c >> 4];
+      uri += hex[c & 15];
+    }
+  }
+  return uri + "?immutable=1";
+}
+
+Db::Db(const std::string& path, int flags, Trust trust) {
   int rc = sqlite3_open_v2(path.c_str(), &db_, flags, nullptr);
   if (rc != SQLITE_OK) {
     std::string msg = db_ ? sqlite3_errmsg(db_) : sqlite3_errstr(rc);
@@ -21,9 +39,26 @@ Db::Db(const std::string& path, int flags) {
     throw SqlError("cannot open " + path + ": " + msg, rc);
   }
   sqlite3_extended_result_codes(db_, 1);
+  int ok = 1;
+  sqlite3_db_config(db_, SQLITE_DBCONFIG_DEFENSIVE, 1, &ok);
+  sqlite3_db_config(db_, SQLITE_DBCONFIG_TRUSTED_SCHEMA, 0, &ok);
+  sqlite3_db_config(db_, SQLITE_DBCONFIG_ENABLE_LOAD_EXTENSION, 0, &ok);
+  if (trust == Trust::Untrusted) {
+    sqlite3_db_config(db_, SQLITE_DBCONFIG_ENABLE_TRIGGER, 0, &ok);
+    sqlite3_db_config(db_, SQLITE_DBCONFIG_ENABLE_VIEW, 0, &ok);
+    // Corrupt cell sizes are reported instead of read past (SQLite
+    // documentation, PRAGMA cell_size_check).
+    sqlite3_exec(db_, "PRAGMA cell_size_check = ON", nullptr, nullptr, nullptr);
+  }
 }
 
 Db::~Db() { close(); }
+
+void Db::set_defensive(bool on) {
+  int ok = 0;
+  if (sqlite3_db_config(db_, SQLITE_DBCONFIG_DEFENSIVE, on ? 1 : 0, &ok) != SQLITE_OK || ok != (on ? 1 : 0))
+    throw SqlError("cannot set defensive mode", SQLITE_ERROR);
+}
 
 Db::Db(Db&& o) noexcept : db_(o.db_) { o.db_ = nullptr; }
 
@@ -130,6 +165,7 @@ void Stmt::reset() {
 }
 
 bool Stmt::is_null(int c) const { return sqlite3_column_type(st_, c) == SQLITE_NULL; }
+int Stmt::storage_class(int c) const { return sqlite3_column_type(st_, c); }
 int64_t Stmt::int64(int c) const { return sqlite3_column_int64(st_, c); }
 double Stmt::real(int c) const { return sqlite3_column_double(st_, c); }
 std::string Stmt::blob(int c) const {

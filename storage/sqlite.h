@@ -26,12 +26,26 @@ private:
 
 class Stmt;
 
+// How far a connection trusts the file it opens. Every connection runs with
+// SQLite's defensive settings (SQLite documentation, "Defense Against The Dark
+// Arts"): SQLITE_DBCONFIG_DEFENSIVE (no writable_schema, no raw page writes),
+// trusted_schema off (functions with side effects are refused in the schema's
+// triggers, views, defaults and indexes) and extension loading off. A file from
+// another device (Untrusted) additionally has its triggers and views disabled
+// for the connection, so nothing its schema defines ever runs.
+enum class Trust { Own, Untrusted };
+
+// The URI that opens PATH immutable and read-only (SQLite documentation, "URI
+// Filenames": immutable=1), for a file on read-only media whose -wal and -shm
+// cannot be created; open it with SQLITE_OPEN_READONLY | SQLITE_OPEN_URI.
+std::string immutable_uri(const std::string& path);
+
 // One database connection.
 class Db {
 public:
   Db() = default;
   // Opens PATH with sqlite3_open_v2 flags (SQLITE_OPEN_*). Throws SqlError.
-  Db(const std::string& path, int flags);
+  Db(const std::string& path, int flags, Trust trust = Trust::Own);
   ~Db();
   Db(Db&& o) noexcept;
   Db& operator=(Db&& o) noexcept;
@@ -41,6 +55,9 @@ public:
   sqlite3* handle() const { return db_; }
   explicit operator bool() const { return db_ != nullptr; }
   void close();
+  // SQLITE_DBCONFIG_DEFENSIVE (on from the open): off only while Cairn's own
+  // migration text rewrites a table definition (storage/schema.cpp).
+  void set_defensive(bool on);
 
   // Runs one or more statements without parameters (schema, pragmas).
   void exec(const std::string& sql);
@@ -87,6 +104,9 @@ public:
   void reset();
 
   bool is_null(int col) const;
+  // SQLite's storage class of a column of the current row: SQLITE_INTEGER,
+  // SQLITE_FLOAT, SQLITE_TEXT, SQLITE_BLOB or SQLITE_NULL.
+  int storage_class(int col) const;
   int64_t int64(int col) const;
   int integer(int col) const { return static_cast<int>(int64(col)); }
   double real(int col) const;

@@ -2,6 +2,7 @@
 // (OUT.geojson) or a folder of CSV files in `cairn import`'s columns
 // (app/core/export.h). The fitted contacts and flags come from the same
 // cross-check as `cairn check`, with the World Magnetic Model's declination.
+#include <filesystem>
 #include <ostream>
 #include <stdexcept>
 
@@ -16,17 +17,38 @@ namespace cairn::cli {
 using formats::JsonWriter;
 namespace {
 
+namespace fs = std::filesystem;
+
+// An export never replaces a project file (its own or another), and replaces
+// an existing file or a folder that holds anything only with --overwrite.
+void refuse_to_overwrite(const std::string& file, const std::string& target, bool overwrite) {
+  std::error_code ec;
+  if (!fs::exists(target, ec)) return;
+  if (fs::equivalent(file, target, ec) || store::is_project_file(target))
+    throw std::runtime_error(target + " is a Cairn project file; an export never replaces one: name another OUT");
+  if (overwrite) return;
+  if (fs::is_directory(target, ec)) {
+    if (!fs::is_empty(target, ec))
+      throw std::runtime_error(target + " is a folder that is not empty; name a new or empty folder, or add "
+                                        "--overwrite to replace the CSV files in it");
+  } else {
+    throw std::runtime_error(target + " exists; name another file, or add --overwrite to replace it");
+  }
+}
+
 struct ExportArgs {
   std::string file, target;
-  bool json = false;
+  bool json = false, overwrite = false;
 };
 
 int run(const ExportArgs& a, std::ostream& out, std::ostream& err) {
   const std::string& file = a.file;
   const std::string& target = a.target;
   const bool json = a.json;
+  const bool overwrite = a.overwrite;
   auto format = core::export_format_for(target);
   if (!format) throw std::invalid_argument(format.error());
+  refuse_to_overwrite(file, target, overwrite);
 
   auto project = open_project(file, true, err);
   core::ExportOptions o;
@@ -74,6 +96,8 @@ Runner define(CLI::App& app) {
   auto a = std::make_shared<ExportArgs>();
   positional(app, "FILE", a->file, "the project file");
   positional(app, "OUT", a->target, "OUT.gpkg (GeoPackage), OUT.geojson (GeoJSON) or a FOLDER (CSV files)");
+  flag(app, "--overwrite", a->overwrite,
+       "replace an existing OUT file, or the CSV files in a folder that is not empty (never a project file)");
   flag(app, "--json", a->json, "print a JSON summary of what was written");
   return [a](std::ostream& out, std::ostream& err) { return run(*a, out, err); };
 }

@@ -1,10 +1,13 @@
 // `cairn import FILE KIND PATH [--contact NAME]`: reads a CSV (or, for
 // waypoints, a GPX 1.1 file) into a project, all or nothing.
+#include <chrono>
 #include <ostream>
 #include <stdexcept>
 
 #include "app/cli/command.h"
 #include "app/cli/project_access.h"
+#include "formats/limits.h"
+#include "formats/utf8.h"
 #include "storage/import.h"
 
 namespace cairn::cli {
@@ -26,12 +29,28 @@ int run(const ImportArgs& a, std::ostream& out, std::ostream& err) {
   const auto kind = store::parse_import_kind(kind_name);
   if (!waypoints && !kind) throw std::invalid_argument("KIND '" + kind_name + "' is not one of: " + kKinds);
   if (contact && !waypoints) throw std::invalid_argument("--contact goes with KIND waypoints only");
-  const std::string text = read_text_file(path);
+  // At most kMaxImportBytes are read (formats/limits.h): /dev/zero or a huge
+  // file is refused instead of filling the memory.
+  auto read = formats::read_file_limited(path);
+  if (!read) throw std::runtime_error(formats::terminal_safe(read.error()));
+  const std::string& text = read.value();
   auto project = open_project(file, false, err);
+  // A progress line on stderr once an import has run for 2 s: rows checked
+  // and rows per second (a terminal sees it rewritten in place).
+  const auto start = std::chrono::steady_clock::now();
+  bool shown = false;
+  auto progress = [&](size_t done, size_t total) {
+    const double s = std::chrono::duration<double>(std::chrono::steady_clock::now() - start).count();
+    if (s < 2.0) return;
+    shown = true;
+    err << "\rimporting " << formats::terminal_safe(path) << ": " << done << " of " << total << " rows ("
+        << static_cast<long>(done / s) << " rows/s)" << std::flush;
+  };
   const store::ImportReport rep = waypoints ? store::import_gpx(project, text, path, contact.value_or(""))
-                                            : store::import_csv(project, *kind, text, path);
+                                            : store::import_csv(project, *kind, text, path, progress);
+  if (shown) err << "\n";
   if (!rep.ok()) {
-    for (const auto& e : rep.errors) err << e << "\n";
+    for (const auto& e : rep.errors) err << formats::terminal_safe(e) << "\n";
     err << "nothing imported: " << rep.errors.size() << (rep.errors.size() == 1 ? " problem" : " problems")
         << " in " << path << "\n";
     return 1;

@@ -19,6 +19,7 @@
 #include "app/cli/command.h"
 #include "formats/json.h"
 #include "app/cli/project_access.h"
+#include "formats/utf8.h"
 #include "storage/merge.h"
 
 namespace cairn::cli {
@@ -99,7 +100,7 @@ void write_text(std::ostream& out, const std::string& target, const store::Merge
   }
   if (!rep.warnings.empty()) {
     out << "\nWarnings\n";
-    for (const auto& w : rep.warnings) out << "  " << w << "\n";
+    for (const auto& w : rep.warnings) out << "  " << formats::terminal_safe(w) << "\n";
   }
 }
 

@@ -114,6 +114,33 @@ TEST_F(CampVerbs, ExportWritesEachFormat) {
   EXPECT_NE(r.err.find("name a .gpkg or .geojson file, or a folder for CSV files"), std::string::npos) << r.err;
 }
 
+TEST_F(CampVerbs, ExportNeverReplacesAProjectFileNorFillsAFolderUnlessAsked) {
+  // Issue: `cairn export` overwrote the project file given as OUT, and CSV
+  // files in an existing folder. A project file is told by its SQLite header
+  // (SQLite documentation, "Database File Format", 1.3: application id at offset 68).
+  camp_and_tablets();
+  const std::string camp_before = slurp(file("camp.cairn"));
+  std::filesystem::copy_file(file("camp.cairn"), file("camp.geojson"));
+  Outcome r = cairn("export tabletA.cairn camp.geojson --overwrite");
+  EXPECT_EQ(r.status, 1);
+  EXPECT_NE(r.err.find("camp.geojson is a Cairn project file; an export never replaces one"), std::string::npos)
+      << r.err;
+  EXPECT_EQ(slurp(file("camp.geojson")), camp_before);
+  std::filesystem::create_directory(file("out"));
+  write("out/notes.txt", "field notes\n");
+  r = cairn("export camp.cairn out");
+  EXPECT_EQ(r.status, 1);
+  EXPECT_NE(r.err.find("out is a folder that is not empty"), std::string::npos) << r.err;
+  EXPECT_FALSE(std::filesystem::exists(file("out/units.csv")));
+  r = cairn("export camp.cairn out --overwrite");
+  EXPECT_EQ(r.status, 0) << r.err;
+  EXPECT_TRUE(std::filesystem::exists(file("out/units.csv")));
+  ASSERT_EQ(cairn("export camp.cairn a.gpkg").status, 0);
+  r = cairn("export camp.cairn a.gpkg");
+  EXPECT_EQ(r.status, 1);
+  EXPECT_NE(r.err.find("a.gpkg exists; name another file, or add --overwrite"), std::string::npos) << r.err;
+}
+
 TEST_F(CampVerbs, TheFirstEveningMakesTheCampFile) {
   camp_and_tablets();
   Outcome r = cairn("merge evening.cairn tabletA.cairn tabletB.cairn");

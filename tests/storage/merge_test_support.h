@@ -15,6 +15,7 @@
 #include <thread>
 #include <vector>
 
+#include "storage/merge.h"
 #include "storage/project.h"
 #include "storage/repository.h"
 #include "storage/sqlite.h"
@@ -137,6 +138,29 @@ inline std::string dump(const std::string& path) {
     for (const auto& r : rows) out += r + "\n";
   }
   return out;
+}
+
+// A camp file in a private folder, and tablets copied from it.
+struct Camp {
+  TempDir dir;
+  std::string camp = dir.file("camp.cairn");
+  Legend legend = make_camp(camp);
+  std::string tablet(const std::string& name) {
+    const std::string path = dir.file(name);
+    copy_file(camp, path);
+    return path;
+  }
+  std::string copy(const std::string& from, const std::string& name) {
+    const std::string path = dir.file(name);
+    copy_file(from, path);
+    return path;
+  }
+};
+
+inline MergeReport merge_into(const std::string& target, const std::vector<std::string>& sources,
+                              const MergeOptions& o = {}) {
+  Project p = Project::open(target, device(kCampDevice, "camp laptop"));
+  return merge_files(p, sources, o);
 }
 
 // The lines of one dump missing from the other, for short failure messages.

@@ -160,6 +160,17 @@ TEST(Import, BadInputTable) {
        {"bad.csv:2:3: unknown-unit: unit 'Zz' is not in the project's unit list (Pgs, Qm)"}},
       {"issue: contact types", ImportKind::Contacts, "contact,lower_unit,upper_unit,type\nA-B,Pgs,Qm,sheared\n",
        {"bad.csv:2:4: choice: type 'sheared' is not one of: depositional, unconformity, fault, intrusive"}},
+      // ---- text and encoding (formats/utf8.h, formats/csv.h) ----
+      {"RFC 3629: Latin-1 text is not UTF-8", ImportKind::Stations, "station,lat,lon,notes\nS5,46,14,\xE9" "boulis\n",
+       {"bad.csv:2:10: utf8: invalid UTF-8 (byte 0xE9); save the file as UTF-8"}},
+      {"ECMA-48: ESC starts a terminal control sequence", ImportKind::Stations,
+       "station,lat,lon,notes\nS5,46,14,\"spur\x1B]0;x\x07\"\n",
+       {"bad.csv:2:15: control: control character U+001B is not allowed in text"}},
+      {"UTF-16 (a spreadsheet's \"Unicode text\")", ImportKind::Units, "\xFF\xFEu",
+       {"bad.csv:1:1: encoding: the file is UTF-16 or UTF-32 text; save it as UTF-8 (\"CSV UTF-8\") and import it "
+        "again"}},
+      {"RFC 4180: a quoted field ends at its quote", ImportKind::Units, "unit,name,age_rank\n\"X\" y,x,3\n",
+       {"bad.csv:2:1: csv: text after a closing quote (column 1)"}},
   };
   Field f;
   const int64_t before = f.total();
@@ -170,6 +181,22 @@ TEST(Import, BadInputTable) {
     EXPECT_EQ(r.added, 0);
     EXPECT_EQ(f.total(), before) << "something was written";
   }
+}
+
+TEST(Import, ProgressCountsEveryRowUpToTheTotal) {
+  // The progress line's numbers: rows checked of the rows RFC 4180 counts in
+  // the file (the header is no row), ending at the total.
+  TempDir dir;
+  Project p = Project::create(dir.file("f.cairn"), NewProject{"field", "", North::True, 0}, quiet());
+  std::string csv = "station,lat,lon\n";
+  for (int i = 0; i < 2500; ++i) csv += "S" + std::to_string(i) + ",46.5,14.25\n";
+  std::vector<std::pair<size_t, size_t>> calls;
+  const ImportReport r = import_csv(p, ImportKind::Stations, csv, "many.csv",
+                                    [&](size_t done, size_t total) { calls.emplace_back(done, total); });
+  ASSERT_TRUE(r.ok());
+  ASSERT_FALSE(calls.empty());
+  EXPECT_EQ(calls.back(), std::make_pair(size_t{2500}, size_t{2500}));
+  for (size_t i = 1; i < calls.size(); ++i) EXPECT_LE(calls[i - 1].first, calls[i].first);
 }
 
 TEST(Import, EasternAndNorthingNeedAZone) {

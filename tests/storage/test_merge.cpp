@@ -22,34 +22,13 @@
 #include "merge_test_support.h"
 #include "formats/ids.h"
 #include "storage/merge.h"
+#include "storage/reviews.h"
 
 using namespace cairn::store;
 using namespace cairn::formats;
 using namespace cairn::store::testing;
 
 namespace {
-
-struct Camp {
-  TempDir dir;
-  std::string camp = dir.file("camp.cairn");
-  Legend legend = make_camp(camp);
-  std::string tablet(const std::string& name) {
-    const std::string path = dir.file(name);
-    copy_file(camp, path);
-    return path;
-  }
-  std::string copy(const std::string& from, const std::string& name) {
-    const std::string path = dir.file(name);
-    copy_file(from, path);
-    return path;
-  }
-};
-
-MergeReport merge_into(const std::string& target, const std::vector<std::string>& sources,
-                       const MergeOptions& o = {}) {
-  Project p = Project::open(target, device(kCampDevice, "camp laptop"));
-  return merge_files(p, sources, o);
-}
 
 Station station_at(const std::string& code, double lat, double lon) {
   Station s;
@@ -637,24 +616,25 @@ TEST(Merge, DeletesAndRestoresTravelLikeEditsAndTheAuditTrailComesAlong) {
 }
 
 TEST(Merge, TablesOtherModulesKeepBesideTheRecordsMergeByUuid) {
-  // A table with the record columns that this module does not know (as a
-  // module's flag reviews are): created in the camp file and merged by UUID.
+  // A module's table beside the records (flag reviews): made in the camp file
+  // by the module's own function, its rows merged by UUID.
   Camp c;
   const std::string a = c.tablet("tabletA.cairn");
   {
-    Db db(a, SQLITE_OPEN_READWRITE);
-    db.exec("CREATE TABLE field_sketches (uuid TEXT PRIMARY KEY, caption TEXT NOT NULL, created TEXT NOT NULL, "
-            "updated TEXT NOT NULL, device TEXT NOT NULL, deleted TEXT);"
-            "CREATE INDEX field_sketches_caption ON field_sketches(caption);"
-            "INSERT INTO field_sketches VALUES ('5a0c1e2d-0000-4000-8000-000000000001', 'fold hinge at S1', "
-            "'2025-06-14T10:00:00.000Z', '2025-06-14T10:00:00.000Z', 'a0000000-0000-4000-8000-00000000000a', NULL)");
+    Project t = Project::open(a, device(kTabletA, "tablet A"));
+    FlagReview r;
+    r.flag_key = flag_key("misfit", "S1", "", "slate-quartzite");
+    r.rule = "misfit";
+    r.station = "S1";
+    r.status = ReviewStatus::Accepted;
+    r.comment = "local fold hinge";
+    add_flag_review(t, r);
   }
   const MergeReport rep = merge_into(c.camp, {a});
   EXPECT_EQ(rep.sources[0].counts.added, 1);
   {
     Db camp(c.camp, SQLITE_OPEN_READONLY);
-    EXPECT_EQ(camp.query_text("SELECT caption FROM field_sketches"), "fold hinge at S1");
-    EXPECT_EQ(camp.query_int("SELECT count(*) FROM sqlite_master WHERE name = 'field_sketches_caption'"), 1);
+    EXPECT_EQ(camp.query_text("SELECT comment FROM flag_reviews"), "local fold hinge");
   }
   const std::string before = dump(c.camp);
   EXPECT_FALSE(merge_into(c.camp, {a}).changed);
