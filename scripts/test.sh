@@ -8,7 +8,10 @@ werror=OFF
 if [ "${CI:-}" = "true" ]; then
   werror=ON
 fi
-cmake -S "$here" -B "$here/build" -DCMAKE_BUILD_TYPE=Release -DCAIRN_WERROR=$werror >/dev/null
+# ccache (installed with the test dependencies) makes a second run cheap.
+launcher=()
+command -v ccache >/dev/null && launcher=(-DCMAKE_CXX_COMPILER_LAUNCHER=ccache -DCMAKE_C_COMPILER_LAUNCHER=ccache)
+cmake -S "$here" -B "$here/build" -DCMAKE_BUILD_TYPE=Release -DCAIRN_WERROR=$werror "${launcher[@]}" >/dev/null
 cmake --build "$here/build" -j"$(nproc)"
 cd "$here/build"
 ctest --output-on-failure -j"$(nproc)" --timeout 900
