@@ -3,7 +3,7 @@
 // Reading pad then offers only the listed kinds. Checked in the project file
 // through storage afterwards.
 //
-// Outside sources named beside the checks: the structure kinds are the
+// Source: outside sources are named beside the checks: the structure kinds are the
 // trade's terms (bedding, joint, fault: structural geology textbooks, e.g.
 // Ragan, "Structural Geology"); the rule that the pad offers only the listed
 // kinds is the ("so no mapper types a unit code at the outcrop").

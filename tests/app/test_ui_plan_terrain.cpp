@@ -1,3 +1,5 @@
+// Source: the expected trace is worked by hand (common practice: a plane meets
+// flat ground along its structure contour at the ground's height).
 // The Plan with a terrain: a tap gives the nearest stretch of each contact's
 // predicted outcrop trace ("Where next on the ground").
 //

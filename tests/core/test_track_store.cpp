@@ -2,7 +2,7 @@
 // day in time order; a fix outside WGS84's ranges is refused and nothing is
 // written.
 //
-// Outside sources: WGS84 coordinate ranges (latitude -90..90, longitude
+// Source: WGS84 coordinate ranges (latitude -90..90, longitude
 // -180..180); ISO 8601 UTC times, whose text order is their time order (ISO
 // 8601-1:2019, fixed-width extended format).
 #include <gtest/gtest.h>

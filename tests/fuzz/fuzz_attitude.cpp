@@ -1,3 +1,6 @@
+// Source: the entry point LLVMFuzzerTestOneInput as the LLVM libFuzzer documentation
+// defines it; the check is that no input crashes, hangs or trips a sanitizer
+// (common practice for fuzz targets).
 // libFuzzer target: attitude text as a mapper types it (geomath/notation.h):
 // planes in each convention, lines, and rakes on a host plane.
 #include <cstddef>

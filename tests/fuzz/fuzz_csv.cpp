@@ -1,3 +1,6 @@
+// Source: the entry point LLVMFuzzerTestOneInput as the LLVM libFuzzer documentation
+// defines it; the check is that no input crashes, hangs or trips a sanitizer
+// (common practice for fuzz targets).
 // libFuzzer target: a CSV import of one kind (CAIRN_FUZZ_KIND, e.g. "planes")
 // into a scratch project, always rolled back. An import that succeeds must
 // list again as CSV that the reader takes back (storage/import.h), else abort.

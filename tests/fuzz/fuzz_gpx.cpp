@@ -1,3 +1,6 @@
+// Source: the entry point LLVMFuzzerTestOneInput as the LLVM libFuzzer documentation
+// defines it; the check is that no input crashes, hangs or trips a sanitizer
+// (common practice for fuzz targets).
 // libFuzzer target: a GPX 1.1 file read with expat and imported as stations
 // and as points of a contact, always rolled back.
 #include <cstddef>

@@ -1,3 +1,6 @@
+// Source: the entry point LLVMFuzzerTestOneInput as the LLVM libFuzzer documentation
+// defines it; the check is that no input crashes, hangs or trips a sanitizer
+// (common practice for fuzz targets).
 // libFuzzer target: a tablet's project file, mutated from a valid one
 // (tests/fuzz/corpus/merge), merged into a scratch camp file, always rolled
 // back. A refused source is fine; a crash, a hang or a sanitizer report is not.

@@ -1,3 +1,6 @@
+// Source: the entry point LLVMFuzzerTestOneInput as the LLVM libFuzzer documentation
+// defines it; the check is that no input crashes, hangs or trips a sanitizer
+// (common practice for fuzz targets).
 // Shared by the libFuzzer targets (tests/fuzz/README.md): a scratch project
 // with a small legend, kept in memory-backed storage when there is one, and a
 // way to undo everything a target wrote so every input starts from the same file.

@@ -1,3 +1,6 @@
+// Source: the entry point LLVMFuzzerTestOneInput as the LLVM libFuzzer documentation
+// defines it; the check is that no input crashes, hangs or trips a sanitizer
+// (common practice for fuzz targets).
 // Runs a libFuzzer target's entry point over files and folders named on the
 // command line, without libFuzzer: the seed corpora and every input that once
 // crashed (tests/fuzz/regressions) run this way in the normal test suite.
