@@ -616,7 +616,10 @@ private:
         candidates.push_back(&r);
       }
     }
-    for (const auto& [r, plane] : unreferenced_) {
+    for (const auto& entry : unreferenced_) {
+      // Named copies, not structured bindings: a lambda may not capture those in C++17.
+      const auto* r = entry.first;
+      const Plane& plane = entry.second;
       const CheckStation* st = station(r->station);
       if (!st || r->observer.empty() || plane.dip < kMinDipForRotation) continue;
       std::vector<Plane> others;
