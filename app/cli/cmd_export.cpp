@@ -52,16 +52,8 @@ int run(const ExportArgs& a, std::ostream& out, std::ostream& err) {
 
   auto project = open_project(file, true, err);
   core::ExportOptions o;
-  if (*format != core::ExportFormat::CsvFolder && *format != core::ExportFormat::Gpx) {
-    try {
-      const geo::MagneticModel* model = &wmm();
-      o.local_declination = [model](double lat, double lon, double year) -> std::optional<double> {
-        return model->evaluate(lat, lon, 0.0, year).declination;
-      };
-    } catch (const std::exception& e) {
-      err << "warning: no magnetic model (" << e.what() << "); declination-suspect is not checked\n";
-    }
-  }
+  if (*format != core::ExportFormat::CsvFolder && *format != core::ExportFormat::Gpx)
+    o.local_declination = wmm_declination_or_warn(err);
   const core::ExportSummary s = core::export_project(project, target, o);
   const char* what = s.format == core::ExportFormat::GeoPackage ? "GeoPackage"
                      : s.format == core::ExportFormat::GeoJson  ? "GeoJSON"

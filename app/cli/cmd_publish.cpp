@@ -28,14 +28,7 @@ int run(const PublishArgs& a, std::ostream& out, std::ostream& err) {
   const std::vector<std::string> args{a.file, a.url};
   const bool json = a.json;
   store::survey::PublishOptions o;
-  try {
-    const geo::MagneticModel* model = &wmm();
-    o.check.local_declination = [model](double lat, double lon, double year) -> std::optional<double> {
-      return model->evaluate(lat, lon, 0.0, year).declination;
-    };
-  } catch (const std::exception& e) {
-    err << "warning: no magnetic model (" << e.what() << "); declination-suspect is not checked\n";
-  }
+  o.check.local_declination = wmm_declination_or_warn(err);
   if (const char* stall = std::getenv("CAIRN_PUBLISH_STALL")) {
     const int seconds = std::atoi(stall);
     o.before_commit = [seconds, &err] {

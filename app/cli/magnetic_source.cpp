@@ -22,4 +22,16 @@ const cairn::geo::MagneticModel& wmm() {
   return model;
 }
 
+std::function<std::optional<double>(double, double, double)> wmm_declination_or_warn(std::ostream& err) {
+  try {
+    const cairn::geo::MagneticModel* model = &wmm();
+    return [model](double lat, double lon, double year) -> std::optional<double> {
+      return model->evaluate(lat, lon, 0.0, year).declination;
+    };
+  } catch (const std::exception& e) {
+    err << "warning: no magnetic model (" << e.what() << "); declination-suspect is not checked\n";
+    return {};
+  }
+}
+
 }  // namespace cairn::cli
