@@ -43,8 +43,8 @@ int main(int argc, char** argv) {
   for (int j = 0; j < size; ++j)
     for (int i = 0; i < size; ++i) {
       const double e = i * cell, n = j * cell;
-      g.z[static_cast<std::size_t>(j) * size + i] =
-          static_cast<float>(1000 + 150 * std::sin(e / 900) * std::cos(n / 1200) + 0.03 * e + 40 * std::sin((e + n) / 300));
+      g.z[static_cast<std::size_t>(j) * size + i] = static_cast<float>(
+          1000 + 150 * std::sin(e / 900) * std::cos(n / 1200) + 0.03 * e + 40 * std::sin((e + n) / 300));
     }
   const std::string tif = (dir / "dem.tif").string();
   auto t0 = Clock::now();

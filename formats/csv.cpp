@@ -32,8 +32,8 @@ Result<CsvTable> parse_csv(std::string_view text, const std::string& filename) {
   if (text.size() > kMaxImportBytes)
     return fail_at(1, 1, "too-large",
                    "the file is larger than " + size_text(kMaxImportBytes) + ", the most Cairn imports; split it");
-  if (text.size() >= 3 && static_cast<unsigned char>(text[0]) == 0xEF &&
-      static_cast<unsigned char>(text[1]) == 0xBB && static_cast<unsigned char>(text[2]) == 0xBF)
+  if (text.size() >= 3 && static_cast<unsigned char>(text[0]) == 0xEF && static_cast<unsigned char>(text[1]) == 0xBB &&
+      static_cast<unsigned char>(text[2]) == 0xBF)
     text.remove_prefix(3);
   if (auto f = find_text_fault(text, true)) return fail_at(f->line, f->column, f->rule, f->message);
   CsvTable t;
@@ -68,7 +68,8 @@ Result<CsvTable> parse_csv(std::string_view text, const std::string& filename) {
         if (record.size() != t.header.size())
           return err(std::to_string(record.size()) + " fields, but the header has " + std::to_string(t.header.size()));
         if (t.rows.size() >= kMaxImportRows)
-          return err("more than " + std::to_string(kMaxImportRows) + " rows, the most Cairn imports from one file; split it");
+          return err("more than " + std::to_string(kMaxImportRows) +
+                     " rows, the most Cairn imports from one file; split it");
         t.rows.push_back(record);
         t.row_lines.push_back(record_line);
       }
@@ -79,13 +80,20 @@ Result<CsvTable> parse_csv(std::string_view text, const std::string& filename) {
   };
   // A line ends with CRLF, LF or a lone CR (RFC 4180 names CRLF; files from
   // older spreadsheets end lines with CR alone).
-  auto line_end_at = [&](size_t i) { return text[i] == '\n' || (text[i] == '\r' && (i + 1 >= text.size() || text[i + 1] != '\n')); };
+  auto line_end_at = [&](size_t i) {
+    return text[i] == '\n' || (text[i] == '\r' && (i + 1 >= text.size() || text[i + 1] != '\n'));
+  };
   for (size_t i = 0; i < text.size(); ++i) {
     char c = text[i];
     if (in_quotes) {
       if (c == '"') {
-        if (i + 1 < text.size() && text[i + 1] == '"') { field += '"'; ++i; }
-        else { in_quotes = false; after_quote = true; }
+        if (i + 1 < text.size() && text[i + 1] == '"') {
+          field += '"';
+          ++i;
+        } else {
+          in_quotes = false;
+          after_quote = true;
+        }
       } else {
         if (line_end_at(i)) ++line;
         field += c;

@@ -12,11 +12,16 @@ namespace cairn::formats {
 namespace {
 
 void put_value(JsonWriter& j, const FieldValue& v) {
-  if (std::holds_alternative<std::monostate>(v)) j.null();
-  else if (auto s = std::get_if<std::string>(&v)) j.value(*s);
-  else if (auto d = std::get_if<double>(&v)) j.value(*d);
-  else if (auto n = std::get_if<int64_t>(&v)) j.value(static_cast<long long>(*n));
-  else if (auto b = std::get_if<bool>(&v)) j.value(*b);
+  if (std::holds_alternative<std::monostate>(v))
+    j.null();
+  else if (auto s = std::get_if<std::string>(&v))
+    j.value(*s);
+  else if (auto d = std::get_if<double>(&v))
+    j.value(*d);
+  else if (auto n = std::get_if<int64_t>(&v))
+    j.value(static_cast<long long>(*n));
+  else if (auto b = std::get_if<bool>(&v))
+    j.value(*b);
 }
 
 // Coordinates rounded to 7 decimals (about 1 cm), beyond what RFC 7946 section

@@ -26,12 +26,13 @@ GpxFile parse_gpx(std::string_view text, const std::string& filename) {
   }
   const XmlElement& root = *xml;
   auto at = [&](const XmlElement& e, const std::string& rule, const std::string& msg) {
-    out.errors.push_back(filename + ":" + std::to_string(e.line) + ":" + std::to_string(e.column) + ": " + rule +
-                         ": " + msg);
+    out.errors.push_back(filename + ":" + std::to_string(e.line) + ":" + std::to_string(e.column) + ": " + rule + ": " +
+                         msg);
   };
   if (root.local != "gpx" || root.ns != kGpx11) {
-    at(root, "gpx", "the root element is <" + root.local + "> in namespace '" + root.ns +
-                        "', not <gpx> in the GPX 1.1 namespace " + kGpx11);
+    at(root, "gpx",
+       "the root element is <" + root.local + "> in namespace '" + root.ns + "', not <gpx> in the GPX 1.1 namespace " +
+           kGpx11);
     return out;
   }
   if (const auto* v = root.attribute("version"); v && *v != "1.1")
@@ -40,8 +41,8 @@ GpxFile parse_gpx(std::string_view text, const std::string& filename) {
   for (const XmlElement& w : root.children) {
     if (w.ns != kGpx11 || w.local != "wpt") continue;
     if (out.waypoints.size() >= kMaxImportRows) {
-      at(w, "too-large", "more than " + std::to_string(kMaxImportRows) +
-                             " waypoints, the most Cairn imports from one file; split it");
+      at(w, "too-large",
+         "more than " + std::to_string(kMaxImportRows) + " waypoints, the most Cairn imports from one file; split it");
       break;
     }
     GpxWaypoint p;
@@ -64,14 +65,19 @@ GpxFile parse_gpx(std::string_view text, const std::string& filename) {
     coordinate("lon", p.lon, check_longitude);
     if (const XmlElement* e = w.child(kGpx11, "ele")) {
       double v = 0;
-      if (auto b = check_number_text(trimmed(e->text), "elevation", &v)) at(*e, b->rule, b->message);
-      else if (auto r = check_elevation(v)) at(*e, r->rule, r->message);
-      else p.elevation = v;
+      if (auto b = check_number_text(trimmed(e->text), "elevation", &v))
+        at(*e, b->rule, b->message);
+      else if (auto r = check_elevation(v))
+        at(*e, r->rule, r->message);
+      else
+        p.elevation = v;
     }
     if (const XmlElement* e = w.child(kGpx11, "time")) {
       std::string norm;
-      if (auto b = check_time(trimmed(e->text), &norm)) at(*e, b->rule, b->message);
-      else p.time = norm;
+      if (auto b = check_time(trimmed(e->text), &norm))
+        at(*e, b->rule, b->message);
+      else
+        p.time = norm;
     }
     // Text fields: XML already refuses C0 controls; DEL and C1 controls
     // (allowed by XML 1.0) are refused here, line breaks only in comments.
@@ -79,8 +85,10 @@ GpxFile parse_gpx(std::string_view text, const std::string& filename) {
       const XmlElement* e = w.child(kGpx11, tag);
       if (!e) return;
       const std::string v = trimmed(e->text);
-      if (auto b = check_text(v, tag, multiline)) at(*e, b->rule, b->message);
-      else to = v;
+      if (auto b = check_text(v, tag, multiline))
+        at(*e, b->rule, b->message);
+      else
+        to = v;
     };
     text("name", false, p.name);
     text("cmt", true, p.comment);

@@ -20,8 +20,10 @@ std::string xml_text(const std::string& s) {
       case '\'': out += "&apos;"; break;
       default:
         // Control characters other than tab and newline are not allowed in XML 1.0.
-        if (static_cast<unsigned char>(c) < 0x20 && c != '\t' && c != '\n') out += ' ';
-        else out += c;
+        if (static_cast<unsigned char>(c) < 0x20 && c != '\t' && c != '\n')
+          out += ' ';
+        else
+          out += c;
     }
   }
   return out;

@@ -11,9 +11,9 @@
 namespace cairn::formats {
 
 struct GpxTrackPoint {
-  double lat = 0, lon = 0;  // WGS84 degrees: -90..90, -180..180
+  double lat = 0, lon = 0;          // WGS84 degrees: -90..90, -180..180
   std::optional<double> elevation;  // metres
-  std::string time;  // ISO 8601 / xsd:dateTime, "" when unknown
+  std::string time;                 // ISO 8601 / xsd:dateTime, "" when unknown
 };
 
 struct GpxTrack {

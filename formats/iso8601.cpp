@@ -67,15 +67,14 @@ Result<FieldTime> parse_iso8601(std::string_view in) {
     }
   }
   // 24:00 and leap seconds are legal ISO 8601 but never a field time.
-  if (hh > 23 || mm > 59 || ss > 59)
-    return Result<FieldTime>::failure("'" + shown + "' is not a time of day");
+  if (hh > 23 || mm > 59 || ss > 59) return Result<FieldTime>::failure("'" + shown + "' is not a time of day");
   t.text += fmt::format("T{:02d}:{:02d}:{:02d}", hh, mm, ss);
   if (!fraction.empty()) t.text += "." + fraction;
   // Milliseconds of the fraction (further digits are kept in the text only).
   int ms = 0;
   for (size_t k = 0; k < 3; ++k) ms = ms * 10 + (k < fraction.size() ? fraction[k] - '0' : 0);
-  t.time_of_day = std::chrono::hours{hh} + std::chrono::minutes{mm} + std::chrono::seconds{ss} +
-                  std::chrono::milliseconds{ms};
+  t.time_of_day =
+      std::chrono::hours{hh} + std::chrono::minutes{mm} + std::chrono::seconds{ss} + std::chrono::milliseconds{ms};
   if (i == s.size()) return t;
   if (expect(s, i, 'Z') || expect(s, i, 'z')) {
     if (i != s.size()) return bad();

@@ -67,9 +67,12 @@ std::map<std::string, std::string> flat_json_object(std::string_view text, size_
   const auto j = nlohmann::json::parse(text.begin(), text.end(), nullptr, /*allow_exceptions=*/false);
   if (!j.is_object()) return out;
   for (const auto& [k, v] : j.items()) {
-    if (v.is_string()) out[k] = v.get<std::string>();
-    else if (v.is_number() || v.is_boolean()) out[k] = v.dump();
-    else out[k] = "";
+    if (v.is_string())
+      out[k] = v.get<std::string>();
+    else if (v.is_number() || v.is_boolean())
+      out[k] = v.dump();
+    else
+      out[k] = "";
   }
   return out;
 }

@@ -27,13 +27,25 @@
 namespace cairn::formats {
 
 class JsonWriter {
-public:
+ public:
   explicit JsonWriter(std::ostream& out, int precision = 12) : out_(out), precision_(precision) {}
 
-  JsonWriter& begin_object() { open('{'); return *this; }
-  JsonWriter& end_object() { close('}'); return *this; }
-  JsonWriter& begin_array() { open('['); return *this; }
-  JsonWriter& end_array() { close(']'); return *this; }
+  JsonWriter& begin_object() {
+    open('{');
+    return *this;
+  }
+  JsonWriter& end_object() {
+    close('}');
+    return *this;
+  }
+  JsonWriter& begin_array() {
+    open('[');
+    return *this;
+  }
+  JsonWriter& end_array() {
+    close(']');
+    return *this;
+  }
 
   JsonWriter& key(std::string_view k);
   JsonWriter& value(double v);
@@ -48,7 +60,9 @@ public:
   JsonWriter& value(const char* s) { return s ? value(std::string_view(s)) : null(); }
   JsonWriter& value(const std::string& s) { return value(std::string_view(s)); }
   template <class T>
-  JsonWriter& value(const std::optional<T>& v) { return v ? value(*v) : null(); }
+  JsonWriter& value(const std::optional<T>& v) {
+    return v ? value(*v) : null();
+  }
   JsonWriter& null() { return raw("null"); }
 
   // A whole array of numbers (or anything value() takes).
@@ -66,7 +80,7 @@ public:
   // V as a JSON number with PRECISION significant digits; "null" when not finite.
   static std::string number(double v, int precision = 12);
 
-private:
+ private:
   JsonWriter& raw(std::string_view text);
   void separate();
   void open(char c);

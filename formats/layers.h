@@ -34,12 +34,12 @@ struct Feature {
   // Layers of lines or polygons: the parts in UTM metres (E, N) and the same in
   // WGS84 (longitude, latitude); `where`/`grid` stay empty then.
   Parts grid_parts, lonlat_parts;
-  std::vector<FieldValue> values;     // one per field of the layer
+  std::vector<FieldValue> values;  // one per field of the layer
 };
 
 struct Layer {
-  std::string name;         // table name / value of the GeoJSON "layer" property
-  std::string title;        // human-readable identifier
+  std::string name;   // table name / value of the GeoJSON "layer" property
+  std::string title;  // human-readable identifier
   std::string description;
   std::vector<FieldDef> fields;
   std::vector<Feature> features;

@@ -25,8 +25,11 @@ void register_gdal() {
 
 // GDAL's messages are collected instead of printed; the last one explains a failure.
 class QuietGdal {
-public:
-  QuietGdal() { CPLPushErrorHandler(CPLQuietErrorHandler); CPLErrorReset(); }
+ public:
+  QuietGdal() {
+    CPLPushErrorHandler(CPLQuietErrorHandler);
+    CPLErrorReset();
+  }
   ~QuietGdal() { CPLPopErrorHandler(); }
   static std::string last() {
     const char* m = CPLGetLastErrorMsg();
@@ -34,9 +37,17 @@ public:
   }
 };
 
-struct DsCloser { void operator()(void* d) const { if (d) GDALClose(static_cast<GDALDatasetH>(d)); } };
+struct DsCloser {
+  void operator()(void* d) const {
+    if (d) GDALClose(static_cast<GDALDatasetH>(d));
+  }
+};
 using DsPtr = std::unique_ptr<void, DsCloser>;
-struct SrsDeleter { void operator()(void* s) const { if (s) OSRDestroySpatialReference(static_cast<OGRSpatialReferenceH>(s)); } };
+struct SrsDeleter {
+  void operator()(void* s) const {
+    if (s) OSRDestroySpatialReference(static_cast<OGRSpatialReferenceH>(s));
+  }
+};
 using SrsPtr = std::unique_ptr<void, SrsDeleter>;
 
 template <class T>
@@ -87,7 +98,8 @@ int utm_epsg(int zone, bool northp) { return (northp ? 32600 : 32700) + zone; }
 Result<DemRead> read_dem(const std::string& path, const DemRequest& request) {
   register_gdal();
   QuietGdal quiet;
-  if (request.epsg <= 0) return fail<DemRead>(path, "no target coordinate reference system (set the project's UTM zone)");
+  if (request.epsg <= 0)
+    return fail<DemRead>(path, "no target coordinate reference system (set the project's UTM zone)");
   DsPtr src(GDALOpenEx(path.c_str(), GDAL_OF_RASTER | GDAL_OF_READONLY, nullptr, nullptr, nullptr));
   if (!src) return fail<DemRead>(path, "cannot be read as a raster" + QuietGdal::last());
   GDALDatasetH ds = static_cast<GDALDatasetH>(src.get());
@@ -101,11 +113,11 @@ Result<DemRead> read_dem(const std::string& path, const DemRequest& request) {
   }
   OGRSpatialReferenceH srs = GDALGetSpatialRef(ds);
   if (!srs || OSRIsLocal(srs))
-    return fail<DemRead>(path, "has no coordinate reference system (a GeoTIFF without georeferencing, or an "
-                               "ASCII grid without its .prj)");
+    return fail<DemRead>(path,
+                         "has no coordinate reference system (a GeoTIFF without georeferencing, or an "
+                         "ASCII grid without its .prj)");
   double gt[6];
-  if (GDALGetGeoTransform(ds, gt) != CE_None)
-    return fail<DemRead>(path, "has no geotransform (cell size and origin)");
+  if (GDALGetGeoTransform(ds, gt) != CE_None) return fail<DemRead>(path, "has no geotransform (cell size and origin)");
 
   SrsPtr target(OSRNewSpatialReference(nullptr));
   auto* t = static_cast<OGRSpatialReferenceH>(target.get());
@@ -131,8 +143,8 @@ Result<DemRead> read_dem(const std::string& path, const DemRequest& request) {
     const long long cells = static_cast<long long>(x1 - x0) * (y1 - y0);
     if (cells > request.max_cells) {
       std::ostringstream s;
-      s << "the part over the project's area is " << (x1 - x0) << " x " << (y1 - y0) << " cells, more than the limit of "
-        << request.max_cells << "; coarsen it first";
+      s << "the part over the project's area is " << (x1 - x0) << " x " << (y1 - y0)
+        << " cells, more than the limit of " << request.max_cells << "; coarsen it first";
       return fail<DemRead>(path, s.str());
     }
     auto r = read_window(path, ds, x0, y0, x1 - x0, y1 - y0, gt);
@@ -189,9 +201,9 @@ Result<DemRead> read_dem(const std::string& path, const DemRequest& request) {
     return s.str();
   };
   const std::string epsg = "EPSG:" + std::to_string(request.epsg);
-  std::vector<std::string> argv_s = {"-of", "MEM", "-t_srs", epsg, "-r", "bilinear", "-et", "0", "-ot", "Float32",
-                                     "-tr", num(cell), num(cell), "-te", num(a.west), num(a.south), num(a.east),
-                                     num(a.north), "-dstnodata", "-99999"};
+  std::vector<std::string> argv_s = {
+      "-of", "MEM",     "-t_srs",  epsg,  "-r",        "bilinear",   "-et",       "0",          "-ot",        "Float32",
+      "-tr", num(cell), num(cell), "-te", num(a.west), num(a.south), num(a.east), num(a.north), "-dstnodata", "-99999"};
   std::vector<char*> argv;
   for (auto& s : argv_s) argv.push_back(s.data());
   argv.push_back(nullptr);

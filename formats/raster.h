@@ -35,17 +35,17 @@ struct DemArea {  // a rectangle in the target CRS, metres
 };
 
 struct DemRequest {
-  int epsg = 0;                       // the project's UTM zone
-  std::optional<DemArea> area;        // clip to this (already with its margin); none = whole raster
+  int epsg = 0;                 // the project's UTM zone
+  std::optional<DemArea> area;  // clip to this (already with its margin); none = whole raster
   long long max_cells = kMaxTerrainCells;
 };
 
 struct DemRead {
   geo::TerrainGrid grid;
-  bool reprojected = false;   // true when GDAL's warper resampled it
-  std::string source_crs;     // the source's CRS name as GDAL gives it
+  bool reprojected = false;  // true when GDAL's warper resampled it
+  std::string source_crs;    // the source's CRS name as GDAL gives it
   int source_nx = 0, source_ny = 0;
-  long long missing = 0;      // cells without an elevation
+  long long missing = 0;  // cells without an elevation
 };
 
 // Reads PATH (see the file comment). Failures name the file and the reason.

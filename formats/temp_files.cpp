@@ -157,8 +157,8 @@ int remove_stale_temp_files(const std::string& target) {
       if (m == std::string::npos) continue;
       const long pid = std::strtol(name.c_str() + m + std::strlen(kMarker), nullptr, 10);
       if (pid <= 0) continue;
-      if (pid == getpid()) continue;                                                  // ours, live
-      if (kill(static_cast<pid_t>(pid), 0) == 0 || errno == EPERM) continue;          // its writer is alive
+      if (pid == getpid()) continue;                                          // ours, live
+      if (kill(static_cast<pid_t>(pid), 0) == 0 || errno == EPERM) continue;  // its writer is alive
       std::error_code rc;
       if (fs::remove_all(e.path(), rc) > 0) ++removed;
     }

@@ -26,7 +26,7 @@ void unregister_temp(const std::string& path);
 // removed on destruction unless release() was called (after a rename made it
 // the target).
 class TempPath {
-public:
+ public:
   explicit TempPath(const std::string& target, bool directory = false);
   ~TempPath();
   TempPath(const TempPath&) = delete;
@@ -34,7 +34,7 @@ public:
   const std::string& path() const { return path_; }
   void release();  // the path is no longer temporary (it was renamed): forget it
 
-private:
+ private:
   std::string path_;
   bool live_ = true;
 };

@@ -20,15 +20,24 @@ size_t sequence_length(std::string_view t, size_t i, unsigned* code) {
   }
   size_t n = 0;
   unsigned lo = 0x80, hi = 0xBF, cp = 0;
-  if (c >= 0xC2 && c <= 0xDF) n = 2, cp = c & 0x1F;
-  else if (c == 0xE0) n = 3, lo = 0xA0, cp = c & 0x0F;
-  else if (c >= 0xE1 && c <= 0xEC) n = 3, cp = c & 0x0F;
-  else if (c == 0xED) n = 3, hi = 0x9F, cp = c & 0x0F;  // no surrogates
-  else if (c >= 0xEE && c <= 0xEF) n = 3, cp = c & 0x0F;
-  else if (c == 0xF0) n = 4, lo = 0x90, cp = c & 0x07;
-  else if (c >= 0xF1 && c <= 0xF3) n = 4, cp = c & 0x07;
-  else if (c == 0xF4) n = 4, hi = 0x8F, cp = c & 0x07;  // nothing above U+10FFFF
-  else return 0;
+  if (c >= 0xC2 && c <= 0xDF)
+    n = 2, cp = c & 0x1F;
+  else if (c == 0xE0)
+    n = 3, lo = 0xA0, cp = c & 0x0F;
+  else if (c >= 0xE1 && c <= 0xEC)
+    n = 3, cp = c & 0x0F;
+  else if (c == 0xED)
+    n = 3, hi = 0x9F, cp = c & 0x0F;  // no surrogates
+  else if (c >= 0xEE && c <= 0xEF)
+    n = 3, cp = c & 0x0F;
+  else if (c == 0xF0)
+    n = 4, lo = 0x90, cp = c & 0x07;
+  else if (c >= 0xF1 && c <= 0xF3)
+    n = 4, cp = c & 0x07;
+  else if (c == 0xF4)
+    n = 4, hi = 0x8F, cp = c & 0x07;  // nothing above U+10FFFF
+  else
+    return 0;
   if (i + n > t.size()) return 0;
   for (size_t k = 1; k < n; ++k) {
     const unsigned x = b(i + k);
@@ -65,8 +74,7 @@ std::optional<TextFault> scan(std::string_view t, bool check_controls, bool mult
     if (n == 0) {
       f.offset = i;
       f.rule = "utf8";
-      f.message = "invalid UTF-8 (byte 0x" + hex2(static_cast<unsigned char>(t[i])) +
-                  "); save the file as UTF-8";
+      f.message = "invalid UTF-8 (byte 0x" + hex2(static_cast<unsigned char>(t[i])) + "); save the file as UTF-8";
       return f;
     }
     if (check_controls && is_control(cp, multiline)) {
@@ -92,9 +100,7 @@ std::optional<TextFault> scan(std::string_view t, bool check_controls, bool mult
 
 std::optional<TextFault> find_invalid_utf8(std::string_view text) { return scan(text, false, true); }
 
-std::optional<TextFault> find_text_fault(std::string_view text, bool multiline) {
-  return scan(text, true, multiline);
-}
+std::optional<TextFault> find_text_fault(std::string_view text, bool multiline) { return scan(text, true, multiline); }
 
 Check check_text(std::string_view text, const std::string& what, bool multiline) {
   if (auto f = find_text_fault(text, multiline))
@@ -114,8 +120,10 @@ std::string terminal_safe(std::string_view t) {
       continue;
     }
     if (cp != '\n' && cp != '\t' && is_control(cp, false)) {
-      if (cp < 0x80) out += "\\x" + hex2(cp);
-      else out += "\\u00" + hex2(cp);
+      if (cp < 0x80)
+        out += "\\x" + hex2(cp);
+      else
+        out += "\\u00" + hex2(cp);
     } else {
       out.append(t.substr(i, n));
     }

@@ -114,8 +114,8 @@ Check check_uuid(const std::string& v, const std::string& what) {
 
 Check check_photo_path(const std::string& v) {
   const auto bad = [&](const std::string& why) {
-    return Broken{"photo-path", "photo path '" + v.substr(0, 200) + "' " + why +
-                                    "; photos are named relative to the project folder"};
+    return Broken{"photo-path",
+                  "photo path '" + v.substr(0, 200) + "' " + why + "; photos are named relative to the project folder"};
   };
   if (v.empty()) return bad("is empty");
   if (v.front() == '/') return bad("is absolute");
@@ -133,8 +133,7 @@ Check check_photo_path(const std::string& v) {
 std::string default_unit_colour(int age_rank) {
   // Okabe & Ito (2008), "Color Universal Design": orange, sky blue, bluish
   // green, yellow, blue, vermillion, reddish purple (black left out: it hides linework).
-  static const char* const kPalette[] = {"#E69F00", "#56B4E9", "#009E73", "#F0E442",
-                                         "#0072B2", "#D55E00", "#CC79A7"};
+  static const char* const kPalette[] = {"#E69F00", "#56B4E9", "#009E73", "#F0E442", "#0072B2", "#D55E00", "#CC79A7"};
   const int n = static_cast<int>(sizeof kPalette / sizeof kPalette[0]);
   const int i = ((age_rank - 1) % n + n) % n;
   return kPalette[i];

@@ -115,8 +115,8 @@ struct Builder {
 
 Result<XmlElement> parse_xml(std::string_view text, const std::string& filename) {
   auto fail = [&](int line, int column, const std::string& why) {
-    return Result<XmlElement>::failure(filename + ":" + std::to_string(line) + ":" + std::to_string(column) + ": xml: " +
-                                       why);
+    return Result<XmlElement>::failure(filename + ":" + std::to_string(line) + ":" + std::to_string(column) +
+                                       ": xml: " + why);
   };
   if (text.size() > kMaxImportBytes)
     return fail(1, 1, "the file is larger than " + size_text(kMaxImportBytes) + ", the most Cairn reads; split it");

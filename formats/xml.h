@@ -23,11 +23,11 @@ struct XmlAttribute {
 };
 
 struct XmlElement {
-  std::string ns;     // namespace URI resolved from its prefix or the default namespace
-  std::string local;  // local name, without prefix
+  std::string ns;                        // namespace URI resolved from its prefix or the default namespace
+  std::string local;                     // local name, without prefix
   std::vector<XmlAttribute> attributes;  // xmlns declarations left out
   std::vector<XmlElement> children;
-  std::string text;  // character data directly inside the element, concatenated
+  std::string text;          // character data directly inside the element, concatenated
   int line = 0, column = 0;  // 1-based position of the '<' of the start tag
 
   // The first child with this namespace and local name, or nullptr.

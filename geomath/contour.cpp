@@ -18,8 +18,7 @@ struct Segment {
 
 std::vector<NetPolyline> contour_lines(const ScalarGrid& g, double level) {
   std::vector<NetPolyline> out;
-  if (g.nx < 2 || g.ny < 2 ||
-      g.values.size() != static_cast<std::size_t>(g.nx) * static_cast<std::size_t>(g.ny)) {
+  if (g.nx < 2 || g.ny < 2 || g.values.size() != static_cast<std::size_t>(g.nx) * static_cast<std::size_t>(g.ny)) {
     return out;
   }
   // Edge ids: the horizontal edge from node (i, j) to (i+1, j) is 2 * node,
@@ -34,8 +33,7 @@ std::vector<NetPolyline> contour_lines(const ScalarGrid& g, double level) {
   std::vector<Segment> segs;
   for (int j = 0; j + 1 < g.ny; ++j) {
     for (int i = 0; i + 1 < g.nx; ++i) {
-      const double v00 = g.at(i, j), v10 = g.at(i + 1, j), v11 = g.at(i + 1, j + 1),
-                   v01 = g.at(i, j + 1);
+      const double v00 = g.at(i, j), v10 = g.at(i + 1, j), v11 = g.at(i + 1, j + 1), v01 = g.at(i, j + 1);
       // A cell with a missing corner (NaN, e.g. a terrain's nodata) has no contour.
       if (std::isnan(v00) || std::isnan(v10) || std::isnan(v11) || std::isnan(v01)) continue;
       const bool a00 = v00 >= level, a10 = v10 >= level, a11 = v11 >= level, a01 = v01 >= level;
@@ -50,8 +48,7 @@ std::vector<NetPolyline> contour_lines(const ScalarGrid& g, double level) {
       const Edge top{a01 != a11, 2 * node(i, j + 1), i, j + 1, i + 1, j + 1};
       const Edge left{a00 != a01, 2 * node(i, j) + 1, i, j, i, j + 1};
       auto add = [&](const Edge& e, const Edge& f) {
-        segs.push_back(Segment{{e.id, f.id},
-                               {crossing(e.ia, e.ja, e.ib, e.jb), crossing(f.ia, f.ja, f.ib, f.jb)}});
+        segs.push_back(Segment{{e.id, f.id}, {crossing(e.ia, e.ja, e.ib, e.jb), crossing(f.ia, f.ja, f.ib, f.jb)}});
       };
       const int crossed = bottom.crossed + right.crossed + top.crossed + left.crossed;
       if (crossed == 2) {
@@ -156,20 +153,28 @@ std::vector<NetPolyline> clip_to_disk(const std::vector<NetPolyline>& lines, dou
       const NetPoint p = pts[k], q = pts[k + 1];
       const double dx = q[0] - p[0], dy = q[1] - p[1];
       // |p + s (q - p)|^2 = radius^2:  a s^2 + b s + c = 0
-      const double a = dx * dx + dy * dy, b = 2.0 * (p[0] * dx + p[1] * dy),
-                   c = p[0] * p[0] + p[1] * p[1] - r2;
+      const double a = dx * dx + dy * dy, b = 2.0 * (p[0] * dx + p[1] * dy), c = p[0] * p[0] + p[1] * p[1] - r2;
       double lo, hi;
       if (a == 0.0) {
-        if (c > 0.0) { flush(); continue; }
+        if (c > 0.0) {
+          flush();
+          continue;
+        }
         lo = 0.0, hi = 1.0;
       } else {
         const double disc = b * b - 4.0 * a * c;
-        if (disc < 0.0) { flush(); continue; }
+        if (disc < 0.0) {
+          flush();
+          continue;
+        }
         const double sq = std::sqrt(disc);
         lo = c <= 0.0 ? 0.0 : std::max(0.0, (-b - sq) / (2.0 * a));
         hi = std::min(1.0, (-b + sq) / (2.0 * a));
         if (c <= 0.0 && q[0] * q[0] + q[1] * q[1] <= r2) hi = 1.0;
-        if (lo > hi) { flush(); continue; }
+        if (lo > hi) {
+          flush();
+          continue;
+        }
       }
       auto at = [&](double s) { return NetPoint{p[0] + s * dx, p[1] + s * dy}; };
       if (lo > 0.0 || cur.pts.empty()) {

@@ -36,7 +36,7 @@ namespace {
 // query looks at the 3x3 cells around a point, so with a cell the size of the
 // search radius a query costs O(points nearby) and building costs O(N).
 class NearIndex {
-public:
+ public:
   explicit NearIndex(double cell) : cell_(cell > 0 ? cell : 1.0) {}
   void add(double e, double n, size_t id) { cells_[key(e, n)].push_back({e, n, id}); }
   template <class F>
@@ -54,8 +54,11 @@ public:
       }
   }
 
-private:
-  struct Entry { double e, n; size_t id; };
+ private:
+  struct Entry {
+    double e, n;
+    size_t id;
+  };
   // Shifted as unsigned: a left shift of a negative value is undefined in C++17
   // (found by UndefinedBehaviorSanitizer); the bits, and so the keys, are the same.
   static long long pack(long i, long j) {
@@ -74,7 +77,11 @@ double normal_sigma(const FitPoint& p, const Vec3& n) {
   return std::sqrt(p.h_acc * p.h_acc * (n.x() * n.x() + n.y() * n.y()) + p.v_acc * p.v_acc * n.z() * n.z());
 }
 
-struct Outlier { size_t index; double score; double residual; };
+struct Outlier {
+  size_t index;
+  double score;
+  double residual;
+};
 
 // Leave-one-out screening for points that break planarity: each point is judged
 // against the plane fitted to all the others, in units of its own precision
@@ -237,7 +244,7 @@ constexpr double kMinDipForRotation = 10.0;
 
 // The engine, one named step per rule family; run() calls them in order.
 class Checker {
-public:
+ public:
   Checker(const CheckInput& in, const CheckOptions& o) : in_(in), o_(o), station_index_(o.terrain_radius) {
     for (size_t i = 0; i < in.stations.size(); ++i) station_of_[in.stations[i].uuid] = i;
   }
@@ -258,7 +265,7 @@ public:
     return std::move(rep_);
   }
 
-private:
+ private:
   std::string station_code(const std::string& id) const {
     auto it = station_of_.find(id);
     return it == station_of_.end() ? std::string() : in_.stations[it->second].code;
@@ -318,15 +325,17 @@ private:
         worst = "#" + std::to_string(f->worst_index + 1) + " (" + format_decimal("%+.1f m", f->worst_residual) + ")";
         cf.worst_points.push_back(f->worst_index);
       }
-      flag.message = c.name + " does not lie on one plane (rms " + format_decimal("%.1f m", f->rms) + "); worst points " + worst +
-                     ". Readings on it are not compared.";
-      flag.action = "Check the worst points' positions; if the contact is folded or faulted, split it "
-                    "into planar segments.";
+      flag.message = c.name + " does not lie on one plane (rms " + format_decimal("%.1f m", f->rms) +
+                     "); worst points " + worst + ". Readings on it are not compared.";
+      flag.action =
+          "Check the worst points' positions; if the contact is folded or faulted, split it "
+          "into planar segments.";
       rep_.flags.push_back(flag);
     } else if (f->weak_geometry) {
       flag.message = "The points of " + c.name + " constrain its plane weakly: " + f->weakness.value_or(f->verdict);
-      flag.action = "Add points along the contact at different elevations and away from a straight line "
-                    "before trusting its attitude.";
+      flag.action =
+          "Add points along the contact at different elevations and away from a straight line "
+          "before trusting its attitude.";
       rep_.flags.push_back(flag);
     } else if (!f->cone95) {
       // Three points (or points exactly on a plane) without accuracies: a plane
@@ -497,8 +506,8 @@ private:
     f.contact = contact.name;
     f.misfit = misfit;
     const std::string what = r.kind + " " + plane_text(r.plane) + " at " + f.station;
-    const std::string against =
-        " from the plane of " + contact.name + " (" + plane_text(fitted) + ", tolerance " + format_decimal("%.1f", tol) + ")";
+    const std::string against = " from the plane of " + contact.name + " (" + plane_text(fitted) + ", tolerance " +
+                                format_decimal("%.1f", tol) + ")";
     const Plane reversed{wrap360(r.plane.strike + 180.0), r.plane.dip};
     const double m_rev = angle_between_planes(reversed, fitted);
     std::optional<std::pair<double, Plane>> decl;
@@ -515,11 +524,12 @@ private:
       f.severity = Severity::Conflict;
       f.misfit_corrected = m_rev;
       f.corrected = reversed;
-      f.message = what + " is " + format_decimal("%.0f", misfit) + " degrees" + against + ", but dipping the other way (" +
-                  plane_text(reversed) + ") it fits within " + format_decimal("%.0f", m_rev) +
-                  ": a right-hand-rule slip or a wrong dip-quadrant letter?";
+      f.message = what + " is " + format_decimal("%.0f", misfit) + " degrees" + against +
+                  ", but dipping the other way (" + plane_text(reversed) + ") it fits within " +
+                  format_decimal("%.0f", m_rev) + ": a right-hand-rule slip or a wrong dip-quadrant letter?";
       f.action = "Check the notebook and the outcrop's dip direction; if the beds dip towards " +
-                 format_decimal("%03.0f", reversed.dip_direction()) + ", correct the reading to " + plane_text(reversed) + ".";
+                 format_decimal("%03.0f", reversed.dip_direction()) + ", correct the reading to " +
+                 plane_text(reversed) + ".";
       add_steep_caution(f);
     } else if (decl && decl->first <= tol) {
       f.rule = "declination-suspect";
@@ -528,11 +538,12 @@ private:
       f.corrected = decl->second;
       const double turn = azimuth_difference(decl->second.strike, r.plane.strike);
       f.cause = declination_cause(turn, *r.local_declination);
-      f.message = what + " is " + format_decimal("%.0f", misfit) + " degrees" + against + "; turned by " + format_decimal("%+.1f", turn) +
-                  " degrees it fits within " + format_decimal("%.0f", decl->first) + ". " +
-                  declination_words(f.cause, *r.local_declination);
-      f.action = "Check the compass's declination setting and the reading's north reference (true or "
-                 "magnetic), then correct the reading's north reference.";
+      f.message = what + " is " + format_decimal("%.0f", misfit) + " degrees" + against + "; turned by " +
+                  format_decimal("%+.1f", turn) + " degrees it fits within " + format_decimal("%.0f", decl->first) +
+                  ". " + declination_words(f.cause, *r.local_declination);
+      f.action =
+          "Check the compass's declination setting and the reading's north reference (true or "
+          "magnetic), then correct the reading's north reference.";
     } else {
       f.rule = "misfit";
       f.severity = Severity::Conflict;
@@ -554,11 +565,12 @@ private:
   }
   static std::string declination_words(const std::string& cause, double declination) {
     const std::string d = format_decimal("%.1f", std::abs(declination)) + (declination >= 0 ? " east" : " west");
-    return cause == "declination-not-applied"
-               ? "The turn is the local declination (" + d + ") added: declination not applied (a magnetic reading "
-                 "stored as true north?)."
-               : "The turn is the local declination (" + d + ") taken off: declination applied twice (the compass "
-                 "already set to it and the reading stored as magnetic?).";
+    return cause == "declination-not-applied" ? "The turn is the local declination (" + d +
+                                                    ") added: declination not applied (a magnetic reading "
+                                                    "stored as true north?)."
+                                              : "The turn is the local declination (" + d +
+                                                    ") taken off: declination applied twice (the compass "
+                                                    "already set to it and the reading stored as magnetic?).";
   }
 
   // 4. Systematic compass error: the readings of one observer on one day (and
@@ -583,8 +595,10 @@ private:
     groups_.clear();
     for (const auto& c : compared) {
       const CheckPlane& r = *c.reading;
-      if (!r.observer.empty()) groups_[{r.observer, r.day, ""}].push_back(&c);
-      else if (!r.device.empty()) groups_[{"", r.day, r.device}].push_back(&c);
+      if (!r.observer.empty())
+        groups_[{r.observer, r.day, ""}].push_back(&c);
+      else if (!r.device.empty())
+        groups_[{"", r.day, r.device}].push_back(&c);
     }
     std::map<GroupKey, CircularMean> out;
     for (const auto& [key, list] : groups_) {
@@ -653,12 +667,13 @@ private:
       if (c->reading->local_declination) decl += *c->reading->local_declination, ++with_decl;
     }
     if (with_decl) decl /= static_cast<double>(with_decl);
-    const std::string who = (observer.empty() ? std::string("one device") : observer) +
-                            (day.empty() ? std::string() : " on " + day);
-    const std::string head = "All " + std::to_string(list.size()) + " readings by " + who +
-                             " compared with a contact's plane (or a crew member's readings nearby) need a common turn of " + format_decimal("%+.1f", m.mean) +
-                             " degrees (95% interval " + format_decimal("%+.1f", m.low) + " to " + format_decimal("%+.1f", m.high) +
-                             ") to fit: ";
+    const std::string who =
+        (observer.empty() ? std::string("one device") : observer) + (day.empty() ? std::string() : " on " + day);
+    const std::string head =
+        "All " + std::to_string(list.size()) + " readings by " + who +
+        " compared with a contact's plane (or a crew member's readings nearby) need a common turn of " +
+        format_decimal("%+.1f", m.mean) + " degrees (95% interval " + format_decimal("%+.1f", m.low) + " to " +
+        format_decimal("%+.1f", m.high) + ") to fit: ";
     const bool decl_known = with_decl && std::abs(decl) >= o_.min_declination;
     if (decl_known && m.low <= decl && decl <= m.high) {
       f.rule = "declination-suspect";
@@ -672,13 +687,17 @@ private:
     }
     if (f.rule == "declination-suspect") {
       f.message = head + declination_words(f.cause, decl) + " Each reading alone may be within its tolerance.";
-      f.action = "Check the compass's declination setting that day; if it is confirmed, correct the north "
-                 "reference of the whole group at once (one audited change).";
+      f.action =
+          "Check the compass's declination setting that day; if it is confirmed, correct the north "
+          "reference of the whole group at once (one audited change).";
     } else {
-      f.message = head + "the local declination does not explain it. A compass with an offset, a "
+      f.message = head +
+                  "the local declination does not explain it. A compass with an offset, a "
                   "magnetised object near it, or a wrong declination set?";
-      f.action = "Check the compass against a known bearing or another crew member's compass; if the offset is "
-                 "confirmed, turn the whole group by " + format_decimal("%+.1f", m.mean) + " degrees (one audited change).";
+      f.action =
+          "Check the compass against a known bearing or another crew member's compass; if the offset is "
+          "confirmed, turn the whole group by " +
+          format_decimal("%+.1f", m.mean) + " degrees (one audited change).";
     }
     rep_.flags.push_back(f);
   }
@@ -730,9 +749,10 @@ private:
     f.severity = Severity::Note;
     f.contact = c.name;
     f.message = c.name + " dips " + format_decimal("%.0f", cf.fit->plane.dip) + " degrees with a 95% cone of " +
-                format_decimal("%.1f", *cf.fit->cone95) + ", which includes the vertical: which side is above it is not "
-                "known from the fit, so the facing of the " + std::to_string(stations) +
-                " stations beside it is not judged (neither confirmed nor questioned).";
+                format_decimal("%.1f", *cf.fit->cone95) +
+                ", which includes the vertical: which side is above it is not "
+                "known from the fit, so the facing of the " +
+                std::to_string(stations) + " stations beside it is not judged (neither confirmed nor questioned).";
     f.action = "Record way-up indicators (graded beds, cross-bedding, load casts) at stations by the contact.";
     f.caution = kRevisitCaution;
     rep_.flags.push_back(f);
@@ -765,8 +785,9 @@ private:
     f.message = std::to_string(disagree) + " of " + std::to_string(agree + disagree) + " stations by " + c.name +
                 " lie on the wrong side of it for " + (expect_overturned ? "overturned" : "upright") + " beds (" +
                 wrong + "): overturned beds, or units mislabelled?";
-    f.action = "Look for way-up indicators (graded beds, cross-bedding, load casts) and check the units "
-               "recorded at these stations; mark overturned readings as such.";
+    f.action =
+        "Look for way-up indicators (graded beds, cross-bedding, load casts) and check the units "
+        "recorded at these stations; mark overturned readings as such.";
     f.caution = kRevisitCaution;
     rep_.flags.push_back(f);
   }
@@ -786,7 +807,8 @@ private:
 
   bool screen(const std::string& station_id, const CheckPlane& r, const CheckPlane& face) {
     const bool slide = planar_sliding_possible(r.plane, face.plane, o_.friction_angle, o_.sliding_window);
-    const bool topple = !slide && flexural_toppling_possible(r.plane, face.plane, o_.friction_angle, o_.toppling_window);
+    const bool topple =
+        !slide && flexural_toppling_possible(r.plane, face.plane, o_.friction_angle, o_.toppling_window);
     if (!slide && !topple) return false;
     Flag f;
     f.rule = slide ? "daylighting" : "toppling";
@@ -797,8 +819,8 @@ private:
     f.reading = r.uuid;
     const std::string what = r.kind + " " + plane_text(r.plane);
     f.message = slide ? what + " daylights in the slope face " + plane_text(face.plane) +
-                            " and dips more steeply than the friction angle (" + format_decimal("%.0f", o_.friction_angle) +
-                            "): planar sliding is kinematically possible."
+                            " and dips more steeply than the friction angle (" +
+                            format_decimal("%.0f", o_.friction_angle) + "): planar sliding is kinematically possible."
                       : what + " dips steeply into the slope face " + plane_text(face.plane) +
                             ": flexural toppling is kinematically possible.";
     f.action = "Keep clear of the face and the ground below it; record the hazard for the crew.";
@@ -834,10 +856,12 @@ private:
           f.misfit = ang;
           f.message = key.second + " " + plane_text(list[i]->plane) + " repeats " +
                       (list[j]->ref.empty() ? "an earlier reading" : "reading " + list[j]->ref) + " (" +
-                      format_decimal("%.1f", ang) + " degrees apart, " + format_decimal("%.0f", dt) + " min earlier): entered twice?";
-          f.action = "If both are the same measurement, delete one. If you measured the surface again on purpose, "
-                     "mark the later reading as a repeat of the first (repeat_of): the check then uses their "
-                     "Fisher mean and spread.";
+                      format_decimal("%.1f", ang) + " degrees apart, " + format_decimal("%.0f", dt) +
+                      " min earlier): entered twice?";
+          f.action =
+              "If both are the same measurement, delete one. If you measured the surface again on purpose, "
+              "mark the later reading as a repeat of the first (repeat_of): the check then uses their "
+              "Fisher mean and spread.";
           rep_.flags.push_back(f);
           break;
         }

@@ -20,9 +20,12 @@ std::optional<double> parse_decimal(std::string_view t) {
   // before from_chars sees them.
   int digits = 0, points = 0;
   for (char c : t) {
-    if (c >= '0' && c <= '9') ++digits;
-    else if (c == '.') ++points;
-    else return std::nullopt;
+    if (c >= '0' && c <= '9')
+      ++digits;
+    else if (c == '.')
+      ++points;
+    else
+      return std::nullopt;
   }
   if (digits == 0 || points > 1) return std::nullopt;
   double v = 0;

@@ -23,13 +23,11 @@ double DensityGrid::max_value() const {
   return m;
 }
 
-Result<DensityGrid> density_grid(NetKind kind, const std::vector<Line>& axes,
-                                 const DensityOptions& opt) {
+Result<DensityGrid> density_grid(NetKind kind, const std::vector<Line>& axes, const DensityOptions& opt) {
   using R = Result<DensityGrid>;
   if (axes.empty()) return R::failure("no lines to count on the net");
   if (opt.grid_nodes < 3) {
-    return R::failure("the counting grid needs at least 3 nodes per side, got " +
-                      std::to_string(opt.grid_nodes));
+    return R::failure("the counting grid needs at least 3 nodes per side, got " + std::to_string(opt.grid_nodes));
   }
   DensityGrid g;
   g.kind = kind;
@@ -81,8 +79,7 @@ std::vector<double> contour_levels(const DensityGrid& g, double step) {
   return out;
 }
 
-std::vector<DensityContour> density_contours(const DensityGrid& g,
-                                             const std::vector<double>& levels) {
+std::vector<DensityContour> density_contours(const DensityGrid& g, const std::vector<double>& levels) {
   std::vector<DensityContour> out;
   out.reserve(levels.size());
   for (double level : levels) {

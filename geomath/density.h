@@ -45,9 +45,7 @@ struct DensityGrid {
   std::vector<int> counts;     // node counts, same layout as grid.values
 
   int nodes() const { return grid.nx; }
-  NetPoint node(int i, int j) const {
-    return NetPoint{grid.x0 + i * grid.dx, grid.y0 + j * grid.dy};
-  }
+  NetPoint node(int i, int j) const { return NetPoint{grid.x0 + i * grid.dx, grid.y0 + j * grid.dy}; }
   double value(int i, int j) const { return grid.at(i, j); }
   int count(int i, int j) const { return counts[static_cast<std::size_t>(j) * grid.nx + i]; }
   // Whether node (i, j) lies on or inside the primitive circle.
@@ -57,8 +55,7 @@ struct DensityGrid {
 };
 
 // Fails for no data or fewer than 3 grid nodes per side.
-Result<DensityGrid> density_grid(NetKind kind, const std::vector<Line>& axes,
-                                 const DensityOptions& opt = {});
+Result<DensityGrid> density_grid(NetKind kind, const std::vector<Line>& axes, const DensityOptions& opt = {});
 
 // step, 2 step, 3 step, ... up to the grid's largest value inside the primitive
 // (e.g. step 2 for Kamb's 2-sigma contours). Empty for a step that is not positive.
@@ -68,7 +65,6 @@ struct DensityContour {
   double level = 0;
   std::vector<NetPolyline> lines;  // clipped to the primitive circle
 };
-std::vector<DensityContour> density_contours(const DensityGrid& g,
-                                             const std::vector<double>& levels);
+std::vector<DensityContour> density_contours(const DensityGrid& g, const std::vector<double>& levels);
 
 }  // namespace cairn::geo

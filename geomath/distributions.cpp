@@ -49,8 +49,8 @@ double incomplete_beta(double a, double b, double x) {
   if (x == 0 || x == 1) return x;
   // x^a (1-x)^b / (a B(a, b)), then the continued fraction on the side where it
   // converges, using I_x(a, b) = 1 - I_{1-x}(b, a) (A&S 26.5.2).
-  const double front = std::exp(std::lgamma(a + b) - std::lgamma(a) - std::lgamma(b) + a * std::log(x) +
-                                b * std::log1p(-x));
+  const double front =
+      std::exp(std::lgamma(a + b) - std::lgamma(a) - std::lgamma(b) + a * std::log(x) + b * std::log1p(-x));
   if (x < (a + 1.0) / (a + b + 2.0)) return front * beta_continued_fraction(a, b, x) / a;
   return 1.0 - front * beta_continued_fraction(b, a, 1.0 - x) / b;
 }

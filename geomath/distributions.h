@@ -47,11 +47,11 @@ Result<double> chi2_quantile(double p, double nu);
 // gives the same sequence with every library, up to the last bits of log, sin
 // and cos of the C library.
 class NormalDeviates {
-public:
+ public:
   explicit NormalDeviates(std::uint64_t seed) : engine_(seed) {}
   double operator()();
 
-private:
+ private:
   double uniform_open();  // in (0, 1), 53 bits
   std::mt19937_64 engine_;
   bool have_spare_ = false;

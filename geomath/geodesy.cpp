@@ -26,8 +26,7 @@ std::optional<std::string> check_latlon(const LatLon& p) {
   if (p.lat < -90 || p.lat > 90) return "latitude " + num(p.lat) + " is outside -90..90";
   if (p.lon < -180 || p.lon > 180) return "longitude " + num(p.lon) + " is outside -180..180";
   // UTM's own limits; GeographicLib would switch to UPS beyond them.
-  if (p.lat < -80 || p.lat > 84)
-    return "latitude " + num(p.lat) + " is outside UTM's range (-80 to 84 degrees)";
+  if (p.lat < -80 || p.lat > 84) return "latitude " + num(p.lat) + " is outside UTM's range (-80 to 84 degrees)";
   return std::nullopt;
 }
 
@@ -81,8 +80,7 @@ Result<UtmPoint> to_utm(const LatLon& p, std::optional<UtmZone> zone) {
     return UtmPoint{z.zone, z.northp, x, y};
   } catch (const std::exception&) {
     return Result<UtmPoint>::failure("latitude " + num(p.lat) + ", longitude " + num(p.lon) +
-                                     " is too far from UTM zone " + std::to_string(z.zone) +
-                                     " to project into it");
+                                     " is too far from UTM zone " + std::to_string(z.zone) + " to project into it");
   }
 }
 

@@ -28,10 +28,10 @@ namespace {
 
 // WGS84 ellipsoid (NIMA TR8350.2) and the WMM reference radius (WMM report, Table 1;
 // value from memory).
-constexpr double kWgs84A = 6378137.0;                  // semi-major axis, m
-constexpr double kWgs84F = 1.0 / 298.257223563;        // flattening
+constexpr double kWgs84A = 6378137.0;                   // semi-major axis, m
+constexpr double kWgs84F = 1.0 / 298.257223563;         // flattening
 constexpr double kWgs84E2 = kWgs84F * (2.0 - kWgs84F);  // first eccentricity squared
-constexpr double kGeomagneticRadius = 6371200.0;       // a, mean Earth radius, m
+constexpr double kGeomagneticRadius = 6371200.0;        // a, mean Earth radius, m
 
 // Splits a line into whitespace-separated fields.
 std::vector<std::string_view> fields(std::string_view line) {
@@ -88,8 +88,7 @@ Result<MagneticModel> MagneticModel::parse(std::string_view text) {
     if (!have_header) {
       // "    2025.0            WMM-2025     11/13/2024"
       if (f.size() < 2 || !to_double(f[0], model.epoch_))
-        return R::failure(at_line(line_no) + "expected a header 'EPOCH NAME DATE', got '" +
-                          std::string(line) + "'");
+        return R::failure(at_line(line_no) + "expected a header 'EPOCH NAME DATE', got '" + std::string(line) + "'");
       if (model.epoch_ < 1900.0 || model.epoch_ > 2200.0)
         return R::failure(at_line(line_no) + "epoch " + std::string(f[0]) + " is not a plausible year");
       for (char c : f[1])
@@ -102,22 +101,20 @@ Result<MagneticModel> MagneticModel::parse(std::string_view text) {
       break;
     }
     if (f.size() != 6)
-      return R::failure(at_line(line_no) + "expected 6 fields 'n m g h g_dot h_dot', got " +
-                        std::to_string(f.size()));
+      return R::failure(at_line(line_no) + "expected 6 fields 'n m g h g_dot h_dot', got " + std::to_string(f.size()));
     int n = 0, m = 0;
     if (!to_int(f[0], n) || !to_int(f[1], m))
-      return R::failure(at_line(line_no) + "degree and order must be whole numbers, got '" +
-                        std::string(f[0]) + " " + std::string(f[1]) + "'");
+      return R::failure(at_line(line_no) + "degree and order must be whole numbers, got '" + std::string(f[0]) + " " +
+                        std::string(f[1]) + "'");
     if (n != expect_n || m != expect_m)
-      return R::failure(at_line(line_no) + "expected n=" + std::to_string(expect_n) +
-                        " m=" + std::to_string(expect_m) + ", got n=" + std::to_string(n) +
-                        " m=" + std::to_string(m));
+      return R::failure(at_line(line_no) + "expected n=" + std::to_string(expect_n) + " m=" + std::to_string(expect_m) +
+                        ", got n=" + std::to_string(n) + " m=" + std::to_string(m));
     double v[4];
     static const char* names[4] = {"g", "h", "g_dot", "h_dot"};
     for (int k = 0; k < 4; ++k)
       if (!to_double(f[2 + k], v[k]))
-        return R::failure(at_line(line_no) + "bad number '" + std::string(f[2 + k]) + "' for " +
-                          names[k] + " (n=" + std::to_string(n) + " m=" + std::to_string(m) + ")");
+        return R::failure(at_line(line_no) + "bad number '" + std::string(f[2 + k]) + "' for " + names[k] +
+                          " (n=" + std::to_string(n) + " m=" + std::to_string(m) + ")");
     int idx = index(n, m);
     if (static_cast<int>(model.g_.size()) <= idx) {
       size_t sz = static_cast<size_t>(index(n + 1, 0));
@@ -134,8 +131,7 @@ Result<MagneticModel> MagneticModel::parse(std::string_view text) {
       model.nmax_ = n;
       ++expect_n;
       expect_m = 0;
-      if (expect_n > kMaxDegree)
-        return R::failure(at_line(line_no) + "degree beyond " + std::to_string(kMaxDegree));
+      if (expect_n > kMaxDegree) return R::failure(at_line(line_no) + "degree beyond " + std::to_string(kMaxDegree));
     } else {
       ++expect_m;
     }
@@ -144,8 +140,7 @@ Result<MagneticModel> MagneticModel::parse(std::string_view text) {
   if (!closed) {
     std::ostringstream os;
     os << "coefficients line " << line_no << ": text ends before the closing line of 9s";
-    if (expect_m != 0)
-      os << " (degree " << expect_n << " stops at order " << expect_m - 1 << ")";
+    if (expect_m != 0) os << " (degree " << expect_n << " stops at order " << expect_m - 1 << ")";
     return R::failure(os.str());
   }
   if (expect_m != 0)
@@ -157,14 +152,11 @@ Result<MagneticModel> MagneticModel::parse(std::string_view text) {
 
 bool MagneticModel::in_validity(double t) const { return t >= valid_from() && t <= valid_to(); }
 
-MagneticField MagneticModel::evaluate(double lat_deg, double lon_deg, double height_m,
-                                      double t) const {
-  if (!std::isfinite(lat_deg) || !std::isfinite(lon_deg) || !std::isfinite(height_m) ||
-      !std::isfinite(t))
+MagneticField MagneticModel::evaluate(double lat_deg, double lon_deg, double height_m, double t) const {
+  if (!std::isfinite(lat_deg) || !std::isfinite(lon_deg) || !std::isfinite(height_m) || !std::isfinite(t))
     throw std::domain_error("magnetic field: latitude, longitude, height and date must be finite");
   if (lat_deg < -90.0 || lat_deg > 90.0)
-    throw std::domain_error("magnetic field: latitude " + std::to_string(lat_deg) +
-                            " is outside -90..90");
+    throw std::domain_error("magnetic field: latitude " + std::to_string(lat_deg) + " is outside -90..90");
 
   // eq. 7-8: geodetic (phi, h) -> geocentric radius r and latitude phi'.
   const double phi = deg2rad(lat_deg);

@@ -28,7 +28,7 @@ struct MagneticField {
 
 // One set of Gauss coefficients with their secular variation, e.g. WMM2025.
 class MagneticModel {
-public:
+ public:
   // Parses the coefficient text: a header line "EPOCH NAME DATE", then one line
   // "n m g h g_dot h_dot" per degree n >= 1 and order 0 <= m <= n, in order,
   // closed by a line of 9s. Fails naming the offending line.
@@ -39,8 +39,7 @@ public:
   // Works outside the validity interval too (the caller decides whether to
   // warn). Throws std::domain_error for a latitude beyond +-90 or a
   // non-finite argument.
-  MagneticField evaluate(double lat_deg, double lon_deg, double height_m_above_ellipsoid,
-                         double decimal_year) const;
+  MagneticField evaluate(double lat_deg, double lon_deg, double height_m_above_ellipsoid, double decimal_year) const;
 
   double epoch() const { return epoch_; }
   double valid_from() const { return epoch_; }
@@ -51,7 +50,7 @@ public:
   int degree() const { return nmax_; }
   bool in_validity(double decimal_year) const;
 
-private:
+ private:
   MagneticModel() = default;
   static int index(int n, int m) { return n * (n + 1) / 2 + m; }  // triangular storage
   double epoch_ = 0;

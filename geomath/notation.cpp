@@ -34,7 +34,7 @@ std::string quoted(std::string_view s) { return "'" + std::string(s) + "'"; }
 
 // A left-to-right scanner over normalised text.
 class Scanner {
-public:
+ public:
   explicit Scanner(std::string s) : s_(std::move(s)) {}
   void skip_space() {
     while (i_ < s_.size() && std::isspace(static_cast<unsigned char>(s_[i_]))) ++i_;
@@ -59,9 +59,12 @@ public:
     bool digits = false, point = false;
     while (j < s_.size()) {
       const char c = s_[j];
-      if (std::isdigit(static_cast<unsigned char>(c))) digits = true;
-      else if (c == '.' && !point) point = true;
-      else break;
+      if (std::isdigit(static_cast<unsigned char>(c)))
+        digits = true;
+      else if (c == '.' && !point)
+        point = true;
+      else
+        break;
       ++j;
     }
     if (!digits) return std::nullopt;
@@ -83,15 +86,15 @@ public:
     return s_.substr(i_, j - i_);
   }
 
-private:
+ private:
   std::string s_;
   size_t i_ = 0;
 };
 
 // Azimuth of compass letters: "N" 0, "NE" 45, "E" 90 ... ; nullopt when not a compass point.
 std::optional<double> compass_azimuth(const std::string& l) {
-  static const std::pair<const char*, double> table[] = {
-      {"N", 0}, {"NE", 45}, {"E", 90}, {"SE", 135}, {"S", 180}, {"SW", 225}, {"W", 270}, {"NW", 315}};
+  static const std::pair<const char*, double> table[] = {{"N", 0},   {"NE", 45},  {"E", 90},  {"SE", 135},
+                                                         {"S", 180}, {"SW", 225}, {"W", 270}, {"NW", 315}};
   for (const auto& [name, az] : table)
     if (l == name) return az;
   return std::nullopt;
@@ -104,7 +107,8 @@ Result<double> read_quadrant_azimuth(Scanner& sc, const char* what) {
   sc.skip_space();
   const std::string w = sc.word();
   const auto a = sc.number();
-  if (!a) return Result<double>::failure(std::string(what) + ": expected an angle after " + from + ", found " + quoted(w));
+  if (!a)
+    return Result<double>::failure(std::string(what) + ": expected an angle after " + from + ", found " + quoted(w));
   sc.skip_space();
   const char to = sc.peek();
   if (to != 'E' && to != 'W')
@@ -149,16 +153,17 @@ std::string trailing_junk(Scanner& sc, const char* after) {
 Result<Plane> plane_with_quadrant(double strike_line, double dip, const std::string& letters,
                                   const std::string& strike_text) {
   const auto q = compass_azimuth(letters);
-  if (!q) return Result<Plane>::failure("dip quadrant " + quoted(letters) + " is not a compass point (N, NE, E, SE, S, SW, W, NW)");
+  if (!q)
+    return Result<Plane>::failure("dip quadrant " + quoted(letters) +
+                                  " is not a compass point (N, NE, E, SE, S, SW, W, NW)");
   const double d1 = wrap360(strike_line + 90.0), d2 = wrap360(strike_line - 90.0);
   const double e1 = std::abs(azimuth_difference(d1, *q)), e2 = std::abs(azimuth_difference(d2, *q));
   const double tol = letters.size() == 1 ? 90.0 - 1e-9 : 45.0 + 1e-9;
   if (std::min(e1, e2) > tol) {
     char buf[256];
-    std::snprintf(buf, sizeof buf,
-                  "dip quadrant %s contradicts strike %s: a plane of that strike dips towards %s or %s",
-                  letters.c_str(), strike_text.c_str(), format_quadrant_azimuth(d1).c_str(),
-                  format_quadrant_azimuth(d2).c_str());
+    std::snprintf(
+        buf, sizeof buf, "dip quadrant %s contradicts strike %s: a plane of that strike dips towards %s or %s",
+        letters.c_str(), strike_text.c_str(), format_quadrant_azimuth(d1).c_str(), format_quadrant_azimuth(d2).c_str());
     return Result<Plane>::failure(buf);
   }
   return plane_from_dip_direction(e1 <= e2 ? d1 : d2, dip);
@@ -167,8 +172,10 @@ Result<Plane> plane_with_quadrant(double strike_line, double dip, const std::str
 std::string fmt_angle(double v, int int_digits) {
   double r = std::round(v * 10.0) / 10.0;
   char buf[32];
-  if (std::abs(r - std::round(r)) < 1e-9) std::snprintf(buf, sizeof buf, "%0*.0f", int_digits, r);
-  else std::snprintf(buf, sizeof buf, "%0*.1f", int_digits + 2, r);
+  if (std::abs(r - std::round(r)) < 1e-9)
+    std::snprintf(buf, sizeof buf, "%0*.0f", int_digits, r);
+  else
+    std::snprintf(buf, sizeof buf, "%0*.1f", int_digits + 2, r);
   return buf;
 }
 
@@ -241,7 +248,8 @@ Result<Plane> parse_plane(std::string_view text, PlaneConvention convention) {
   sc.skip_space();
   const std::string first_text = sc.word();
   if (!std::isdigit(static_cast<unsigned char>(sc.peek())) && sc.peek() != '.')
-    return R::failure("attitude " + quoted(text) + " is not understood: expected strike/dip such as 030/40, or N30E 40SE");
+    return R::failure("attitude " + quoted(text) +
+                      " is not understood: expected strike/dip such as 030/40, or N30E 40SE");
   auto az = read_number(sc, convention == PlaneConvention::DipDirectionDip ? "dip direction" : "strike", 0.0, 360.0);
   if (!az) return R::failure(az.error());
   auto tail = read_dip_tail(sc);
@@ -253,7 +261,8 @@ Result<Plane> parse_plane(std::string_view text, PlaneConvention convention) {
   if (!letters.empty()) {
     if (convention == PlaneConvention::DipDirectionDip) {
       const auto q = compass_azimuth(letters);
-      if (!q) return R::failure("dip quadrant " + quoted(letters) + " is not a compass point (N, NE, E, SE, S, SW, W, NW)");
+      if (!q)
+        return R::failure("dip quadrant " + quoted(letters) + " is not a compass point (N, NE, E, SE, S, SW, W, NW)");
       if (std::abs(azimuth_difference(a, *q)) > 45.0 + 1e-9)
         return R::failure("dip quadrant " + letters + " contradicts dip direction " + fmt_angle(a, 3));
       return plane_from_dip_direction(a, *dip);

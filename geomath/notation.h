@@ -23,13 +23,12 @@
 namespace cairn::geo {
 
 enum class PlaneConvention {
-  Unspecified,    // only self-describing text (quadrant notation, a dip quadrant) is accepted
-  StrikeDipRHR,   // "a/b" is strike (right-hand rule) / dip
-  DipDirectionDip // "a/b" is dip direction / dip
+  Unspecified,     // only self-describing text (quadrant notation, a dip quadrant) is accepted
+  StrikeDipRHR,    // "a/b" is strike (right-hand rule) / dip
+  DipDirectionDip  // "a/b" is dip direction / dip
 };
 
-Result<Plane> parse_plane(std::string_view text,
-                          PlaneConvention convention = PlaneConvention::Unspecified);
+Result<Plane> parse_plane(std::string_view text, PlaneConvention convention = PlaneConvention::Unspecified);
 Result<Line> parse_line(std::string_view text);
 // A line given by its rake on a host plane: "40" (0..180, from the right-hand-rule
 // strike direction, measured down the dip) or "40NE" (0..90 from the named strike end).

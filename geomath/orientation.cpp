@@ -16,9 +16,7 @@ double clamp1(double x) { return std::max(-1.0, std::min(1.0, x)); }
 
 double Plane::dip_direction() const { return wrap360(strike + 90.0); }
 
-Plane plane_from_dip_direction(double dip_direction, double dip) {
-  return Plane{wrap360(dip_direction - 90.0), dip};
-}
+Plane plane_from_dip_direction(double dip_direction, double dip) { return Plane{wrap360(dip_direction - 90.0), dip}; }
 
 Vec3 line_vector(const Line& l) {
   const double t = deg2rad(l.trend), p = deg2rad(l.plunge);
@@ -60,9 +58,7 @@ Vec3 strike_vector(const Plane& p) {
   return Vec3(std::sin(s), std::cos(s), 0.0);
 }
 
-double angle_between_planes(const Plane& a, const Plane& b) {
-  return angle_between_lines(pole(a), pole(b));
-}
+double angle_between_planes(const Plane& a, const Plane& b) { return angle_between_lines(pole(a), pole(b)); }
 
 double angle_between_lines(const Line& a, const Line& b) {
   const Vec3 u = line_vector(a), v = line_vector(b);
@@ -91,7 +87,8 @@ double apparent_dip(const Plane& p, double azimuth) {
 
 Result<Plane> plane_from_apparent_dips(double az1, double ad1, double az2, double ad2) {
   if (std::abs(std::sin(deg2rad(az1 - az2))) < kParallelSine)
-    return Result<Plane>::failure("the two apparent dips lie in the same vertical section, so the true dip is undetermined");
+    return Result<Plane>::failure(
+        "the two apparent dips lie in the same vertical section, so the true dip is undetermined");
   // Each apparent dip is a line in the plane: the plane's normal is their cross product.
   const Vec3 u = line_vector(Line{wrap360(az1), ad1});
   const Vec3 v = line_vector(Line{wrap360(az2), ad2});

@@ -65,8 +65,7 @@ double apparent_dip(const Plane& p, double azimuth);
 // True dip from two apparent dips (each an azimuth and an apparent dip, the
 // apparent dip measured downward in that azimuth's direction). Fails when the two
 // azimuths are parallel.
-Result<Plane> plane_from_apparent_dips(double azimuth1, double apparent_dip1,
-                                       double azimuth2, double apparent_dip2);
+Result<Plane> plane_from_apparent_dips(double azimuth1, double apparent_dip1, double azimuth2, double apparent_dip2);
 
 // Rake (pitch): angle in the plane from the strike direction (RHR) to the line,
 // 0..180 degrees, measured downward.

@@ -89,9 +89,7 @@ double precision_along(const FitPoint& p, const Vec3& u) {
   return std::sqrt(p.h_acc * p.h_acc * (u.x() * u.x() + u.y() * u.y()) + p.v_acc * p.v_acc * u.z() * u.z());
 }
 
-double angle_between(const Vec3& a, const Vec3& b) {
-  return std::atan2(a.cross(b).norm(), std::abs(a.dot(b)));
-}
+double angle_between(const Vec3& a, const Vec3& b) { return std::atan2(a.cross(b).norm(), std::abs(a.dot(b))); }
 
 }  // namespace
 
@@ -117,9 +115,8 @@ Result<Plane> three_point_plane(const FitPoint& a, const FitPoint& b, const FitP
   for (int k = 0; k < 3; ++k) {
     const double d = (*pts[pairs[k][1]] - *pts[pairs[k][0]]).norm();
     if (d < kTinyMetres)
-      return Result<Plane>::failure("geometry too weak: points " + std::to_string(pairs[k][0] + 1) +
-                                    " and " + std::to_string(pairs[k][1] + 1) +
-                                    " coincide, so three points define no plane");
+      return Result<Plane>::failure("geometry too weak: points " + std::to_string(pairs[k][0] + 1) + " and " +
+                                    std::to_string(pairs[k][1] + 1) + " coincide, so three points define no plane");
     if (d > longest) longest = d, li = k;
   }
   // Distance of the third point from the longest edge's line.
@@ -129,9 +126,9 @@ Result<Plane> three_point_plane(const FitPoint& a, const FitPoint& b, const FitP
   const Vec3 n = (p1 - p0).cross(p2 - p0);
   const double height = n.norm() / longest;
   if (height < std::max(kTinyMetres, kTinyRelative * longest))
-    return Result<Plane>::failure(
-        "geometry too weak: the three points are collinear (the third lies " + format_decimal("%.3g", height) +
-        " m from the line through the other two), so they define no plane");
+    return Result<Plane>::failure("geometry too weak: the three points are collinear (the third lies " +
+                                  format_decimal("%.3g", height) +
+                                  " m from the line through the other two), so they define no plane");
   return plane_from_normal(n);
 }
 
@@ -171,7 +168,8 @@ Result<Eigen3> check_geometry(const std::vector<Vec3>& P, Vec3& c, double& lengt
   const std::vector<double> w(N, 1.0);
   Eigen3 eig = weighted_scatter(P, w, c);
   length = std::sqrt(eig.values(0));
-  if (length < kTinyMetres) return Result<Eigen3>::failure("geometry too weak: all " + std::to_string(N) + " points coincide");
+  if (length < kTinyMetres)
+    return Result<Eigen3>::failure("geometry too weak: all " + std::to_string(N) + " points coincide");
   // Spread across the main axis from the points' distances to that line: the
   // square root of a small eigenvalue would carry rounding noise of about
   // 1e-8 * length, the distances only about 1e-16 * length.
@@ -183,8 +181,9 @@ Result<Eigen3> check_geometry(const std::vector<Vec3>& P, Vec3& c, double& lengt
   }
   const double across = std::sqrt(across2 / static_cast<double>(N));
   if (across < std::max(kTinyMetres, kTinyRelative * length))
-    return Result<Eigen3>::failure("geometry too weak: the " + std::to_string(N) + " points are collinear (they spread " +
-                                   format_decimal("%.3g", across) + " m across the line through them), so they define no plane");
+    return Result<Eigen3>::failure("geometry too weak: the " + std::to_string(N) +
+                                   " points are collinear (they spread " + format_decimal("%.3g", across) +
+                                   " m across the line through them), so they define no plane");
   return eig;
 }
 
@@ -196,8 +195,8 @@ double normal_sd(const FitPoint& p, const Vec3& normal) {
 
 // Weighted total least squares: w = 1/sigma_n^2 depends on the normal, so
 // refit until the normal settles (a few iterations in practice).
-Vec3 iterate_weights(const std::vector<FitPoint>& pts, const std::vector<Vec3>& P, std::vector<double>& w,
-                     Eigen3& eig, Vec3& c) {
+Vec3 iterate_weights(const std::vector<FitPoint>& pts, const std::vector<Vec3>& P, std::vector<double>& w, Eigen3& eig,
+                     Vec3& c) {
   Vec3 normal = upward(eig.vectors.col(2));
   for (int it = 0; it < 50; ++it) {
     for (size_t i = 0; i < pts.size(); ++i) w[i] = 1.0 / std::pow(normal_sd(pts[i], normal), 2);
@@ -381,20 +380,22 @@ void judge_quality(PlaneFit& f, const std::vector<FitPoint>& pts, const Eigen3& 
   const double spread2 = f.spread(1);
   if (f.cone_source == ConeSource::None) {
     if (spread2 < kMinShapeRatio * f.spread(0))
-      weak("points nearly collinear",
-           "The points spread only " + format_decimal("%.3g", spread2) + " m across the line they follow, under 5% of "
-           "their length; without accuracies the fit cannot say how much that matters.");
+      weak("points nearly collinear", "The points spread only " + format_decimal("%.3g", spread2) +
+                                          " m across the line they follow, under 5% of "
+                                          "their length; without accuracies the fit cannot say how much that matters.");
   } else {
     const Vec3 e2 = eig.vectors.col(1);
     double m2 = 0;
     for (const auto& p : pts) m2 += std::pow(precision_along(p, e2), 2);
-    const double across_prec = f.cone_source == ConeSource::Accuracies ? std::sqrt(m2 / static_cast<double>(N))
-                                                                        : *f.sigma_normal;
+    const double across_prec =
+        f.cone_source == ConeSource::Accuracies ? std::sqrt(m2 / static_cast<double>(N)) : *f.sigma_normal;
     if (spread2 < kSpreadOverPrecision * across_prec)
-      caveat("points nearly collinear",
-             "The points spread only " + format_decimal("%.3g", spread2) + " m (1-sigma) across the line they follow, less "
-             "than 3 times their precision in that direction (" + format_decimal("%.3g", across_prec) + " m); the cone shows "
-             "what that leaves uncertain.");
+      caveat("points nearly collinear", "The points spread only " + format_decimal("%.3g", spread2) +
+                                            " m (1-sigma) across the line they follow, less "
+                                            "than 3 times their precision in that direction (" +
+                                            format_decimal("%.3g", across_prec) +
+                                            " m); the cone shows "
+                                            "what that leaves uncertain.");
   }
   // Fernández's shape figures describe the cloud; on a long, thin contact trace
   // they fail even where the cone shows a well-determined pole, so they are
@@ -404,7 +405,8 @@ void judge_quality(PlaneFit& f, const std::vector<FitPoint>& pts, const Eigen3& 
            "Fernández M = " + format_decimal("%.2f", *f.M) + " is below 4: the points hardly stand out from a blob.");
   if (f.K && *f.K > kMaxK)
     caveat("points closer to a line than a plane (K > 0.8)",
-           "Fernández K = " + format_decimal("%.2f", *f.K) + " is above 0.8: the points are closer to a line than a plane.");
+           "Fernández K = " + format_decimal("%.2f", *f.K) +
+               " is above 0.8: the points are closer to a line than a plane.");
   if (f.cone95 && *f.cone95 > kMaxCone) {
     const bool collinear = !caveats.empty() && caveats.front() == "points nearly collinear";
     if (collinear) caveats.erase(caveats.begin());
@@ -414,8 +416,9 @@ void judge_quality(PlaneFit& f, const std::vector<FitPoint>& pts, const Eigen3& 
   if (f.misfit_ratio && *f.misfit_ratio > kMaxMisfitRatio) {
     f.not_planar = true;
     brief.push_back("residuals " + format_decimal("%.1f", *f.misfit_ratio) + " times the stated accuracy");
-    full.push_back("The residuals are about " + format_decimal("%.1f", *f.misfit_ratio) +
-                   " times the points' stated accuracy: they may not lie on one plane, or the accuracies are optimistic.");
+    full.push_back(
+        "The residuals are about " + format_decimal("%.1f", *f.misfit_ratio) +
+        " times the points' stated accuracy: they may not lie on one plane, or the accuracies are optimistic.");
   } else if (f.misfit_ratio && f.variance_factor > 1.0) {
     full.push_back("The residuals are " + format_decimal("%.1f", *f.misfit_ratio) +
                    " times the points' stated accuracy; the cone is widened to match.");

@@ -68,10 +68,10 @@ struct PlaneDraw {
 };
 
 struct PlaneFit {
-  Plane plane;      // strike (RHR) / dip
-  Vec3 normal;      // unit normal, z >= 0
-  Vec3 centroid;    // (weighted) centroid, metres: the plane passes through it
-  size_t count = 0;  // number of points
+  Plane plane;            // strike (RHR) / dip
+  Vec3 normal;            // unit normal, z >= 0
+  Vec3 centroid;          // (weighted) centroid, metres: the plane passes through it
+  size_t count = 0;       // number of points
   bool weighted = false;  // true when the points' accuracies weighted the fit
 
   // Eigenvalues of the (weighted) scatter matrix normalised to sum 1, l1 >= l2 >= l3.
@@ -114,9 +114,9 @@ struct PlaneFit {
   // residuals match the stated accuracies.
   std::optional<double> misfit_ratio;
 
-  bool weak_geometry = false;  // a wide cone (or nearly collinear points without any precision)
-  bool not_planar = false;     // residuals well above the stated accuracies
-  std::string verdict;         // "well constrained", "weak: points nearly collinear", ...
+  bool weak_geometry = false;           // a wide cone (or nearly collinear points without any precision)
+  bool not_planar = false;              // residuals well above the stated accuracies
+  std::string verdict;                  // "well constrained", "weak: points nearly collinear", ...
   std::optional<std::string> weakness;  // the reasons in full, with numbers
 
   // Monte Carlo realisations at the precision used, before the small-sample

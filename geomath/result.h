@@ -10,7 +10,7 @@ namespace cairn {
 
 template <class T>
 class Result {
-public:
+ public:
   Result(T value) : value_(std::move(value)) {}  // NOLINT: implicit by design
   static Result failure(std::string why) {
     Result r;
@@ -31,7 +31,7 @@ public:
   const T* operator->() const { return &value(); }
   const std::string& error() const { return error_; }
 
-private:
+ private:
   Result() = default;
   std::optional<T> value_;
   std::string error_;

@@ -27,8 +27,7 @@ Result<std::vector<Vec3>> unit_vectors(const std::vector<Vec3>& v) {
   for (std::size_t i = 0; i < v.size(); ++i) {
     const double len = v[i].norm();
     if (!std::isfinite(len) || len == 0.0) {
-      return Result<std::vector<Vec3>>::failure("vector " + std::to_string(i + 1) + " of " +
-                                                std::to_string(v.size()) +
+      return Result<std::vector<Vec3>>::failure("vector " + std::to_string(i + 1) + " of " + std::to_string(v.size()) +
                                                 " is zero or not a number");
     }
     out.push_back(v[i] / len);
@@ -87,8 +86,7 @@ std::optional<double> fisher_cone_angle(int n, double r, double p) {
 
 Result<FisherMean> fisher_mean_directions(const std::vector<Vec3>& v) {
   if (v.size() < 2) {
-    return Result<FisherMean>::failure("a Fisher mean needs at least 2 directions, got " +
-                                       std::to_string(v.size()));
+    return Result<FisherMean>::failure("a Fisher mean needs at least 2 directions, got " + std::to_string(v.size()));
   }
   auto u = unit_vectors(v);
   if (!u) return Result<FisherMean>::failure(u.error());
@@ -103,8 +101,7 @@ Result<FisherMean> fisher_mean_directions(const std::vector<Vec3>& v) {
 
 Result<FisherMean> fisher_mean(const std::vector<Line>& lines) {
   if (lines.size() < 2) {
-    return Result<FisherMean>::failure("a Fisher mean needs at least 2 lines, got " +
-                                       std::to_string(lines.size()));
+    return Result<FisherMean>::failure("a Fisher mean needs at least 2 lines, got " + std::to_string(lines.size()));
   }
   std::vector<Vec3> u = line_vectors(lines);
   // Axes: put each in the hemisphere of the principal eigenvector (common practice).
@@ -163,12 +160,10 @@ Result<WoodcockShape> woodcock_shape(const OrientationTensor& t) {
 Result<GirdleFit> fit_girdle(const std::vector<Line>& poles, const GirdleOptions& opt) {
   using R = Result<GirdleFit>;
   if (poles.size() < 3) {
-    return R::failure("a best-fit great circle needs at least 3 poles, got " +
-                      std::to_string(poles.size()));
+    return R::failure("a best-fit great circle needs at least 3 poles, got " + std::to_string(poles.size()));
   }
   if (opt.bootstrap_samples < 1) {
-    return R::failure("bootstrap samples must be at least 1, got " +
-                      std::to_string(opt.bootstrap_samples));
+    return R::failure("bootstrap samples must be at least 1, got " + std::to_string(opt.bootstrap_samples));
   }
   if (!(opt.confidence > 0.0 && opt.confidence < 1.0)) {
     std::ostringstream s;
@@ -210,8 +205,7 @@ Result<GirdleFit> fit_girdle(const std::vector<Line>& poles, const GirdleOptions
     angles.push_back(rad2deg(std::atan2(b3.cross(beta).norm() / b3.norm(), c)));
   }
   std::sort(angles.begin(), angles.end());
-  const auto idx = static_cast<std::size_t>(
-      std::ceil(opt.confidence * static_cast<double>(angles.size())) - 1.0);
+  const auto idx = static_cast<std::size_t>(std::ceil(opt.confidence * static_cast<double>(angles.size())) - 1.0);
   fit.beta_cone = angles[std::min(idx, angles.size() - 1)];
   return fit;
 }

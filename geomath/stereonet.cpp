@@ -33,8 +33,10 @@ NetPoint project_down(NetKind kind, const Vec3& v) {
 Vec3 any_perpendicular(const Vec3& a) {
   // Cross with the coordinate axis least aligned with a, for a well-conditioned result.
   Vec3 e = Vec3::UnitX();
-  if (std::abs(a.y()) < std::abs(a.x()) && std::abs(a.y()) <= std::abs(a.z())) e = Vec3::UnitY();
-  else if (std::abs(a.z()) < std::abs(a.x()) && std::abs(a.z()) < std::abs(a.y())) e = Vec3::UnitZ();
+  if (std::abs(a.y()) < std::abs(a.x()) && std::abs(a.y()) <= std::abs(a.z()))
+    e = Vec3::UnitY();
+  else if (std::abs(a.z()) < std::abs(a.x()) && std::abs(a.z()) < std::abs(a.y()))
+    e = Vec3::UnitZ();
   return a.cross(e).normalized();
 }
 
@@ -77,8 +79,7 @@ Result<Vec3> unproject_vector(NetKind kind, const NetPoint& p) {
   const double r = std::hypot(p[0], p[1]);
   if (!(r <= 1.0 + kPrimitiveTolerance)) {
     std::ostringstream s;
-    s << "net point " << format_point(p) << " lies outside the primitive circle (radius " << r
-      << " > 1)";
+    s << "net point " << format_point(p) << " lies outside the primitive circle (radius " << r << " > 1)";
     return Result<Vec3>::failure(s.str());
   }
   NetPoint q = p;
@@ -119,8 +120,7 @@ NetPolyline great_circle(NetKind kind, const Plane& p, int samples) {
   return out;
 }
 
-Result<std::vector<NetPolyline>> small_circle(NetKind kind, const Line& axis,
-                                              double half_angle_deg, int samples) {
+Result<std::vector<NetPolyline>> small_circle(NetKind kind, const Line& axis, double half_angle_deg, int samples) {
   using R = Result<std::vector<NetPolyline>>;
   if (!(half_angle_deg >= 0.0 && half_angle_deg <= 180.0)) {
     std::ostringstream s;
@@ -133,9 +133,7 @@ Result<std::vector<NetPolyline>> small_circle(NetKind kind, const Line& axis,
   const Vec3 a = line_vector(axis);
   const Vec3 u = any_perpendicular(a);
   const Vec3 w = a.cross(u);
-  auto point = [&](double t) -> Vec3 {
-    return ca * a + sa * (std::cos(t) * u + std::sin(t) * w);
-  };
+  auto point = [&](double t) -> Vec3 { return ca * a + sa * (std::cos(t) * u + std::sin(t) * w); };
 
   // Height of the circle point at parameter t: z(t) = A + B cos t + C sin t.
   const double A = ca * a.z(), B = sa * u.z(), C = sa * w.z();
@@ -179,8 +177,7 @@ Result<std::vector<NetPolyline>> small_circle(NetKind kind, const Line& axis,
   return out;
 }
 
-Result<std::vector<NetPolyline>> confidence_cone(NetKind kind, const Line& mean,
-                                                 double alpha95_deg, int samples) {
+Result<std::vector<NetPolyline>> confidence_cone(NetKind kind, const Line& mean, double alpha95_deg, int samples) {
   if (!(alpha95_deg >= 0.0 && alpha95_deg <= 180.0)) {
     std::ostringstream s;
     s << "confidence cone radius " << alpha95_deg << " is outside 0..180 degrees";

@@ -77,14 +77,12 @@ NetPolyline great_circle(NetKind kind, const Plane& p, int samples = kDefaultCir
 // lower-hemisphere net, so the result is either one closed polyline (the cone does
 // not reach the horizontal) or several open polylines that end on the primitive.
 // Fails for a half-angle outside [0, 180] or not a number.
-Result<std::vector<NetPolyline>> small_circle(NetKind kind, const Line& axis,
-                                              double half_angle_deg,
+Result<std::vector<NetPolyline>> small_circle(NetKind kind, const Line& axis, double half_angle_deg,
                                               int samples = kDefaultCircleSamples);
 
 // Confidence cone of radius alpha95_deg (e.g. the Fisher alpha95) around a mean line:
 // the small circle of that half-angle.
-Result<std::vector<NetPolyline>> confidence_cone(NetKind kind, const Line& mean,
-                                                 double alpha95_deg,
+Result<std::vector<NetPolyline>> confidence_cone(NetKind kind, const Line& mean, double alpha95_deg,
                                                  int samples = kDefaultCircleSamples);
 
 }  // namespace cairn::geo

@@ -26,8 +26,7 @@ Result<ElevationEstimate> elevation_at(const PlaneFit& fit, double e, double n) 
   if (!std::isfinite(e) || !std::isfinite(n))
     return Result<ElevationEstimate>::failure("easting or northing is not a finite number");
   if (std::abs(fit.normal.z()) < kVerticalNz)
-    return Result<ElevationEstimate>::failure(
-        "the plane is vertical: its elevation is not a function of map position");
+    return Result<ElevationEstimate>::failure("the plane is vertical: its elevation is not a function of map position");
   ElevationEstimate out;
   out.elevation = plane_z(fit.centroid, fit.normal, e, n);
   // Spread of the Monte Carlo planes' elevations here (draws that came out
@@ -52,8 +51,7 @@ Result<ElevationEstimate> elevation_at(const PlaneFit& fit, double e, double n) 
 }
 
 Result<double> strike_line_azimuth(const Plane& p) {
-  if (horizontal(p))
-    return Result<double>::failure("the plane is horizontal: it has no strike, and no strike lines");
+  if (horizontal(p)) return Result<double>::failure("the plane is horizontal: it has no strike, and no strike lines");
   return wrap360(p.strike);
 }
 
@@ -61,20 +59,18 @@ Result<double> strike_line_spacing(const Plane& p, double interval) {
   if (!std::isfinite(interval) || interval <= 0)
     return Result<double>::failure("the contour interval must be a positive number of metres");
   if (horizontal(p))
-    return Result<double>::failure(
-        "the plane is horizontal: strike lines are undefined and their spacing infinite");
+    return Result<double>::failure("the plane is horizontal: strike lines are undefined and their spacing infinite");
   if (vertical(p)) return 0.0;
   return interval / std::tan(deg2rad(p.dip));
 }
 
-Result<std::vector<ContourSegment>> structure_contours(const Plane& p, const Vec3& through,
-                                                       const MapRect& r, double interval,
-                                                       size_t max_lines) {
+Result<std::vector<ContourSegment>> structure_contours(const Plane& p, const Vec3& through, const MapRect& r,
+                                                       double interval, size_t max_lines) {
   using R = Result<std::vector<ContourSegment>>;
   if (!std::isfinite(interval) || interval <= 0)
     return R::failure("the contour interval must be a positive number of metres");
-  if (!through.allFinite() || !std::isfinite(r.e_min) || !std::isfinite(r.e_max) ||
-      !std::isfinite(r.n_min) || !std::isfinite(r.n_max))
+  if (!through.allFinite() || !std::isfinite(r.e_min) || !std::isfinite(r.e_max) || !std::isfinite(r.n_min) ||
+      !std::isfinite(r.n_max))
     return R::failure("a coordinate is not a finite number");
   if (!(r.e_max > r.e_min) || !(r.n_max > r.n_min))
     return R::failure("the map rectangle is empty (its maximum must exceed its minimum)");
@@ -85,9 +81,7 @@ Result<std::vector<ContourSegment>> structure_contours(const Plane& p, const Vec
   const double dd = deg2rad(p.dip_direction());
   const double dx = std::sin(dd), dy = std::cos(dd);
   const double g = std::tan(deg2rad(p.dip));
-  auto z_at = [&](double e, double n) {
-    return through.z() - g * ((e - through.x()) * dx + (n - through.y()) * dy);
-  };
+  auto z_at = [&](double e, double n) { return through.z() - g * ((e - through.x()) * dx + (n - through.y()) * dy); };
   double zmin = 1e300, zmax = -1e300;
   for (double e : {r.e_min, r.e_max})
     for (double n : {r.n_min, r.n_max}) {
@@ -131,8 +125,8 @@ Result<std::vector<ContourSegment>> structure_contours(const Plane& p, const Vec
   return out;
 }
 
-Result<std::vector<ContourSegment>> structure_contours(const PlaneFit& fit, const MapRect& rect,
-                                                       double interval, size_t max_lines) {
+Result<std::vector<ContourSegment>> structure_contours(const PlaneFit& fit, const MapRect& rect, double interval,
+                                                       size_t max_lines) {
   return structure_contours(fit.plane, fit.centroid, rect, interval, max_lines);
 }
 

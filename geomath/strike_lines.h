@@ -53,11 +53,10 @@ struct ContourSegment {
 // ascending elevation. Fails for a non-positive interval, an empty rectangle,
 // a horizontal or vertical plane (no contours to draw), or when more than
 // `max_lines` contours would be needed.
-Result<std::vector<ContourSegment>> structure_contours(const Plane& p, const Vec3& through,
-                                                       const MapRect& rect, double interval,
-                                                       size_t max_lines = 1000);
-// The same for a fitted plane (through its centroid).
-Result<std::vector<ContourSegment>> structure_contours(const PlaneFit& fit, const MapRect& rect,
+Result<std::vector<ContourSegment>> structure_contours(const Plane& p, const Vec3& through, const MapRect& rect,
                                                        double interval, size_t max_lines = 1000);
+// The same for a fitted plane (through its centroid).
+Result<std::vector<ContourSegment>> structure_contours(const PlaneFit& fit, const MapRect& rect, double interval,
+                                                       size_t max_lines = 1000);
 
 }  // namespace cairn::geo

@@ -153,8 +153,9 @@ ScalarGrid difference_grid(const TerrainGrid& g, const Vec3& point, const Vec3& 
     const double n = g.centre_n(j);
     for (int i = 0; i < g.nx; ++i) {
       const float z = g.at(i, j);
-      d.values[static_cast<std::size_t>(j) * g.nx + i] =
-          std::isnan(z) ? std::numeric_limits<double>::quiet_NaN() : z - plane_elevation(point, normal, g.centre_e(i), n);
+      d.values[static_cast<std::size_t>(j) * g.nx + i] = std::isnan(z)
+                                                             ? std::numeric_limits<double>::quiet_NaN()
+                                                             : z - plane_elevation(point, normal, g.centre_e(i), n);
     }
   }
   return d;
@@ -208,7 +209,7 @@ std::vector<LevelLines> structure_contours(const TerrainGrid& g, const Vec3& poi
   for (double level = std::ceil(lo / interval) * interval; level <= hi; level += interval) {
     // A point on the level line: move from `point` down the dip direction.
     const double grad = std::hypot(hx, hy) / normal.z();  // tan(dip)
-    const double dist = (point.z() - level) / grad;        // horizontal distance along the dip direction
+    const double dist = (point.z() - level) / grad;       // horizontal distance along the dip direction
     const double px = point.x() + hx / std::hypot(hx, hy) * dist, py = point.y() + hy / std::hypot(hx, hy) * dist;
     double t0 = -INFINITY, t1 = INFINITY;
     auto clip = [&](double p, double d, double lo_b, double hi_b) {

@@ -22,11 +22,11 @@
 namespace cairn::geo {
 
 struct TerrainGrid {
-  int nx = 0, ny = 0;        // columns (east), rows (south)
-  double west = 0;           // easting of the grid's west edge, metres
-  double north = 0;          // northing of the grid's north edge, metres
-  double cell = 1;           // square cell size, metres
-  std::vector<float> z;      // ny * nx elevations, row-major from the north; NaN = missing
+  int nx = 0, ny = 0;    // columns (east), rows (south)
+  double west = 0;       // easting of the grid's west edge, metres
+  double north = 0;      // northing of the grid's north edge, metres
+  double cell = 1;       // square cell size, metres
+  std::vector<float> z;  // ny * nx elevations, row-major from the north; NaN = missing
 
   float at(int i, int j) const { return z[static_cast<std::size_t>(j) * nx + i]; }
   bool has(int i, int j) const { return !std::isnan(at(i, j)); }
@@ -36,8 +36,8 @@ struct TerrainGrid {
   double centre_e(int i) const { return west + (i + 0.5) * cell; }
   double centre_n(int j) const { return north - (j + 0.5) * cell; }
   bool valid_shape() const {
-    return nx > 0 && ny > 0 && cell > 0 && std::isfinite(cell) && std::isfinite(west) &&
-           std::isfinite(north) && z.size() == static_cast<std::size_t>(nx) * ny;
+    return nx > 0 && ny > 0 && cell > 0 && std::isfinite(cell) && std::isfinite(west) && std::isfinite(north) &&
+           z.size() == static_cast<std::size_t>(nx) * ny;
   }
 };
 
@@ -159,7 +159,7 @@ std::vector<std::vector<NetPoint>> mask_rectangles(const TerrainGrid& g, const s
 // A fitted contact's predicted outcrop trace and its 95% trace band on the terrain.
 struct ContactPrediction {
   std::vector<NetPolyline> trace;
-  bool has_band = false;  // false when the fit has no Monte Carlo realisations (3 exact points)
+  bool has_band = false;                    // false when the fit has no Monte Carlo realisations (3 exact points)
   std::vector<std::vector<NetPoint>> band;  // mask_rectangles of trace_band_cells
   std::optional<double> mean_half_width;    // mean of trace_band_half_width over the trace's vertices, metres
   PlaneUncertainty uncertainty;

@@ -9,14 +9,14 @@
 namespace cairn::geo {
 
 struct TrackFix {
-  double t = 0;  // seconds (any fixed origin)
+  double t = 0;             // seconds (any fixed origin)
   double lat = 0, lon = 0;  // WGS84 degrees
 };
 
 struct TrackRule {
-  double min_interval_s = 5;    // never two kept fixes closer in time
-  double min_distance_m = 10;   // kept when this far from the last kept fix (geodesic, WGS84) ...
-  double max_silence_s = 300;   // ... or when the last kept fix is this old (standing still)
+  double min_interval_s = 5;   // never two kept fixes closer in time
+  double min_distance_m = 10;  // kept when this far from the last kept fix (geodesic, WGS84) ...
+  double max_silence_s = 300;  // ... or when the last kept fix is this old (standing still)
 };
 
 // Whether FIX is kept after LAST, the last fix kept (nothing: FIX is the first).

@@ -4,9 +4,11 @@ set -euo pipefail
 here=$(cd "$(dirname "$0")/.." && pwd)
 bash "$here/scripts/install-deps.sh" --test
 # CI (CI=true) also fails on any compiler warning.
+# CI also fails on a source file that is not formatted as .clang-format asks.
 werror=OFF
 if [ "${CI:-}" = "true" ]; then
   werror=ON
+  bash "$here/scripts/format.sh" --check
 fi
 # ccache (installed with the test dependencies) makes a second run cheap.
 launcher=()

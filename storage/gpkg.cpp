@@ -98,8 +98,8 @@ std::string gpkg_point(int32_t srs_id, double x, double y) {
   put_u8(b, (1u << 1) | 1u);
   put_le32(b, static_cast<uint32_t>(srs_id));
   for (double v : {x, x, y, y}) put_le_double(b, v);
-  put_u8(b, 1);      // WKB byte order: little-endian (NDR)
-  put_le32(b, 1);    // wkbPoint
+  put_u8(b, 1);    // WKB byte order: little-endian (NDR)
+  put_le32(b, 1);  // wkbPoint
   put_le_double(b, x);
   put_le_double(b, y);
   return b;
@@ -141,7 +141,7 @@ std::string gpkg_multi(int32_t srs_id, bool polygons, const Parts& parts, double
 // A prepared statement of the raw SQLite API, for binding BLOBs (the storage
 // Stmt binds text and numbers only).
 class RawStmt {
-public:
+ public:
   RawStmt(Db& db, const std::string& sql) : db_(db) {
     if (sqlite3_prepare_v2(db.handle(), sql.c_str(), -1, &st_, nullptr) != SQLITE_OK)
       throw SqlError(db.errmsg(), sqlite3_extended_errcode(db.handle()));
@@ -151,11 +151,16 @@ public:
   RawStmt& operator=(const RawStmt&) = delete;
   void bind(int i, const FieldValue& v) {
     int rc = SQLITE_OK;
-    if (std::holds_alternative<std::monostate>(v)) rc = sqlite3_bind_null(st_, i);
-    else if (auto s = std::get_if<std::string>(&v)) rc = sqlite3_bind_text(st_, i, s->data(), static_cast<int>(s->size()), SQLITE_TRANSIENT);
-    else if (auto d = std::get_if<double>(&v)) rc = std::isfinite(*d) ? sqlite3_bind_double(st_, i, *d) : sqlite3_bind_null(st_, i);
-    else if (auto n = std::get_if<int64_t>(&v)) rc = sqlite3_bind_int64(st_, i, *n);
-    else if (auto t = std::get_if<bool>(&v)) rc = sqlite3_bind_int(st_, i, *t ? 1 : 0);  // BOOLEAN: 0 or 1 (clause 1.1.1.1.3)
+    if (std::holds_alternative<std::monostate>(v))
+      rc = sqlite3_bind_null(st_, i);
+    else if (auto s = std::get_if<std::string>(&v))
+      rc = sqlite3_bind_text(st_, i, s->data(), static_cast<int>(s->size()), SQLITE_TRANSIENT);
+    else if (auto d = std::get_if<double>(&v))
+      rc = std::isfinite(*d) ? sqlite3_bind_double(st_, i, *d) : sqlite3_bind_null(st_, i);
+    else if (auto n = std::get_if<int64_t>(&v))
+      rc = sqlite3_bind_int64(st_, i, *n);
+    else if (auto t = std::get_if<bool>(&v))
+      rc = sqlite3_bind_int(st_, i, *t ? 1 : 0);  // BOOLEAN: 0 or 1 (clause 1.1.1.1.3)
     check(rc);
   }
   void bind_blob(int i, const std::string& b) {
@@ -169,7 +174,7 @@ public:
     sqlite3_clear_bindings(st_);
   }
 
-private:
+ private:
   void check(int rc) {
     if (rc != SQLITE_OK && rc != SQLITE_DONE) throw SqlError(db_.errmsg(), rc);
   }
@@ -202,8 +207,9 @@ void write_geopackage(const std::string& path, const LayerSet& set, int epsg) {
   {
     // Requirement 11: the rows for EPSG:4326 and the undefined Cartesian (-1) and
     // geographic (0) systems; then the layers' own UTM zone.
-    Stmt s(db, "INSERT INTO gpkg_spatial_ref_sys(srs_name, srs_id, organization, organization_coordsys_id, "
-               "definition, description) VALUES (?,?,?,?,?,?)");
+    Stmt s(db,
+           "INSERT INTO gpkg_spatial_ref_sys(srs_name, srs_id, organization, organization_coordsys_id, "
+           "definition, description) VALUES (?,?,?,?,?,?)");
     auto row = [&](const std::string& name, int id, const std::string& org, int org_id, const std::string& def,
                    const std::string& desc) {
       s.bind(1, name).bind(2, id).bind(3, org).bind(4, org_id).bind(5, def).bind(6, desc);
@@ -212,7 +218,8 @@ void write_geopackage(const std::string& path, const LayerSet& set, int epsg) {
     };
     row("Undefined cartesian SRS", -1, "NONE", -1, "undefined", "undefined cartesian coordinate reference system");
     row("Undefined geographic SRS", 0, "NONE", 0, "undefined", "undefined geographic coordinate reference system");
-    row("WGS 84 geodetic", 4326, "EPSG", 4326, kWgs84Wkt, "longitude/latitude coordinates in decimal degrees on the WGS 84 spheroid");
+    row("WGS 84 geodetic", 4326, "EPSG", 4326, kWgs84Wkt,
+        "longitude/latitude coordinates in decimal degrees on the WGS 84 spheroid");
     const std::string zone_name = "WGS 84 / UTM zone " + std::to_string(set.zone.zone) + (set.zone.northp ? "N" : "S");
     row(zone_name, epsg, "EPSG", epsg, utm_wkt(set.zone), "the project's working UTM zone");
   }
@@ -222,8 +229,8 @@ void write_geopackage(const std::string& path, const LayerSet& set, int epsg) {
   for (const Layer& l : set.layers) {
     // Requirement 29: an INTEGER PRIMARY KEY AUTOINCREMENT column; clause 2.1.6:
     // the geometry column declared with its geometry type name.
-    std::string ddl = "CREATE TABLE " + quoted(l.name) + " (fid INTEGER PRIMARY KEY AUTOINCREMENT NOT NULL, geom " +
-                      l.geometry;
+    std::string ddl =
+        "CREATE TABLE " + quoted(l.name) + " (fid INTEGER PRIMARY KEY AUTOINCREMENT NOT NULL, geom " + l.geometry;
     std::string cols = "geom", marks = "?";
     for (const auto& f : l.fields) {
       ddl += ", " + quoted(f.name) + " " + sql_type(f.type);
@@ -253,15 +260,19 @@ void write_geopackage(const std::string& path, const LayerSet& set, int epsg) {
       for (size_t i = 0; i < f.values.size(); ++i) ins.bind(static_cast<int>(i) + 2, f.values[i]);
       ins.run();
     }
-    Stmt c(db, "INSERT INTO gpkg_contents(table_name, data_type, identifier, description, last_change, min_x, min_y, "
-               "max_x, max_y, srs_id) VALUES (?, 'features', ?, ?, ?, ?, ?, ?, ?, ?)");
+    Stmt c(db,
+           "INSERT INTO gpkg_contents(table_name, data_type, identifier, description, last_change, min_x, min_y, "
+           "max_x, max_y, srs_id) VALUES (?, 'features', ?, ?, ?, ?, ?, ?, ?, ?)");
     c.bind(1, l.name).bind(2, l.title).bind(3, l.description).bind(4, now);
-    if (std::isfinite(min_x)) c.bind(5, min_x).bind(6, min_y).bind(7, max_x).bind(8, max_y);
-    else c.bind(5, nullptr).bind(6, nullptr).bind(7, nullptr).bind(8, nullptr);
+    if (std::isfinite(min_x))
+      c.bind(5, min_x).bind(6, min_y).bind(7, max_x).bind(8, max_y);
+    else
+      c.bind(5, nullptr).bind(6, nullptr).bind(7, nullptr).bind(8, nullptr);
     c.bind(9, epsg);
     c.run();
-    Stmt g(db, "INSERT INTO gpkg_geometry_columns(table_name, column_name, geometry_type_name, srs_id, z, m) "
-               "VALUES (?, 'geom', ?, ?, 0, 0)");
+    Stmt g(db,
+           "INSERT INTO gpkg_geometry_columns(table_name, column_name, geometry_type_name, srs_id, z, m) "
+           "VALUES (?, 'geom', ?, ?, 0, 0)");
     g.bind(1, l.name).bind(2, l.geometry).bind(3, epsg);
     g.run();
   }

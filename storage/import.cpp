@@ -46,15 +46,14 @@ const std::map<ImportKind, std::vector<std::string>>& columns() {
 std::vector<std::string> list_columns(ImportKind k) {
   switch (k) {
     case ImportKind::Stations:
-      return {"station", "lat", "lon", "elevation", "h_accuracy", "v_accuracy", "source", "unit", "observer", "time",
-              "notes"};
+      return {"station", "lat",  "lon",      "elevation", "h_accuracy", "v_accuracy",
+              "source",  "unit", "observer", "time",      "notes"};
     case ImportKind::Planes:
-      return {"station", "kind", "strike", "dip", "north", "declination", "contact", "quality", "facing", "ref",
-              "time", "notes"};
+      return {"station", "kind",    "strike", "dip", "north", "declination",
+              "contact", "quality", "facing", "ref", "time",  "notes"};
     case ImportKind::Points:
       return {"contact", "lat", "lon", "elevation", "h_accuracy", "v_accuracy", "source", "time", "notes"};
-    default:
-      return columns().at(k);
+    default: return columns().at(k);
   }
 }
 
@@ -76,7 +75,7 @@ int header_line(std::string_view text) {
 
 // One CSV row with its location, collecting errors.
 class Row {
-public:
+ public:
   Row(const CsvTable& t, size_t r, const std::string& file, std::vector<std::string>& errors)
       : t_(t), r_(r), file_(file), errors_(errors), start_(errors.size()) {}
 
@@ -170,7 +169,7 @@ public:
     return sha256_hex(s + "\n#" + std::to_string(occurrence));
   }
 
-private:
+ private:
   const CsvTable& t_;
   size_t r_;
   const std::string& file_;
@@ -213,8 +212,8 @@ void check_header(const CsvTable& t, ImportKind k, const std::string& file, int 
   const auto& allowed = columns().at(k);
   auto at = [&](const std::string& c, const std::string& rule, const std::string& msg) {
     const int i = t.column(c);
-    errors.push_back(file + ":" + std::to_string(hline) + ":" + std::to_string(i < 0 ? 1 : i + 1) + ": " + rule +
-                     ": " + msg);
+    errors.push_back(file + ":" + std::to_string(hline) + ":" + std::to_string(i < 0 ? 1 : i + 1) + ": " + rule + ": " +
+                     msg);
   };
   std::string list;
   for (const auto& a : allowed) list += (list.empty() ? "" : ", ") + a;
@@ -226,19 +225,14 @@ void check_header(const CsvTable& t, ImportKind k, const std::string& file, int 
   };
   auto has = [&](const std::string& c) { return t.column(c) >= 0; };
   switch (k) {
-    case ImportKind::Units:
-      need("unit"), need("name"), need("age_rank");
-      break;
-    case ImportKind::Contacts:
-      need("contact"), need("lower_unit"), need("upper_unit"), need("type");
-      break;
+    case ImportKind::Units: need("unit"), need("name"), need("age_rank"); break;
+    case ImportKind::Contacts: need("contact"), need("lower_unit"), need("upper_unit"), need("type"); break;
     case ImportKind::Stations:
     case ImportKind::Points: {
       need(k == ImportKind::Stations ? "station" : "contact");
       const bool ll = has("lat") || has("lon"), en = has("easting") || has("northing");
       if (ll && en) {
-        at(has("easting") ? "easting" : "northing", "columns",
-           "give lat and lon, or easting and northing, not both");
+        at(has("easting") ? "easting" : "northing", "columns", "give lat and lon, or easting and northing, not both");
       } else if (en) {
         need("easting"), need("northing");
         pos.utm = true;
@@ -262,7 +256,8 @@ void check_header(const CsvTable& t, ImportKind k, const std::string& file, int 
         at(has("attitude") ? "attitude" : "dip_direction", "columns",
            "give strike and dip, dip_direction and dip, or attitude: only one of them");
       } else if (n == 0) {
-        at("strike", "missing-column", "the attitude is missing: give strike and dip, dip_direction and dip, or attitude");
+        at("strike", "missing-column",
+           "the attitude is missing: give strike and dip, dip_direction and dip, or attitude");
       } else if (has("attitude")) {
         if (has("dip")) at("dip", "columns", "attitude holds the dip already; leave out the dip column");
       } else {
@@ -390,8 +385,8 @@ void check_structure(Context& cx, Row& row, const std::string& kind) {
 bool first_in_file(Context& cx, Row& row, const std::string& column, const std::string& key, const std::string& what) {
   auto [it, inserted] = cx.first_line.emplace(key, row.line());
   if (!inserted)
-    row.error(column, "duplicate", what + " '" + key + "' appears twice in this file (first on line " +
-                                       std::to_string(it->second) + ")");
+    row.error(column, "duplicate",
+              what + " '" + key + "' appears twice in this file (first on line " + std::to_string(it->second) + ")");
   return inserted;
 }
 
@@ -401,8 +396,10 @@ void unit_row(Context& cx, Row& row) {
   u.name = row.required("name");
   const std::string rank = row.required("age_rank");
   if (!rank.empty()) {
-    if (auto b = check_integer_text(rank, "age_rank", &u.age_rank)) row.error("age_rank", *b);
-    else if (auto r = check_age_rank(u.age_rank)) row.error("age_rank", *r);
+    if (auto b = check_integer_text(rank, "age_rank", &u.age_rank))
+      row.error("age_rank", *b);
+    else if (auto r = check_age_rank(u.age_rank))
+      row.error("age_rank", *r);
   }
   u.colour = row.get("colour");
   if (!u.colour.empty())
@@ -461,8 +458,10 @@ void station_row(Context& cx, Row& row) {
     s.source = *src;
   const std::string unit = row.get("unit");
   if (!unit.empty()) {
-    if (auto u = find_unit(cx.p, unit)) s.unit = u->meta.uuid;
-    else row.error("unit", "unknown-unit", not_in_list(PickList::Unit, unit, cx.list(PickList::Unit)));
+    if (auto u = find_unit(cx.p, unit))
+      s.unit = u->meta.uuid;
+    else
+      row.error("unit", "unknown-unit", not_in_list(PickList::Unit, unit, cx.list(PickList::Unit)));
   }
   s.time = row.time();
   s.notes = row.get("notes");
@@ -470,7 +469,8 @@ void station_row(Context& cx, Row& row) {
   // A project with a person list takes only its people; the first import into a
   // project without one makes its people from the observers' initials.
   const std::string initials = row.get("observer");
-  if (!initials.empty() && !find_person(cx.p, initials) && !cx.list(PickList::Person).empty() && cx.added_people.count(initials) == 0)
+  if (!initials.empty() && !find_person(cx.p, initials) && !cx.list(PickList::Person).empty() &&
+      cx.added_people.count(initials) == 0)
     row.error("observer", "pick-list", not_in_list(PickList::Person, initials, cx.list(PickList::Person)));
   if (row.bad()) return;
   if (!initials.empty()) {
@@ -501,7 +501,8 @@ void north_columns(Context& cx, Row& row, North& north, double& decl, std::strin
   if (auto n = row.choice("north", parse_north, names_of_north(), std::optional<North>(cx.north_default))) north = *n;
   if (auto d = row.number("declination", "declination")) {
     if (std::abs(*d) > 180) {
-      row.error("declination", "declination-range", "declination " + format_number(*d) + " is outside -180..180 degrees");
+      row.error("declination", "declination-range",
+                "declination " + format_number(*d) + " is outside -180..180 degrees");
     } else if (north == North::True && *d != 0) {
       row.error("declination", "declination", "a declination applies only to readings against magnetic north");
     } else if (north == North::Magnetic) {
@@ -538,15 +539,20 @@ void plane_row(Context& cx, Row& row) {
   north_columns(cx, row, r.north, r.declination, r.declination_source);
   const std::string contact = row.get("contact");
   if (!contact.empty()) {
-    if (auto c = find_contact(cx.p, contact)) r.contact = c->meta.uuid;
-    else row.error("contact", "unknown-contact", "no contact '" + contact + "' in the project");
+    if (auto c = find_contact(cx.p, contact))
+      r.contact = c->meta.uuid;
+    else
+      row.error("contact", "unknown-contact", "no contact '" + contact + "' in the project");
   }
   const std::string q = row.get("quality");
   if (!q.empty()) {
     int v = 0;
-    if (auto b = check_integer_text(q, "quality", &v)) row.error("quality", *b);
-    else if (auto rq = check_quality(v)) row.error("quality", *rq);
-    else r.quality = v;
+    if (auto b = check_integer_text(q, "quality", &v))
+      row.error("quality", *b);
+    else if (auto rq = check_quality(v))
+      row.error("quality", *rq);
+    else
+      r.quality = v;
   }
   if (auto f = row.choice("facing", parse_facing, names_of_facing(), std::optional<Facing>(Facing::Unknown)))
     r.facing = *f;
@@ -557,8 +563,10 @@ void plane_row(Context& cx, Row& row) {
   // (a mapper's repeated measurement, combined into a Fisher mean by the check).
   const std::string repeat = row.get("repeat_of");
   if (!repeat.empty() && st) {
-    if (auto first = find_plane_by_ref(cx.p, st->meta.uuid, repeat)) r.repeat_of = first->meta.uuid;
-    else row.error("repeat_of", "unknown-reading", "station " + st->code + " has no planar reading '" + repeat + "'");
+    if (auto first = find_plane_by_ref(cx.p, st->meta.uuid, repeat))
+      r.repeat_of = first->meta.uuid;
+    else
+      row.error("repeat_of", "unknown-reading", "station " + st->code + " has no planar reading '" + repeat + "'");
   }
   if (row.bad() || !st) return;
   const std::string key = row.digest(ImportKind::Planes, cx.digests);
@@ -595,7 +603,8 @@ void line_row(Context& cx, Row& row) {
   const std::string plane_ref = row.get("plane_ref");
   if (by_rake && plane_ref.empty()) row.error("plane_ref", "required", "plane_ref is empty (a rake needs its plane)");
   if (st && !plane_ref.empty()) {
-    if (auto host = find_plane_by_ref(cx.p, st->meta.uuid, plane_ref)) r.host_plane = host->meta.uuid;
+    if (auto host = find_plane_by_ref(cx.p, st->meta.uuid, plane_ref))
+      r.host_plane = host->meta.uuid;
     else
       row.error("plane_ref", "unknown-plane-ref",
                 "station " + st->code + " has no planar reading with ref '" + plane_ref + "'");
@@ -746,8 +755,9 @@ ImportReport import_gpx(Project& p, std::string_view text, const std::string& fi
         }
         auto [it, inserted] = first_line.emplace(s.code, w.line);
         if (!inserted) {
-          error("", "duplicate", "station '" + s.code + "' appears twice in this file (first on line " +
-                                     std::to_string(it->second) + ")");
+          error(
+              "", "duplicate",
+              "station '" + s.code + "' appears twice in this file (first on line " + std::to_string(it->second) + ")");
           continue;
         }
         s.lat = w.lat;
@@ -798,8 +808,7 @@ std::string list_csv(Project& p, ImportKind kind) {
   auto decl = [](North n, double d) { return n == North::Magnetic ? format_number(d) : std::string(); };
   switch (kind) {
     case ImportKind::Units:
-      for (const auto& u : list_units(p))
-        out += csv_record({u.code, u.name, std::to_string(u.age_rank), u.colour});
+      for (const auto& u : list_units(p)) out += csv_record({u.code, u.name, std::to_string(u.age_rank), u.colour});
       break;
     case ImportKind::Contacts:
       for (const auto& c : list_contacts(p))
@@ -808,16 +817,15 @@ std::string list_csv(Project& p, ImportKind kind) {
     case ImportKind::Stations:
       for (const auto& s : list_stations(p))
         out += csv_record({s.code, format_number(s.lat), format_number(s.lon), opt(s.elevation), opt(s.h_accuracy),
-                           opt(s.v_accuracy), std::string(to_string(s.source)), unit_code[s.unit],
-                           initials[s.observer], s.time, s.notes});
+                           opt(s.v_accuracy), std::string(to_string(s.source)), unit_code[s.unit], initials[s.observer],
+                           s.time, s.notes});
       break;
     case ImportKind::Planes:
       for (const auto& r : list_planes(p))
         out += csv_record({station_code[r.station], std::string(to_string(r.kind)), format_number(r.measured_strike),
-                           format_number(r.measured_dip), std::string(to_string(r.north)),
-                           decl(r.north, r.declination), contact_name[r.contact],
-                           r.quality ? std::to_string(*r.quality) : "", std::string(to_string(r.facing)), r.ref,
-                           r.time, r.notes});
+                           format_number(r.measured_dip), std::string(to_string(r.north)), decl(r.north, r.declination),
+                           contact_name[r.contact], r.quality ? std::to_string(*r.quality) : "",
+                           std::string(to_string(r.facing)), r.ref, r.time, r.notes});
       break;
     case ImportKind::Lines: {
       for (const auto& pl : list_planes(p, all)) plane_ref[pl.meta.uuid] = pl.ref;
@@ -825,16 +833,16 @@ std::string list_csv(Project& p, ImportKind kind) {
         const bool rake = r.rake.has_value();
         out += csv_record({station_code[r.station], std::string(to_string(r.kind)),
                            rake ? "" : format_number(r.measured_trend), rake ? "" : format_number(r.measured_plunge),
-                           rake ? format_number(*r.rake) : "", plane_ref[r.host_plane],
-                           std::string(to_string(r.north)), decl(r.north, r.declination), r.ref, r.time, r.notes});
+                           rake ? format_number(*r.rake) : "", plane_ref[r.host_plane], std::string(to_string(r.north)),
+                           decl(r.north, r.declination), r.ref, r.time, r.notes});
       }
       break;
     }
     case ImportKind::Points:
       for (const auto& pt : list_points(p))
-        out += csv_record({contact_name[pt.contact], format_number(pt.lat), format_number(pt.lon), opt(pt.elevation),
-                           opt(pt.h_accuracy), opt(pt.v_accuracy), std::string(to_string(pt.source)), pt.time,
-                           pt.notes});
+        out +=
+            csv_record({contact_name[pt.contact], format_number(pt.lat), format_number(pt.lon), opt(pt.elevation),
+                        opt(pt.h_accuracy), opt(pt.v_accuracy), std::string(to_string(pt.source)), pt.time, pt.notes});
       break;
   }
   return out;

@@ -32,8 +32,8 @@ std::string_view to_string(ImportKind k);
 const std::vector<std::string>& import_columns(ImportKind k);
 
 struct ImportReport {
-  int added = 0;    // records written (0 when there were errors)
-  int skipped = 0;  // rows already in the project
+  int added = 0;         // records written (0 when there were errors)
+  int skipped = 0;       // rows already in the project
   int from_terrain = 0;  // stations and points given an elevation from the project's terrain
   std::vector<std::string> errors;
   bool ok() const { return errors.empty(); }

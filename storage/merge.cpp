@@ -157,7 +157,7 @@ struct KeySpec {
   const char* scope;  // nullptr: unique in the whole table
 };
 const KeySpec kKeys[] = {{"people", "initials", nullptr}, {"units", "code", nullptr},   {"contacts", "name", nullptr},
-                         {"stations", "code", nullptr},    {"planes", "ref", "station"}, {"lines", "ref", "station"}};
+                         {"stations", "code", nullptr},   {"planes", "ref", "station"}, {"lines", "ref", "station"}};
 
 Table table_info(Db& db, const std::string& name) {
   Table t;
@@ -221,7 +221,7 @@ std::string conflict_id(const std::string& table, const std::string& record, con
 // Parent versions of each version of one record, from the audit rows (each
 // holds the row before and after one write).
 class Lineage {
-public:
+ public:
   Lineage(Db& db, const std::string& record) {
     Stmt s(db,
            "SELECT json_extract(new_values, '$.updated'), json_extract(new_values, '$.device'), "
@@ -246,7 +246,7 @@ public:
     return false;
   }
 
-private:
+ private:
   std::multimap<Stamp, Stamp> parents_;
 };
 
@@ -255,9 +255,9 @@ private:
 const char* const kRecordOrder[] = {"people", "units", "contacts", "stations", "planes", "lines", "points", "photos"};
 
 // Tables of Cairn's own schema that merge reads or leaves alone.
-const std::set<std::string> kOwnTables = {"project",         "devices",     "audit",  "merges",   "conflicts",
-                                          "conflict_values", "key_clashes", "people", "units",    "contacts",
-                                          "stations",        "planes",      "lines",  "points",   "photos",
+const std::set<std::string> kOwnTables = {"project", "devices", "audit", "merges", "conflicts", "conflict_values",
+                                          "key_clashes", "people", "units", "contacts", "stations", "planes", "lines",
+                                          "points", "photos",
                                           // the terrain merges on its own rules (storage/terrain.h); the
                                           // pick-lists and day track stay with their camp (storage/SCHEMA.md)
                                           "terrain", "terrain_tiles", "pick_lists", "track_points"};
@@ -401,13 +401,12 @@ struct Ref {
   const char* column;
   const char* parent;
 };
-const Ref kRefs[] = {{"contacts", "lower_unit", "units"}, {"contacts", "upper_unit", "units"},
-                     {"stations", "unit", "units"},       {"stations", "observer", "people"},
-                     {"planes", "station", "stations"},   {"planes", "contact", "contacts"},
-                     {"planes", "observer", "people"},    {"lines", "station", "stations"},
-                     {"lines", "host_plane", "planes"},   {"lines", "observer", "people"},
-                     {"points", "contact", "contacts"},   {"points", "observer", "people"},
-                     {"photos", "station", "stations"}};
+const Ref kRefs[] = {
+    {"contacts", "lower_unit", "units"}, {"contacts", "upper_unit", "units"}, {"stations", "unit", "units"},
+    {"stations", "observer", "people"},  {"planes", "station", "stations"},   {"planes", "contact", "contacts"},
+    {"planes", "observer", "people"},    {"lines", "station", "stations"},    {"lines", "host_plane", "planes"},
+    {"lines", "observer", "people"},     {"points", "contact", "contacts"},   {"points", "observer", "people"},
+    {"photos", "station", "stations"}};
 
 // ---- every source record passes the rules of the record API ------------------------
 
@@ -503,7 +502,7 @@ struct Candidate {
 enum class Outcome { Added, Updated, Skipped, Conflict };
 
 class Merger {
-public:
+ public:
   Merger(Project& target, const MergeOptions& o, MergeReport& rep) : p_(target), db_(target.db()), o_(o), rep_(rep) {
     for (const char* t : kRecordOrder) tables_.emplace(t, table_info(db_, t));
     tables_.emplace("devices", table_info(db_, "devices"));
@@ -529,7 +528,8 @@ public:
     pr.sources = count;
     pr.total = static_cast<size_t>(src.db().query_int("SELECT count(*) FROM audit") +
                                    src.db().query_int("SELECT count(*) FROM devices"));
-    for (const char* t : kRecordOrder) pr.total += static_cast<size_t>(src.db().query_int(std::string("SELECT count(*) FROM ") + t));
+    for (const char* t : kRecordOrder)
+      pr.total += static_cast<size_t>(src.db().query_int(std::string("SELECT count(*) FROM ") + t));
     auto tick = [&](const std::string& table) {
       ++pr.done;
       pr.table = table;
@@ -600,9 +600,14 @@ public:
     const bool changed = writes_ > writes_before;
     if (changed) {
       rep_.changed = true;
-      Stmt m(db_, "INSERT INTO merges(uuid, peer_file_uuid, peer_name, peer_path, merged_at, device, added, skipped, "
-                  "conflicts) VALUES (?,?,?,?,?,?,?,?,?)");
-      m.bind(1, new_uuid()).bind(2, sm.file_uuid).bind(3, sm.name).bind(4, relative_peer_path(p_.path(), path)).bind(5, utc_now());
+      Stmt m(db_,
+             "INSERT INTO merges(uuid, peer_file_uuid, peer_name, peer_path, merged_at, device, added, skipped, "
+             "conflicts) VALUES (?,?,?,?,?,?,?,?,?)");
+      m.bind(1, new_uuid())
+          .bind(2, sm.file_uuid)
+          .bind(3, sm.name)
+          .bind(4, relative_peer_path(p_.path(), path))
+          .bind(5, utc_now());
       m.bind(6, p_.device()).bind(7, sm.counts.added + sm.counts.updated).bind(8, sm.counts.skipped);
       m.bind(9, sm.counts.conflicts);
       m.run();
@@ -630,7 +635,7 @@ public:
     while (p.step()) rep_.person_names[p.text(0)] = p.text(1) + " (" + p.text(2) + ")";
   }
 
-private:
+ private:
   // Tables a module keeps beside the records (kSideTables: flag reviews, day
   // sign-offs): rows with the record columns but no audit trail, written once
   // and then only withdrawn. They merge by UUID; of two versions the newer wins.
@@ -718,8 +723,9 @@ private:
     std::vector<Candidate> c;
     c.push_back({Candidate::Current, *cur, scur, ""});
     {
-      Stmt s(db_, "SELECT uuid, other_updated, other_device FROM conflicts WHERE tbl = ? AND record = ? AND "
-                  "resolved IS NULL ORDER BY uuid");
+      Stmt s(db_,
+             "SELECT uuid, other_updated, other_device FROM conflicts WHERE tbl = ? AND record = ? AND "
+             "resolved IS NULL ORDER BY uuid");
       s.bind(1, t.name).bind(2, id);
       while (s.step()) c.push_back({Candidate::Kept, kept_row(t, s.text(0)), {s.text(1), s.text(2)}, s.text(0)});
     }
@@ -798,7 +804,8 @@ private:
     const std::string record = loser.row[t.uuid].s;
     const std::string cid = conflict_id(t.name, record, loser.stamp);
     {
-      Stmt s(db_, "INSERT INTO conflicts(uuid, tbl, record, other_updated, other_device, found_at) VALUES (?,?,?,?,?,?)");
+      Stmt s(db_,
+             "INSERT INTO conflicts(uuid, tbl, record, other_updated, other_device, found_at) VALUES (?,?,?,?,?,?)");
       s.bind(1, cid).bind(2, t.name).bind(3, record).bind(4, loser.stamp.updated).bind(5, loser.stamp.device);
       s.bind(6, utc_now());
       s.run();
@@ -841,8 +848,10 @@ private:
     // A code held by another live record: written first under a code of its
     // own (listed as a clash), then settle() decides who keeps the code.
     if (keyed && taken(t, r, r[t.key].s)) r[t.key] = Value::of(provisional(row[t.key].s, r[t.uuid].s));
-    if (old) update_row(t, r);
-    else insert_row(t, r);
+    if (old)
+      update_row(t, r);
+    else
+      insert_row(t, r);
     if (keyed && r[t.key] != row[t.key]) {
       Stmt s(db_, "INSERT OR REPLACE INTO key_clashes(record, tbl, original, stored) VALUES (?,?,?,?)");
       s.bind(1, r[t.uuid].s).bind(2, t.name).bind(3, row[t.key].s).bind(4, r[t.key].s);
@@ -966,7 +975,8 @@ private:
     if (t.name == "stations") {
       auto a = read_row(db_, t, kept), b = read_row(db_, t, renamed);
       if (a && b) {
-        const geo::LatLon pa{(*a)[t.col("lat")].d, (*a)[t.col("lon")].d}, pb{(*b)[t.col("lat")].d, (*b)[t.col("lon")].d};
+        const geo::LatLon pa{(*a)[t.col("lat")].d, (*a)[t.col("lon")].d},
+            pb{(*b)[t.col("lat")].d, (*b)[t.col("lon")].d};
         auto ua = geo::to_utm(pa);
         if (ua) {
           auto ub = geo::to_utm(pb, geo::UtmZone{ua->zone, ua->northp});
@@ -986,7 +996,8 @@ private:
   void update_row(const Table& t, const Row& r) {
     std::string set;
     for (size_t i = 0; i < t.cols.size(); ++i)
-      if (static_cast<int>(i) != t.uuid) set += (set.empty() ? "" : ", ") + quoted(t.cols[i].name) + " = ?" + std::to_string(i + 1);
+      if (static_cast<int>(i) != t.uuid)
+        set += (set.empty() ? "" : ", ") + quoted(t.cols[i].name) + " = ?" + std::to_string(i + 1);
     Stmt s(db_, "UPDATE " + quoted(t.name) + " SET " + set + " WHERE uuid = ?" + std::to_string(t.uuid + 1));
     for (size_t i = 0; i < r.size(); ++i) bind_value(s, static_cast<int>(i) + 1, r[i]);
     run(s, t, r);
@@ -1023,8 +1034,9 @@ private:
   // ---- describing records --------------------------------------------------------
 
   std::string person_of(const Table& t, const Row& r) {
-    Stmt s(db_, "SELECT person FROM audit WHERE record = ? AND json_extract(new_values, '$.updated') = ? AND "
-                "json_extract(new_values, '$.device') = ? AND person IS NOT NULL LIMIT 1");
+    Stmt s(db_,
+           "SELECT person FROM audit WHERE record = ? AND json_extract(new_values, '$.updated') = ? AND "
+           "json_extract(new_values, '$.device') = ? AND person IS NOT NULL LIMIT 1");
     s.bind(1, r[t.uuid].s).bind(2, r[t.updated].s).bind(3, r[t.device].s);
     if (s.step()) return s.text(0);
     const int obs = t.col("observer");
@@ -1082,7 +1094,7 @@ private:
     return v.text();
   }
 
-public:
+ public:
   // "station S12", "planar reading P3 at S12", ... for messages.
   std::string label(const Table& t, const std::string& uuid) {
     auto text = [&](const std::string& sql, const std::string& u) {
@@ -1137,7 +1149,7 @@ public:
     return mc;
   }
 
-private:
+ private:
   Project& p_;
   Db& db_;
   const MergeOptions& o_;

@@ -57,9 +57,9 @@ namespace cairn::store {
 struct MergeProgress {
   std::string source;  // path of the file being merged
   size_t source_index = 0, sources = 0;
-  std::string table;   // "audit", "stations", ...
-  size_t done = 0;     // rows of this source looked at so far
-  size_t total = 0;    // rows of this source
+  std::string table;  // "audit", "stations", ...
+  size_t done = 0;    // rows of this source looked at so far
+  size_t total = 0;   // rows of this source
 };
 
 struct MergeOptions {
@@ -107,22 +107,22 @@ struct MergeConflict {
 
 // Two records from different devices that share a code.
 struct KeyClash {
-  std::string table;       // "stations", "units", "contacts", "people", "planes", "lines"
-  std::string column;      // "code", "name", "initials", "ref"
-  std::string code;        // the shared code, e.g. "S12"
-  std::string scope;       // for reading refs: the station code; "" otherwise
-  std::string kept;        // UUID of the record that keeps the code (the earlier created)
+  std::string table;        // "stations", "units", "contacts", "people", "planes", "lines"
+  std::string column;       // "code", "name", "initials", "ref"
+  std::string code;         // the shared code, e.g. "S12"
+  std::string scope;        // for reading refs: the station code; "" otherwise
+  std::string kept;         // UUID of the record that keeps the code (the earlier created)
   std::string kept_device;  // its device's name
-  std::string renamed;     // UUID of the record stored under another code
+  std::string renamed;      // UUID of the record stored under another code
   std::string renamed_device;
-  std::string stored_as;   // the code it is stored under now, e.g. "S12~3fa2c1"
-  std::string suggestion;  // a free code to rename it to, e.g. "S12b"
+  std::string stored_as;             // the code it is stored under now, e.g. "S12~3fa2c1"
+  std::string suggestion;            // a free code to rename it to, e.g. "S12b"
   std::optional<double> distance_m;  // stations: metres between the two (WGS84 ellipsoid)
 };
 
 struct SourceMerge {
   std::string path, file_uuid, name;
-  MergeCounts counts;                           // all records of this source
+  MergeCounts counts;                            // all records of this source
   std::map<std::string, MergeCounts> by_device;  // device UUID -> counts of the versions it wrote
   std::map<std::string, MergeCounts> by_person;  // person UUID ("" = unknown) -> counts
   int devices_added = 0;
@@ -134,12 +134,12 @@ struct SourceMerge {
 
 struct MergeReport {
   std::vector<SourceMerge> sources;
-  std::vector<MergeConflict> conflicts;  // conflicts found by this merge
-  std::vector<KeyClash> clashes;         // codes found shared by this merge
-  std::vector<std::string> warnings;     // e.g. a live reading whose station was deleted elsewhere
+  std::vector<MergeConflict> conflicts;             // conflicts found by this merge
+  std::vector<KeyClash> clashes;                    // codes found shared by this merge
+  std::vector<std::string> warnings;                // e.g. a live reading whose station was deleted elsewhere
   std::map<std::string, std::string> device_names;  // device UUID -> name
   std::map<std::string, std::string> person_names;  // person UUID -> "Name (INI)"
-  bool changed = false;  // false: the target was left exactly as it was
+  bool changed = false;                             // false: the target was left exactly as it was
 };
 
 // Merges SOURCES into TARGET (opened for writing) in one transaction.

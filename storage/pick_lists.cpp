@@ -43,17 +43,20 @@ namespace {
 
 void check_code(PickList l, const std::string& code) {
   if (l == PickList::Unit || l == PickList::Person)
-    throw ValidationError("list", "pick-list", std::string(to_string(l)) + "s are records: add them as records, not as codes");
+    throw ValidationError("list", "pick-list",
+                          std::string(to_string(l)) + "s are records: add them as records, not as codes");
   if (l == PickList::Structure) {
     if (!parse_plane_kind(code) && !parse_line_kind(code))
-      throw ValidationError("code", "pick-list", "structure kind '" + code + "' is not one of: " + names_of_plane_kind() + ", " +
-                                                     names_of_line_kind());
+      throw ValidationError(
+          "code", "pick-list",
+          "structure kind '" + code + "' is not one of: " + names_of_plane_kind() + ", " + names_of_line_kind());
     return;
   }
   if (code.empty() || code.size() > 64)
     throw ValidationError("code", "pick-list", "a lithology is 1 to 64 characters, not " + std::to_string(code.size()));
   for (unsigned char c : code)
-    if (c < 0x20 || c == 0x7F) throw ValidationError("code", "pick-list", "a lithology may not hold control characters");
+    if (c < 0x20 || c == 0x7F)
+      throw ValidationError("code", "pick-list", "a lithology may not hold control characters");
 }
 
 }  // namespace
@@ -65,8 +68,9 @@ void add_pick(Project& p, PickList l, const std::string& code) {
     have.bind(1, to_string(l)).bind(2, code);
     if (have.step())
       throw ValidationError("code", "duplicate", std::string(to_string(l)) + " '" + code + "' is already in the list");
-    Stmt s(p.db(), "INSERT INTO pick_lists (list, code, position) "
-                   "VALUES (?1, ?2, (SELECT COALESCE(MAX(position), 0) + 1 FROM pick_lists WHERE list = ?1))");
+    Stmt s(p.db(),
+           "INSERT INTO pick_lists (list, code, position) "
+           "VALUES (?1, ?2, (SELECT COALESCE(MAX(position), 0) + 1 FROM pick_lists WHERE list = ?1))");
     s.bind(1, to_string(l)).bind(2, code);
     s.run();
   });
@@ -85,7 +89,9 @@ bool allowed_by(const std::vector<std::string>& list, const std::string& code) {
 }
 
 std::string not_in_list(PickList l, const std::string& code, const std::vector<std::string>& list) {
-  const std::string what = l == PickList::Structure ? "structure kind" : l == PickList::Person ? "person" : std::string(to_string(l));
+  const std::string what = l == PickList::Structure ? "structure kind"
+                           : l == PickList::Person  ? "person"
+                                                    : std::string(to_string(l));
   std::string names;
   for (const auto& c : list) names += (names.empty() ? "" : ", ") + c;
   return what + " '" + code + "' is not in the project's " + std::string(to_string(l)) + " list (" +

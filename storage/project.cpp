@@ -76,7 +76,6 @@ std::string newest_backup_sentence(const std::string& path, const std::string& d
   return "the newest backup is " + b.back();
 }
 
-
 void register_device(Db& db, const std::string& id, const std::string& name) {
   Stmt q(db, "SELECT 1 FROM devices WHERE uuid = ?");
   q.bind(1, id);
@@ -140,7 +139,7 @@ std::string publish_backup(TempPath& tmp, const std::string& path, const std::st
   const auto existing = list_backups(path, dir);
   if (!existing.empty() && fs::file_size(existing.back()) == fs::file_size(tmp.path()) &&
       file_digest(existing.back()) == file_digest(tmp.path()))
-    return existing.back();  // the same state: no second copy (tmp is removed with its TempPath)
+    return existing.back();       // the same state: no second copy (tmp is removed with its TempPath)
   std::string stamp = utc_now();  // 2025-06-14T09:32:10.123Z -> 20250614T093210123Z
   stamp.erase(std::remove_if(stamp.begin(), stamp.end(), [](char c) { return c == '-' || c == ':' || c == '.'; }),
               stamp.end());
@@ -235,8 +234,9 @@ Project Project::create(const std::string& path, const NewProject& p, OpenOption
     try {
       db.exec("BEGIN IMMEDIATE");
       create_schema(db);
-      Stmt s(db, "INSERT INTO project(id, file_uuid, name, utm_zone, north_default, declination, "
-                 "local_device, created, updated) VALUES (1,?,?,?,?,?,?,?,?)");
+      Stmt s(db,
+             "INSERT INTO project(id, file_uuid, name, utm_zone, north_default, declination, "
+             "local_device, created, updated) VALUES (1,?,?,?,?,?,?,?,?)");
       s.bind(1, new_uuid()).bind(2, p.name).bind_text_or_null(3, zone);
       s.bind(4, to_string(p.north_default)).bind(5, p.declination).bind(6, device);
       s.bind(7, now).bind(8, now);
@@ -263,9 +263,12 @@ Project Project::open(const std::string& path, OpenOptions options) {
   const std::string bdir = options.backup_dir;
   // A file of zero bytes (a copy that never finished, a card pulled out) is
   // said as such, and left as it is: SQLite would take it for a new database.
-  if (fs::is_regular_file(path, ec) && fs::file_size(path, ec) == 0 && !(fs::exists(path + "-wal", ec) && fs::file_size(path + "-wal", ec) > 0))
-    throw std::runtime_error(path + " is empty (0 bytes): it holds no project, perhaps because copying it did not "
-                             "finish; " + newest_backup_sentence(path, bdir) +
+  if (fs::is_regular_file(path, ec) && fs::file_size(path, ec) == 0 &&
+      !(fs::exists(path + "-wal", ec) && fs::file_size(path + "-wal", ec) > 0))
+    throw std::runtime_error(path +
+                             " is empty (0 bytes): it holds no project, perhaps because copying it did not "
+                             "finish; " +
+                             newest_backup_sentence(path, bdir) +
                              " (cairn restore FILE BACKUP); the file has not been changed");
   auto open_read_only = [&](const std::string& why) {
     const std::string sentence = why + "; " + newest_backup_sentence(path, bdir);
@@ -274,8 +277,7 @@ Project Project::open(const std::string& path, OpenOptions options) {
       set_pragmas(impl->db, options, false);
       impl->db.query_int("SELECT count(*) FROM project");  // readable at all?
     } catch (const std::exception& e) {
-      throw std::runtime_error(path + " cannot be read (" + e.what() + "); " +
-                               newest_backup_sentence(path, bdir));
+      throw std::runtime_error(path + " cannot be read (" + e.what() + "); " + newest_backup_sentence(path, bdir));
     }
     impl->read_only = true;
     impl->problem = sentence + "; the file is open read-only";
@@ -291,7 +293,8 @@ Project Project::open(const std::string& path, OpenOptions options) {
     const int64_t app = impl->db.query_int("PRAGMA application_id");
     const int64_t version = impl->db.query_int("PRAGMA user_version");
     if (app != kApplicationId)
-      throw std::runtime_error(path + " is not a Cairn project file (an SQLite file of another program, "
+      throw std::runtime_error(path +
+                               " is not a Cairn project file (an SQLite file of another program, "
                                "or no database at all)");
     if (version > kSchemaVersion)
       throw std::runtime_error(path + " was written by a newer version of Cairn (schema version " +
@@ -307,9 +310,8 @@ Project Project::open(const std::string& path, OpenOptions options) {
       writable = false;
     } else if (version < kSchemaVersion) {
       if (!writable)
-        throw std::runtime_error(path + " has schema version " + std::to_string(version) +
-                                 " and must be upgraded to " + std::to_string(kSchemaVersion) +
-                                 "; open it for writing once");
+        throw std::runtime_error(path + " has schema version " + std::to_string(version) + " and must be upgraded to " +
+                                 std::to_string(kSchemaVersion) + "; open it for writing once");
       make_backup(impl->db, path, bdir, options.backup_keep);  // the file as it was, before migrating
       try {
         impl->db.exec("BEGIN IMMEDIATE");
@@ -318,10 +320,9 @@ Project Project::open(const std::string& path, OpenOptions options) {
       } catch (const std::exception& e) {
         try {
           impl->db.exec("ROLLBACK");
-        } catch (...) {
-        }
-        throw std::runtime_error(path + ": upgrading from schema version " + std::to_string(version) +
-                                 " failed (" + e.what() + "); the file has not been changed");
+        } catch (...) {}
+        throw std::runtime_error(path + ": upgrading from schema version " + std::to_string(version) + " failed (" +
+                                 e.what() + "); the file has not been changed");
       }
     }
   } catch (const SqlError& e) {
@@ -364,8 +365,9 @@ std::string Project::backup_dir() const { return backup_folder(impl_->path, impl
 std::vector<std::string> Project::backups() const { return list_backups(impl_->path, impl_->options.backup_dir); }
 
 ProjectInfo Project::info() {
-  Stmt s(impl_->db, "SELECT file_uuid, name, utm_zone, north_default, declination, local_device, created, "
-                    "updated FROM project WHERE id = 1");
+  Stmt s(impl_->db,
+         "SELECT file_uuid, name, utm_zone, north_default, declination, local_device, created, "
+         "updated FROM project WHERE id = 1");
   if (!s.step()) throw std::runtime_error(impl_->path + " has no project row");
   ProjectInfo i;
   i.file_uuid = s.text(0);
@@ -403,8 +405,9 @@ void Project::update_info(const ProjectInfo& i) {
   if (!std::isfinite(i.toppling_window) || i.toppling_window < 1 || i.toppling_window > 90)
     throw ValidationError("toppling_window", "window-range", "the toppling window must be within 1..90 degrees");
   write([&] {
-    Stmt s(impl_->db, "UPDATE project SET name=?, utm_zone=?, north_default=?, declination=?, nearby_radius=?, "
-                      "friction_angle=?, sliding_window=?, toppling_window=?, updated=? WHERE id=1");
+    Stmt s(impl_->db,
+           "UPDATE project SET name=?, utm_zone=?, north_default=?, declination=?, nearby_radius=?, "
+           "friction_angle=?, sliding_window=?, toppling_window=?, updated=? WHERE id=1");
     s.bind(1, i.name).bind_text_or_null(2, zone).bind(3, to_string(i.north_default));
     s.bind(4, i.declination).bind(5, i.nearby_radius).bind(6, i.friction_angle).bind(7, i.sliding_window);
     s.bind(8, i.toppling_window).bind(9, utc_now());
@@ -483,8 +486,7 @@ void Project::write(const std::function<void()>& f) {
   // A rolling backup once the edits have gone on long enough since the last one.
   if (impl_->options.backups) {
     const auto now = std::chrono::steady_clock::now();
-    if (!impl_->have_backup ||
-        now - impl_->last_backup >= std::chrono::seconds(impl_->options.backup_interval_s)) {
+    if (!impl_->have_backup || now - impl_->last_backup >= std::chrono::seconds(impl_->options.backup_interval_s)) {
       try {
         backup_now();
       } catch (const std::exception& e) {

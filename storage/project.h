@@ -56,9 +56,9 @@ struct OpenOptions {
   // disabled for the connection (storage/sqlite.h, Trust::Untrusted).
   bool untrusted = false;
   bool backups = true;
-  int backup_keep = 10;          // how many rolling backups to keep (>= 1)
-  int backup_interval_s = 300;   // seconds between backups while editing
-  std::string backup_dir;        // "" = PATH + ".backups" beside the file
+  int backup_keep = 10;         // how many rolling backups to keep (>= 1)
+  int backup_interval_s = 300;  // seconds between backups while editing
+  std::string backup_dir;       // "" = PATH + ".backups" beside the file
   int busy_timeout_ms = 5000;
   DeclinationProvider declination;  // empty: the project's declination setting
 };
@@ -66,18 +66,18 @@ struct OpenOptions {
 // Thrown when a value fails validation: `field` names the record field,
 // `rule` the rule id (as in storage/SCHEMA.md) and what() the sentence.
 class ValidationError : public std::invalid_argument {
-public:
+ public:
   ValidationError(std::string field, std::string rule, const std::string& message)
       : std::invalid_argument(message), field_(std::move(field)), rule_(std::move(rule)) {}
   const std::string& field() const { return field_; }
   const std::string& rule() const { return rule_; }
 
-private:
+ private:
   std::string field_, rule_;
 };
 
 class Project {
-public:
+ public:
   // Makes a new project file. Fails when PATH exists or the zone is malformed.
   static Project create(const std::string& path, const NewProject& p, OpenOptions options = {});
   // Opens an existing project file (see the file comment for the checks).
@@ -127,7 +127,7 @@ public:
 
   Db& db();
 
-private:
+ private:
   struct Impl;
   explicit Project(std::unique_ptr<Impl> impl);
   std::unique_ptr<Impl> impl_;

@@ -15,10 +15,10 @@
 namespace cairn::store {
 
 struct RecordMeta {
-  std::string uuid;                  // RFC 4122 version 4, set by add_* when empty
-  std::string created;               // UTC, "2025-06-14T09:32:10.123Z"
-  std::string updated;               // UTC, same form; equals created until the first update
-  std::string device;                // UUID of the device that wrote the record last
+  std::string uuid;                    // RFC 4122 version 4, set by add_* when empty
+  std::string created;                 // UTC, "2025-06-14T09:32:10.123Z"
+  std::string updated;                 // UTC, same form; equals created until the first update
+  std::string device;                  // UUID of the device that wrote the record last
   std::optional<std::string> deleted;  // UTC time of the soft delete, or nothing when live
 };
 
@@ -68,12 +68,12 @@ std::string names_of_facing();
 
 // The one project row of a file.
 struct ProjectInfo {
-  std::string file_uuid;      // identity of this file (a camp file and each tablet file differ)
+  std::string file_uuid;  // identity of this file (a camp file and each tablet file differ)
   std::string name;
-  std::string utm_zone;       // working UTM zone, "33N" / "19S"; "" when not set
+  std::string utm_zone;               // working UTM zone, "33N" / "19S"; "" when not set
   North north_default = North::True;  // north reference of readings that do not say
-  double declination = 0;     // project setting: declination (degrees, east positive) used
-                              // for magnetic readings when no magnetic model is supplied
+  double declination = 0;             // project setting: declination (degrees, east positive) used
+                                      // for magnetic readings when no magnetic model is supplied
   // Compare bedding/contact readings that name no contact with the nearest
   // contact whose points lie within this many metres (0: off).
   double nearby_radius = 0;
@@ -83,7 +83,7 @@ struct ProjectInfo {
   double friction_angle = 30;
   double sliding_window = 20;
   double toppling_window = 30;
-  std::string local_device;   // device recorded when the file was created
+  std::string local_device;  // device recorded when the file was created
   std::string created;
   std::string updated;
 };
@@ -103,13 +103,13 @@ struct Unit {
   RecordMeta meta;
   std::string code;  // unique among live units, e.g. "Kls"
   std::string name;
-  int age_rank = 1;  // 1 = oldest
+  int age_rank = 1;    // 1 = oldest
   std::string colour;  // "#RRGGBB"
 };
 
 struct Contact {
   RecordMeta meta;
-  std::string name;  // unique among live contacts
+  std::string name;        // unique among live contacts
   std::string lower_unit;  // unit UUID
   std::string upper_unit;  // unit UUID
   ContactType type = ContactType::Depositional;
@@ -117,11 +117,11 @@ struct Contact {
 
 struct Station {
   RecordMeta meta;
-  std::string code;  // unique among live stations, e.g. "S12"
-  double lat = 0, lon = 0;               // WGS84 decimal degrees
-  std::optional<double> elevation;       // metres, -500..9000
-  std::optional<double> h_accuracy;      // metres, >= 0
-  std::optional<double> v_accuracy;      // metres, >= 0
+  std::string code;                  // unique among live stations, e.g. "S12"
+  double lat = 0, lon = 0;           // WGS84 decimal degrees
+  std::optional<double> elevation;   // metres, -500..9000
+  std::optional<double> h_accuracy;  // metres, >= 0
+  std::optional<double> v_accuracy;  // metres, >= 0
   PositionSource source = PositionSource::Gps;
   std::string unit;      // unit UUID or ""
   std::string observer;  // person UUID or ""
@@ -131,8 +131,8 @@ struct Station {
 
 // Declination applied to a magnetic reading, with where it came from.
 struct Declination {
-  double degrees = 0;      // east positive: true azimuth = magnetic azimuth + declination
-  std::string source;      // e.g. "WMM2025", "project setting", "given"
+  double degrees = 0;  // east positive: true azimuth = magnetic azimuth + declination
+  std::string source;  // e.g. "WMM2025", "project setting", "given"
 };
 
 struct PlanarReading {
@@ -174,7 +174,7 @@ struct LinearReading {
   double measured_plunge = 0;
   double declination = 0;
   std::string declination_source;
-  std::string host_plane;     // planar reading UUID or ""
+  std::string host_plane;      // planar reading UUID or ""
   std::optional<double> rake;  // 0..180 on the host plane, when measured as a rake
   std::string ref;
   std::string time;
@@ -207,12 +207,12 @@ struct Photo {
 // One row of the audit trail: who changed what, when, on which device.
 struct AuditEntry {
   std::string uuid;
-  std::string at;        // UTC
-  std::string device;    // device UUID
-  std::string person;    // person UUID or ""
-  std::string table;     // "stations", "planes", ...
-  std::string record;    // record UUID
-  std::string action;    // "insert", "update", "delete", "restore"
+  std::string at;          // UTC
+  std::string device;      // device UUID
+  std::string person;      // person UUID or ""
+  std::string table;       // "stations", "planes", ...
+  std::string record;      // record UUID
+  std::string action;      // "insert", "update", "delete", "restore"
   std::string old_values;  // JSON object of the record before ("" for insert)
   std::string new_values;  // JSON object after ("" for delete)
 };

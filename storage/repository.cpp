@@ -132,7 +132,8 @@ template <>
 struct Traits<Station> {
   static constexpr const char* table = "stations";
   static std::vector<const char*> cols() {
-    return {"code", "lat", "lon", "elevation", "h_accuracy", "v_accuracy", "source", "unit", "observer", "time", "notes"};
+    return {"code",   "lat",  "lon",      "elevation", "h_accuracy", "v_accuracy",
+            "source", "unit", "observer", "time",      "notes"};
   }
   static void bind(Stmt& s, int i, const Station& r) {
     s.bind(i, r.code).bind(i + 1, r.lat).bind(i + 2, r.lon).bind(i + 3, r.elevation);
@@ -194,9 +195,25 @@ template <>
 struct Traits<PlanarReading> {
   static constexpr const char* table = "planes";
   static std::vector<const char*> cols() {
-    return {"station", "kind", "strike", "dip", "typed", "notation", "north", "measured_strike",
-            "measured_dip", "declination", "declination_source", "quality", "facing", "contact",
-            "ref", "time", "observer", "notes", "repeat_of"};
+    return {"station",
+            "kind",
+            "strike",
+            "dip",
+            "typed",
+            "notation",
+            "north",
+            "measured_strike",
+            "measured_dip",
+            "declination",
+            "declination_source",
+            "quality",
+            "facing",
+            "contact",
+            "ref",
+            "time",
+            "observer",
+            "notes",
+            "repeat_of"};
   }
   static void bind(Stmt& s, int i, const PlanarReading& r) {
     s.bind(i, r.station).bind(i + 1, to_string(r.kind)).bind(i + 2, r.strike).bind(i + 3, r.dip);
@@ -261,8 +278,8 @@ struct Traits<PlanarReading> {
       if (!s.step() || r.repeat_of == r.meta.uuid)
         fail("repeat_of", "unknown-reading", "repeat_of names no live planar reading: " + r.repeat_of);
       if (s.text(0) != r.station || s.text(1) != to_string(r.kind))
-        fail("repeat_of", "repeat-mismatch", "a repeat must be of a " + std::string(to_string(r.kind)) +
-                                                 " reading at station " + st.code);
+        fail("repeat_of", "repeat-mismatch",
+             "a repeat must be of a " + std::string(to_string(r.kind)) + " reading at station " + st.code);
     }
     if (!r.ref.empty()) {
       Stmt s(p.db(), "SELECT 1 FROM planes WHERE station = ? AND ref = ? AND deleted IS NULL AND uuid <> ?");
@@ -277,8 +294,22 @@ template <>
 struct Traits<LinearReading> {
   static constexpr const char* table = "lines";
   static std::vector<const char*> cols() {
-    return {"station", "kind", "trend", "plunge", "typed", "north", "measured_trend", "measured_plunge",
-            "declination", "declination_source", "host_plane", "rake", "ref", "time", "observer", "notes"};
+    return {"station",
+            "kind",
+            "trend",
+            "plunge",
+            "typed",
+            "north",
+            "measured_trend",
+            "measured_plunge",
+            "declination",
+            "declination_source",
+            "host_plane",
+            "rake",
+            "ref",
+            "time",
+            "observer",
+            "notes"};
   }
   static void bind(Stmt& s, int i, const LinearReading& r) {
     s.bind(i, r.station).bind(i + 1, to_string(r.kind)).bind(i + 2, r.trend).bind(i + 3, r.plunge);
@@ -312,8 +343,7 @@ struct Traits<LinearReading> {
     if (!r.host_plane.empty()) {
       require_live(p.db(), "host_plane", "planes", r.host_plane, "plane");
       host = get_plane(p, r.host_plane);
-      if (host->station != r.station)
-        fail("host_plane", "host-station", "the host plane belongs to another station");
+      if (host->station != r.station) fail("host_plane", "host-station", "the host plane belongs to another station");
     }
     if (r.rake) {
       if (!host) fail("rake", "rake-host", "a rake needs the plane it was measured on (plane_ref)");
@@ -476,8 +506,9 @@ std::string row_json(Db& db, const std::string& table, const std::string& uuid) 
 
 void write_audit(Project& p, const std::string& table, const std::string& record, const std::string& action,
                  const std::string& old_values, const std::string& new_values, const std::string& at) {
-  Stmt s(p.db(), "INSERT INTO audit(uuid, at, device, person, tbl, record, action, old_values, new_values) "
-                 "VALUES (?,?,?,?,?,?,?,?,?)");
+  Stmt s(p.db(),
+         "INSERT INTO audit(uuid, at, device, person, tbl, record, action, old_values, new_values) "
+         "VALUES (?,?,?,?,?,?,?,?,?)");
   s.bind(1, new_uuid()).bind(2, at).bind(3, p.device()).bind_text_or_null(4, p.person());
   s.bind(5, table).bind(6, record).bind(7, action);
   s.bind_text_or_null(8, old_values).bind_text_or_null(9, new_values);
@@ -613,13 +644,14 @@ void set_deleted(Project& p, Kind kind, const std::string& uuid, bool del) {
     if (!del && !deleted) fail("uuid", "not-deleted", "the " + table + " record " + uuid + " is not deleted");
     if (del) {
       for (const Ref& c : children_of(table)) {
-        Stmt s(p.db(), std::string("SELECT count(*) FROM ") + c.table + " WHERE " + c.column +
-                           " = ? AND deleted IS NULL");
+        Stmt s(p.db(),
+               std::string("SELECT count(*) FROM ") + c.table + " WHERE " + c.column + " = ? AND deleted IS NULL");
         s.bind(1, uuid);
         s.step();
         if (s.int64(0) > 0)
-          fail("uuid", "in-use", "the " + table + " record is still used by " + std::to_string(s.int64(0)) + " live " +
-                                     c.table + " record(s); delete those first");
+          fail("uuid", "in-use",
+               "the " + table + " record is still used by " + std::to_string(s.int64(0)) + " live " + c.table +
+                   " record(s); delete those first");
       }
     } else {
       for (const Ref& r : parents_of(table)) {
@@ -627,16 +659,17 @@ void set_deleted(Project& p, Kind kind, const std::string& uuid, bool del) {
                            " = x.uuid WHERE t.uuid = ? AND x.deleted IS NOT NULL");
         s.bind(1, uuid);
         if (s.step())
-          fail("uuid", "parent-deleted", "the " + table + " record points at a deleted " + r.table + " record (" +
-                                             s.text(0) + "); restore that first");
+          fail("uuid", "parent-deleted",
+               "the " + table + " record points at a deleted " + r.table + " record (" + s.text(0) +
+                   "); restore that first");
       }
       if (const char* key = key_of(table)) {
         Stmt s(p.db(), "SELECT t." + std::string(key) + " FROM " + table + " t JOIN " + table + " o ON o." + key +
                            " = t." + key + " AND o.deleted IS NULL AND o.uuid <> t.uuid WHERE t.uuid = ?");
         s.bind(1, uuid);
         if (s.step())
-          fail(key, "duplicate", "a live " + table + " record already has " + key + " '" + s.text(0) +
-                                     "'; rename one before restoring");
+          fail(key, "duplicate",
+               "a live " + table + " record already has " + key + " '" + s.text(0) + "'; rename one before restoring");
       }
     }
     const std::string before = row_json(p.db(), table, uuid);
@@ -774,7 +807,9 @@ std::vector<LinearReading> list_lines(Project& p, const ListOptions& o) {
 std::vector<ContactPoint> list_points(Project& p, const ListOptions& o) {
   return list_kind<ContactPoint>(p, o, "contact", o.contact);
 }
-std::vector<Photo> list_photos(Project& p, const ListOptions& o) { return list_kind<Photo>(p, o, "station", o.station); }
+std::vector<Photo> list_photos(Project& p, const ListOptions& o) {
+  return list_kind<Photo>(p, o, "station", o.station);
+}
 
 std::optional<Person> get_person(Project& p, const std::string& u) { return get_one<Person>(p, "uuid = ?", {u}); }
 std::optional<Unit> get_unit(Project& p, const std::string& u) { return get_one<Unit>(p, "uuid = ?", {u}); }

@@ -89,8 +89,7 @@ std::optional<Unit> find_unit(Project& p, const std::string& code);
 std::optional<Contact> find_contact(Project& p, const std::string& name);
 std::optional<Station> find_station(Project& p, const std::string& code);
 // The live planar reading with notebook reference `ref` at a station.
-std::optional<PlanarReading> find_plane_by_ref(Project& p, const std::string& station_uuid,
-                                               const std::string& ref);
+std::optional<PlanarReading> find_plane_by_ref(Project& p, const std::string& station_uuid, const std::string& ref);
 
 // ---- audit trail ------------------------------------------------------------
 

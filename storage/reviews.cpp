@@ -85,8 +85,9 @@ bool withdraw(Project& p, const char* table, const std::string& uuid) {
   if (!has_table(p.db(), table)) return false;
   bool done = false;
   p.write([&] {
-    Stmt s(p.db(), std::string("UPDATE ") + table + " SET deleted = ?, updated = ?, device = ? "
-                   "WHERE uuid = ? AND deleted IS NULL");
+    Stmt s(p.db(), std::string("UPDATE ") + table +
+                       " SET deleted = ?, updated = ?, device = ? "
+                       "WHERE uuid = ? AND deleted IS NULL");
     const std::string now = utc_now();
     s.bind(1, now).bind(2, now).bind(3, p.device()).bind(4, uuid);
     s.run();
@@ -133,8 +134,8 @@ std::string add_flag_review(Project& p, FlagReview& r) {
     if (!r.person.empty() && !live_person(p.db(), r.person))
       throw ValidationError("person", "unknown-person", "no person with UUID '" + r.person + "' in the project");
     fill_meta(p, r.meta);
-    Stmt s(p.db(), std::string("INSERT INTO flag_reviews(") + kReviewColumns +
-                       ") VALUES (?,?,?,?,?,?,?,?,?,?,?,?,NULL)");
+    Stmt s(p.db(),
+           std::string("INSERT INTO flag_reviews(") + kReviewColumns + ") VALUES (?,?,?,?,?,?,?,?,?,?,?,?,NULL)");
     s.bind(1, r.meta.uuid).bind(2, r.flag_key).bind(3, r.rule).bind(4, r.station).bind(5, r.reading);
     s.bind(6, r.contact).bind(7, to_string(r.status)).bind(8, r.comment).bind_text_or_null(9, r.person);
     s.bind(10, r.meta.created).bind(11, r.meta.updated).bind(12, r.meta.device);
@@ -184,8 +185,9 @@ std::string sign_off_day(Project& p, DaySignoff& d) {
       if (q.step()) throw ValidationError("day", "signed-off", "the day " + d.day + " is already signed off");
     }
     fill_meta(p, d.meta);
-    Stmt s(p.db(), "INSERT INTO day_signoffs(uuid, day, person, comment, created, updated, device, deleted) "
-                   "VALUES (?,?,?,?,?,?,?,NULL)");
+    Stmt s(p.db(),
+           "INSERT INTO day_signoffs(uuid, day, person, comment, created, updated, device, deleted) "
+           "VALUES (?,?,?,?,?,?,?,NULL)");
     s.bind(1, d.meta.uuid).bind(2, d.day).bind(3, d.person).bind(4, d.comment);
     s.bind(5, d.meta.created).bind(6, d.meta.updated).bind(7, d.meta.device);
     s.run();

@@ -47,7 +47,7 @@ struct FlagReview {
   std::string contact;   // contact name ("" when none)
   ReviewStatus status = ReviewStatus::Accepted;
   std::string comment;
-  std::string person;    // person UUID or ""
+  std::string person;  // person UUID or ""
 };
 
 struct DaySignoff {

@@ -378,8 +378,12 @@ void create_schema(Db& db) {
 void migrate(Db& db, int from) {
   if (from < 1 || from > kSchemaVersion)
     throw std::logic_error("no migration from schema version " + std::to_string(from));
-  static const char* const steps[] = {nullptr,       kMigrate1to2,    kMigrate2to3,
-                                      kMigrate3to4,  kMigrateTrust,   kMigrateTerrain,
+  static const char* const steps[] = {nullptr,
+                                      kMigrate1to2,
+                                      kMigrate2to3,
+                                      kMigrate3to4,
+                                      kMigrateTrust,
+                                      kMigrateTerrain,
                                       kMigratePickListsAndTrack};  // steps[v]: v -> v+1
   for (int v = from; v < kSchemaVersion; ++v) {
     // The terrain step widens a CHECK constraint through writable_schema (the

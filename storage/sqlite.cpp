@@ -155,8 +155,7 @@ bool Stmt::step() {
 }
 
 void Stmt::run() {
-  while (step()) {
-  }
+  while (step()) {}
 }
 
 void Stmt::reset() {

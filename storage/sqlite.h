@@ -16,11 +16,11 @@ namespace cairn::store {
 
 // An SQLite failure, with SQLite's own message and the extended result code.
 class SqlError : public std::runtime_error {
-public:
+ public:
   SqlError(const std::string& what, int code) : std::runtime_error(what), code_(code) {}
   int code() const { return code_; }
 
-private:
+ private:
   int code_;
 };
 
@@ -42,7 +42,7 @@ std::string immutable_uri(const std::string& path);
 
 // One database connection.
 class Db {
-public:
+ public:
   Db() = default;
   // Opens PATH with sqlite3_open_v2 flags (SQLITE_OPEN_*). Throws SqlError.
   Db(const std::string& path, int flags, Trust trust = Trust::Own);
@@ -68,13 +68,13 @@ public:
   int64_t changes() const;
   std::string errmsg() const;
 
-private:
+ private:
   sqlite3* db_ = nullptr;
 };
 
 // A prepared statement. Parameters are numbered from 1, columns from 0.
 class Stmt {
-public:
+ public:
   Stmt(Db& db, std::string_view sql);
   ~Stmt();
   Stmt(Stmt&& o) noexcept;
@@ -116,7 +116,7 @@ public:
   std::optional<int> opt_int(int col) const;
   std::optional<std::string> opt_text(int col) const;
 
-private:
+ private:
   Db* db_;
   sqlite3_stmt* st_ = nullptr;
 };

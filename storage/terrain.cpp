@@ -47,18 +47,20 @@ const char* const kColumns =
 
 // The terrain row as a JSON object for the audit trail (SQLite's json_object).
 std::string terrain_json(Db& db, const std::string& uuid) {
-  Stmt s(db, "SELECT json_object('uuid', uuid, 'name', name, 'epsg', epsg, 'cell', cell, 'west', west, "
-             "'north', north, 'nx', nx, 'ny', ny, 'nodata', nodata, 'vertical_accuracy', vertical_accuracy, "
-             "'digest', digest, 'created', created, 'updated', updated, 'device', device, 'deleted', deleted) "
-             "FROM terrain WHERE uuid = ?");
+  Stmt s(db,
+         "SELECT json_object('uuid', uuid, 'name', name, 'epsg', epsg, 'cell', cell, 'west', west, "
+         "'north', north, 'nx', nx, 'ny', ny, 'nodata', nodata, 'vertical_accuracy', vertical_accuracy, "
+         "'digest', digest, 'created', created, 'updated', updated, 'device', device, 'deleted', deleted) "
+         "FROM terrain WHERE uuid = ?");
   s.bind(1, uuid);
   return s.step() ? s.text(0) : std::string();
 }
 
 void audit(Project& p, const std::string& uuid, const std::string& action, const std::string& before,
            const std::string& after, const std::string& at) {
-  Stmt s(p.db(), "INSERT INTO audit(uuid, at, device, person, tbl, record, action, old_values, new_values) "
-                 "VALUES (?,?,?,?,'terrain',?,?,?,?)");
+  Stmt s(p.db(),
+         "INSERT INTO audit(uuid, at, device, person, tbl, record, action, old_values, new_values) "
+         "VALUES (?,?,?,?,'terrain',?,?,?,?)");
   s.bind(1, new_uuid()).bind(2, at).bind(3, p.device()).bind_text_or_null(4, p.person());
   s.bind(5, uuid).bind(6, action).bind_text_or_null(7, before).bind_text_or_null(8, after);
   s.run();
@@ -81,8 +83,8 @@ geo::UtmZone zone_of_epsg(int epsg) {
 std::string terrain_digest(const geo::TerrainGrid& g, int epsg) {
   std::ostringstream head;
   head.precision(17);
-  head << "epsg " << epsg << " nx " << g.nx << " ny " << g.ny << " cell " << g.cell << " west " << g.west
-       << " north " << g.north << "\n";
+  head << "epsg " << epsg << " nx " << g.nx << " ny " << g.ny << " cell " << g.cell << " west " << g.west << " north "
+       << g.north << "\n";
   std::string data = head.str();
   data.reserve(data.size() + g.z.size() * 4);
   for (float v : g.z) put_f32(data, std::isnan(v) ? std::numeric_limits<float>::quiet_NaN() : v);
@@ -223,8 +225,9 @@ struct Sample {
   std::optional<double> accuracy;
 };
 std::optional<Sample> sample_terrain(Project& p, double lat, double lon) {
-  Stmt s(p.db(), "SELECT uuid, epsg, cell, west, north, nx, ny, nodata, tile_size, vertical_accuracy FROM terrain "
-                 "WHERE deleted IS NULL");
+  Stmt s(p.db(),
+         "SELECT uuid, epsg, cell, west, north, nx, ny, nodata, tile_size, vertical_accuracy FROM terrain "
+         "WHERE deleted IS NULL");
   if (!s.step()) return std::nullopt;
   const std::string uuid = s.text(0);
   const int epsg = s.integer(1);
@@ -246,7 +249,8 @@ std::optional<Sample> sample_terrain(Project& p, double lat, double lon) {
   g.west = west + i0 * cell;
   g.north = north - j0 * cell;
   g.z.assign(static_cast<std::size_t>(g.nx) * g.ny, std::numeric_limits<float>::quiet_NaN());
-  Stmt t(p.db(), "SELECT row, col, data FROM terrain_tiles WHERE terrain = ? AND row BETWEEN ? AND ? AND col BETWEEN ? AND ?");
+  Stmt t(p.db(),
+         "SELECT row, col, data FROM terrain_tiles WHERE terrain = ? AND row BETWEEN ? AND ? AND col BETWEEN ? AND ?");
   t.bind(1, uuid).bind(2, j0 / tile).bind(3, j1 / tile).bind(4, i0 / tile).bind(5, i1 / tile);
   std::vector<unsigned char> raw;
   while (t.step()) {
@@ -395,7 +399,8 @@ TerrainMerge merge_terrain(Project& p, Db& source) {
     }
     out.outcome = TerrainMerge::Conflict;
     out.message = "its terrain (" + name + ", " + uuid + ") differs from this file's (" + mine.text(1) + ", " +
-                  mine.text(0) + "); this file keeps its own. To take the other, run cairn terrain FILE --remove "
+                  mine.text(0) +
+                  "); this file keeps its own. To take the other, run cairn terrain FILE --remove "
                   "and attach that DEM again.";
     return out;
   }
@@ -428,7 +433,10 @@ TerrainMerge merge_terrain(Project& p, Db& source) {
   while (tiles.step()) {
     const std::string blob = tiles.blob(2);
     put.reset();
-    put.bind(1, uuid).bind(2, tiles.int64(0)).bind(3, tiles.int64(1)).bind_blob(4, blob.data(), static_cast<int>(blob.size()));
+    put.bind(1, uuid)
+        .bind(2, tiles.int64(0))
+        .bind(3, tiles.int64(1))
+        .bind_blob(4, blob.data(), static_cast<int>(blob.size()));
     put.run();
   }
   // The copy must read back whole before the merge commits.

@@ -19,14 +19,14 @@ namespace cairn::store {
 
 struct TerrainInfo {
   std::string uuid;
-  std::string name;        // the file it came from (its name, no folder)
-  int epsg = 0;            // the grid's CRS (the project's UTM zone)
-  double cell = 0;         // metres
+  std::string name;  // the file it came from (its name, no folder)
+  int epsg = 0;      // the grid's CRS (the project's UTM zone)
+  double cell = 0;   // metres
   double west = 0, north = 0;
   int nx = 0, ny = 0;
-  double nodata = -9999;   // the value that marks a missing cell inside the stored tiles
+  double nodata = -9999;                    // the value that marks a missing cell inside the stored tiles
   std::optional<double> vertical_accuracy;  // 1-sigma, metres, as stated by the user
-  std::string digest;      // SHA-256 of the grid (shape and elevations): identical terrains have equal digests
+  std::string digest;          // SHA-256 of the grid (shape and elevations): identical terrains have equal digests
   long long stored_bytes = 0;  // compressed size of the tiles
   std::string created, updated, device;
 };

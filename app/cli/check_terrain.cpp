@@ -74,8 +74,8 @@ std::vector<GroundLead> where_next_on_ground(const GroundCheck& g, const core::C
     best.bearing = geo::wrap360(std::atan2(best.e - e, best.n - n) * 180 / geo::kPi + data.input.grid.convergence);
     if (auto z = geo::elevation_at(g.grid, best.e, best.n)) best.elevation = *z;
     if (pred->has_band)
-      if (auto w = geo::trace_band_half_width(g.grid, f.fit->normal, pred->uncertainty,
-                                              g.vertical_accuracy.value_or(0), best.e, best.n))
+      if (auto w = geo::trace_band_half_width(g.grid, f.fit->normal, pred->uncertainty, g.vertical_accuracy.value_or(0),
+                                              best.e, best.n))
         best.half_width = *w;
     out.push_back(best);
   }

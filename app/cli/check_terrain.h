@@ -33,7 +33,7 @@ struct GroundCheck {
   double cell = 0;
   std::optional<double> vertical_accuracy;
   geo::TerrainGrid grid;
-  std::set<std::string> dem_face_stations;   // station ids given a slope face from the terrain
+  std::set<std::string> dem_face_stations;    // station ids given a slope face from the terrain
   std::set<std::string> typed_face_stations;  // station ids with a typed slope-face reading
   std::vector<std::string> not_cleared;       // station codes the terrain is too coarse to clear
   bool too_coarse() const { return has_terrain && cell > kMaxScreeningCell; }
@@ -48,9 +48,9 @@ std::string slope_source(const GroundCheck& g, const geo::Flag& f);
 
 struct GroundLead {
   std::string contact;
-  double distance = 0;   // metres (grid)
-  double bearing = 0;    // degrees from true north
-  double e = 0, n = 0;   // the nearest point of the trace (UTM)
+  double distance = 0;               // metres (grid)
+  double bearing = 0;                // degrees from true north
+  double e = 0, n = 0;               // the nearest point of the trace (UTM)
   std::optional<double> elevation;   // the ground there
   std::optional<double> half_width;  // the trace band's half width there, metres
 };

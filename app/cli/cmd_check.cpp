@@ -97,7 +97,9 @@ void write_json(std::ostream& out, const core::CheckData& data, const geo::Check
   }
   j.end_array();
   j.key("flags").begin_array();
-  auto opt = [](const std::string& s) { return s.empty() ? std::optional<std::string>{} : std::optional<std::string>{s}; };
+  auto opt = [](const std::string& s) {
+    return s.empty() ? std::optional<std::string>{} : std::optional<std::string>{s};
+  };
   for (const auto& f : rep.flags) {
     if (f.severity < min) continue;
     j.begin_object();
@@ -154,9 +156,10 @@ void write_json(std::ostream& out, const core::CheckData& data, const geo::Check
 void write_text(std::ostream& out, const core::CheckData& data, const geo::CheckReport& rep, geo::Severity min,
                 const GroundReport& gr) {
   out << "Contact fits (strike by the right-hand rule, true north; cone at 95%)\n";
-  out << "  " << std::left << std::setw(24) << "contact" << std::right << std::setw(6) << "points" << "  "
-      << std::left << std::setw(11) << "strike/dip" << std::setw(13) << "quadrant" << std::right << std::setw(7)
-      << "cone95" << std::setw(8) << "rms m" << "  verdict\n";
+  out << "  " << std::left << std::setw(24) << "contact" << std::right << std::setw(6) << "points"
+      << "  " << std::left << std::setw(11) << "strike/dip" << std::setw(13) << "quadrant" << std::right << std::setw(7)
+      << "cone95" << std::setw(8) << "rms m"
+      << "  verdict\n";
   for (const auto& f : rep.fits) {
     out << "  " << std::left << std::setw(24) << f.contact << std::right << std::setw(6) << f.points << "  ";
     if (f.plane) {
@@ -301,8 +304,8 @@ int run_check(const CheckArgs& a, std::ostream& out, std::ostream& err) {
   core::CheckData data = core::load_check_input(p, decl);
   if (outside > 0)
     err << "warning: " << outside << " reading" << (outside == 1 ? " is" : "s are") << " dated outside "
-        << model->name() << "'s validity (" << model->valid_from() << " to " << model->valid_to()
-        << "); " << (outside == 1 ? "its" : "their") << " declination is extrapolated and less certain\n";
+        << model->name() << "'s validity (" << model->valid_from() << " to " << model->valid_to() << "); "
+        << (outside == 1 ? "its" : "their") << " declination is extrapolated and less certain\n";
   const GroundCheck ground = add_terrain_faces(p, data, o);
   const geo::CheckReport rep = geo::run_crosscheck(data.input, o);
   GroundReport gr;
@@ -320,8 +323,10 @@ int run_check(const CheckArgs& a, std::ostream& out, std::ostream& err) {
     if (!ground.has_terrain) err << "warning: --at needs a terrain (cairn terrain FILE DEM)\n";
     gr.leads = where_next_on_ground(ground, data, rep, u->easting, u->northing, radius);
   }
-  if (json) write_json(out, data, rep, min, gr);
-  else write_text(out, data, rep, min, gr);
+  if (json)
+    write_json(out, data, rep, min, gr);
+  else
+    write_text(out, data, rep, min, gr);
   return 0;
 }
 
@@ -341,8 +346,9 @@ Runner define(CLI::App& app) {
   number(app, "--toppling-window", a->toppling, 1, 90,
          "toppling window in degrees around the face's opposite direction (default: the project's setting)");
   number(app, "--confidence", a->confidence, 0.5, 0.9999, "confidence level of the cones (default 0.95)");
-  option(app, "--at", a->at,
-         "LAT,LON: where next on the ground from this position (the nearest stretch of each contact's predicted trace)");
+  option(
+      app, "--at", a->at,
+      "LAT,LON: where next on the ground from this position (the nearest stretch of each contact's predicted trace)");
   number(app, "--radius", a->radius, 1, 100000, "with --at: contacts within this many metres (default 2000)");
   return [a](std::ostream& out, std::ostream& err) { return run_check(*a, out, err); };
 }

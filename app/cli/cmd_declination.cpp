@@ -32,8 +32,8 @@ double parse_coordinate(const std::string& s, const char* what, double lo, doubl
   if (!parse_number(s, v))
     throw std::invalid_argument(std::string(what) + " '" + s + "' is not a number (decimal degrees)");
   if (v < lo || v > hi)
-    throw std::invalid_argument(std::string(what) + " " + s + " is outside " + std::to_string(int(lo)) +
-                                ".." + std::to_string(int(hi)) + " degrees");
+    throw std::invalid_argument(std::string(what) + " " + s + " is outside " + std::to_string(int(lo)) + ".." +
+                                std::to_string(int(hi)) + " degrees");
   return v;
 }
 
@@ -48,10 +48,8 @@ void parse_date(const std::string& s, Date& date, double& t) {
     return;
   }
   double v = 0;
-  if (!parse_number(s, v))
-    throw std::invalid_argument("date '" + s + "' is neither YYYY-MM-DD nor a decimal year");
-  if (v < 1900.0 || v >= 2101.0)
-    throw std::invalid_argument("date " + s + " is not a year between 1900 and 2100");
+  if (!parse_number(s, v)) throw std::invalid_argument("date '" + s + "' is neither YYYY-MM-DD nor a decimal year");
+  if (v < 1900.0 || v >= 2101.0) throw std::invalid_argument("date " + s + " is not a year between 1900 and 2100");
   t = v;
   date = geo::calendar_date(v);
 }
@@ -124,16 +122,14 @@ int run(const DeclinationArgs& a, std::ostream& out, std::ostream& err) {
         << " nT is below 6000 nT; use a magnetic compass with caution here\n";
 
   if (json) {
-    out << "{\"declination\": " << fixed(f.declination, 4) << ", \"inclination\": "
-        << fixed(f.inclination, 4) << ", \"date\": \"" << iso(date) << "\", \"decimal_year\": "
-        << fixed(t, 4) << ", \"height_m\": " << fixed(height, 1) << ", \"model\": \""
-        << model.name() << "\"}\n";
+    out << "{\"declination\": " << fixed(f.declination, 4) << ", \"inclination\": " << fixed(f.inclination, 4)
+        << ", \"date\": \"" << iso(date) << "\", \"decimal_year\": " << fixed(t, 4)
+        << ", \"height_m\": " << fixed(height, 1) << ", \"model\": \"" << model.name() << "\"}\n";
     return 0;
   }
   out << "declination  " << fixed(f.declination, 2) << "°  (" << east_west(f.declination)
       << ", east positive: set this on the compass)\n"
-      << "inclination  " << fixed(f.inclination, 2) << "°  (" << (f.inclination >= 0 ? "down" : "up")
-      << ")\n"
+      << "inclination  " << fixed(f.inclination, 2) << "°  (" << (f.inclination >= 0 ? "down" : "up") << ")\n"
       << "date         " << iso(date) << "  (decimal year " << fixed(t, 4) << ")\n"
       << "height       " << fixed(height, 1) << " m above the WGS84 ellipsoid\n"
       << "model        " << model.name() << "\n";

@@ -17,8 +17,8 @@ namespace fs = std::filesystem;
 namespace cairn::cli {
 namespace {
 
-const char* const kFiles[] = {"tablet-a.cairn", "tablet-b.cairn", "camp.cairn", "notebook.csv", "handheld.gpx",
-                              "terrain.tif"};
+const char* const kFiles[] = {"tablet-a.cairn", "tablet-b.cairn", "camp.cairn",
+                              "notebook.csv",   "handheld.gpx",   "terrain.tif"};
 
 void remove_project_file(const fs::path& f) {
   std::error_code ec;
@@ -96,8 +96,8 @@ int run_demo(const DemoArgs& a, std::ostream& out, std::ostream&) {
   fs::create_directories(dir);
   for (const char* f : kFiles)
     if (fs::exists(dir / f) && !force)
-      throw std::runtime_error((dir / f).string() + " exists; run with --force to rebuild the demo in " +
-                               dir.string() + " (its demo files are replaced)");
+      throw std::runtime_error((dir / f).string() + " exists; run with --force to rebuild the demo in " + dir.string() +
+                               " (its demo files are replaced)");
   for (const char* f : kFiles) remove_project_file(dir / f);
 
   const demo::Area area = demo::build_area();

@@ -29,8 +29,9 @@ void refuse_to_overwrite(const std::string& file, const std::string& target, boo
   if (overwrite) return;
   if (fs::is_directory(target, ec)) {
     if (!fs::is_empty(target, ec))
-      throw std::runtime_error(target + " is a folder that is not empty; name a new or empty folder, or add "
-                                        "--overwrite to replace the CSV files in it");
+      throw std::runtime_error(target +
+                               " is a folder that is not empty; name a new or empty folder, or add "
+                               "--overwrite to replace the CSV files in it");
   } else {
     throw std::runtime_error(target + " exists; name another file, or add --overwrite to replace it");
   }
@@ -58,7 +59,7 @@ int run(const ExportArgs& a, std::ostream& out, std::ostream& err) {
   const char* what = s.format == core::ExportFormat::GeoPackage ? "GeoPackage"
                      : s.format == core::ExportFormat::GeoJson  ? "GeoJSON"
                      : s.format == core::ExportFormat::Gpx      ? "GPX"
-                                                                 : "CSV folder";
+                                                                : "CSV folder";
   if (json) {
     JsonWriter j(out);
     j.begin_object();

@@ -30,14 +30,12 @@ namespace {
 
 using geo::FitPoint;
 
-
-const char* kColumns =
-    "easting,northing,elevation or lat,lon,elevation, optionally h_accuracy,v_accuracy (metres)";
+const char* kColumns = "easting,northing,elevation or lat,lon,elevation, optionally h_accuracy,v_accuracy (metres)";
 
 struct Input {
   std::vector<FitPoint> points;
-  std::vector<int> lines;         // file line of each point
-  std::vector<geo::LatLon> geo;   // when given as lat/lon
+  std::vector<int> lines;        // file line of each point
+  std::vector<geo::LatLon> geo;  // when given as lat/lon
   bool latlon = false;
   bool accuracies = false;
   std::optional<geo::UtmZone> zone;
@@ -69,24 +67,21 @@ Result<Input> read_points(const std::string& path, std::optional<geo::UtmZoneSpe
     const std::string name = lower(t.header[i]);
     bool ok = false;
     for (const char* k : known) ok = ok || name == k;
-    if (!ok)
-      return R::failure(path + ":1: unknown column '" + t.header[i] + "' (expected " + kColumns + ")");
+    if (!ok) return R::failure(path + ":1: unknown column '" + t.header[i] + "' (expected " + kColumns + ")");
     if (col.count(name)) return R::failure(path + ":1: column '" + name + "' appears twice");
     col[name] = static_cast<int>(i);
   }
   const bool en = col.count("easting") || col.count("northing");
   const bool ll = col.count("lat") || col.count("lon");
-  if (en && ll)
-    return R::failure(path + ":1: give either easting,northing or lat,lon, not both");
+  if (en && ll) return R::failure(path + ":1: give either easting,northing or lat,lon, not both");
   if (!en && !ll) return R::failure(path + ":1: no position columns (expected " + kColumns + ")");
   for (const char* need : en ? std::vector<const char*>{"easting", "northing", "elevation"}
                              : std::vector<const char*>{"lat", "lon", "elevation"})
     if (!col.count(need)) return R::failure(path + ":1: missing column '" + need + "'");
   if (col.count("h_accuracy") != col.count("v_accuracy"))
-    return R::failure(path + ":1: column '" +
-                      std::string(col.count("h_accuracy") ? "h_accuracy" : "v_accuracy") +
-                      "' needs its partner '" +
-                      std::string(col.count("h_accuracy") ? "v_accuracy" : "h_accuracy") + "'");
+    return R::failure(path + ":1: column '" + std::string(col.count("h_accuracy") ? "h_accuracy" : "v_accuracy") +
+                      "' needs its partner '" + std::string(col.count("h_accuracy") ? "v_accuracy" : "h_accuracy") +
+                      "'");
   if (utm && !ll) return R::failure("--utm applies only to lat,lon input; this file gives easting,northing");
 
   Input in;
@@ -278,8 +273,10 @@ int run_fit(const FitArgs& a, std::ostream& out, std::ostream& err) {
     j.key("residual").value(fit.worst_residual);
     j.end_object();
     j.key("interval").value(interval);
-    if (strike_az) j.key("strike_line_azimuth").value(*strike_az);
-    else j.key("strike_line_azimuth").null();
+    if (strike_az)
+      j.key("strike_line_azimuth").value(*strike_az);
+    else
+      j.key("strike_line_azimuth").null();
     if (spacing) {
       j.key("strike_line_spacing").value(*spacing);
       j.key("strike_line_note").null();
@@ -324,17 +321,19 @@ int run_fit(const FitArgs& a, std::ostream& out, std::ostream& err) {
   row("Quadrant notation", geo::format_quadrant(plane));
   row("Dip direction/dip", geo::format_dip_direction(plane));
   if (fit.cone95) {
-    const std::string from = fit.cone_source == geo::ConeSource::Accuracies
-                                 ? "from the stated accuracies"
-                                 : "from the residual scatter, " + geo::format_decimal("%.3g", *fit.sigma_normal) + " m";
+    const std::string from =
+        fit.cone_source == geo::ConeSource::Accuracies
+            ? "from the stated accuracies"
+            : "from the residual scatter, " + geo::format_decimal("%.3g", *fit.sigma_normal) + " m";
     row("95% confidence cone", geo::format_decimal("%.2f", *fit.cone95) + "° (Monte Carlo, " +
                                    std::to_string(fit.draws.size()) + " draws, " + from + ")");
     if (fit.dof > 0 && fit.cone95_known)
       row("Small-sample correction",
-          "x" + geo::format_decimal("%.2f", fit.cone_scale) + " of " + geo::format_decimal("%.2f", *fit.cone95_known) + "° (F and t quantiles for " +
-              std::to_string(fit.dof) + " degrees of freedom" +
+          "x" + geo::format_decimal("%.2f", fit.cone_scale) + " of " + geo::format_decimal("%.2f", *fit.cone95_known) +
+              "° (F and t quantiles for " + std::to_string(fit.dof) + " degrees of freedom" +
               (fit.cone_source == geo::ConeSource::Accuracies
-                   ? ", accuracies scaled by " + geo::format_decimal("%.2f", fit.variance_factor) + " from the residuals)"
+                   ? ", accuracies scaled by " + geo::format_decimal("%.2f", fit.variance_factor) +
+                         " from the residuals)"
                    : ")"));
   } else {
     row("95% confidence cone", "unknown (the points fit exactly and carry no accuracies)");
@@ -363,9 +362,9 @@ int run_fit(const FitArgs& a, std::ostream& out, std::ostream& err) {
   }
   out << "\nStrike lines: ";
   if (spacing && strike_az)
-    out << "azimuth " << geo::format_quadrant_azimuth(*strike_az) << " (" << geo::format_decimal("%05.1f", *strike_az) << "), "
-        << geo::format_decimal("%.1f", *spacing) << " m apart horizontally for a " << geo::format_decimal("%g", interval)
-        << " m contour interval\n";
+    out << "azimuth " << geo::format_quadrant_azimuth(*strike_az) << " (" << geo::format_decimal("%05.1f", *strike_az)
+        << "), " << geo::format_decimal("%.1f", *spacing) << " m apart horizontally for a "
+        << geo::format_decimal("%g", interval) << " m contour interval\n";
   else
     out << (spacing ? strike_az.error() : spacing.error()) << "\n";
   return 0;

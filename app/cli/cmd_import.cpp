@@ -51,8 +51,8 @@ int run(const ImportArgs& a, std::ostream& out, std::ostream& err) {
   if (shown) err << "\n";
   if (!rep.ok()) {
     for (const auto& e : rep.errors) err << formats::terminal_safe(e) << "\n";
-    err << "nothing imported: " << rep.errors.size() << (rep.errors.size() == 1 ? " problem" : " problems")
-        << " in " << path << "\n";
+    err << "nothing imported: " << rep.errors.size() << (rep.errors.size() == 1 ? " problem" : " problems") << " in "
+        << path << "\n";
     return 1;
   }
   const std::string what = waypoints ? (contact ? "contact points" : "stations") : kind_name;

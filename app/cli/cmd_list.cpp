@@ -18,7 +18,8 @@ int run(const ListArgs& a, std::ostream& out, std::ostream& err) {
   const std::vector<std::string> args{a.file, a.kind};
   const auto kind = store::parse_import_kind(args[1]);
   if (!kind)
-    throw std::invalid_argument("KIND '" + args[1] + "' is not one of: units, contacts, stations, planes, lines, points");
+    throw std::invalid_argument("KIND '" + args[1] +
+                                "' is not one of: units, contacts, stations, planes, lines, points");
   auto project = open_project(args[0], true, err);
   out << store::list_csv(project, *kind);
   return 0;

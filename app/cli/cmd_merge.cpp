@@ -90,8 +90,8 @@ void write_text(std::ostream& out, const std::string& target, const store::Merge
     for (const auto& k : rep.clashes) {
       out << "  " << k.table << " " << k.column << " " << k.code;
       if (!k.scope.empty()) out << " at " << k.scope;
-      out << ": kept by the record from " << k.kept_device << "; the one from " << k.renamed_device
-          << " is stored as " << k.stored_as;
+      out << ": kept by the record from " << k.kept_device << "; the one from " << k.renamed_device << " is stored as "
+          << k.stored_as;
       if (k.distance_m) {
         out << fmt::format(" ({:.0f} m apart)", *k.distance_m);
       }
@@ -294,8 +294,10 @@ int run(const MergeArgs& a, std::ostream& out, std::ostream& err) {
     }
     throw;
   }
-  if (json) write_json(out, target, rep);
-  else write_text(out, target, rep);
+  if (json)
+    write_json(out, target, rep);
+  else
+    write_text(out, target, rep);
   return 0;
 }
 

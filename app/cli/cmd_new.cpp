@@ -27,7 +27,10 @@ int run(const NewArgs& a, std::ostream& out, std::ostream&) {
   const auto& decl = a.decl;
   const auto& nearby = a.nearby;
   // The cross-check's screening settings, stored in the file (schema version 5).
-  struct Setting { double store::ProjectInfo::*field; std::optional<double> value; };
+  struct Setting {
+    double store::ProjectInfo::*field;
+    std::optional<double> value;
+  };
   const Setting settings[] = {{&store::ProjectInfo::friction_angle, a.friction},
                               {&store::ProjectInfo::sliding_window, a.sliding},
                               {&store::ProjectInfo::toppling_window, a.toppling}};
@@ -62,7 +65,9 @@ int run(const NewArgs& a, std::ostream& out, std::ostream&) {
     out << "created " << args[0] << ": project '" << info.name << "'"
         << (info.utm_zone.empty() ? std::string(", no UTM zone") : ", UTM zone " + info.utm_zone)
         << ", readings default to " << store::to_string(info.north_default) << " north"
-        << (info.nearby_radius > 0 ? ", unnamed readings compared within " + std::to_string(static_cast<int>(info.nearby_radius)) + " m of a contact" : std::string())
+        << (info.nearby_radius > 0 ? ", unnamed readings compared within " +
+                                         std::to_string(static_cast<int>(info.nearby_radius)) + " m of a contact"
+                                   : std::string())
         << "\n";
   } catch (const store::ValidationError& e) {
     throw std::invalid_argument(e.what());

@@ -86,8 +86,8 @@ int run(const PublishArgs& a, std::ostream& out, std::ostream& err) {
   }
   out << (rep.project_created ? " (new project)" : "") << "\n";
   for (const auto& [t, w] : rep.tables)
-    out << "  " << t << ": " << w.written << " written" << (w.removed ? ", " + std::to_string(w.removed) + " removed" : "")
-        << "\n";
+    out << "  " << t << ": " << w.written << " written"
+        << (w.removed ? ", " + std::to_string(w.removed) + " removed" : "") << "\n";
   out << "  latest check: " << rep.fits << " fitted contacts, " << rep.flags << " flags\n";
   if (!rep.merge.conflicts.empty()) {
     out << "\nConflicts (" << rep.merge.conflicts.size()

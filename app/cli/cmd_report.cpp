@@ -152,8 +152,7 @@ Runner define(CLI::App& app) {
 
 }  // namespace
 
-CAIRN_COMMAND(Command{"report",
-                      "write the evening report: one self-contained HTML file with summary, flags, plan and nets",
-                      define});
+CAIRN_COMMAND(Command{
+    "report", "write the evening report: one self-contained HTML file with summary, flags, plan and nets", define});
 
 }  // namespace cairn::cli

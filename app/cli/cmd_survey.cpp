@@ -21,9 +21,12 @@ struct SurveyArgs {
 int run(const SurveyArgs& a, std::ostream& out, std::ostream&) {
   if (a.action == "init") {
     const auto rep = store::survey::init_store(a.url);
-    if (rep.from_version == 0) out << "Survey store set up";
-    else if (rep.steps.empty()) out << "Survey store already up to date";
-    else out << "Survey store upgraded from store version " << rep.from_version;
+    if (rep.from_version == 0)
+      out << "Survey store set up";
+    else if (rep.steps.empty())
+      out << "Survey store already up to date";
+    else
+      out << "Survey store upgraded from store version " << rep.from_version;
     out << " (store version " << rep.to_version << ", project files of schema " << rep.project_schema << ")\n";
     for (const auto& s : rep.steps) out << "  " << s << "\n";
     return 0;

@@ -29,8 +29,8 @@ void print_info(const store::TerrainInfo& t, long long missing, std::ostream& ou
   out << std::fixed << std::setprecision(2);
   out << "terrain " << t.name << "\n";
   out << "  CRS EPSG:" << t.epsg << ", cell " << t.cell << " m, " << t.nx << " x " << t.ny << " cells\n";
-  out << "  extent E " << t.west << " .. " << (t.west + t.nx * t.cell) << ", N " << (t.north - t.ny * t.cell)
-      << " .. " << t.north << "\n";
+  out << "  extent E " << t.west << " .. " << (t.west + t.nx * t.cell) << ", N " << (t.north - t.ny * t.cell) << " .. "
+      << t.north << "\n";
   out << "  nodata " << t.nodata << " (" << missing << " cells without elevation)\n";
   out << "  vertical accuracy ";
   if (t.vertical_accuracy)
@@ -49,7 +49,8 @@ struct TerrainArgs {
 };
 
 int run(const TerrainArgs& a, std::ostream& out, std::ostream& err) {
-  const std::vector<std::string> args = a.dem.empty() ? std::vector<std::string>{a.file} : std::vector<std::string>{a.file, a.dem};
+  const std::vector<std::string> args =
+      a.dem.empty() ? std::vector<std::string>{a.file} : std::vector<std::string>{a.file, a.dem};
   const std::string& file = a.file;
   const bool attach = !a.dem.empty();
   const bool remove = a.remove;
@@ -83,7 +84,8 @@ int run(const TerrainArgs& a, std::ostream& out, std::ostream& err) {
     const auto contact = store::find_contact(project, *snap);
     if (!contact) throw std::invalid_argument("no contact named '" + *snap + "' in " + file);
     const int n = store::snap_to_terrain(project, contact->meta.uuid);
-    out << n << " points of " << *snap << " now take their elevation from the terrain (each change is in the audit trail and can be undone)\n";
+    out << n << " points of " << *snap
+        << " now take their elevation from the terrain (each change is in the audit trail and can be undone)\n";
     return 0;
   }
 
@@ -105,7 +107,8 @@ int run(const TerrainArgs& a, std::ostream& out, std::ostream& err) {
     throw std::invalid_argument(file + " has no UTM zone and no positions: set the zone (cairn new --utm) first");
   formats::DemRequest req;
   req.epsg = formats::utm_epsg(data.zone.zone, data.zone.northp);
-  if (w <= e) req.area = formats::DemArea{w - kTerrainMargin, s - kTerrainMargin, e + kTerrainMargin, n + kTerrainMargin};
+  if (w <= e)
+    req.area = formats::DemArea{w - kTerrainMargin, s - kTerrainMargin, e + kTerrainMargin, n + kTerrainMargin};
   const std::string& dem = args[1];
   auto read = formats::read_dem(dem, req);
   if (!read) {
@@ -115,8 +118,8 @@ int run(const TerrainArgs& a, std::ostream& out, std::ostream& err) {
   }
   const std::string name = std::filesystem::path(dem).filename().string();
   const auto stored = store::store_terrain(project, read->grid, req.epsg, name, accuracy);
-  out << "stored terrain " << name << (read->reprojected ? " (reprojected from " + read->source_crs + ")" : "")
-      << ": " << read->grid.nx << " x " << read->grid.ny << " cells of " << read->grid.cell << " m in EPSG:" << req.epsg
+  out << "stored terrain " << name << (read->reprojected ? " (reprojected from " + read->source_crs + ")" : "") << ": "
+      << read->grid.nx << " x " << read->grid.ny << " cells of " << read->grid.cell << " m in EPSG:" << req.epsg
       << "\n";
   out << "elevations from the terrain: " << stored.filled_stations << " stations, " << stored.filled_points
       << " points\n";
@@ -128,7 +131,8 @@ Runner define(CLI::App& app) {
   positional(app, "FILE", a->file, "the project file");
   positional(app, "DEM", a->dem, "a raster elevation model GDAL reads (GeoTIFF, ASCII grid with .prj, ...) to store",
              false);
-  number(app, "--vertical-accuracy", a->vertical_accuracy, 0, 1000, "the DEM's stated vertical accuracy, metres (1 sigma)");
+  number(app, "--vertical-accuracy", a->vertical_accuracy, 0, 1000,
+         "the DEM's stated vertical accuracy, metres (1 sigma)");
   flag(app, "--remove", a->remove, "drop the stored terrain");
   option(app, "--snap", a->snap, "replace the receiver elevations of this contact's points by the terrain's (audited)");
   return [a](std::ostream& out, std::ostream& err) { return run(*a, out, err); };

@@ -111,7 +111,8 @@ CLI::Option* flag(CLI::App& app, const std::string& name, bool& target, const st
 
 CLI::Option* option(CLI::App& app, const std::string& name, std::optional<std::string>& target,
                     const std::string& help) {
-  return once(app.add_option_function<std::string>(name, [&target](const std::string& v) { target = v; }, help)
+  return once(app.add_option_function<std::string>(
+                     name, [&target](const std::string& v) { target = v; }, help)
                   ->check(kNotAnOption));
 }
 

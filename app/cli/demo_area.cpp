@@ -30,7 +30,7 @@ constexpr int kOffsetMinutes = -7 * 60;
 // A portable random source: mt19937_64 is fully specified by the C++ standard,
 // and the distributions below are our own, so every machine draws the same demo.
 class Rng {
-public:
+ public:
   explicit Rng(std::uint64_t seed) : g_(seed) {}
   double uniform(double lo, double hi) { return lo + (hi - lo) * (static_cast<double>(g_() >> 11) * 0x1.0p-53); }
   int integer(int lo, int hi) { return lo + static_cast<int>(uniform(0, hi - lo + 1 - 1e-9)); }
@@ -46,13 +46,13 @@ public:
                        static_cast<unsigned long long>(b & 0xffffffffffffULL));
   }
 
-private:
+ private:
   std::mt19937_64 g_;
 };
 
 // Local frame: metres east and north of the origin in UTM zone 8N (grid).
 class Frame {
-public:
+ public:
   Frame() {
     auto o = geo::to_utm({kLat0, kLon0}, geo::UtmZone{kZone, true});
     if (!o) throw std::logic_error(o.error());
@@ -71,7 +71,7 @@ public:
   double to_grid(double az) const { return geo::wrap360(az - convergence_); }
   double to_true(double az) const { return geo::wrap360(az + convergence_); }
 
-private:
+ private:
   double e0_ = 0, n0_ = 0, convergence_ = 0;
 };
 
@@ -219,11 +219,15 @@ Area build_area() {
   };
   const store::Person RO = person("Rhian Ottery", "RO"), BK = person("Benno Kask", "BK"),
                       MT = person("Mira Tallis", "MT");
-  struct UnitDef { const char* code; const char* name; const char* colour; };
+  struct UnitDef {
+    const char* code;
+    const char* name;
+    const char* colour;
+  };
   // Colours from the Okabe & Ito (2008) palette.
-  const UnitDef unit_defs[] = {{"Vg", "Vell gneiss", "#CC79A7"},        {"Sq", "Skarra quartzite", "#E69F00"},
-                               {"Ss", "Skarra slate", "#56B4E9"},       {"Tc", "Tolm conglomerate", "#009E73"},
-                               {"Ts", "Tolm sandstone", "#F0E442"},     {"Hg", "Hvalt granite", "#D55E00"}};
+  const UnitDef unit_defs[] = {{"Vg", "Vell gneiss", "#CC79A7"},    {"Sq", "Skarra quartzite", "#E69F00"},
+                               {"Ss", "Skarra slate", "#56B4E9"},   {"Tc", "Tolm conglomerate", "#009E73"},
+                               {"Ts", "Tolm sandstone", "#F0E442"}, {"Hg", "Hvalt granite", "#D55E00"}};
   std::vector<store::Unit> units;
   for (int i = 0; i < 6; ++i) {
     store::Unit u;
@@ -325,8 +329,8 @@ Area build_area() {
   // A planar reading as typed on the tablet (right-hand rule). Magnetic readings
   // are typed as read off the compass; storage applies the declination.
   auto add_plane = [&](Tablet& t, const store::Station& s, store::PlaneKind kind, const Plane& typed,
-                       store::North north, const Clock& clk, const std::string& ref,
-                       const store::Contact* c = nullptr, int quality = 5, const std::string& notes = "") {
+                       store::North north, const Clock& clk, const std::string& ref, const store::Contact* c = nullptr,
+                       int quality = 5, const std::string& notes = "") {
     store::PlanarReading r;
     r.meta = meta(rng, clk, t.device_id);
     r.station = s.meta.uuid;
@@ -429,7 +433,10 @@ Area build_area() {
       const double n = -400 + (i / 2) * 60.0;
       const double sgn = i % 2 ? 1.0 : -1.0;
       double lo = 0, hi = 800;
-      auto f = [&](double d) { const double e = -2000 + sgn * d; return folded(e, n) - terrain(e, n); };
+      auto f = [&](double d) {
+        const double e = -2000 + sgn * d;
+        return folded(e, n) - terrain(e, n);
+      };
       if ((f(lo) > 0) == (f(hi) > 0)) throw std::logic_error("demo fold does not meet the terrain");
       for (int k = 0; k < 60; ++k) {
         const double mid = 0.5 * (lo + hi);
@@ -447,7 +454,9 @@ Area build_area() {
       const Plane fol = noisy(rng, geo::plane_from_dip_direction(e > -2000 ? 90 : 270, 38), 4);
       add_plane(A, st, store::PlaneKind::Foliation, fol, store::North::True, clk, code + "a", nullptr, 4);
       clk.minute += 4;
-      if (i <= 8) add_line(A, st, store::LineKind::FoldAxis, {geo::wrap360(rng.uniform(-4, 4)), 4 + rng.uniform(0, 3)}, store::North::True, clk, code + "F");
+      if (i <= 8)
+        add_line(A, st, store::LineKind::FoldAxis, {geo::wrap360(rng.uniform(-4, 4)), 4 + rng.uniform(0, 3)},
+                 store::North::True, clk, code + "F");
       add_plane(A, st, store::PlaneKind::Joint, noisy(rng, i % 2 ? joint1 : joint2, 3), store::North::True, clk,
                 code + "b");
     }
@@ -560,7 +569,8 @@ Area build_area() {
       const double e = rng.uniform(-2400, -1500), n = rng.uniform(-1900, -1200);
       clk.minute += 15;
       const store::Station& st = add_station(B, code, e, n, "Hg", clk, MT, "granite, coarse");
-      add_plane(B, st, store::PlaneKind::Joint, magnetic(noisy(rng, joint1, 3)), store::North::Magnetic, clk, code + "a");
+      add_plane(B, st, store::PlaneKind::Joint, magnetic(noisy(rng, joint1, 3)), store::North::Magnetic, clk,
+                code + "a");
       add_line(B, st, store::LineKind::Lineation, {geo::wrap360(rng.uniform(300, 330) - kDecl), rng.uniform(5, 15)},
                store::North::Magnetic, clk, code + "L");
     }
@@ -582,8 +592,8 @@ Area build_area() {
         contact_name = C1.name;
         note = "channel fill, top of bed";
       }
-      csv += formats::csv_record({code, kind, geo::format_decimal("%.0f", p.strike), geo::format_decimal("%.0f", p.dip), "true", contact_name, "5",
-                                "unknown", code + "n", clk.local(), note});
+      csv += formats::csv_record({code, kind, geo::format_decimal("%.0f", p.strike), geo::format_decimal("%.0f", p.dip),
+                                  "true", contact_name, "5", "unknown", code + "n", clk.local(), note});
     }
     area.notebook_csv = csv;
   }

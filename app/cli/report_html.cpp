@@ -85,8 +85,8 @@ std::string stroke_icon(Rgba colour, double w = 22, double h = 12) {
 // ---------------------------------------------------------------- lookups
 
 struct Index {
-  std::unordered_map<std::string, const store::Station*> station;        // by uuid
-  std::unordered_map<std::string, const store::Station*> station_code;   // by code
+  std::unordered_map<std::string, const store::Station*> station;       // by uuid
+  std::unordered_map<std::string, const store::Station*> station_code;  // by code
   std::unordered_map<std::string, const store::Person*> person;
   std::unordered_map<std::string, const store::Unit*> unit;
   std::unordered_map<std::string, Rgba> unit_colour;
@@ -191,8 +191,9 @@ void write_summary(std::ostream& o, const ReportData& d, const Index& ix) {
     std::vector<std::string> dated;
     for (const auto& day : days)
       if (!day.empty()) dated.push_back(day);
-    if (!dated.empty()) range = dated.front() == dated.back() ? " (" + dated.front() + ")"
-                                                              : " (" + dated.front() + " to " + dated.back() + ")";
+    if (!dated.empty())
+      range = dated.front() == dated.back() ? " (" + dated.front() + ")"
+                                            : " (" + dated.front() + " to " + dated.back() + ")";
   }
   o << "<section id=\"summary\"><h2>Summary</h2>\n<p>" << plural(days.size(), "day", "days") << range << ", "
     << plural(people.size(), "person", "people") << ": " << plural(total.stations, "station", "stations") << ", "
@@ -207,7 +208,8 @@ void write_summary(std::ostream& o, const ReportData& d, const Index& ix) {
     return;
   }
   o << "<table class=\"summary\"><thead><tr><th>Day</th><th>Person</th><th class=\"num\">Stations</th>"
-       "<th class=\"num\">Planar readings</th><th class=\"num\">Linear readings</th><th class=\"num\">Contact points</th>"
+       "<th class=\"num\">Planar readings</th><th class=\"num\">Linear readings</th><th class=\"num\">Contact "
+       "points</th>"
        "<th>Flags at their stations</th></tr></thead>\n<tbody>\n";
   std::string day = "\x01";
   Tally day_total;
@@ -224,8 +226,8 @@ void write_summary(std::ostream& o, const ReportData& d, const Index& ix) {
     }
     day_total.add(v);
     ++day_rows;
-    o << "<tr><td class=\"day\">" << esc(k.first.empty() ? "undated" : k.first) << "</td><td>" << esc(k.second) << "</td>"
-      << tally_cells(v) << "</tr>\n";
+    o << "<tr><td class=\"day\">" << esc(k.first.empty() ? "undated" : k.first) << "</td><td>" << esc(k.second)
+      << "</td>" << tally_cells(v) << "</tr>\n";
   }
   close_day();
   o << "</tbody><tfoot><tr class=\"total\"><td>All days</td><td>everyone</td>" << tally_cells(total)
@@ -242,8 +244,9 @@ void write_declination(std::ostream& o, const ReportData& d) {
   o << "<section id=\"declination\"><h2>Declination</h2>\n";
   if (d.declination) {
     const auto& s = *d.declination;
-    o << "<p>" << esc(s.model) << " at " << geo::format_decimal("%.4f", std::fabs(s.lat)) << "° " << (s.lat >= 0 ? "N" : "S") << ", "
-      << geo::format_decimal("%.4f", std::fabs(s.lon)) << "° " << (s.lon >= 0 ? "E" : "W") << " (the mean position of the data)";
+    o << "<p>" << esc(s.model) << " at " << geo::format_decimal("%.4f", std::fabs(s.lat)) << "° "
+      << (s.lat >= 0 ? "N" : "S") << ", " << geo::format_decimal("%.4f", std::fabs(s.lon)) << "° "
+      << (s.lon >= 0 ? "E" : "W") << " (the mean position of the data)";
     if (s.first_date == s.last_date) {
       o << " on " << esc(s.first_date) << ": <strong>" << degrees_ew(s.first) << "</strong>";
     } else {
@@ -252,8 +255,9 @@ void write_declination(std::ostream& o, const ReportData& d) {
     }
     o << (s.dates_from_data ? "." : " (no dated records: evaluated on the day of this report).") << "</p>\n";
     if (!s.in_validity)
-      o << "<p class=\"caution\">These dates fall outside " << esc(s.model) << "'s validity (" << geo::format_decimal("%.1f", s.valid_from)
-        << " to " << geo::format_decimal("%.1f", s.valid_to) << "): its declination there is an extrapolation.</p>\n";
+      o << "<p class=\"caution\">These dates fall outside " << esc(s.model) << "'s validity ("
+        << geo::format_decimal("%.1f", s.valid_from) << " to " << geo::format_decimal("%.1f", s.valid_to)
+        << "): its declination there is an extrapolation.</p>\n";
   } else {
     o << "<p>No declination evaluated: " << esc(d.declination_problem) << ".</p>\n";
   }
@@ -278,8 +282,8 @@ void write_declination(std::ostream& o, const ReportData& d) {
   for (const auto& r : d.lines) take(r.north, r.declination, r.declination_source);
   o << "<ul>\n<li>" << plural(true_north, "reading was", "readings were") << " measured against true north.</li>\n";
   for (const auto& [src, u] : by_source) {
-    o << "<li>" << plural(u.n, "magnetic reading", "magnetic readings") << " turned to true north with "
-      << esc(src) << ": " << degrees_ew(u.lo);
+    o << "<li>" << plural(u.n, "magnetic reading", "magnetic readings") << " turned to true north with " << esc(src)
+      << ": " << degrees_ew(u.lo);
     if (std::fabs(u.hi - u.lo) >= 0.05) o << " to " << degrees_ew(u.hi);
     o << ".</li>\n";
   }
@@ -318,7 +322,8 @@ void write_flags(std::ostream& o, const ReportData& d) {
     std::string finding = esc(f->message);
     if (f->misfit) {
       finding += "<br><span class=\"small\">misfit " + geo::format_decimal("%.1f", *f->misfit) + "°";
-      if (f->misfit_corrected) finding += ", " + geo::format_decimal("%.1f", *f->misfit_corrected) + "° after the suggested correction";
+      if (f->misfit_corrected)
+        finding += ", " + geo::format_decimal("%.1f", *f->misfit_corrected) + "° after the suggested correction";
       finding += "</span>";
     }
     o << "<tr class=\"sev-" << sev << "\"><td class=\"sev\">" << severity_icon(sev) << " <strong>" << sev
@@ -426,7 +431,8 @@ void write_plan(std::ostream& o, const ReportData& d, const Index& ix) {
     std::vector<plot::TracedContact> traced;
     for (const auto& f : d.result.fits)
       if (f.fit)
-        traced.push_back({f.contact, &*f.fit, contact_ink.count(f.contact_id) ? contact_ink[f.contact_id] : kContactInks[0]});
+        traced.push_back(
+            {f.contact, &*f.fit, contact_ink.count(f.contact_id) ? contact_ink[f.contact_id] : kContactInks[0]});
     ground_notes = plot::add_terrain(pd, *d.terrain, traced, d.terrain_sigma.value_or(0));
   }
 
@@ -438,8 +444,7 @@ void write_plan(std::ostream& o, const ReportData& d, const Index& ix) {
   svg.polyline({{0.5, 0.5}, {W - 0.5, 0.5}, {W - 0.5, H - 0.5}, {0.5, H - 0.5}}, plot::kInk, 1, true);
   o << "<figure class=\"plan\">" << svg.svg() << "\n<figcaption>";
   o << "Grid north up";
-  if (d.check.zone.zone > 0)
-    o << " (UTM zone " << d.check.zone.zone << (d.check.zone.northp ? "N" : "S") << ")";
+  if (d.check.zone.zone > 0) o << " (UTM zone " << d.check.zone.zone << (d.check.zone.northp ? "N" : "S") << ")";
   if (std::fabs(gamma) >= 0.05)
     o << "; true north lies " << geo::format_decimal("%.1f", std::fabs(gamma)) << "° " << (gamma > 0 ? "west" : "east")
       << " of grid north, and the symbols are turned onto the grid";
@@ -545,7 +550,8 @@ void write_unit_nets(std::ostream& o, const ReportData& d, const Index& ix) {
   };
   std::vector<Group> groups;
   for (const auto& u : d.units)
-    groups.push_back({"Unit " + u.code + (u.name.empty() ? "" : " – " + u.name), u.meta.uuid, ix.colour_of_unit(u.meta.uuid)});
+    groups.push_back(
+        {"Unit " + u.code + (u.name.empty() ? "" : " – " + u.name), u.meta.uuid, ix.colour_of_unit(u.meta.uuid)});
   groups.push_back({"Stations without a unit", "", Rgba{90, 90, 90, 255}});
   const std::vector<std::string> plane_order{"bedding", "foliation", "cleavage", "contact", "joint", "fault", "vein"};
   const std::vector<std::string> line_order{"lineation", "fold_axis", "slickenline", "intersection"};
@@ -579,7 +585,8 @@ void write_unit_nets(std::ostream& o, const ReportData& d, const Index& ix) {
       nd.lines.push_back({geo::Line{r->trend, r->plunge}, g.colour, plot::line_shape(k), k == lkind});
     }
     for (const auto& [k, n] : pk)
-      nd.key.push_back({plot::pole_shape(k), g.colour, true, "poles to " + kind_words(k) + " (" + std::to_string(n) + ")"});
+      nd.key.push_back(
+          {plot::pole_shape(k), g.colour, true, "poles to " + kind_words(k) + " (" + std::to_string(n) + ")"});
     for (const auto& [k, n] : lk)
       nd.key.push_back({plot::line_shape(k), g.colour, false, kind_words(k) + " (" + std::to_string(n) + ")"});
     nd.pole_set = "poles to " + kind_words(pkind);
@@ -588,8 +595,10 @@ void write_unit_nets(std::ostream& o, const ReportData& d, const Index& ix) {
                           (lkind.empty() ? "" : " and the " + line_set_name(lkind)) + ".";
     figures += net_figure(nd, net_options(d, true), esc(caption));
   }
-  if (figures.empty()) o << "<p>No readings yet.</p>\n";
-  else o << "<div class=\"nets\">\n" << figures << "</div>\n";
+  if (figures.empty())
+    o << "<p>No readings yet.</p>\n";
+  else
+    o << "<div class=\"nets\">\n" << figures << "</div>\n";
   o << "</section>\n";
 }
 
@@ -607,10 +616,13 @@ void write_contact_nets(std::ostream& o, const ReportData& d, const Index& ix) {
       if (r.contact != c.meta.uuid) continue;
       auto st = ix.station.find(r.station);
       const Rgba ink = st == ix.station.end() ? plot::kInk : ix.colour_of_unit(st->second->unit);
-      nd.planes.push_back({geo::Plane{r.strike, r.dip}, ink, plot::pole_shape(std::string(store::to_string(r.kind))), true});
+      nd.planes.push_back(
+          {geo::Plane{r.strike, r.dip}, ink, plot::pole_shape(std::string(store::to_string(r.kind))), true});
       ++n;
     }
-    if (n) nd.key.push_back({plot::Shape::Circle, plot::kInk, true, "poles to readings naming it (" + std::to_string(n) + ")"});
+    if (n)
+      nd.key.push_back(
+          {plot::Shape::Circle, plot::kInk, true, "poles to readings naming it (" + std::to_string(n) + ")"});
     nd.pole_set = "readings";
     if (fit && fit->plane && fit->fit) {
       plot::NetFit nf;
@@ -624,12 +636,15 @@ void write_contact_nets(std::ostream& o, const ReportData& d, const Index& ix) {
     std::string caption = "Lower unit " + esc(ix.unit_code(c.lower_unit)) + ", upper unit " +
                           esc(ix.unit_code(c.upper_unit)) + ", " + esc(std::string(store::to_string(c.type))) + ". ";
     if (fit) caption += "Fit: " + esc(fit->verdict) + ". ";
-    caption += "The blue great circle is the plane fitted to the contact's points, the square its pole with the 95% "
-               "cone; markers are the poles of readings that name the contact, in their station's unit colour.";
+    caption +=
+        "The blue great circle is the plane fitted to the contact's points, the square its pole with the 95% "
+        "cone; markers are the poles of readings that name the contact, in their station's unit colour.";
     figures += net_figure(nd, net_options(d, false), caption);
   }
-  if (figures.empty()) o << "<p>No contact has a fit or readings yet.</p>\n";
-  else o << "<div class=\"nets\">\n" << figures << "</div>\n";
+  if (figures.empty())
+    o << "<p>No contact has a fit or readings yet.</p>\n";
+  else
+    o << "<div class=\"nets\">\n" << figures << "</div>\n";
   o << "</section>\n";
 }
 

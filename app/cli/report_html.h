@@ -21,12 +21,12 @@ namespace cairn::cli {
 
 // The magnetic model's declination over the project area and dates.
 struct DeclinationSummary {
-  std::string model;                  // "WMM2025"
-  double lat = 0, lon = 0;            // where it was evaluated (mean position of the data)
-  std::string first_date, last_date;  // YYYY-MM-DD, the data's date range
-  double first = 0, last = 0;         // declination (degrees east) at those dates
-  bool dates_from_data = true;        // false: no dated records, evaluated today
-  bool in_validity = true;            // both dates inside the model's validity
+  std::string model;                    // "WMM2025"
+  double lat = 0, lon = 0;              // where it was evaluated (mean position of the data)
+  std::string first_date, last_date;    // YYYY-MM-DD, the data's date range
+  double first = 0, last = 0;           // declination (degrees east) at those dates
+  bool dates_from_data = true;          // false: no dated records, evaluated today
+  bool in_validity = true;              // both dates inside the model's validity
   double valid_from = 0, valid_to = 0;  // decimal years
 };
 
@@ -41,8 +41,8 @@ struct ReportData {
   std::vector<store::PlanarReading> planes;
   std::vector<store::LinearReading> lines;
   std::vector<store::ContactPoint> points;
-  core::CheckData check;     // positions in UTM metres, as the engine saw them
-  geo::CheckReport result;    // fits and flags
+  core::CheckData check;    // positions in UTM metres, as the engine saw them
+  geo::CheckReport result;  // fits and flags
   // The project's terrain in the check's zone (storage/terrain.h), and its stated accuracy.
   std::optional<geo::TerrainGrid> terrain;
   std::optional<double> terrain_sigma;

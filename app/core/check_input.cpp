@@ -85,7 +85,8 @@ CheckData load_check_input(Project& p, const LocalDeclination& local_declination
   };
 
   std::unordered_map<std::string, std::string> initials;
-  for (const auto& person : list_people(p)) initials[person.meta.uuid] = person.initials.empty() ? person.name : person.initials;
+  for (const auto& person : list_people(p))
+    initials[person.meta.uuid] = person.initials.empty() ? person.name : person.initials;
   std::unordered_map<std::string, const Station*> station_by_id;
   for (const auto& s : stations) {
     station_by_id[s.meta.uuid] = &s;
@@ -168,7 +169,8 @@ CheckData load_check_input(Project& p, const LocalDeclination& local_declination
     if (local_declination) {
       auto st = station_by_id.find(r.station);
       auto year = decimal_year_of(r.time);
-      if (st != station_by_id.end() && year) cp.local_declination = local_declination(st->second->lat, st->second->lon, *year);
+      if (st != station_by_id.end() && year)
+        cp.local_declination = local_declination(st->second->lat, st->second->lon, *year);
     }
     out.input.planes.push_back(cp);
   }

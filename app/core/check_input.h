@@ -21,7 +21,7 @@ using LocalDeclination = std::function<std::optional<double>(double lat, double 
 
 struct CheckData {
   geo::CheckInput input;
-  geo::UtmZone zone;                                   // the zone the positions are in
+  geo::UtmZone zone;                                       // the zone the positions are in
   std::unordered_map<std::string, std::string> unit_code;  // unit UUID -> code
 };
 

@@ -41,8 +41,8 @@ Result<ExportFormat> export_format_for(const std::string& out) {
 }
 
 ExportSummary export_csv_folder(Project& p, const std::string& dir) {
-  const ImportKind kinds[] = {ImportKind::Units,    ImportKind::Contacts, ImportKind::Stations,
-                              ImportKind::Planes,   ImportKind::Lines,    ImportKind::Points};
+  const ImportKind kinds[] = {ImportKind::Units,  ImportKind::Contacts, ImportKind::Stations,
+                              ImportKind::Planes, ImportKind::Lines,    ImportKind::Points};
   // Everything is read before anything is written.
   std::vector<std::pair<std::string, std::string>> files;
   ExportSummary s;
@@ -57,7 +57,8 @@ ExportSummary export_csv_folder(Project& p, const std::string& dir) {
   }
   std::error_code ec;
   fs::create_directories(dir, ec);
-  if (ec || !fs::is_directory(dir)) throw std::runtime_error("cannot make the folder " + dir + (ec ? ": " + ec.message() : ""));
+  if (ec || !fs::is_directory(dir))
+    throw std::runtime_error("cannot make the folder " + dir + (ec ? ": " + ec.message() : ""));
   for (const auto& [name, text] : files) formats::write_file_atomically((fs::path(dir) / name).string(), text);
   return s;
 }

@@ -24,7 +24,9 @@ ExportSummary export_gpx_tracks(Project& p, const std::string& path) {
   std::vector<formats::GpxTrack> tracks;
   for (auto& [key, pts] : days) {
     const auto it = initials.find(key.first);
-    const std::string who = it != initials.end() ? it->second : key.first.empty() ? std::string("nobody chosen") : key.first;
+    const std::string who = it != initials.end() ? it->second
+                            : key.first.empty()  ? std::string("nobody chosen")
+                                                 : key.first;
     tracks.push_back({who + " " + key.second, {std::move(pts)}});
   }
   formats::write_file_atomically(path, formats::write_gpx_tracks(tracks, "Cairn"));

@@ -48,13 +48,14 @@ FlagText flag_text(std::vector<const geo::Flag*> flags) {
   std::stable_sort(flags.begin(), flags.end(),
                    [](const geo::Flag* a, const geo::Flag* b) { return a->severity > b->severity; });
   FlagText t;
-  for (const auto* f : flags) t.list += (t.list.empty() ? "" : "; ") + std::string(geo::severity_name(f->severity)) + " " + f->rule;
+  for (const auto* f : flags)
+    t.list += (t.list.empty() ? "" : "; ") + std::string(geo::severity_name(f->severity)) + " " + f->rule;
   if (!flags.empty()) t.worst = geo::severity_name(flags.front()->severity);
   return t;
 }
 
 class Builder {
-public:
+ public:
   Builder(Project& p, const ExportOptions& o, RotationFrame frame) : p_(p), frame_(frame) {
     data_ = load_check_input(p, o.local_declination);
     report_ = geo::run_crosscheck(data_.input, o.check);
@@ -77,7 +78,7 @@ public:
     return std::move(out_);
   }
 
-private:
+ private:
   Feature at(double lat, double lon, const std::string& what) {
     Feature f;
     f.where = geo::LatLon{lat, lon};
@@ -117,15 +118,24 @@ private:
   void stations() {
     Layer l{"stations", "Stations", "Where readings were taken (WGS84 positions as recorded).", {}, {}};
     using T = FieldType;
-    l.fields = {{"uuid", T::Text},       {"code", T::Text},     {"lat", T::Real},      {"lon", T::Real},
-                {"elevation", T::Real},  {"h_accuracy", T::Real}, {"v_accuracy", T::Real}, {"source", T::Text},
-                {"unit", T::Text},       {"observer", T::Text}, {"time", T::Text},     {"notes", T::Text}};
+    l.fields = {{"uuid", T::Text},      {"code", T::Text},       {"lat", T::Real},        {"lon", T::Real},
+                {"elevation", T::Real}, {"h_accuracy", T::Real}, {"v_accuracy", T::Real}, {"source", T::Text},
+                {"unit", T::Text},      {"observer", T::Text},   {"time", T::Text},       {"notes", T::Text}};
     meta_fields(l);
     for (const auto& [id, s] : ordered_stations()) {
       Feature f = at(s->lat, s->lon, "station " + s->code);
-      f.values = {s->meta.uuid, s->code, s->lat, s->lon, real(s->elevation), real(s->h_accuracy), real(s->v_accuracy),
-                  std::string(to_string(s->source)), text(lookup(unit_, s->unit)), text(lookup(initials_, s->observer)),
-                  text(s->time), text(s->notes)};
+      f.values = {s->meta.uuid,
+                  s->code,
+                  s->lat,
+                  s->lon,
+                  real(s->elevation),
+                  real(s->h_accuracy),
+                  real(s->v_accuracy),
+                  std::string(to_string(s->source)),
+                  text(lookup(unit_, s->unit)),
+                  text(lookup(initials_, s->observer)),
+                  text(s->time),
+                  text(s->notes)};
       meta_values(f, s->meta);
       l.features.push_back(std::move(f));
     }
@@ -152,18 +162,34 @@ private:
   }
 
   void planes() {
-    Layer l{"planar_readings", "Planar readings",
+    Layer l{"planar_readings",
+            "Planar readings",
             "Strike (right-hand rule) and dip against true north; symbol_rotation: clockwise from the layer grid's "
             "north to the strike (draw the strike-dip symbol pointing up, dip tick on the right, then rotate).",
-            {}, {}};
+            {},
+            {}};
     using T = FieldType;
-    l.fields = {{"uuid", T::Text},          {"station", T::Text},           {"kind", T::Text},
-                {"strike", T::Real},        {"dip", T::Real},               {"dip_direction", T::Real},
-                {"symbol_rotation", T::Real}, {"quality", T::Integer},      {"facing", T::Text},
-                {"north", T::Text},         {"declination", T::Real},       {"declination_source", T::Text},
-                {"measured_strike", T::Real}, {"measured_dip", T::Real},    {"typed", T::Text},
-                {"contact", T::Text},       {"ref", T::Text},               {"time", T::Text},
-                {"observer", T::Text},      {"notes", T::Text},             {"flags", T::Text},
+    l.fields = {{"uuid", T::Text},
+                {"station", T::Text},
+                {"kind", T::Text},
+                {"strike", T::Real},
+                {"dip", T::Real},
+                {"dip_direction", T::Real},
+                {"symbol_rotation", T::Real},
+                {"quality", T::Integer},
+                {"facing", T::Text},
+                {"north", T::Text},
+                {"declination", T::Real},
+                {"declination_source", T::Text},
+                {"measured_strike", T::Real},
+                {"measured_dip", T::Real},
+                {"typed", T::Text},
+                {"contact", T::Text},
+                {"ref", T::Text},
+                {"time", T::Text},
+                {"observer", T::Text},
+                {"notes", T::Text},
+                {"flags", T::Text},
                 {"worst_flag", T::Text}};
     meta_fields(l);
     std::unordered_map<std::string, std::vector<const geo::Flag*>> by_reading;
@@ -202,16 +228,30 @@ private:
   }
 
   void lines() {
-    Layer l{"linear_readings", "Linear readings",
+    Layer l{"linear_readings",
+            "Linear readings",
             "Trend and plunge against true north; symbol_rotation: clockwise from the layer grid's north to the trend.",
-            {}, {}};
+            {},
+            {}};
     using T = FieldType;
-    l.fields = {{"uuid", T::Text},         {"station", T::Text},       {"kind", T::Text},
-                {"trend", T::Real},        {"plunge", T::Real},        {"symbol_rotation", T::Real},
-                {"rake", T::Real},         {"plane_ref", T::Text},     {"north", T::Text},
-                {"declination", T::Real},  {"declination_source", T::Text}, {"measured_trend", T::Real},
-                {"measured_plunge", T::Real}, {"typed", T::Text},      {"ref", T::Text},
-                {"time", T::Text},         {"observer", T::Text},      {"notes", T::Text}};
+    l.fields = {{"uuid", T::Text},
+                {"station", T::Text},
+                {"kind", T::Text},
+                {"trend", T::Real},
+                {"plunge", T::Real},
+                {"symbol_rotation", T::Real},
+                {"rake", T::Real},
+                {"plane_ref", T::Text},
+                {"north", T::Text},
+                {"declination", T::Real},
+                {"declination_source", T::Text},
+                {"measured_trend", T::Real},
+                {"measured_plunge", T::Real},
+                {"typed", T::Text},
+                {"ref", T::Text},
+                {"time", T::Text},
+                {"observer", T::Text},
+                {"notes", T::Text}};
     meta_fields(l);
     std::unordered_map<std::string, std::string> plane_ref;
     for (const auto& pl : list_planes(p_, with_deleted())) plane_ref[pl.meta.uuid] = pl.ref;
@@ -244,14 +284,22 @@ private:
   void points() {
     Layer l{"contact_points", "Contact points", "Points mapped along contacts (WGS84 positions as recorded).", {}, {}};
     using T = FieldType;
-    l.fields = {{"uuid", T::Text},       {"contact", T::Text},    {"lat", T::Real},        {"lon", T::Real},
-                {"elevation", T::Real},  {"h_accuracy", T::Real}, {"v_accuracy", T::Real}, {"source", T::Text},
-                {"time", T::Text},       {"observer", T::Text},   {"notes", T::Text}};
+    l.fields = {{"uuid", T::Text},      {"contact", T::Text},    {"lat", T::Real},        {"lon", T::Real},
+                {"elevation", T::Real}, {"h_accuracy", T::Real}, {"v_accuracy", T::Real}, {"source", T::Text},
+                {"time", T::Text},      {"observer", T::Text},   {"notes", T::Text}};
     meta_fields(l);
     for (const auto& q : list_points(p_)) {
       Feature f = at(q.lat, q.lon, "contact point " + q.meta.uuid);
-      f.values = {q.meta.uuid, text(lookup(contact_, q.contact)), q.lat, q.lon, real(q.elevation), real(q.h_accuracy),
-                  real(q.v_accuracy), std::string(to_string(q.source)), text(q.time), text(lookup(initials_, q.observer)),
+      f.values = {q.meta.uuid,
+                  text(lookup(contact_, q.contact)),
+                  q.lat,
+                  q.lon,
+                  real(q.elevation),
+                  real(q.h_accuracy),
+                  real(q.v_accuracy),
+                  std::string(to_string(q.source)),
+                  text(q.time),
+                  text(lookup(initials_, q.observer)),
                   text(q.notes)};
       meta_values(f, q.meta);
       l.features.push_back(std::move(f));
@@ -279,13 +327,15 @@ private:
     const auto info = terrain_info(p_);
     if (!info || info->epsg != utm_epsg(out_.zone)) return;
     const auto grid = load_terrain(p_);
-    Layer traces{"predicted_traces", "Predicted outcrop traces",
+    Layer traces{"predicted_traces",
+                 "Predicted outcrop traces",
                  "where each fitted contact's best plane meets the terrain; interval: mean half width (m) of "
                  "its 95% trace band across the trace",
                  {{"contact", FieldType::Text}, {"interval", FieldType::Real}},
                  {},
                  "MULTILINESTRING"};
-    Layer bands{"trace_bands", "Trace bands",
+    Layer bands{"trace_bands",
+                "Trace bands",
                 "where each fitted contact crops out with 95% probability (the terrain's cells)",
                 {{"contact", FieldType::Text}, {"confidence", FieldType::Real}},
                 {},
@@ -324,17 +374,19 @@ private:
   }
 
   void fitted_contacts() {
-    Layer l{"fitted_contacts", "Fitted contacts",
+    Layer l{"fitted_contacts",
+            "Fitted contacts",
             "One point per contact at the centroid of its mapped points: the plane fitted through them (strike by "
             "the right-hand rule, true north), its 95% cone, verdict and the cross-check's contact-wide flags.",
-            {}, {}};
+            {},
+            {}};
     using T = FieldType;
-    l.fields = {{"contact_uuid", T::Text}, {"contact", T::Text},        {"type", T::Text},
-                {"lower_unit", T::Text},   {"upper_unit", T::Text},     {"points", T::Integer},
-                {"strike", T::Real},       {"dip", T::Real},            {"dip_direction", T::Real},
-                {"symbol_rotation", T::Real}, {"cone95", T::Real},      {"rms", T::Real},
-                {"verdict", T::Text},      {"usable", T::Boolean},      {"flags", T::Text},
-                {"worst_flag", T::Text},   {"reading_flags", T::Integer}};
+    l.fields = {
+        {"contact_uuid", T::Text},    {"contact", T::Text},         {"type", T::Text},   {"lower_unit", T::Text},
+        {"upper_unit", T::Text},      {"points", T::Integer},       {"strike", T::Real}, {"dip", T::Real},
+        {"dip_direction", T::Real},   {"symbol_rotation", T::Real}, {"cone95", T::Real}, {"rms", T::Real},
+        {"verdict", T::Text},         {"usable", T::Boolean},       {"flags", T::Text},  {"worst_flag", T::Text},
+        {"reading_flags", T::Integer}};
     for (const auto& fit : report_.fits) {
       Feature f = contact_place(fit.contact);
       const geo::CheckContact* cc = nullptr;
@@ -344,8 +396,10 @@ private:
       int64_t at_stations = 0;
       for (const auto& fl : report_.flags) {
         if (fl.contact != fit.contact) continue;
-        if (fl.station.empty()) own.push_back(&fl);
-        else ++at_stations;
+        if (fl.station.empty())
+          own.push_back(&fl);
+        else
+          ++at_stations;
       }
       const FlagText ft = flag_text(own);
       std::optional<double> strike, dip, dd, rot, cone, rms;
@@ -380,17 +434,23 @@ private:
   }
 
   void flags() {
-    Layer l{"flags", "Cross-check flags",
-            "Findings of the cross-check at their station (or at the contact's centroid for contact-wide flags).", {}, {}};
+    Layer l{"flags",
+            "Cross-check flags",
+            "Findings of the cross-check at their station (or at the contact's centroid for contact-wide flags).",
+            {},
+            {}};
     using T = FieldType;
-    l.fields = {{"rule", T::Text},   {"severity", T::Text}, {"station", T::Text},  {"ref", T::Text},
-                {"reading", T::Text}, {"contact", T::Text}, {"misfit", T::Real},    {"misfit_corrected", T::Real},
-                {"message", T::Text}, {"action", T::Text},  {"caution", T::Text}};
+    l.fields = {{"rule", T::Text},    {"severity", T::Text}, {"station", T::Text}, {"ref", T::Text},
+                {"reading", T::Text}, {"contact", T::Text},  {"misfit", T::Real},  {"misfit_corrected", T::Real},
+                {"message", T::Text}, {"action", T::Text},   {"caution", T::Text}};
     for (const auto& fl : report_.flags) {
       Feature f = fl.station_id.empty() ? contact_place(fl.contact) : at_station(fl.station_id);
-      f.values = {fl.rule,          std::string(geo::severity_name(fl.severity)), text(fl.station), text(fl.ref),
-                  text(fl.reading), text(fl.contact),  real(fl.misfit), real(fl.misfit_corrected), fl.message,
-                  fl.action,        text(fl.caution)};
+      f.values = {fl.rule,          std::string(geo::severity_name(fl.severity)),
+                  text(fl.station), text(fl.ref),
+                  text(fl.reading), text(fl.contact),
+                  real(fl.misfit),  real(fl.misfit_corrected),
+                  fl.message,       fl.action,
+                  text(fl.caution)};
       l.features.push_back(std::move(f));
     }
     out_.layers.push_back(std::move(l));

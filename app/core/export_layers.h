@@ -24,9 +24,7 @@ using formats::Layer;
 using formats::LayerSet;
 using formats::RotationFrame;
 
-
 // Throws std::runtime_error naming the record when a position cannot be projected.
 LayerSet build_layers(Project& p, const ExportOptions& o, RotationFrame frame);
-
 
 }  // namespace cairn::core

@@ -6,7 +6,7 @@ namespace cairn::plot {
 
 // Okabe, M. & Ito, K. (2008) Color Universal Design: black, orange, sky blue,
 // bluish green, yellow, blue, vermillion, reddish purple.
-const Rgba kOkabeIto[8] = {{0, 0, 0, 255},     {230, 159, 0, 255}, {86, 180, 233, 255}, {0, 158, 115, 255},
+const Rgba kOkabeIto[8] = {{0, 0, 0, 255},      {230, 159, 0, 255}, {86, 180, 233, 255}, {0, 158, 115, 255},
                            {240, 228, 66, 255}, {0, 114, 178, 255}, {213, 94, 0, 255},   {204, 121, 167, 255}};
 
 std::optional<Rgba> parse_hex_colour(const std::string& hex) {

@@ -31,12 +31,11 @@ enum class Shape { Circle, Square, Triangle, Diamond, Cross, Plus };
 enum class Anchor { Start, Middle, End };
 
 class Canvas {
-public:
+ public:
   virtual ~Canvas() = default;
   virtual void polyline(const std::vector<Pt>& pts, Rgba stroke, double width, bool closed = false) = 0;
   virtual void fill_polygon(const std::vector<Pt>& pts, Rgba fill) = 0;
-  virtual void circle(Pt centre, double radius, Rgba stroke, double width,
-                      std::optional<Rgba> fill = std::nullopt) = 0;
+  virtual void circle(Pt centre, double radius, Rgba stroke, double width, std::optional<Rgba> fill = std::nullopt) = 0;
   virtual void marker(Pt centre, Shape shape, double size, Rgba colour, bool filled = true) = 0;
   // `at` is the top of the line of text; the baseline sits 0.8 * size below it
   // (both backends follow this, so labels land in the same place).

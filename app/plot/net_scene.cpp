@@ -12,8 +12,8 @@ namespace cairn::plot {
 
 namespace {
 
-constexpr Rgba kStatInk{213, 94, 0, 255};      // Okabe-Ito vermillion: statistics drawn on the net
-constexpr Rgba kContourInk{70, 70, 70, 255};   // contours carry no colour meaning
+constexpr Rgba kStatInk{213, 94, 0, 255};     // Okabe-Ito vermillion: statistics drawn on the net
+constexpr Rgba kContourInk{70, 70, 70, 255};  // contours carry no colour meaning
 constexpr Rgba kFrameInk{0, 0, 0, 255};
 
 // One line of the legend: plain text, or text behind a marker or a short stroke.
@@ -69,20 +69,21 @@ std::vector<LegendEntry> legend_entries(const NetData& d, const NetStatistics& s
   if (o.statistics) {
     if (s.pole_mean && (!s.girdle_like || !s.girdle)) {
       const auto& m = *s.pole_mean;
-      e.push_back({LegendEntry::Marker, Shape::Plus, kStatInk, false,
-                   "Mean of " + d.pole_set + " " + format_attitude(m.mean.trend, m.mean.plunge) + " (plane " +
-                       [&] {
-                         const geo::Plane p = geo::plane_from_pole(m.mean);
-                         return format_attitude(p.strike, p.dip);
-                       }() +
-                       ")"});
-      std::string t = m.alpha95 ? "α95 " + geo::format_decimal("%.1f", *m.alpha95) + "°" : std::string("α95 undefined (too dispersed)");
+      e.push_back(
+          {LegendEntry::Marker, Shape::Plus, kStatInk,
+           false, "Mean of " + d.pole_set + " " + format_attitude(m.mean.trend, m.mean.plunge) + " (plane " + [&] {
+             const geo::Plane p = geo::plane_from_pole(m.mean);
+             return format_attitude(p.strike, p.dip);
+           }() + ")"});
+      std::string t = m.alpha95 ? "α95 " + geo::format_decimal("%.1f", *m.alpha95) + "°"
+                                : std::string("α95 undefined (too dispersed)");
       t += std::isfinite(m.kappa) ? ", κ " + geo::format_decimal("%.1f", m.kappa) : std::string(", κ unbounded");
       text(t + ", n " + std::to_string(m.n));
     }
     if (s.pole_tensor && s.pole_tensor->n >= 2) {
       const auto& ev = s.pole_tensor->eigenvalues;
-      std::string t = "Eigenvalues " + geo::format_decimal("%.3f", ev[0]) + ", " + geo::format_decimal("%.3f", ev[1]) + ", " + geo::format_decimal("%.3f", ev[2]);
+      std::string t = "Eigenvalues " + geo::format_decimal("%.3f", ev[0]) + ", " + geo::format_decimal("%.3f", ev[1]) +
+                      ", " + geo::format_decimal("%.3f", ev[2]);
       text(t);
       if (s.pole_shape) {
         auto f = [](double v) { return std::isfinite(v) ? geo::format_decimal("%.2f", v) : std::string("∞"); };
@@ -94,8 +95,8 @@ std::vector<LegendEntry> legend_entries(const NetData& d, const NetStatistics& s
       e.push_back({LegendEntry::Stroke, Shape::Circle, kStatInk, false,
                    "π-girdle " + format_attitude(g.girdle.strike, g.girdle.dip)});
       e.push_back({LegendEntry::Marker, Shape::Cross, kStatInk, false,
-                   "β " + format_attitude(g.beta.trend, g.beta.plunge) + ", cone 95% " + geo::format_decimal("%.1f", g.beta_cone) +
-                       "°"});
+                   "β " + format_attitude(g.beta.trend, g.beta.plunge) + ", cone 95% " +
+                       geo::format_decimal("%.1f", g.beta_cone) + "°"});
     }
     if (s.line_mean) {
       const auto& m = *s.line_mean;
@@ -105,16 +106,15 @@ std::vector<LegendEntry> legend_entries(const NetData& d, const NetStatistics& s
     }
   }
   for (const auto& f : d.fits) {
-    std::string t = (f.label.empty() ? std::string("Fitted plane") : f.label) + " " +
-                    format_attitude(f.plane.strike, f.plane.dip);
+    std::string t =
+        (f.label.empty() ? std::string("Fitted plane") : f.label) + " " + format_attitude(f.plane.strike, f.plane.dip);
     t += f.cone95 ? ", cone 95% " + geo::format_decimal("%.1f", *f.cone95) + "°" : std::string(", no cone");
     e.push_back({LegendEntry::Stroke, Shape::Circle, f.colour, false, t});
   }
   return e;
 }
 
-void draw_polylines(Canvas& c, const NetFrame& f, const std::vector<geo::NetPolyline>& lines, Rgba ink,
-                    double width) {
+void draw_polylines(Canvas& c, const NetFrame& f, const std::vector<geo::NetPolyline>& lines, Rgba ink, double width) {
   for (const auto& l : lines) {
     if (l.pts.size() < 2) continue;
     std::vector<Pt> pts;
@@ -269,7 +269,8 @@ NetStatistics draw_net(Canvas& c, const Rect& r, const NetData& d, const NetOpti
     size_t glyphs = 0;
     for (unsigned char ch : e.text)
       if ((ch & 0xC0) != 0x80) ++glyphs;
-    legend_w = std::max(legend_w, (e.kind == LegendEntry::Text ? 0.0 : ts0 * 1.6) + 0.5 * ts0 * static_cast<double>(glyphs));
+    legend_w =
+        std::max(legend_w, (e.kind == LegendEntry::Text ? 0.0 : ts0 * 1.6) + 0.5 * ts0 * static_cast<double>(glyphs));
   }
   const NetLayout l = net_layout(r, !d.title.empty(), o.legend ? static_cast<int>(entries.size()) : 0, o, legend_w);
   const NetFrame& f = l.frame;
@@ -348,9 +349,7 @@ NetStatistics draw_net(Canvas& c, const Rect& r, const NetData& d, const NetOpti
     for (const auto& e : entries) {
       const Pt mid{l.legend.x + ts * 0.6, y + ts * 0.45};
       switch (e.kind) {
-        case LegendEntry::Text:
-          c.text({l.legend.x, y}, e.text, kInk, ts);
-          break;
+        case LegendEntry::Text: c.text({l.legend.x, y}, e.text, kInk, ts); break;
         case LegendEntry::Marker:
           c.marker(mid, e.shape, std::min(ms * 1.3, ts * 0.85), e.colour, e.filled);
           c.text({l.legend.x + indent, y}, e.text, kInk, ts);

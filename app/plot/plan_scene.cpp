@@ -132,8 +132,8 @@ double nice_length(double max_metres) {
 // an open triangle (cleavage) or a T (joint); vertical planes carry the mark on
 // both sides, horizontal bedding is a circle with a cross. Proportions (tick a
 // third of the strike line) are value from memory of the standard's plates.
-void draw_attitude_symbol(Canvas& c, Pt at, double strike, double dip, AttitudeSymbol s, double length,
-                          Rgba colour, double width, double text_size) {
+void draw_attitude_symbol(Canvas& c, Pt at, double strike, double dip, AttitudeSymbol s, double length, Rgba colour,
+                          double width, double text_size) {
   const double half = length / 2;
   const double tick = length / 3;
   const Pt along = dir(strike);
@@ -153,9 +153,7 @@ void draw_attitude_symbol(Canvas& c, Pt at, double strike, double dip, AttitudeS
   auto mark = [&](Pt side) {
     switch (s) {
       case AttitudeSymbol::Bedding:
-      case AttitudeSymbol::Other:
-        c.polyline({at, add(at, side, tick)}, colour, width);
-        break;
+      case AttitudeSymbol::Other: c.polyline({at, add(at, side, tick)}, colour, width); break;
       case AttitudeSymbol::BeddingOverturned: {
         // The tick, then a half-turn hook at its end.
         std::vector<Pt> p{at, add(at, side, tick)};
@@ -256,7 +254,9 @@ void draw_plan(Canvas& c, const Rect& r, const PlanData& d, const PlanView& v, c
     if (o.strike_line_labels) {
       // Label at an end that lies inside the rect (or the middle); width estimated
       // at 0.6 em per character (DejaVu Sans digits are 0.64 em).
-      const Pt at = near_rect(r, a, -o.text_size) ? a : near_rect(r, b, -o.text_size) ? b : Pt{(a.x + b.x) / 2, (a.y + b.y) / 2};
+      const Pt at = near_rect(r, a, -o.text_size)   ? a
+                    : near_rect(r, b, -o.text_size) ? b
+                                                    : Pt{(a.x + b.x) / 2, (a.y + b.y) / 2};
       const std::string label = geo::format_decimal("%.0f m", l.elevation);
       const double ts = o.text_size * 0.9, w = ts * 0.6 * static_cast<double>(label.size());
       const Rect box{at.x - w / 2, at.y - o.text_size * 1.1, w, ts * 1.2};
@@ -308,10 +308,11 @@ void draw_plan(Canvas& c, const Rect& r, const PlanData& d, const PlanView& v, c
     if (metres > 0) {
       const double len = metres * v.scale;
       const double x0 = r.x + o.text_size, y0 = r.y + r.h - o.text_size;
-      c.polyline({{x0, y0 - o.text_size * 0.4}, {x0, y0}, {x0 + len, y0}, {x0 + len, y0 - o.text_size * 0.4}},
-                 o.ink, o.line_width * 1.5);
-      c.text({x0 + len / 2, y0 - o.text_size * 1.5}, metres >= 1000 ? geo::format_decimal("%g km", metres / 1000) : geo::format_decimal("%g m", metres),
-             o.ink, o.text_size, Anchor::Middle);
+      c.polyline({{x0, y0 - o.text_size * 0.4}, {x0, y0}, {x0 + len, y0}, {x0 + len, y0 - o.text_size * 0.4}}, o.ink,
+                 o.line_width * 1.5);
+      c.text({x0 + len / 2, y0 - o.text_size * 1.5},
+             metres >= 1000 ? geo::format_decimal("%g km", metres / 1000) : geo::format_decimal("%g m", metres), o.ink,
+             o.text_size, Anchor::Middle);
     }
   }
   if (o.north_arrow) {

@@ -125,7 +125,7 @@ struct PlanOptions {
   double symbol_length = 24;  // canvas units, length of a symbol's strike line
   double line_width = 1.5;
   double text_size = 13;
-  double mark_size = 10;      // station and point markers
+  double mark_size = 10;  // station and point markers
   bool strike_line_labels = true;
   bool dip_values = true;    // the dip written beside each symbol
   bool strike_only = false;  // attitudes as bare strike lines (for very many on screen)
@@ -156,8 +156,8 @@ double nice_length(double max_metres);
 // `strike` is the azimuth of the strike line on the canvas (degrees clockwise
 // from canvas up; right-hand rule: the dip side is to the right looking along
 // it). text_size 0 hides the dip value.
-void draw_attitude_symbol(Canvas& c, Pt at, double strike, double dip, AttitudeSymbol s, double length,
-                          Rgba colour, double width, double text_size);
+void draw_attitude_symbol(Canvas& c, Pt at, double strike, double dip, AttitudeSymbol s, double length, Rgba colour,
+                          double width, double text_size);
 
 // Draws the background, the ground (shading, terrain contours, trace bands), strike lines,
 // predicted traces, contact points, strike-dip symbols,

@@ -20,9 +20,9 @@
 namespace cairn::plot {
 
 struct PlanTerrainOptions {
-  int max_cells = 160;          // shading / contour grid, cells across at most
-  int trace_cells = 600;        // traces and bands on the Plan: cells across at most (exports and
-                                // `cairn check` use the full grid)
+  int max_cells = 160;    // shading / contour grid, cells across at most
+  int trace_cells = 600;  // traces and bands on the Plan: cells across at most (exports and
+                          // `cairn check` use the full grid)
   int grey_levels = 7;
   double contour_interval = 0;  // metres; 0: about 12 contours over the relief
   Rgba contour = {150, 120, 80, 160};

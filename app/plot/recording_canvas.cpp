@@ -62,18 +62,14 @@ void RecordingCanvas::replay(Canvas& out, double dx, double dy) const {
       case DrawOp::Fill:
         buf.resize(o.pts.size());
         for (size_t i = 0; i < o.pts.size(); ++i) buf[i] = mv(o.pts[i]);
-        if (o.kind == DrawOp::Polyline) out.polyline(buf, o.colour, o.width, o.closed);
-        else out.fill_polygon(buf, o.colour);
+        if (o.kind == DrawOp::Polyline)
+          out.polyline(buf, o.colour, o.width, o.closed);
+        else
+          out.fill_polygon(buf, o.colour);
         break;
-      case DrawOp::Circle:
-        out.circle(mv(o.pts[0]), o.size, o.colour, o.width, o.fill);
-        break;
-      case DrawOp::Marker:
-        out.marker(mv(o.pts[0]), o.shape, o.size, o.colour, o.filled);
-        break;
-      case DrawOp::Text:
-        out.text(mv(o.pts[0]), o.text, o.colour, o.size, o.anchor);
-        break;
+      case DrawOp::Circle: out.circle(mv(o.pts[0]), o.size, o.colour, o.width, o.fill); break;
+      case DrawOp::Marker: out.marker(mv(o.pts[0]), o.shape, o.size, o.colour, o.filled); break;
+      case DrawOp::Text: out.text(mv(o.pts[0]), o.text, o.colour, o.size, o.anchor); break;
     }
   }
 }

@@ -12,20 +12,20 @@ namespace cairn::plot {
 
 struct DrawOp {
   enum Kind { Polyline, Fill, Circle, Marker, Text } kind = Polyline;
-  std::vector<Pt> pts;     // Polyline, Fill; Circle/Marker/Text: pts[0] is the place
-  Rgba colour;             // stroke (or fill for Fill, Marker and Text)
+  std::vector<Pt> pts;       // Polyline, Fill; Circle/Marker/Text: pts[0] is the place
+  Rgba colour;               // stroke (or fill for Fill, Marker and Text)
   std::optional<Rgba> fill;  // Circle
-  double width = 1;        // stroke width; Circle: radius in `size`
-  double size = 0;         // Circle radius, Marker size, Text size
-  bool closed = false;     // Polyline
-  bool filled = false;     // Marker
+  double width = 1;          // stroke width; Circle: radius in `size`
+  double size = 0;           // Circle radius, Marker size, Text size
+  bool closed = false;       // Polyline
+  bool filled = false;       // Marker
   Shape shape = Shape::Circle;
   Anchor anchor = Anchor::Start;
   std::string text;
 };
 
 class RecordingCanvas : public Canvas {
-public:
+ public:
   void polyline(const std::vector<Pt>& pts, Rgba stroke, double width, bool closed = false) override;
   void fill_polygon(const std::vector<Pt>& pts, Rgba fill) override;
   void circle(Pt centre, double radius, Rgba stroke, double width, std::optional<Rgba> fill = std::nullopt) override;
@@ -37,7 +37,7 @@ public:
   // Draws every recorded operation on `out`, moved by (dx, dy).
   void replay(Canvas& out, double dx = 0, double dy = 0) const;
 
-private:
+ private:
   std::vector<DrawOp> ops_;
 };
 

@@ -40,9 +40,7 @@ std::string svg_number(double v, int decimals) {
   return s;
 }
 
-std::string svg_colour(Rgba c) {
-  return fmt::format("#{:02x}{:02x}{:02x}", c.r, c.g, c.b);
-}
+std::string svg_colour(Rgba c) { return fmt::format("#{:02x}{:02x}{:02x}", c.r, c.g, c.b); }
 
 std::string xml_escape(std::string_view text) {
   std::string out;
@@ -67,8 +65,10 @@ std::string xml_escape(std::string_view text) {
     }
     bool ok = len > 0 && i + len <= n;
     for (size_t k = 1; ok && k < len; ++k) {
-      if ((s[i + k] & 0xC0) != 0x80) ok = false;
-      else cp = (cp << 6) | (s[i + k] & 0x3F);
+      if ((s[i + k] & 0xC0) != 0x80)
+        ok = false;
+      else
+        cp = (cp << 6) | (s[i + k] & 0x3F);
     }
     if (ok && len == 3 && (cp < 0x800 || (cp >= 0xD800 && cp <= 0xDFFF))) ok = false;
     if (ok && len == 4 && (cp < 0x10000 || cp > 0x10FFFF)) ok = false;
@@ -93,8 +93,7 @@ std::string xml_escape(std::string_view text) {
   return out;
 }
 
-SvgCanvas::SvgCanvas(double width, double height, int decimals)
-    : width_(width), height_(height), decimals_(decimals) {}
+SvgCanvas::SvgCanvas(double width, double height, int decimals) : width_(width), height_(height), decimals_(decimals) {}
 
 std::string SvgCanvas::num(double v) const { return svg_number(v, decimals_); }
 
@@ -109,9 +108,9 @@ std::string SvgCanvas::points(const std::vector<Pt>& pts) const {
 
 void SvgCanvas::polyline(const std::vector<Pt>& pts, Rgba stroke, double width, bool closed) {
   if (pts.size() < 2 || !all_finite(pts) || !std::isfinite(width)) return;
-  body_ << '<' << (closed ? "polygon" : "polyline") << " points=\"" << points(pts)
-        << "\" fill=\"none\" stroke=\"" << svg_colour(stroke) << '"' << opacity("stroke-opacity", stroke)
-        << " stroke-width=\"" << num(width) << "\" stroke-linejoin=\"round\" stroke-linecap=\"round\"/>\n";
+  body_ << '<' << (closed ? "polygon" : "polyline") << " points=\"" << points(pts) << "\" fill=\"none\" stroke=\""
+        << svg_colour(stroke) << '"' << opacity("stroke-opacity", stroke) << " stroke-width=\"" << num(width)
+        << "\" stroke-linejoin=\"round\" stroke-linecap=\"round\"/>\n";
   ++elements_;
 }
 
@@ -125,8 +124,10 @@ void SvgCanvas::fill_polygon(const std::vector<Pt>& pts, Rgba fill) {
 void SvgCanvas::circle(Pt centre, double radius, Rgba stroke, double width, std::optional<Rgba> fill) {
   if (!finite(centre) || !std::isfinite(radius) || radius <= 0 || !std::isfinite(width)) return;
   body_ << "<circle cx=\"" << num(centre.x) << "\" cy=\"" << num(centre.y) << "\" r=\"" << num(radius) << '"';
-  if (fill) body_ << " fill=\"" << svg_colour(*fill) << '"' << opacity("fill-opacity", *fill);
-  else body_ << " fill=\"none\"";
+  if (fill)
+    body_ << " fill=\"" << svg_colour(*fill) << '"' << opacity("fill-opacity", *fill);
+  else
+    body_ << " fill=\"none\"";
   if (width > 0) {
     body_ << " stroke=\"" << svg_colour(stroke) << '"' << opacity("stroke-opacity", stroke) << " stroke-width=\""
           << num(width) << '"';
@@ -139,13 +140,17 @@ void SvgCanvas::marker(Pt centre, Shape shape, double size, Rgba colour, bool fi
   if (!finite(centre) || !std::isfinite(size) || size <= 0) return;
   const double stroke = std::max(1.0, size / 7);
   if (shape == Shape::Circle) {
-    if (filled) circle(centre, size / 2, colour, 0, colour);
-    else circle(centre, size / 2 - stroke / 2, colour, stroke);
+    if (filled)
+      circle(centre, size / 2, colour, 0, colour);
+    else
+      circle(centre, size / 2 - stroke / 2, colour, stroke);
     return;
   }
   for (const auto& part : marker_outline(shape, centre, size)) {
-    if (filled && marker_fillable(shape)) fill_polygon(part, colour);
-    else polyline(part, colour, stroke, false);
+    if (filled && marker_fillable(shape))
+      fill_polygon(part, colour);
+    else
+      polyline(part, colour, stroke, false);
   }
 }
 

@@ -23,14 +23,13 @@
 namespace cairn::plot {
 
 class SvgCanvas : public Canvas {
-public:
+ public:
   // A picture `width` x `height` user units; coordinates get `decimals` decimals.
   SvgCanvas(double width, double height, int decimals = 2);
 
   void polyline(const std::vector<Pt>& pts, Rgba stroke, double width, bool closed = false) override;
   void fill_polygon(const std::vector<Pt>& pts, Rgba fill) override;
-  void circle(Pt centre, double radius, Rgba stroke, double width,
-              std::optional<Rgba> fill = std::nullopt) override;
+  void circle(Pt centre, double radius, Rgba stroke, double width, std::optional<Rgba> fill = std::nullopt) override;
   void marker(Pt centre, Shape shape, double size, Rgba colour, bool filled = true) override;
   void text(Pt at, const std::string& s, Rgba colour, double size, Anchor anchor = Anchor::Start) override;
 
@@ -50,7 +49,7 @@ public:
   // Number of elements drawn (for tests and for skipping empty pictures).
   std::size_t elements() const { return elements_; }
 
-private:
+ private:
   std::string num(double v) const;
   std::string points(const std::vector<Pt>& pts) const;
 

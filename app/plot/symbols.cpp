@@ -31,12 +31,9 @@ std::vector<std::vector<Pt>> marker_outline(Shape shape, Pt c, double size) {
       const double hh = size * std::sqrt(3.0) / 4;  // half its height
       return {closed({{c.x, c.y - hh}, {c.x + h, c.y + hh}, {c.x - h, c.y + hh}})};
     }
-    case Shape::Diamond:
-      return {closed({{c.x, c.y - h}, {c.x + h, c.y}, {c.x, c.y + h}, {c.x - h, c.y}})};
-    case Shape::Cross:
-      return {{{c.x - h, c.y - h}, {c.x + h, c.y + h}}, {{c.x - h, c.y + h}, {c.x + h, c.y - h}}};
-    case Shape::Plus:
-      return {{{c.x - h, c.y}, {c.x + h, c.y}}, {{c.x, c.y - h}, {c.x, c.y + h}}};
+    case Shape::Diamond: return {closed({{c.x, c.y - h}, {c.x + h, c.y}, {c.x, c.y + h}, {c.x - h, c.y}})};
+    case Shape::Cross: return {{{c.x - h, c.y - h}, {c.x + h, c.y + h}}, {{c.x - h, c.y + h}, {c.x + h, c.y - h}}};
+    case Shape::Plus: return {{{c.x - h, c.y}, {c.x + h, c.y}}, {{c.x, c.y - h}, {c.x, c.y + h}}};
   }
   return {};
 }

@@ -64,7 +64,8 @@ Conn::Conn(const std::string& url) {
     throw PgError("cannot connect to " + redact_url(url) + ": " + m, "");
   }
   // Quiet notices (e.g. "relation already exists, skipping") stay off the terminal.
-  PQsetNoticeProcessor(c_, [](void*, const char*) {}, nullptr);
+  PQsetNoticeProcessor(
+      c_, [](void*, const char*) {}, nullptr);
   exec("SET client_encoding = 'UTF8'; SET client_min_messages = warning");
 }
 
@@ -91,8 +92,8 @@ void Conn::exec(const std::string& sql) {
 Result Conn::query(const std::string& sql, const std::vector<Param>& params) {
   std::vector<const char*> values;
   for (const auto& p : params) values.push_back(p ? p->c_str() : nullptr);
-  pg_result* r = PQexecParams(c_, sql.c_str(), static_cast<int>(values.size()), nullptr, values.data(), nullptr,
-                              nullptr, 0);
+  pg_result* r =
+      PQexecParams(c_, sql.c_str(), static_cast<int>(values.size()), nullptr, values.data(), nullptr, nullptr, 0);
   const auto st = PQresultStatus(r);
   if (st != PGRES_COMMAND_OK && st != PGRES_TUPLES_OK) fail("", r);
   return Result(r);
@@ -173,8 +174,10 @@ std::vector<std::optional<std::string>> copy_split(const std::string& line) {
   for (size_t i = 0; i <= line.size(); ++i) {
     if (i == line.size() || line[i] == '\t') {
       raw_null = line.compare(start, i - start, "\\N") == 0;
-      if (raw_null) out.emplace_back(std::nullopt);
-      else out.emplace_back(cur);
+      if (raw_null)
+        out.emplace_back(std::nullopt);
+      else
+        out.emplace_back(cur);
       cur.clear();
       start = i + 1;
       continue;

@@ -21,11 +21,11 @@ namespace cairn::store::pg {
 
 // A failure reported by the server or by libpq, with the SQLSTATE when known.
 class PgError : public std::runtime_error {
-public:
+ public:
   PgError(const std::string& what, std::string sqlstate) : std::runtime_error(what), sqlstate_(std::move(sqlstate)) {}
   const std::string& sqlstate() const { return sqlstate_; }
 
-private:
+ private:
   std::string sqlstate_;
 };
 
@@ -37,7 +37,7 @@ bool url_has_password(const std::string& url);
 using Param = std::optional<std::string>;  // nothing: SQL NULL
 
 class Result {
-public:
+ public:
   explicit Result(pg_result* r = nullptr) : r_(r) {}
   ~Result();
   Result(Result&& o) noexcept : r_(o.r_) { o.r_ = nullptr; }
@@ -50,12 +50,12 @@ public:
   bool null(int row, int col) const;
   std::string text(int row, int col) const;  // "" for NULL
 
-private:
+ private:
   pg_result* r_;
 };
 
 class Conn {
-public:
+ public:
   // Connects; throws PgError naming the redacted URL.
   explicit Conn(const std::string& url);
   ~Conn();
@@ -79,7 +79,7 @@ public:
   std::string user() const;
   pg_conn* handle() const { return c_; }
 
-private:
+ private:
   [[noreturn]] void fail(const std::string& what, pg_result* r);
   pg_conn* c_ = nullptr;
 };

@@ -38,7 +38,7 @@ using Fields = std::vector<std::optional<std::string>>;
 // ---- scratch folder --------------------------------------------------------------
 
 class Scratch {
-public:
+ public:
   Scratch() {
     std::string tmpl = (fs::temp_directory_path() / "cairn-survey-XXXXXX").string();
     if (!mkdtemp(tmpl.data())) throw std::runtime_error("cannot make a temporary folder");
@@ -50,7 +50,7 @@ public:
   }
   std::string file(const std::string& name) const { return (path_ / name).string(); }
 
-private:
+ private:
   fs::path path_;
 };
 
@@ -107,9 +107,9 @@ char type_of(std::string t) {
 }
 
 // Tables in the order their references need (parents first).
-const char* const kOrder[] = {"devices", "people",    "units",           "contacts",    "stations",     "planes",
-                              "lines",   "points",    "photos",          "audit",       "merges",       "conflicts",
-                              "conflict_values",      "key_clashes",     "flag_reviews", "day_signoffs"};
+const char* const kOrder[] = {"devices",         "people",      "units",        "contacts",    "stations", "planes",
+                              "lines",           "points",      "photos",       "audit",       "merges",   "conflicts",
+                              "conflict_values", "key_clashes", "flag_reviews", "day_signoffs"};
 
 std::vector<TableDef> read_tables(Db& db) {
   std::vector<std::string> names;
@@ -126,8 +126,9 @@ std::vector<TableDef> read_tables(Db& db) {
       if (n == kOrder[i]) return static_cast<int>(i);
     return 1000;
   };
-  std::sort(names.begin(), names.end(),
-            [&](const std::string& a, const std::string& b) { return std::make_pair(rank(a), a) < std::make_pair(rank(b), b); });
+  std::sort(names.begin(), names.end(), [&](const std::string& a, const std::string& b) {
+    return std::make_pair(rank(a), a) < std::make_pair(rank(b), b);
+  });
   std::vector<TableDef> out;
   for (const auto& n : names) {
     TableDef t;
@@ -146,7 +147,8 @@ std::vector<TableDef> read_tables(Db& db) {
     Stmt f(db, "SELECT \"from\", \"table\", \"to\", on_delete FROM pragma_foreign_key_list(?)");
     f.bind(1, n);
     while (f.step()) t.fks.push_back({f.text(0), f.text(1), f.text(2).empty() ? "uuid" : f.text(2), f.text(3)});
-    Stmt u(db, "SELECT name, sql FROM sqlite_master WHERE type = 'index' AND tbl_name = ? AND sql LIKE 'CREATE UNIQUE%'");
+    Stmt u(db,
+           "SELECT name, sql FROM sqlite_master WHERE type = 'index' AND tbl_name = ? AND sql LIKE 'CREATE UNIQUE%'");
     u.bind(1, n);
     while (u.step()) {
       TableDef::Unique un;
@@ -224,13 +226,17 @@ Fields canonical_from_store(const TableDef& t, const Fields& in) {
   size_t k = 0;
   for (const auto& c : t.cols) {
     const auto& v = in.at(k++);
-    if (c.type == 'r' && v) out.push_back(real_text(std::strtod(v->c_str(), nullptr)));
+    if (c.type == 'r' && v)
+      out.push_back(real_text(std::strtod(v->c_str(), nullptr)));
     else if (c.type == 'a') {
       const auto& kind = in.at(k++);
-      if (v && kind && *kind == "real") out.push_back(real_text(std::strtod(v->c_str(), nullptr)));
-      else out.push_back(v);
+      if (v && kind && *kind == "real")
+        out.push_back(real_text(std::strtod(v->c_str(), nullptr)));
+      else
+        out.push_back(v);
       out.push_back(v ? kind : std::nullopt);
-    } else out.push_back(v);
+    } else
+      out.push_back(v);
   }
   return out;
 }
@@ -270,10 +276,14 @@ void bind_fields(Stmt& s, const TableDef& t, const Fields& f) {
       const auto& kind = f[k++];
       type = !kind ? 't' : *kind == "integer" ? 'i' : *kind == "real" ? 'r' : 't';
     }
-    if (!v) s.bind(i, nullptr);
-    else if (type == 'i') s.bind(i, static_cast<int64_t>(std::strtoll(v->c_str(), nullptr, 10)));
-    else if (type == 'r') s.bind(i, std::strtod(v->c_str(), nullptr));
-    else s.bind(i, *v);
+    if (!v)
+      s.bind(i, nullptr);
+    else if (type == 'i')
+      s.bind(i, static_cast<int64_t>(std::strtoll(v->c_str(), nullptr, 10)));
+    else if (type == 'r')
+      s.bind(i, std::strtod(v->c_str(), nullptr));
+    else
+      s.bind(i, *v);
     ++i;
   }
 }
@@ -295,9 +305,12 @@ std::unordered_map<std::string, std::string> dump_rows(Db& db, const TableDef& t
       const int i = k++;
       if (c.type == 'a') {
         const std::string kind = s.text(k++);
-        if (s.is_null(i)) f.push_back(std::nullopt), f.push_back(std::nullopt);
-        else if (kind == "real") f.push_back(real_text(s.real(i))), f.push_back(kind);
-        else f.push_back(s.text(i)), f.push_back(kind);
+        if (s.is_null(i))
+          f.push_back(std::nullopt), f.push_back(std::nullopt);
+        else if (kind == "real")
+          f.push_back(real_text(s.real(i))), f.push_back(kind);
+        else
+          f.push_back(s.text(i)), f.push_back(kind);
       } else if (s.is_null(i)) {
         f.push_back(std::nullopt);
       } else if (c.type == 'r') {
@@ -397,8 +410,8 @@ CREATE OR REPLACE FUNCTION cairn.utm_srid(zone text, lon double precision, lat d
 const char* const kStoreSteps[] = {kStoreV1};  // kStoreSteps[v]: version v -> v + 1
 
 std::string fk_sql(const TableDef& t, const TableDef::Fk& fk) {
-  return "ALTER TABLE cairn." + q(t.name) + " ADD CONSTRAINT " + q(t.name + "_" + fk.from + "_fk") + " FOREIGN KEY (project, " +
-         q(fk.from) + ") REFERENCES cairn." + q(fk.table) + " (project, " + q(fk.to) + ")" +
+  return "ALTER TABLE cairn." + q(t.name) + " ADD CONSTRAINT " + q(t.name + "_" + fk.from + "_fk") +
+         " FOREIGN KEY (project, " + q(fk.from) + ") REFERENCES cairn." + q(fk.table) + " (project, " + q(fk.to) + ")" +
          (fk.on_delete == "CASCADE" ? " ON DELETE CASCADE" : "") + " DEFERRABLE INITIALLY DEFERRED";
 }
 
@@ -406,12 +419,14 @@ std::string fk_sql(const TableDef& t, const TableDef::Fk& fk) {
 void sync_table(Conn& c, const TableDef& t, std::vector<std::string>& steps) {
   std::set<std::string> have;
   {
-    auto r = c.query("SELECT column_name FROM information_schema.columns WHERE table_schema = 'cairn' AND table_name = $1",
-                     {t.name});
+    auto r =
+        c.query("SELECT column_name FROM information_schema.columns WHERE table_schema = 'cairn' AND table_name = $1",
+                {t.name});
     for (int i = 0; i < r.rows(); ++i) have.insert(r.text(i, 0));
   }
   if (have.empty()) {
-    std::string sql = "CREATE TABLE cairn." + q(t.name) + " (\n  project uuid NOT NULL REFERENCES cairn.projects(uuid) ON DELETE CASCADE";
+    std::string sql = "CREATE TABLE cairn." + q(t.name) +
+                      " (\n  project uuid NOT NULL REFERENCES cairn.projects(uuid) ON DELETE CASCADE";
     for (const auto& col : t.cols) {
       sql += ",\n  " + q(col.name) + " " + pg_type(col.type) + (col.notnull ? " NOT NULL" : "") +
              (col.dflt.empty() ? "" : " DEFAULT " + col.dflt);
@@ -423,8 +438,10 @@ void sync_table(Conn& c, const TableDef& t, std::vector<std::string>& steps) {
     for (size_t u = 0; u < t.uniques.size(); ++u) {
       std::string ex;
       for (const auto& col : t.uniques[u].cols) ex += ", " + q(col) + " WITH =";
-      sql += ",\n  CONSTRAINT " + q(t.name + "_live_" + std::to_string(u)) + " EXCLUDE USING btree (project WITH =" + ex + ")" +
-             (t.uniques[u].where.empty() ? "" : " WHERE (" + t.uniques[u].where + ")") + " DEFERRABLE INITIALLY DEFERRED";
+      sql += ",\n  CONSTRAINT " + q(t.name + "_live_" + std::to_string(u)) +
+             " EXCLUDE USING btree (project WITH =" + ex + ")" +
+             (t.uniques[u].where.empty() ? "" : " WHERE (" + t.uniques[u].where + ")") +
+             " DEFERRABLE INITIALLY DEFERRED";
     }
     sql += "\n)";
     c.exec(sql);
@@ -444,11 +461,13 @@ void sync_table(Conn& c, const TableDef& t, std::vector<std::string>& steps) {
 void sync_foreign_keys(Conn& c, const TableDef& t) {
   for (const auto& fk : t.fks) {
     const std::string name = t.name + "_" + fk.from + "_fk";
-    if (c.value("SELECT 1 FROM pg_constraint WHERE conname = $1 AND connamespace = 'cairn'::regnamespace", {name})) continue;
+    if (c.value("SELECT 1 FROM pg_constraint WHERE conname = $1 AND connamespace = 'cairn'::regnamespace", {name}))
+      continue;
     c.exec(fk_sql(t, fk));
   }
   for (const auto& fk : t.fks)
-    c.exec("CREATE INDEX IF NOT EXISTS " + q(t.name + "_" + fk.from) + " ON cairn." + q(t.name) + " (project, " + q(fk.from) + ")");
+    c.exec("CREATE INDEX IF NOT EXISTS " + q(t.name + "_" + fk.from) + " ON cairn." + q(t.name) + " (project, " +
+           q(fk.from) + ")");
 }
 
 const char* field_type(FieldType t) {
@@ -473,16 +492,18 @@ void sync_check_tables(Conn& c, Project& tmpl, std::vector<std::string>& steps) 
     const char* table = check_table(l.name);
     if (!table) continue;
     if (!c.value("SELECT to_regclass($1)::text", {std::string("cairn.") + table})) {
-      std::string sql = std::string("CREATE TABLE cairn.") + table +
-                        " (\n  project uuid NOT NULL REFERENCES cairn.projects(uuid) ON DELETE CASCADE,\n  fid integer NOT NULL,"
-                        "\n  lon double precision,\n  lat double precision,\n  checked text NOT NULL";
+      std::string sql =
+          std::string("CREATE TABLE cairn.") + table +
+          " (\n  project uuid NOT NULL REFERENCES cairn.projects(uuid) ON DELETE CASCADE,\n  fid integer NOT NULL,"
+          "\n  lon double precision,\n  lat double precision,\n  checked text NOT NULL";
       for (const auto& f : l.fields) sql += ",\n  " + q(f.name) + " " + field_type(f.type);
       sql += ",\n  PRIMARY KEY (project, fid)\n)";
       c.exec(sql);
       steps.push_back(std::string("table cairn.") + table);
     } else {
       for (const auto& f : l.fields)
-        c.exec(std::string("ALTER TABLE cairn.") + table + " ADD COLUMN IF NOT EXISTS " + q(f.name) + " " + field_type(f.type));
+        c.exec(std::string("ALTER TABLE cairn.") + table + " ADD COLUMN IF NOT EXISTS " + q(f.name) + " " +
+               field_type(f.type));
     }
   }
 }
@@ -549,16 +570,17 @@ SELECT f.*, p.name AS project_name, ST_SetSRID(ST_MakePoint(f.lon, f.lat), 4326)
 FROM cairn.flags f JOIN cairn.projects p ON p.uuid = f.project;
 )SQL";
 
-const char* const kLayerViews[] = {"stations", "planar_readings", "linear_readings", "contact_points",
-                                   "fitted_contacts", "flags"};
+const char* const kLayerViews[] = {"stations",       "planar_readings", "linear_readings",
+                                   "contact_points", "fitted_contacts", "flags"};
 
 // Grants and row-level security: crews to their own projects, supervisors read
 // all and write reviews and sign-offs only.
 void secure(Conn& c, const std::vector<std::string>& record_tables) {
   c.exec("GRANT USAGE ON SCHEMA cairn TO cairn_crew, cairn_supervisor");
   c.exec("GRANT SELECT ON cairn.meta TO cairn_crew, cairn_supervisor");
-  c.exec("GRANT EXECUTE ON FUNCTION cairn.crew_of(uuid), cairn.utm_srid(text, double precision, double precision) "
-         "TO cairn_crew, cairn_supervisor");
+  c.exec(
+      "GRANT EXECUTE ON FUNCTION cairn.crew_of(uuid), cairn.utm_srid(text, double precision, double precision) "
+      "TO cairn_crew, cairn_supervisor");
   auto policy = [&](const std::string& table, const std::string& name, const std::string& body) {
     c.exec("DROP POLICY IF EXISTS " + q(name) + " ON cairn." + q(table));
     c.exec("CREATE POLICY " + q(name) + " ON cairn." + q(table) + " " + body);
@@ -587,7 +609,8 @@ void secure(Conn& c, const std::vector<std::string>& record_tables) {
       policy(t, "supervisor_update", "FOR UPDATE TO cairn_supervisor USING (true) WITH CHECK (true)");
     }
   }
-  for (const char* v : kLayerViews) c.exec(std::string("GRANT SELECT ON public.") + v + " TO cairn_crew, cairn_supervisor");
+  for (const char* v : kLayerViews)
+    c.exec(std::string("GRANT SELECT ON public.") + v + " TO cairn_crew, cairn_supervisor");
 }
 
 void set_meta(Conn& c, const std::string& key, const std::string& value) {
@@ -701,7 +724,8 @@ std::map<std::string, TableWrite> write_back(Conn& c, Db& db, const std::vector<
     if (written) {
       std::string set;
       for (const auto& col : cols)
-        if (std::find(pk.begin(), pk.end(), col) == pk.end()) set += (set.empty() ? "" : ", ") + q(col) + " = EXCLUDED." + q(col);
+        if (std::find(pk.begin(), pk.end(), col) == pk.end())
+          set += (set.empty() ? "" : ", ") + q(col) + " = EXCLUDED." + q(col);
       if (direct && before.empty())
         c.copy_in("COPY cairn." + q(t.name) + " (project, " + joined(cols) + ") FROM STDIN", data);
       else
@@ -750,8 +774,7 @@ void write_check(Conn& c, Project& p, const std::string& project, const ExportOp
     for (const auto& r : rows) data += project + "\t" + std::to_string(++fid) + "\t" + now + "\t" + r + "\n";
     std::vector<std::string> cols;
     for (const auto& fd : l.fields) cols.push_back(fd.name);
-    if (!data.empty())
-      copy_insert(c, table, "project, fid, checked, " + joined(cols) + ", lon, lat", data);
+    if (!data.empty()) copy_insert(c, table, "project, fid, checked, " + joined(cols) + ", lon, lat", data);
     (l.name == "flags" ? rep.flags : rep.fits) = fid;
   }
 }
@@ -766,9 +789,12 @@ std::map<std::string, std::optional<std::string>> project_settings(Db& db, const
   if (!s.step()) return out;
   for (size_t i = 0; i < cols.size(); ++i) {
     const int k = static_cast<int>(i);
-    if (s.is_null(k)) out[cols[i].name] = std::nullopt;
-    else if (cols[i].type == 'r') out[cols[i].name] = real_text(s.real(k));
-    else out[cols[i].name] = s.text(k);
+    if (s.is_null(k))
+      out[cols[i].name] = std::nullopt;
+    else if (cols[i].type == 'r')
+      out[cols[i].name] = real_text(s.real(k));
+    else
+      out[cols[i].name] = s.text(k);
   }
   return out;
 }
@@ -781,9 +807,10 @@ struct KeyCol {
   const char* key;    // nullptr: no natural key
   const char* scope;  // nullptr: the whole table
 };
-const KeyCol kRecordKeys[] = {{"people", "initials", nullptr}, {"units", "code", nullptr},   {"contacts", "name", nullptr},
-                              {"stations", "code", nullptr},    {"planes", "ref", "station"}, {"lines", "ref", "station"},
-                              {"points", nullptr, nullptr},     {"photos", nullptr, nullptr}};
+const KeyCol kRecordKeys[] = {{"people", "initials", nullptr}, {"units", "code", nullptr},
+                              {"contacts", "name", nullptr},   {"stations", "code", nullptr},
+                              {"planes", "ref", "station"},    {"lines", "ref", "station"},
+                              {"points", nullptr, nullptr},    {"photos", nullptr, nullptr}};
 
 struct Plain {
   long added = 0, skipped = 0, audit = 0;
@@ -821,8 +848,9 @@ Plain take_plain(Db& mirror, const std::string& copy) {
       mirror.exec("CREATE TEMP TABLE cairn_same AS SELECT s.uuid FROM src." + t + " s JOIN main." + t +
                   " m ON m.uuid = s.uuid AND m.updated = s.updated AND m.device = s.device");
       d.skipped += mirror.query_int("SELECT count(*) FROM temp.cairn_same");
-      std::string fresh = "SELECT s.uuid FROM src." + t + " s WHERE NOT EXISTS (SELECT 1 FROM main." + t +
-                          " m WHERE m.uuid = s.uuid) AND NOT EXISTS (SELECT 1 FROM src.key_clashes c WHERE c.record = s.uuid)";
+      std::string fresh =
+          "SELECT s.uuid FROM src." + t + " s WHERE NOT EXISTS (SELECT 1 FROM main." + t +
+          " m WHERE m.uuid = s.uuid) AND NOT EXISTS (SELECT 1 FROM src.key_clashes c WHERE c.record = s.uuid)";
       if (k.key) {
         fresh += " AND (s." + q(k.key) + " IS NULL OR s.deleted IS NOT NULL OR NOT EXISTS (SELECT 1 FROM main." + t +
                  " m WHERE m." + q(k.key) + " = s." + q(k.key) + " AND m.deleted IS NULL";
@@ -836,8 +864,9 @@ Plain take_plain(Db& mirror, const std::string& copy) {
       // What stays for the merge is usually a few rows: keep them aside, empty
       // the table at once (SQLite's truncate optimisation, "DELETE" documentation)
       // and put them back, rather than deleting the many rows one by one.
-      mirror.exec("CREATE TEMP TABLE cairn_keep AS SELECT " + cols + " FROM src." + t +
-                  " WHERE uuid NOT IN (SELECT uuid FROM temp.cairn_fresh) AND uuid NOT IN (SELECT uuid FROM temp.cairn_same)");
+      mirror.exec(
+          "CREATE TEMP TABLE cairn_keep AS SELECT " + cols + " FROM src." + t +
+          " WHERE uuid NOT IN (SELECT uuid FROM temp.cairn_fresh) AND uuid NOT IN (SELECT uuid FROM temp.cairn_same)");
       mirror.exec("DELETE FROM src." + t);
       mirror.exec("INSERT INTO src." + t + " (" + cols + ") SELECT " + cols + " FROM temp.cairn_keep");
       mirror.exec("DROP TABLE temp.cairn_fresh; DROP TABLE temp.cairn_same; DROP TABLE temp.cairn_keep");
@@ -846,7 +875,8 @@ Plain take_plain(Db& mirror, const std::string& copy) {
       std::vector<std::string> names;
       Stmt a(mirror, "SELECT name FROM pragma_table_info('audit') ORDER BY cid");
       while (a.step()) names.push_back(a.text(0));
-      mirror.exec("INSERT OR IGNORE INTO main.audit (" + joined(names) + ") SELECT " + joined(names) + " FROM src.audit");
+      mirror.exec("INSERT OR IGNORE INTO main.audit (" + joined(names) + ") SELECT " + joined(names) +
+                  " FROM src.audit");
     }
     d.audit = mirror.changes();
     mirror.exec("DELETE FROM src.audit");
@@ -854,8 +884,7 @@ Plain take_plain(Db& mirror, const std::string& copy) {
   } catch (...) {
     try {
       mirror.exec("ROLLBACK");
-    } catch (...) {
-    }
+    } catch (...) {}
     mirror.exec("DETACH DATABASE src");
     mirror.exec("PRAGMA foreign_keys = ON");
     throw;
@@ -866,8 +895,9 @@ Plain take_plain(Db& mirror, const std::string& copy) {
 }
 
 bool is_owner(Conn& c) {
-  return c.value("SELECT (SELECT rolsuper FROM pg_roles WHERE rolname = current_user) OR "
-                 "pg_has_role(current_user, (SELECT nspowner FROM pg_namespace WHERE nspname = 'cairn'), 'MEMBER')") ==
+  return c.value(
+             "SELECT (SELECT rolsuper FROM pg_roles WHERE rolname = current_user) OR "
+             "pg_has_role(current_user, (SELECT nspowner FROM pg_namespace WHERE nspname = 'cairn'), 'MEMBER')") ==
          std::optional<std::string>("t");
 }
 
@@ -886,14 +916,17 @@ InitReport init_store(const std::string& url) {
     try {
       c.exec("CREATE EXTENSION IF NOT EXISTS postgis");
     } catch (const pg::PgError& e) {
-      throw std::runtime_error(std::string("PostGIS is not available in this database (install postgresql-15-postgis-3, "
-                                           "or have a superuser run CREATE EXTENSION postgis): ") + e.what());
+      throw std::runtime_error(
+          std::string("PostGIS is not available in this database (install postgresql-15-postgis-3, "
+                      "or have a superuser run CREATE EXTENSION postgis): ") +
+          e.what());
     }
     c.exec("CREATE SCHEMA IF NOT EXISTS cairn");
     StoreState st = store_state(c);
     rep.from_version = st.version;
     if (st.version > kStoreVersion)
-      throw std::runtime_error("the survey store was set up by a newer Cairn (store version " + std::to_string(st.version) + ")");
+      throw std::runtime_error("the survey store was set up by a newer Cairn (store version " +
+                               std::to_string(st.version) + ")");
     for (int v = st.version; v < kStoreVersion; ++v) {
       c.exec(kStoreSteps[v]);
       rep.steps.push_back("store version " + std::to_string(v + 1));
@@ -906,9 +939,12 @@ InitReport init_store(const std::string& url) {
       record_tables.push_back(t.name);
     }
     for (const auto& t : tmpl.tables) sync_foreign_keys(c, t);
-    c.exec("CREATE INDEX IF NOT EXISTS stations_where ON cairn.stations USING gist "
-           "((ST_SetSRID(ST_MakePoint(lon, lat), 4326)))");
-    c.exec("CREATE INDEX IF NOT EXISTS points_where ON cairn.points USING gist ((ST_SetSRID(ST_MakePoint(lon, lat), 4326)))");
+    c.exec(
+        "CREATE INDEX IF NOT EXISTS stations_where ON cairn.stations USING gist "
+        "((ST_SetSRID(ST_MakePoint(lon, lat), 4326)))");
+    c.exec(
+        "CREATE INDEX IF NOT EXISTS points_where ON cairn.points USING gist ((ST_SetSRID(ST_MakePoint(lon, lat), "
+        "4326)))");
     sync_check_tables(c, *tmpl.p, rep.steps);
     c.exec(kViews);
     secure(c, record_tables);
@@ -919,8 +955,7 @@ InitReport init_store(const std::string& url) {
   } catch (...) {
     try {
       c.exec("ROLLBACK");
-    } catch (...) {
-    }
+    } catch (...) {}
     throw;
   }
   rep.to_version = kStoreVersion;
@@ -958,8 +993,7 @@ void set_crew(const std::string& url, const std::string& role, const std::string
   } catch (...) {
     try {
       c.exec("ROLLBACK");
-    } catch (...) {
-    }
+    } catch (...) {}
     throw;
   }
 }
@@ -1006,7 +1040,8 @@ PublishReport publish(const std::string& file, const std::string& url, const Pub
                    {rep.project, now});
       rep.project_created = true;
     } else if (!owner && c.value("SELECT cairn.crew_of($1)", {*id}) != std::optional<std::string>("t")) {
-      throw PublishRefused(what + "role \"" + rep.role + "\" is not in the crew of this project (it may read it, not write it)");
+      throw PublishRefused(what + "role \"" + rep.role +
+                           "\" is not in the crew of this project (it may read it, not write it)");
     }
     rep.project_uuid = *id;
     // Publishes of one project take turns; other projects go on.
@@ -1015,7 +1050,8 @@ PublishReport publish(const std::string& file, const std::string& url, const Pub
     Scratch scratch;
     NewProject np;
     np.name = rep.project;
-    Project mirror = Project::create(scratch.file("store.cairn"), np, scratch_options(scratch, st.device, "survey store"));
+    Project mirror =
+        Project::create(scratch.file("store.cairn"), np, scratch_options(scratch, st.device, "survey store"));
     // A scratch file: no need to wait for the disk (SQLite documentation, "PRAGMA synchronous").
     // and a page cache big enough for a season, so pages are not spilled and read back.
     mirror.db().exec("PRAGMA synchronous = OFF; PRAGMA cache_size = -524288; PRAGMA temp_store = MEMORY");
@@ -1095,7 +1131,8 @@ PublishReport publish(const std::string& file, const std::string& url, const Pub
     }
     if (rep.merge.changed || rep.project_created || rep.plain_added > 0) {
       // A project's settings come from its first published file.
-      if (c.value("SELECT settings_set FROM cairn.projects WHERE uuid = $1", {*id}) == std::optional<std::string>("f")) {
+      if (c.value("SELECT settings_set FROM cairn.projects WHERE uuid = $1", {*id}) ==
+          std::optional<std::string>("f")) {
         std::string set = "settings_set = true";
         std::vector<pg::Param> params{*id};
         for (const auto& [col, v] : settings) {
@@ -1111,10 +1148,11 @@ PublishReport publish(const std::string& file, const std::string& url, const Pub
       long rows = 0;
       for (const auto& [t, w] : rep.tables) rows += w.written + w.removed;
       c.query("UPDATE cairn.projects SET updated = $2 WHERE uuid = $1", {*id, utc_now()});
-      c.query("INSERT INTO cairn.publishes(project, at, file_uuid, file_name, rows_written, conflicts) "
-              "VALUES ($1, $2, $3, $4, $5, $6)",
-              {*id, utc_now(), file_uuid, fs::path(file).filename().string(), std::to_string(rows),
-               std::to_string(rep.merge.conflicts.size())});
+      c.query(
+          "INSERT INTO cairn.publishes(project, at, file_uuid, file_name, rows_written, conflicts) "
+          "VALUES ($1, $2, $3, $4, $5, $6)",
+          {*id, utc_now(), file_uuid, fs::path(file).filename().string(), std::to_string(rows),
+           std::to_string(rep.merge.conflicts.size())});
       rep.changed = true;
       if (o.before_commit) o.before_commit();
       c.exec("COMMIT");
@@ -1124,14 +1162,12 @@ PublishReport publish(const std::string& file, const std::string& url, const Pub
   } catch (const PublishRefused&) {
     try {
       c.exec("ROLLBACK");
-    } catch (...) {
-    }
+    } catch (...) {}
     throw;
   } catch (const pg::PgError& e) {
     try {
       c.exec("ROLLBACK");
-    } catch (...) {
-    }
+    } catch (...) {}
     // 42501: insufficient privilege, including a row-level security policy.
     if (e.sqlstate() == "42501")
       throw PublishRefused(what + "the store does not let role \"" + rep.role + "\" write it (" + e.what() +
@@ -1140,8 +1176,7 @@ PublishReport publish(const std::string& file, const std::string& url, const Pub
   } catch (const std::exception& e) {
     try {
       c.exec("ROLLBACK");
-    } catch (...) {
-    }
+    } catch (...) {}
     throw PublishRefused(what + e.what() + "; nothing was written");
   }
   return rep;
@@ -1154,7 +1189,8 @@ Result<BBox> parse_bbox(const std::string& text) {
   size_t at = 0;
   for (int i = 0; i < 4; ++i) {
     const size_t end = i < 3 ? text.find(',', at) : text.size();
-    if (end == std::string::npos) return Result<BBox>::failure("--bbox wants W,S,E,N in decimal degrees, not \"" + text + "\"");
+    if (end == std::string::npos)
+      return Result<BBox>::failure("--bbox wants W,S,E,N in decimal degrees, not \"" + text + "\"");
     const std::string part = text.substr(at, end - at);
     char* stop = nullptr;
     v[i] = std::strtod(part.c_str(), &stop);
@@ -1188,15 +1224,17 @@ PullReport pull(const std::string& url, const std::string& out, const PullOption
   (void)st;
   c.exec("BEGIN ISOLATION LEVEL REPEATABLE READ READ ONLY");
   auto id = project_uuid(c, o.project);
-  if (!id) throw std::runtime_error("no project \"" + o.project + "\" in the survey store that role \"" + c.user() + "\" may read");
+  if (!id)
+    throw std::runtime_error("no project \"" + o.project + "\" in the survey store that role \"" + c.user() +
+                             "\" may read");
 
   // Which stations and points: inside the box (a box with W > E crosses the antimeridian).
   auto in_box = [&](const std::string& a) -> std::string {
     if (!o.bbox) return "true";
     const BBox& b = *o.bbox;
-    const std::string lon = b.west <= b.east
-                                ? a + ".lon BETWEEN " + real_text(b.west) + " AND " + real_text(b.east)
-                                : "(" + a + ".lon >= " + real_text(b.west) + " OR " + a + ".lon <= " + real_text(b.east) + ")";
+    const std::string lon =
+        b.west <= b.east ? a + ".lon BETWEEN " + real_text(b.west) + " AND " + real_text(b.east)
+                         : "(" + a + ".lon >= " + real_text(b.west) + " OR " + a + ".lon <= " + real_text(b.east) + ")";
     return lon + " AND " + a + ".lat BETWEEN " + real_text(b.south) + " AND " + real_text(b.north);
   };
   const std::string p = c.literal(*id);
@@ -1204,9 +1242,13 @@ PullReport pull(const std::string& url, const std::string& out, const PullOption
   std::string point_cond = in_box("r");
   if (since) {
     const std::string d = c.literal(*since);
-    station_cond += " AND (s.updated >= " + d + " OR EXISTS (SELECT 1 FROM cairn.planes x WHERE x.project = s.project AND "
-                    "x.station = s.uuid AND x.updated >= " + d + ") OR EXISTS (SELECT 1 FROM cairn.lines x WHERE "
-                    "x.project = s.project AND x.station = s.uuid AND x.updated >= " + d + "))";
+    station_cond += " AND (s.updated >= " + d +
+                    " OR EXISTS (SELECT 1 FROM cairn.planes x WHERE x.project = s.project AND "
+                    "x.station = s.uuid AND x.updated >= " +
+                    d +
+                    ") OR EXISTS (SELECT 1 FROM cairn.lines x WHERE "
+                    "x.project = s.project AND x.station = s.uuid AND x.updated >= " +
+                    d + "))";
     point_cond += " AND r.updated >= " + d;
   }
   const std::string stations = "SELECT s.uuid FROM cairn.stations s WHERE s.project = " + p + " AND " + station_cond;
@@ -1214,7 +1256,8 @@ PullReport pull(const std::string& url, const std::string& out, const PullOption
                                ") UNION ALL SELECT uuid FROM cairn.lines WHERE project = " + p + " AND station IN (" +
                                stations + ")";
   const std::string points = "SELECT r.uuid FROM cairn.points r WHERE r.project = " + p + " AND " + point_cond;
-  const std::string photos = "SELECT uuid FROM cairn.photos WHERE project = " + p + " AND station IN (" + stations + ")";
+  const std::string photos =
+      "SELECT uuid FROM cairn.photos WHERE project = " + p + " AND station IN (" + stations + ")";
   const std::string taken = "(" + stations + ") UNION ALL (" + readings + ") UNION ALL (" + points + ") UNION ALL (" +
                             photos + ") UNION ALL SELECT uuid FROM cairn.people WHERE project = " + p +
                             " UNION ALL SELECT uuid FROM cairn.units WHERE project = " + p +
@@ -1228,8 +1271,8 @@ PullReport pull(const std::string& url, const std::string& out, const PullOption
       {"photos", "r.station IN (" + stations + ")"},
       {"audit", "r.record IN (" + taken + ")"},
       {"conflicts", "r.record IN (" + taken + ")"},
-      {"conflict_values", "r.conflict IN (SELECT uuid FROM cairn.conflicts WHERE project = " + p + " AND record IN (" +
-                              taken + "))"},
+      {"conflict_values",
+       "r.conflict IN (SELECT uuid FROM cairn.conflicts WHERE project = " + p + " AND record IN (" + taken + "))"},
       {"key_clashes", "r.record IN (" + taken + ")"},
       {"merges", "false"},
   };
@@ -1251,9 +1294,12 @@ PullReport pull(const std::string& url, const std::string& out, const PullOption
         const auto& v = settings[col.name];
         if (!v) continue;
         Stmt s(f.db(), "UPDATE project SET " + q(col.name) + " = ?");
-        if (col.type == 'r') s.bind(1, std::strtod(v->c_str(), nullptr));
-        else if (col.type == 'i') s.bind(1, static_cast<int64_t>(std::strtoll(v->c_str(), nullptr, 10)));
-        else s.bind(1, *v);
+        if (col.type == 'r')
+          s.bind(1, std::strtod(v->c_str(), nullptr));
+        else if (col.type == 'i')
+          s.bind(1, static_cast<int64_t>(std::strtoll(v->c_str(), nullptr, 10)));
+        else
+          s.bind(1, *v);
         s.run();
       }
       rep.rows = fill(c, f.db(), tmpl.tables, *id, where, nullptr);

@@ -49,7 +49,7 @@ constexpr int kStoreVersion = 1;
 struct InitReport {
   int from_version = 0;  // 0: a new store
   int to_version = 0;
-  int project_schema = 0;  // project-file schema version the tables follow
+  int project_schema = 0;          // project-file schema version the tables follow
   std::vector<std::string> steps;  // what was done, in words
 };
 // Creates or upgrades the store at URL (a libpq URL). Throws with the reason.
@@ -68,7 +68,7 @@ struct PublishReport {
   std::string project, project_uuid, role;
   bool project_created = false;
   bool changed = false;
-  long plain_added = 0;                       // new records with free codes, added without a merge
+  long plain_added = 0;                      // new records with free codes, added without a merge
   MergeReport merge;                         // what the merge found (conflicts, clashes, warnings)
   std::map<std::string, TableWrite> tables;  // per store table
   int fits = 0, flags = 0;                   // features of the latest check written
@@ -87,7 +87,7 @@ struct PublishOptions {
 PublishReport publish(const std::string& file, const std::string& url, const PublishOptions& o = {});
 
 class PublishRefused : public std::runtime_error {
-public:
+ public:
   using std::runtime_error::runtime_error;
 };
 

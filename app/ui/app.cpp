@@ -89,8 +89,10 @@ bool App::act(const std::string& label, const std::function<void(store::Project&
     notify("Saved: " + label);
     return true;
   }
-  if (error) *error = err;
-  else notify(err);
+  if (error)
+    *error = err;
+  else
+    notify(err);
   return false;
 }
 
@@ -112,7 +114,8 @@ void App::log_track() {
   if (!geo::keep_fix(track_last_, f)) return;
   track_last_ = f;  // also after a failure: no retry every frame
   try {
-    store::add_track_point(model->project(), {person_, formats::utc_now(), fix.lat, fix.lon, fix.altitude, fix.h_accuracy});
+    store::add_track_point(model->project(),
+                           {person_, formats::utc_now(), fix.lat, fix.lon, fix.altitude, fix.h_accuracy});
   } catch (const std::exception& e) {
     notify(std::string("The day track was not saved: ") + e.what());
   }
@@ -145,7 +148,8 @@ void App::request_check() {
   const std::uint64_t rev = model->revision();
   Model* m = model.get();
   checker.start("Checking readings against contact fits", [path, rev, m](JobProgress& pr) {
-    auto r = std::make_shared<CheckResult>(run_check_on_file(path, rev, [&](float f, const std::string& s) { pr.set(f, s); }));
+    auto r = std::make_shared<CheckResult>(
+        run_check_on_file(path, rev, [&](float f, const std::string& s) { pr.set(f, s); }));
     return std::function<void()>([m, r] { m->set_check(r); });
   });
 }
@@ -158,8 +162,10 @@ bool App::idle() const {
 bool App::init(std::string* error) {
   SDL_SetHint(SDL_HINT_VIDEO_X11_NET_WM_BYPASS_COMPOSITOR, "0");
   if (SDL_Init(SDL_INIT_VIDEO | SDL_INIT_TIMER) != 0) {
-    *error = std::string("cannot open the display (on Linux DISPLAY or WAYLAND_DISPLAY must name one; "
-                         "use xvfb-run for pictures and tests): ") + SDL_GetError();
+    *error = std::string(
+                 "cannot open the display (on Linux DISPLAY or WAYLAND_DISPLAY must name one; "
+                 "use xvfb-run for pictures and tests): ") +
+             SDL_GetError();
     return false;
   }
   SDL_GL_SetAttribute(SDL_GL_DOUBLEBUFFER, 1);
@@ -283,9 +289,7 @@ void App::handle_event(const SDL_Event& e) {
   int ww = 1, wh = 1;
   SDL_GetWindowSize(window_, &ww, &wh);
   switch (e.type) {
-    case SDL_QUIT:
-      quit_ = true;
-      break;
+    case SDL_QUIT: quit_ = true; break;
     case SDL_WINDOWEVENT:
       if (e.window.event == SDL_WINDOWEVENT_CLOSE && e.window.windowID == SDL_GetWindowID(window_)) quit_ = true;
       break;
@@ -332,8 +336,7 @@ void App::handle_event(const SDL_Event& e) {
       }
       break;
     }
-    default:
-      break;
+    default: break;
   }
 }
 
@@ -410,7 +413,9 @@ void App::draw_top_bar() {
       ImGui::PopStyleColor(3);
     }
     const std::string g = describe(fix);
-    const std::string gps_text = fix.has_position() ? "GPS: " + g : g.rfind("no GPS", 0) == 0 ? "no GPS: type positions" : g;
+    const std::string gps_text = fix.has_position()          ? "GPS: " + g
+                                 : g.rfind("no GPS", 0) == 0 ? "no GPS: type positions"
+                                                             : g;
     same_line_if_fits(ImGui::CalcTextSize(gps_text.c_str()).x);
     ImGui::AlignTextToFramePadding();
     text_colour(fix.has_position() ? lk.pal.ok : lk.pal.text_dim, gps_text);
@@ -427,8 +432,10 @@ void App::draw_top_bar() {
   if (button(undo_label + "##undo", undo_w, model && model->can_undo())) {
     std::string err;
     const std::string what = model->undo_label();
-    if (model->undo(&err)) notify("Undone: " + what);
-    else notify(err);
+    if (model->undo(&err))
+      notify("Undone: " + what);
+    else
+      notify(err);
   }
   ImGui::SameLine();
   if (button(theme_label + "##theme")) {
@@ -467,8 +474,8 @@ int App::nav_per_row(float avail) const {
 
 void App::draw_navigation() {
   Look& lk = look();
-  const Screen order[] = {Screen::Logbook, Screen::Station, Screen::Pad, Screen::Net,
-                          Screen::Plan, Screen::Crosscheck, Screen::Camp, Screen::Review};
+  const Screen order[] = {Screen::Logbook, Screen::Station,    Screen::Pad,  Screen::Net,
+                          Screen::Plan,    Screen::Crosscheck, Screen::Camp, Screen::Review};
   const float avail = ImGui::GetContentRegionAvail().x;
   const float sp = ImGui::GetStyle().ItemSpacing.x;
   const int per_row = nav_per_row(avail);
@@ -570,8 +577,10 @@ void App::draw_frame() {
   // On a tablet the system's on-screen keyboard comes up for text fields only.
   if (io.WantTextInput != want_text_) {
     want_text_ = io.WantTextInput;
-    if (want_text_) SDL_StartTextInput();
-    else SDL_StopTextInput();
+    if (want_text_)
+      SDL_StartTextInput();
+    else
+      SDL_StopTextInput();
   }
 }
 

@@ -38,17 +38,17 @@ std::optional<Screen> parse_screen(const std::string& name);
 struct GuiOptions {
   std::string file;
   bool fullscreen = false, windowed = false, night = false;
-  double dpi = 0;            // 0: ask the display
+  double dpi = 0;             // 0: ask the display
   int width = 0, height = 0;  // window size; 0: from the display
-  std::string view;          // screen to open
-  std::string screenshot;    // write a PNG of the view and exit
-  int frames = 3;            // frames to draw before the screenshot
-  std::string script;        // event script to run
+  std::string view;           // screen to open
+  std::string screenshot;     // write a PNG of the view and exit
+  int frames = 3;             // frames to draw before the screenshot
+  std::string script;         // event script to run
   std::string gps = "localhost:2947";
   bool no_gps = false;
-  std::string person;   // initials of the person at the tablet
-  std::string station;  // station code to select
-  std::string flag;     // flag to open on the Crosscheck: its rule (the first such flag)
+  std::string person;        // initials of the person at the tablet
+  std::string station;       // station code to select
+  std::string flag;          // flag to open on the Crosscheck: its rule (the first such flag)
   bool frame_stats = false;  // print how long frames took to build (CPU, without drawing) at exit
 };
 
@@ -57,15 +57,15 @@ struct GuiOptions {
 struct PadState {
   bool linear = false;
   std::string kind = "bedding";
-  int notation = 0;   // planes: 0 strike/dip (RHR), 1 dip direction/dip, 2 quadrant; lines: 0 trend/plunge, 1 rake
-  std::string text;   // as typed on the keypad
-  int quality = 0;    // 0: not stated, else 1..5
+  int notation = 0;  // planes: 0 strike/dip (RHR), 1 dip direction/dip, 2 quadrant; lines: 0 trend/plunge, 1 rake
+  std::string text;  // as typed on the keypad
+  int quality = 0;   // 0: not stated, else 1..5
   store::Facing facing = store::Facing::Unknown;
   std::optional<store::North> north;  // nothing: the project's default
-  std::string contact;     // contact UUID or ""
-  std::string host_plane;  // planar reading UUID for a rake
-  std::string error;       // from the last Record
-  std::string status;      // after a Record that worked
+  std::string contact;                // contact UUID or ""
+  std::string host_plane;             // planar reading UUID for a rake
+  std::string error;                  // from the last Record
+  std::string status;                 // after a Record that worked
 };
 
 struct StationEdit {
@@ -81,35 +81,35 @@ struct StationEdit {
 
 struct NetState {
   std::string kind, unit, contact, day, person;  // filters, "" = all
-  int display = 0;  // 0 poles, 1 great circles, 2 both
+  int display = 0;                               // 0 poles, 1 great circles, 2 both
   bool contours = false, statistics = false, equal_angle = false;
   // Cache: the drawing recorded for this key.
   std::string key;
   plot::RecordingCanvas drawing;
   std::unique_ptr<GlPicture> picture;  // the drawing as a texture (when this OpenGL can)
-  std::vector<std::string> legend;  // summary lines under the net
+  std::vector<std::string> legend;     // summary lines under the net
   int shown = 0;
 };
 
 struct PlanState {
   bool have_view = false;
   plot::PlanView view;
-  double interval = 0;  // strike-line interval, metres (0: chosen per contact)
-  std::vector<std::string> notes;  // per contact: the interval drawn
-  double spacing = 0;  // median distance from a station to its nearest neighbour, metres
+  double interval = 0;                             // strike-line interval, metres (0: chosen per contact)
+  std::vector<std::string> notes;                  // per contact: the interval drawn
+  double spacing = 0;                              // median distance from a station to its nearest neighbour, metres
   std::optional<std::pair<double, double>> probe;  // map point tapped
   std::string key;
   plot::PlanData data;  // cached for `key`
   double convergence = 0;
   bool dragging = false;
   float pinch_distance = 0;
-  std::string picture_key;              // what the picture below shows
-  std::unique_ptr<GlPicture> picture;   // the plan as a texture
+  std::string picture_key;             // what the picture below shows
+  std::unique_ptr<GlPicture> picture;  // the plan as a texture
 };
 
 struct CrosscheckState {
   int min_severity = 0;
-  std::string open_key;    // review key of the open flag ("" = none)
+  std::string open_key;       // review key of the open flag ("" = none)
   bool acknowledged = false;  // the open hazard flag's caution has been acknowledged
   std::string message;
 };
@@ -129,7 +129,7 @@ struct CampState {
 
 struct ReviewState {
   bool unlocked = false;
-  int tab = 0;  // 0 flags, 1 days, 2 audit trail
+  int tab = 0;           // 0 flags, 1 days, 2 audit trail
   std::string flag_key;  // flag being reviewed
   std::string comment;
   std::string record;  // record whose audit trail is shown
@@ -160,7 +160,7 @@ struct Finger {
 };
 
 class App {
-public:
+ public:
   explicit App(GuiOptions o);
   ~App();
   int run();
@@ -171,10 +171,10 @@ public:
   Jobs jobs;     // user's long work
   Jobs checker;  // the automatic cross-check
   GpsClient gps;
-  GpsFix fix;    // this frame's
+  GpsFix fix;  // this frame's
   Screen screen = Screen::Logbook;
-  std::string station;   // selected station UUID ("" = none)
-  std::string reading;   // reading opened from a flag (highlighted on the Station sheet)
+  std::string station;  // selected station UUID ("" = none)
+  std::string reading;  // reading opened from a flag (highlighted on the Station sheet)
   PadState pad;
   StationEdit edit;
   NetState net;
@@ -183,9 +183,9 @@ public:
   CampState camp;
   ReviewState review;
   LogbookState logbook;
-  std::string open_error;  // Open screen
-  std::string new_name;    // Open screen: name of a new project
-  std::vector<Finger> fingers;  // touches now down
+  std::string open_error;         // Open screen
+  std::string new_name;           // Open screen: name of a new project
+  std::vector<Finger> fingers;    // touches now down
   ImVec2 canvas_min, canvas_max;  // the screen area below the top bar and above the navigation
 
   void go(Screen s);
@@ -207,7 +207,7 @@ public:
   float frame_width() const;
   float frame_height() const;
 
-private:
+ private:
   bool init(std::string* error);
   void shutdown();
   void handle_event(const SDL_Event& e);

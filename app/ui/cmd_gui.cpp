@@ -32,7 +32,8 @@ int run_gui(const GuiArgs& a, std::ostream& out, std::ostream& err) {
   if (a.dpi) o.dpi = parse_int("--dpi", *a.dpi, 50, 1000);
   if (const auto& v = a.size) {
     const auto x = v->find('x');
-    if (x == std::string::npos) throw std::invalid_argument("--size must be WIDTHxHEIGHT, e.g. 1280x800, not '" + *v + "'");
+    if (x == std::string::npos)
+      throw std::invalid_argument("--size must be WIDTHxHEIGHT, e.g. 1280x800, not '" + *v + "'");
     o.width = parse_int("--size width", v->substr(0, x), 320, 8192);
     o.height = parse_int("--size height", v->substr(x + 1), 240, 8192);
   }
@@ -43,8 +44,10 @@ int run_gui(const GuiArgs& a, std::ostream& out, std::ostream& err) {
   if (a.person) o.person = *a.person;
   if (a.station) o.station = *a.station;
   if (a.flag) o.flag = *a.flag;
-  if (a.gps) o.gps = *a.gps;
-  else if (!o.screenshot.empty() || !o.script.empty()) o.gps.clear();  // tests and pictures: no GPS unless asked
+  if (a.gps)
+    o.gps = *a.gps;
+  else if (!o.screenshot.empty() || !o.script.empty())
+    o.gps.clear();  // tests and pictures: no GPS unless asked
   o.file = a.file;
   if (!have_display()) {
     err << "cairn gui: no display: neither DISPLAY nor WAYLAND_DISPLAY is set (run it on the tablet's screen, "
@@ -79,7 +82,7 @@ Runner define(CLI::App& app) {
 
 }  // namespace
 
-CAIRN_COMMAND(Command{"gui", "open the touch UI (Logbook, Station sheet, Reading pad, Net, Plan, Crosscheck, Camp, Review)",
-                      define});
+CAIRN_COMMAND(Command{
+    "gui", "open the touch UI (Logbook, Station sheet, Reading pad, Net, Plan, Crosscheck, Camp, Review)", define});
 
 }  // namespace cairn::cli

@@ -52,8 +52,8 @@ bool GlPicture::render(const plot::RecordingCanvas& drawing, int w, int h, Theme
   // The drawing as Dear ImGui geometry, in a draw list of its own.
   ImDrawList list(ImGui::GetDrawListSharedData());
   list._ResetForNewFrame();
-  list.Flags = ImDrawListFlags_AntiAliasedLines | ImDrawListFlags_AntiAliasedLinesUseTex | ImDrawListFlags_AntiAliasedFill |
-               ImDrawListFlags_AllowVtxOffset;
+  list.Flags = ImDrawListFlags_AntiAliasedLines | ImDrawListFlags_AntiAliasedLinesUseTex |
+               ImDrawListFlags_AntiAliasedFill | ImDrawListFlags_AllowVtxOffset;
   list.PushTextureID(ImGui::GetIO().Fonts->TexID);
   list.PushClipRect(ImVec2(0, 0), ImVec2(static_cast<float>(w), static_cast<float>(h)));
   ImGuiCanvas canvas(&list, font, theme);

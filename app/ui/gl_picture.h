@@ -14,7 +14,7 @@
 namespace cairn::ui {
 
 class GlPicture {
-public:
+ public:
   GlPicture() = default;
   GlPicture(const GlPicture&) = delete;
   GlPicture& operator=(const GlPicture&) = delete;
@@ -30,7 +30,7 @@ public:
   // The texts of the drawing, for event scripts.
   const std::vector<std::string>& texts() const { return texts_; }
 
-private:
+ private:
   unsigned texture_ = 0, framebuffer_ = 0;
   int w_ = 0, h_ = 0;  // points
   std::vector<std::string> texts_;

@@ -110,8 +110,10 @@ void GpsClient::run(std::string host, std::string port) {
         if (!f.altitude) f.altitude = finite(data.fix.altHAE);
       }
       const auto ex = finite(data.fix.epx), ey = finite(data.fix.epy);
-      if (ex && ey) f.h_accuracy = std::max(*ex, *ey);
-      else if (auto eh = finite(data.fix.eph)) f.h_accuracy = *eh;
+      if (ex && ey)
+        f.h_accuracy = std::max(*ex, *ey);
+      else if (auto eh = finite(data.fix.eph))
+        f.h_accuracy = *eh;
       if (f.altitude) f.v_accuracy = finite(data.fix.epv);
       f.satellites = data.satellites_used;
       {

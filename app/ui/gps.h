@@ -24,12 +24,12 @@ struct GpsFix {
   int mode = 0;            // 0 not seen, 1 no fix, 2 2D, 3 3D (gpsd's MODE_*)
   int status = 0;          // gpsd's STATUS_*: 1 GPS, 2 DGPS, 3 RTK fixed, 4 RTK float, ...
   double lat = 0, lon = 0;
-  std::optional<double> altitude;            // metres above mean sea level (or the ellipsoid when gpsd gives no MSL)
-  std::optional<double> h_accuracy;          // metres, larger of epx and epy (else eph)
-  std::optional<double> v_accuracy;          // metres, epv
-  int satellites = 0;                        // used in the solution
-  double age_s = 1e9;                        // seconds since the fix arrived
-  std::string error;                         // why there is no connection
+  std::optional<double> altitude;    // metres above mean sea level (or the ellipsoid when gpsd gives no MSL)
+  std::optional<double> h_accuracy;  // metres, larger of epx and epy (else eph)
+  std::optional<double> v_accuracy;  // metres, epv
+  int satellites = 0;                // used in the solution
+  double age_s = 1e9;                // seconds since the fix arrived
+  std::string error;                 // why there is no connection
 
   bool has_position() const { return connected && mode >= 2 && age_s < 10; }
 };
@@ -38,7 +38,7 @@ struct GpsFix {
 std::string describe(const GpsFix& f);
 
 class GpsClient {
-public:
+ public:
   ~GpsClient();
   // Connects to gpsd at host:port on a thread, reconnecting every few seconds.
   void start(const std::string& host, const std::string& port);
@@ -48,7 +48,7 @@ public:
   // Bumped on every new fix (the UI redraws when it changes).
   unsigned long updates() const { return updates_.load(); }
 
-private:
+ private:
   void run(std::string host, std::string port);
   std::thread thread_;
   std::atomic<bool> stop_{false};

@@ -35,7 +35,8 @@ void ImGuiCanvas::fill_polygon(const std::vector<Pt>& pts, Rgba fill) {
 void ImGuiCanvas::circle(Pt centre, double radius, Rgba stroke, double width, std::optional<Rgba> fill) {
   const int segments = radius < 6 ? 10 : radius < 40 ? 24 : 0;  // 0: ImGui picks by size
   if (fill) list_->AddCircleFilled(v(centre), static_cast<float>(radius), col(*fill), segments);
-  if (width > 0) list_->AddCircle(v(centre), static_cast<float>(radius), col(stroke), segments, static_cast<float>(width));
+  if (width > 0)
+    list_->AddCircle(v(centre), static_cast<float>(radius), col(stroke), segments, static_cast<float>(width));
 }
 
 void ImGuiCanvas::marker(Pt c, plot::Shape shape, double size, Rgba colour, bool filled) {
@@ -45,20 +46,25 @@ void ImGuiCanvas::marker(Pt c, plot::Shape shape, double size, Rgba colour, bool
   const float w = std::max(1.0f, static_cast<float>(size) / 6);
   switch (shape) {
     case plot::Shape::Circle:
-      if (filled) list_->AddCircleFilled(p, h, k, size < 10 ? 8 : 16);
-      else list_->AddCircle(p, h, k, size < 10 ? 8 : 16, w);
+      if (filled)
+        list_->AddCircleFilled(p, h, k, size < 10 ? 8 : 16);
+      else
+        list_->AddCircle(p, h, k, size < 10 ? 8 : 16, w);
       return;
     case plot::Shape::Square:
-      if (filled) list_->AddRectFilled(ImVec2(p.x - h, p.y - h), ImVec2(p.x + h, p.y + h), k);
-      else list_->AddRect(ImVec2(p.x - h, p.y - h), ImVec2(p.x + h, p.y + h), k, 0, 0, w);
+      if (filled)
+        list_->AddRectFilled(ImVec2(p.x - h, p.y - h), ImVec2(p.x + h, p.y + h), k);
+      else
+        list_->AddRect(ImVec2(p.x - h, p.y - h), ImVec2(p.x + h, p.y + h), k, 0, 0, w);
       return;
-    default:
-      break;
+    default: break;
   }
   // The other shapes take their outline from the shared symbol code.
   for (const auto& part : plot::marker_outline(shape, c, size)) {
-    if (filled && plot::marker_fillable(shape)) fill_polygon(part, colour);
-    else polyline(part, colour, w, false);
+    if (filled && plot::marker_fillable(shape))
+      fill_polygon(part, colour);
+    else
+      polyline(part, colour, w, false);
   }
 }
 

@@ -9,7 +9,7 @@
 namespace cairn::ui {
 
 class ImGuiCanvas : public plot::Canvas {
-public:
+ public:
   // Draws on `list` with `font` (text sizes are pixels); colours pass through
   // theme_colour(theme, ...), so print colours become night colours.
   ImGuiCanvas(ImDrawList* list, ImFont* font, ThemeKind theme) : list_(list), font_(font), theme_(theme) {}
@@ -22,7 +22,7 @@ public:
   void text(plot::Pt at, const std::string& s, plot::Rgba colour, double size,
             plot::Anchor anchor = plot::Anchor::Start) override;
 
-private:
+ private:
   ImU32 col(plot::Rgba c) const { return to_u32(theme_colour(theme_, c)); }
   ImDrawList* list_;
   ImFont* font_;

@@ -13,20 +13,20 @@ namespace cairn::ui {
 
 // What a job reports while it runs (thread-safe).
 class JobProgress {
-public:
+ public:
   // fraction in [0, 1], or < 0 when the work has no measure.
   void set(float fraction, const std::string& message);
   float fraction() const { return fraction_.load(); }
   std::string message() const;
 
-private:
+ private:
   std::atomic<float> fraction_{0.0f};
   mutable std::mutex mu_;
   std::string message_;
 };
 
 class Jobs {
-public:
+ public:
   ~Jobs();
   // Starts `work` on a worker thread unless a job is running (then false).
   // `work` returns a function that is run on the UI thread by poll() when it is done.
@@ -39,7 +39,7 @@ public:
   // Waits for a running job (at exit).
   void join();
 
-private:
+ private:
   std::thread thread_;
   std::atomic<bool> running_{false};
   bool pending_finish_ = false;

@@ -40,7 +40,7 @@ struct LastAction {
 };
 
 class Model {
-public:
+ public:
   explicit Model(store::Project p);
 
   store::Project& project() { return project_; }
@@ -105,7 +105,7 @@ public:
   // The usable fit of a contact (by UUID) in the newest result, or nothing.
   const geo::ContactFit* fit_of(const std::string& contact_uuid) const;
 
-private:
+ private:
   store::Project project_;
   std::string path_;
   store::ProjectInfo info_;

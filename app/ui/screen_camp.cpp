@@ -117,11 +117,13 @@ void pick_lists(App& a) {
       if (i > 0) same_line_if_fits(label_width((listed ? "\xE2\x9C\x93 " : "") + k));
       if (chip(k, listed, writable)) {
         if (listed)
-          change("unlist " + k, [&](store::Project& p) { store::remove_pick(p, store::PickList::Structure, k); },
-                 [k](store::Project& p) { store::add_pick(p, store::PickList::Structure, k); });
+          change(
+              "unlist " + k, [&](store::Project& p) { store::remove_pick(p, store::PickList::Structure, k); },
+              [k](store::Project& p) { store::add_pick(p, store::PickList::Structure, k); });
         else
-          change("list " + k, [&](store::Project& p) { store::add_pick(p, store::PickList::Structure, k); },
-                 [k](store::Project& p) { store::remove_pick(p, store::PickList::Structure, k); });
+          change(
+              "list " + k, [&](store::Project& p) { store::add_pick(p, store::PickList::Structure, k); },
+              [k](store::Project& p) { store::remove_pick(p, store::PickList::Structure, k); });
       }
       ImGui::PopID();
     }
@@ -142,14 +144,17 @@ void pick_lists(App& a) {
     ImGui::SameLine();
     if (button("Add lithology", 0, writable && !cs.new_lithology.empty())) {
       const std::string code = cs.new_lithology;
-      if (change("lithology " + code, [&](store::Project& p) { store::add_pick(p, store::PickList::Lithology, code); },
-                 [code](store::Project& p) { store::remove_pick(p, store::PickList::Lithology, code); }))
+      if (change(
+              "lithology " + code, [&](store::Project& p) { store::add_pick(p, store::PickList::Lithology, code); },
+              [code](store::Project& p) { store::remove_pick(p, store::PickList::Lithology, code); }))
         cs.new_lithology.clear();
     }
     if (sel >= 0 && button("Remove " + cs.lithology, 0, writable)) {
       const std::string code = cs.lithology;
-      if (change("remove lithology " + code, [&](store::Project& p) { store::remove_pick(p, store::PickList::Lithology, code); },
-                 [code](store::Project& p) { store::add_pick(p, store::PickList::Lithology, code); }))
+      if (change(
+              "remove lithology " + code,
+              [&](store::Project& p) { store::remove_pick(p, store::PickList::Lithology, code); },
+              [code](store::Project& p) { store::add_pick(p, store::PickList::Lithology, code); }))
         cs.lithology.clear();
     }
   }
@@ -166,7 +171,8 @@ void pick_lists(App& a) {
     u.name = cs.unit_name;
     u.age_rank = 1;
     for (const auto& v : m.units()) u.age_rank = std::max(u.age_rank, v.age_rank + 1);  // the youngest so far
-    if (change("unit " + u.code, [&](store::Project& p) { store::add(p, u); }, nullptr)) {
+    if (change(
+            "unit " + u.code, [&](store::Project& p) { store::add(p, u); }, nullptr)) {
       cs.unit_code.clear();
       cs.unit_name.clear();
     }
@@ -182,7 +188,8 @@ void pick_lists(App& a) {
     store::Person who;
     who.initials = cs.person_initials;
     who.name = cs.person_name;
-    if (change("person " + who.initials, [&](store::Project& p) { store::add(p, who); }, nullptr)) {
+    if (change(
+            "person " + who.initials, [&](store::Project& p) { store::add(p, who); }, nullptr)) {
       cs.person_initials.clear();
       cs.person_name.clear();
     }
@@ -232,7 +239,8 @@ void draw_camp(App& a) {
     ImGui::PopID();
     if (k >= 0) cs.contact = k == 0 ? "" : m.contacts()[static_cast<size_t>(k - 1)].name;
   }
-  if (button("Import " + (cs.selected.empty() || !(is_csv || is_gpx) ? std::string("(choose a file)") : fs::path(cs.selected).filename().string()),
+  if (button("Import " + (cs.selected.empty() || !(is_csv || is_gpx) ? std::string("(choose a file)")
+                                                                     : fs::path(cs.selected).filename().string()),
              -1, writable && !busy && (is_csv || is_gpx), true)) {
     const std::string file = cs.selected;
     const int kind = cs.kind;
@@ -244,13 +252,17 @@ void draw_camp(App& a) {
       const std::string text = cli::read_text_file(file);
       store::Project p = store::Project::open(project, cli::cli_open_options(false));
       pr.set(-1.0f, "checking and writing every row");
-      const store::ImportReport r = is_gpx ? store::import_gpx(p, text, file, contact)
-                                           : store::import_csv(p, *store::parse_import_kind(kKinds[static_cast<size_t>(kind)]), text, file);
+      const store::ImportReport r =
+          is_gpx ? store::import_gpx(p, text, file, contact)
+                 : store::import_csv(p, *store::parse_import_kind(kKinds[static_cast<size_t>(kind)]), text, file);
       std::vector<std::string> log;
       const std::string name = fs::path(file).filename().string();
-      if (r.ok()) log.push_back(name + ": " + std::to_string(r.added) + " added, " + std::to_string(r.skipped) + " already there");
+      if (r.ok())
+        log.push_back(name + ": " + std::to_string(r.added) + " added, " + std::to_string(r.skipped) +
+                      " already there");
       else {
-        log.push_back(name + ": nothing imported, " + std::to_string(r.errors.size()) + " problem" + (r.errors.size() == 1 ? "" : "s") + ":");
+        log.push_back(name + ": nothing imported, " + std::to_string(r.errors.size()) + " problem" +
+                      (r.errors.size() == 1 ? "" : "s") + ":");
         for (size_t i = 0; i < r.errors.size() && i < 30; ++i) log.push_back("  " + r.errors[i]);
       }
       return std::function<void()>([model, camp, log] {
@@ -265,8 +277,9 @@ void draw_camp(App& a) {
   file_list(a, "others", others, list_h);
   const bool is_cairn = !cs.selected.empty() && ext_of(cs.selected) == ".cairn";
   // A long file name is shortened to the button (the list above shows it whole).
-  const std::string merge_label = "Merge " + (is_cairn ? fs::path(cs.selected).filename().string() : std::string("(choose a project file)")) +
-                                  " into this project";
+  const std::string merge_label =
+      "Merge " + (is_cairn ? fs::path(cs.selected).filename().string() : std::string("(choose a project file)")) +
+      " into this project";
   const float merge_room = ImGui::GetContentRegionAvail().x - ImGui::GetStyle().FramePadding.x * 2;
   if (button(fit_to_width(merge_label, merge_room) + "##merge", -1, writable && !busy && is_cairn, true)) {
     const std::string file = cs.selected;
@@ -277,16 +290,18 @@ void draw_camp(App& a) {
       store::MergeOptions mo;
       mo.progress = [&pr](const store::MergeProgress& mp) {
         const float part = mp.total ? static_cast<float>(mp.done) / static_cast<float>(mp.total) : 0.0f;
-        const float f = (static_cast<float>(mp.source_index) + part) / static_cast<float>(std::max<size_t>(1, mp.sources));
+        const float f =
+            (static_cast<float>(mp.source_index) + part) / static_cast<float>(std::max<size_t>(1, mp.sources));
         pr.set(f, fs::path(mp.source).filename().string() + ": " + mp.table);
       };
       const store::MergeReport rep = store::merge_files(target, {file}, mo);
       std::vector<std::string> log;
       for (const auto& s : rep.sources)
         log.push_back(fs::path(s.path).filename().string() + ": " + std::to_string(s.counts.added) + " added, " +
-                      std::to_string(s.counts.updated) + " updated, " + std::to_string(s.counts.skipped) + " skipped, " +
-                      std::to_string(s.counts.conflicts) + " conflicts");
-      for (const auto& c : rep.conflicts) log.push_back("  conflict: " + c.label + " (" + std::to_string(c.fields.size()) + " fields differ)");
+                      std::to_string(s.counts.updated) + " updated, " + std::to_string(s.counts.skipped) +
+                      " skipped, " + std::to_string(s.counts.conflicts) + " conflicts");
+      for (const auto& c : rep.conflicts)
+        log.push_back("  conflict: " + c.label + " (" + std::to_string(c.fields.size()) + " fields differ)");
       for (const auto& k : rep.clashes)
         log.push_back("  shared code " + k.code + ": stored as " + k.stored_as + ", suggest " + k.suggestion);
       for (const auto& w : rep.warnings) log.push_back("  " + w);
@@ -302,8 +317,9 @@ void draw_camp(App& a) {
 
   ImGui::BeginChild("campright", ImVec2(0, 0), false);
   heading("Export");
-  text_wrapped("GeoPackage and GeoJSON for a GIS (with the fitted contacts and flags), or CSV files in the "
-               "columns cairn import reads; written beside the project.");
+  text_wrapped(
+      "GeoPackage and GeoJSON for a GIS (with the fitted contacts and flags), or CSV files in the "
+      "columns cairn import reads; written beside the project.");
   const fs::path base = fs::absolute(fs::path(project)).parent_path() / fs::path(project).stem();
   const struct {
     const char* label;
@@ -326,9 +342,10 @@ void draw_camp(App& a) {
         const core::ExportSummary sum = core::export_project(p, out, eo);
         size_t features = 0;
         for (const auto& l : sum.layers) features += l.count;
-        const std::string what = sum.format == core::ExportFormat::CsvFolder
-                                     ? std::to_string(sum.layers.size()) + " CSV files"
-                                     : std::to_string(sum.layers.size()) + " layers, " + std::to_string(features) + " features";
+        const std::string what =
+            sum.format == core::ExportFormat::CsvFolder
+                ? std::to_string(sum.layers.size()) + " CSV files"
+                : std::to_string(sum.layers.size()) + " layers, " + std::to_string(features) + " features";
         std::vector<std::string> log{"exported " + what + " to " + sum.path};
         return std::function<void()>([camp, log] { camp->log.insert(camp->log.end(), log.begin(), log.end()); });
       });
@@ -341,7 +358,8 @@ void draw_camp(App& a) {
     Model* model = &m;
     CampState* camp = &cs;
     a.jobs.start("Full check", [project, rev, model, camp](JobProgress& pr) {
-      auto r = std::make_shared<CheckResult>(run_check_on_file(project, rev, [&](float f, const std::string& s) { pr.set(f, s); }));
+      auto r = std::make_shared<CheckResult>(
+          run_check_on_file(project, rev, [&](float f, const std::string& s) { pr.set(f, s); }));
       return std::function<void()>([model, camp, r] {
         model->set_check(r);
         camp->log.push_back(r->error.empty() ? "full check: " + std::to_string(r->report.fits.size()) + " contacts, " +

@@ -27,10 +27,10 @@ std::string review_key(const geo::Flag& f) {
 
 std::string severity_label(geo::Severity s) {
   switch (s) {
-    case geo::Severity::Hazard: return "\xE2\x96\xB2 HAZARD";     // U+25B2 triangle
-    case geo::Severity::Conflict: return "\xE2\x97\x86 CONFLICT"; // U+25C6 diamond
-    case geo::Severity::Query: return "\xE2\x96\xA0 QUERY";       // U+25A0 square
-    case geo::Severity::Note: return "\xE2\x97\x8F NOTE";         // U+25CF circle
+    case geo::Severity::Hazard: return "\xE2\x96\xB2 HAZARD";      // U+25B2 triangle
+    case geo::Severity::Conflict: return "\xE2\x97\x86 CONFLICT";  // U+25C6 diamond
+    case geo::Severity::Query: return "\xE2\x96\xA0 QUERY";        // U+25A0 square
+    case geo::Severity::Note: return "\xE2\x97\x8F NOTE";          // U+25CF circle
   }
   return "";
 }
@@ -39,15 +39,16 @@ std::string reading_summary(const store::PlanarReading& r) {
   const geo::Plane p{r.strike, r.dip};
   std::string s = (r.ref.empty() ? std::string() : r.ref + "  ") + geo::format_strike_dip(p) + "  " +
                   std::string(store::to_string(r.kind));
-  if (r.typed != geo::format_strike_dip(p)) s += "  (typed " + r.typed + (r.north == store::North::Magnetic ? ", magnetic" : "") + ")";
+  if (r.typed != geo::format_strike_dip(p))
+    s += "  (typed " + r.typed + (r.north == store::North::Magnetic ? ", magnetic" : "") + ")";
   if (r.quality) s += "  q" + std::to_string(*r.quality);
   if (r.facing != store::Facing::Unknown) s += "  " + std::string(store::to_string(r.facing));
   return s;
 }
 
 std::string reading_summary(const store::LinearReading& r) {
-  std::string s = (r.ref.empty() ? std::string() : r.ref + "  ") + geo::format_trend_plunge(geo::Line{r.trend, r.plunge}) +
-                  "  " + std::string(store::to_string(r.kind));
+  std::string s = (r.ref.empty() ? std::string() : r.ref + "  ") +
+                  geo::format_trend_plunge(geo::Line{r.trend, r.plunge}) + "  " + std::string(store::to_string(r.kind));
   if (r.rake) s += "  (rake " + fmt("%.0f", *r.rake) + ")";
   return s;
 }

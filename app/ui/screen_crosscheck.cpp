@@ -42,8 +42,9 @@ void flag_window(App& a, const geo::Flag& f) {
   ImGui::SetNextWindowPos(ImVec2(ds.x * 0.5f, ds.y * 0.5f), ImGuiCond_Always, ImVec2(0.5f, 0.5f));
   ImGui::SetNextWindowSize(ImVec2(std::min(ds.x - lk.m.tap, lk.m.tap * 17), 0), ImGuiCond_Always);
   if (!ImGui::IsPopupOpen("Flag")) ImGui::OpenPopup("Flag");
-  if (!ImGui::BeginPopupModal("Flag", nullptr, ImGuiWindowFlags_NoTitleBar | ImGuiWindowFlags_NoMove |
-                                                    ImGuiWindowFlags_NoResize | ImGuiWindowFlags_AlwaysAutoResize))
+  if (!ImGui::BeginPopupModal("Flag", nullptr,
+                              ImGuiWindowFlags_NoTitleBar | ImGuiWindowFlags_NoMove | ImGuiWindowFlags_NoResize |
+                                  ImGuiWindowFlags_AlwaysAutoResize))
     return;
   {
     // A heavy frame sets the flag apart from the dimmed screen behind it.
@@ -54,8 +55,9 @@ void flag_window(App& a, const geo::Flag& f) {
   text(severity_label(f.severity) + "   " + f.rule);
   ImGui::PopFont();
   std::string where = !f.readings.empty() ? "crew: " + (f.observer.empty() ? std::string("one device") : f.observer) +
-                                               (f.day.empty() ? std::string() : " on " + f.day)
-                      : f.station.empty() ? std::string("contact-wide") : "station " + f.station;
+                                                (f.day.empty() ? std::string() : " on " + f.day)
+                      : f.station.empty() ? std::string("contact-wide")
+                                          : "station " + f.station;
   if (!f.ref.empty()) where += ", reading " + f.ref;
   if (!f.contact.empty()) where += ", contact " + f.contact;
   text_dim(where);
@@ -117,13 +119,14 @@ void flag_window(App& a, const geo::Flag& f) {
     if (button("Apply the correction", 0, may_leave)) {
       std::string err;
       auto result = std::make_shared<std::string>();
-      if (a.act("correct " + (f.ref.empty() ? f.rule : f.ref),
-                [&f, result](store::Project& p) {
-                  auto r = core::apply_correction(p, f);
-                  if (!r) throw std::runtime_error(r.error());
-                  *result = r.value();
-                },
-                &err)) {
+      if (a.act(
+              "correct " + (f.ref.empty() ? f.rule : f.ref),
+              [&f, result](store::Project& p) {
+                auto r = core::apply_correction(p, f);
+                if (!r) throw std::runtime_error(r.error());
+                *result = r.value();
+              },
+              &err)) {
         a.notify("Corrected " + *result);
         cs.open_key.clear();
         ImGui::CloseCurrentPopup();
@@ -197,7 +200,8 @@ void draw_crosscheck(App& a) {
     if (hit >= 0) cs.min_severity = hit;
   }
   if (counts[geo::Severity::Hazard] > 0)
-    caution_box(std::to_string(counts[geo::Severity::Hazard]) + " hazard flag" + (counts[geo::Severity::Hazard] == 1 ? "" : "s"),
+    caution_box(std::to_string(counts[geo::Severity::Hazard]) + " hazard flag" +
+                    (counts[geo::Severity::Hazard] == 1 ? "" : "s"),
                 "Open each one and read its caution before working near the face.");
 
   // Opened from the command line (--flag RULE): the first flag of that rule.
@@ -233,7 +237,8 @@ void draw_crosscheck(App& a) {
       ImGui::PushStyleColor(ImGuiCol_Text, ImGui::ColorConvertU32ToFloat4(lk.pal.caution_text));
     }
     // Long messages are cut to the row; the whole text is in the flag's window.
-    const std::string shown = fit_to_width(line, ImGui::GetContentRegionAvail().x - ImGui::GetStyle().FramePadding.x * 2);
+    const std::string shown =
+        fit_to_width(line, ImGui::GetContentRegionAvail().x - ImGui::GetStyle().FramePadding.x * 2);
     if (button(shown + "##flag", -1)) {
       cs.open_key = key;
       cs.acknowledged = false;
@@ -251,8 +256,10 @@ void draw_crosscheck(App& a) {
   const geo::Flag* open = nullptr;
   for (const auto& f : c->report.flags)
     if (!cs.open_key.empty() && review_key(f) == cs.open_key) open = &f;
-  if (open) flag_window(a, *open);
-  else cs.open_key.clear();
+  if (open)
+    flag_window(a, *open);
+  else
+    cs.open_key.clear();
 }
 
 }  // namespace cairn::ui

@@ -63,7 +63,8 @@ std::vector<Row> build_rows(const App& a) {
       line += "   " + std::to_string(n) + " reading" + (n == 1 ? "" : "s");
       auto it = flags.find(s->meta.uuid);
       if (it != flags.end())
-        line += "   " + severity_label(it->second.worst) + (it->second.count > 1 ? " +" + std::to_string(it->second.count - 1) : "");
+        line += "   " + severity_label(it->second.worst) +
+                (it->second.count > 1 ? " +" + std::to_string(it->second.count - 1) : "");
       rows.push_back({line, s->meta.uuid, s->code});
     }
   }

@@ -19,8 +19,8 @@ namespace cairn::ui {
 namespace {
 
 // A filter as a chip row: "all" and the values; `value` is "" for all.
-void filter_row(const char* id, const std::string& title, const std::vector<std::pair<std::string, std::string>>& values,
-                std::string& value) {
+void filter_row(const char* id, const std::string& title,
+                const std::vector<std::pair<std::string, std::string>>& values, std::string& value) {
   text_dim(title);
   std::vector<std::string> labels{"all"};
   int sel = 0;
@@ -88,7 +88,8 @@ void draw_net_screen(App& a) {
 
   ImGui::BeginChild("netview", ImVec2(0, 0), false, ImGuiWindowFlags_NoScrollbar | ImGuiWindowFlags_NoScrollWithMouse);
   // One line of summary above the net.
-  text_dim(ns.legend.empty() ? std::string(" ") : ns.legend.front() + (ns.legend.size() > 1 ? "; " + ns.legend[1] : ""));
+  text_dim(ns.legend.empty() ? std::string(" ")
+                             : ns.legend.front() + (ns.legend.size() > 1 ? "; " + ns.legend[1] : ""));
   const ImVec2 origin = ImGui::GetCursorScreenPos();
   const ImVec2 size = ImGui::GetContentRegionAvail();
   auto check = m.check();
@@ -134,8 +135,11 @@ void draw_net_screen(App& a) {
       }
     plot::NetOptions o;
     o.kind = ns.equal_angle ? geo::NetKind::EqualAngle : geo::NetKind::EqualArea;
-    o.planes = ns.display == 0 ? plot::PlaneDisplay::Poles : ns.display == 1 ? plot::PlaneDisplay::GreatCircles : plot::PlaneDisplay::Both;
-    if (o.planes != plot::PlaneDisplay::Poles && d.planes.size() > kMaxGreatCircles) o.planes = plot::PlaneDisplay::Poles;
+    o.planes = ns.display == 0   ? plot::PlaneDisplay::Poles
+               : ns.display == 1 ? plot::PlaneDisplay::GreatCircles
+                                 : plot::PlaneDisplay::Both;
+    if (o.planes != plot::PlaneDisplay::Poles && d.planes.size() > kMaxGreatCircles)
+      o.planes = plot::PlaneDisplay::Poles;
     o.contours = ns.contours;
     o.statistics = ns.statistics;
     o.legend = true;

@@ -19,7 +19,8 @@ namespace cairn::ui {
 
 namespace {
 
-const std::vector<std::string> kPlaneKinds{"bedding", "foliation", "cleavage", "joint", "fault", "vein", "contact", "slope"};
+const std::vector<std::string> kPlaneKinds{"bedding", "foliation", "cleavage", "joint",
+                                           "fault",   "vein",      "contact",  "slope"};
 const std::vector<std::string> kLineKinds{"lineation", "fold_axis", "slickenline", "intersection"};
 
 std::string kind_label(const std::string& k) {
@@ -40,7 +41,7 @@ Parsed parse(const PadState& pad, const Model& m) {
   Parsed r;
   if (pad.text.empty()) return r;
   if (!pad.linear) {
-    const auto conv = pad.notation == 0 ? geo::PlaneConvention::StrikeDipRHR
+    const auto conv = pad.notation == 0   ? geo::PlaneConvention::StrikeDipRHR
                       : pad.notation == 1 ? geo::PlaneConvention::DipDirectionDip
                                           : geo::PlaneConvention::Unspecified;
     auto p = geo::parse_plane(pad.text, conv);
@@ -63,7 +64,8 @@ Parsed parse(const PadState& pad, const Model& m) {
       return r;
     }
     r.line = *l;
-    r.meaning = "trend/plunge " + geo::format_trend_plunge(*l) + " on " + geo::format_strike_dip({host->strike, host->dip});
+    r.meaning =
+        "trend/plunge " + geo::format_trend_plunge(*l) + " on " + geo::format_strike_dip({host->strike, host->dip});
   } else {
     auto l = geo::parse_line(pad.text);
     if (!l) {
@@ -91,8 +93,8 @@ Declination pad_declination(Model& m, const PadState& pad, const store::Station&
   try {
     const auto v = m.project().declination_at(st.lat, st.lon, "");
     d.degrees = v.degrees;
-    d.note = "declination " + fmt("%.1f\xC2\xB0", std::abs(v.degrees)) + (v.degrees >= 0 ? " E" : " W") + " (" + v.source +
-             ") will be added";
+    d.note = "declination " + fmt("%.1f\xC2\xB0", std::abs(v.degrees)) + (v.degrees >= 0 ? " E" : " W") + " (" +
+             v.source + ") will be added";
   } catch (const std::exception& e) {
     d.note = e.what();
   }
@@ -105,8 +107,9 @@ void pad_typed(App& a, const store::Station& st, const Parsed& parsed) {
   PadState& pad = a.pad;
   heading("Station " + st.code + ": new " + (pad.linear ? "linear" : "planar") + " reading");
   {
-    std::vector<std::string> labels = pad.linear ? std::vector<std::string>{"trend/plunge", "rake"}
-                                                 : std::vector<std::string>{"strike/dip (RHR)", "dip direction/dip", "quadrant"};
+    std::vector<std::string> labels =
+        pad.linear ? std::vector<std::string>{"trend/plunge", "rake"}
+                   : std::vector<std::string>{"strike/dip (RHR)", "dip direction/dip", "quadrant"};
     ImGui::PushID("notation");
     const int hit = chip_row(labels, pad.notation);
     ImGui::PopID();
@@ -128,13 +131,15 @@ void pad_typed(App& a, const store::Station& st, const Parsed& parsed) {
   ImGui::PopFont();
   ImGui::Dummy(ImVec2(w, h));
   this_frame().texts.push_back("typed: " + pad.text);
-  if (!parsed.error.empty()) error_box(parsed.error);
-  else if (!parsed.meaning.empty()) text_wrapped(parsed.meaning);
+  if (!parsed.error.empty())
+    error_box(parsed.error);
+  else if (!parsed.meaning.empty())
+    text_wrapped(parsed.meaning);
   else
     text_dim(pad.linear ? (pad.notation == 0 ? "Type trend/plunge, e.g. 120/35" : "Type the rake, e.g. 40 or 40NE")
-                        : pad.notation == 0 ? "Type strike/dip by the right-hand rule, e.g. 030/40"
-                        : pad.notation == 1 ? "Type dip direction/dip, e.g. 120/40"
-                                            : "Type quadrant notation, e.g. N30E 40SE");
+             : pad.notation == 0 ? "Type strike/dip by the right-hand rule, e.g. 030/40"
+             : pad.notation == 1 ? "Type dip direction/dip, e.g. 120/40"
+                                 : "Type quadrant notation, e.g. N30E 40SE");
 }
 
 // The keypad, four keys a row across the column; a key tapped edits the text.
@@ -142,9 +147,10 @@ void pad_keys(App& a) {
   Look& lk = look();
   PadState& pad = a.pad;
   const float kw = (ImGui::GetContentRegionAvail().x - ImGui::GetStyle().ItemSpacing.x * 3) / 4;
-  const std::string key = keypad({"7", "8", "9", "N", "4", "5", "6", "S", "1", "2", "3", "E", ".", "0", "/", "W",
-                                  "space", "\xE2\x8C\xAB", "Clear", ""},
-                                 4, kw, lk.m.tap);
+  const std::string key = keypad(
+      {"7",     "8", "9", "N", "4", "5", "6", "S", "1", "2", "3", "E", ".", "0", "/", "W", "space", "\xE2\x8C\xAB",
+       "Clear", ""},
+      4, kw, lk.m.tap);
   if (key == "\xE2\x8C\xAB") {
     if (!pad.text.empty()) pad.text.pop_back();
   } else if (key == "Clear") {
@@ -168,7 +174,7 @@ void record_planar(App& a, const store::Station& st, store::North north) {
   r.station = st.meta.uuid;
   r.kind = store::parse_plane_kind(pad.kind).value_or(store::PlaneKind::Bedding);
   r.typed = pad.text;
-  r.notation = pad.notation == 0 ? store::PlaneNotation::StrikeDip
+  r.notation = pad.notation == 0   ? store::PlaneNotation::StrikeDip
                : pad.notation == 1 ? store::PlaneNotation::DipDirectionDip
                                    : store::PlaneNotation::Text;
   r.north = north;
@@ -180,7 +186,8 @@ void record_planar(App& a, const store::Station& st, store::North north) {
   r.observer = a.person();
   std::string err;
   const std::string label = "reading " + r.ref + " " + pad.text + " at " + st.code;
-  if (a.act(label, [&](store::Project& p) { store::add(p, r); }, &err)) {
+  if (a.act(
+          label, [&](store::Project& p) { store::add(p, r); }, &err)) {
     pad.status = "Recorded " + r.ref + ": " + geo::format_strike_dip({r.strike, r.dip}) + " " + kind_label(pad.kind);
     pad.text.clear();
   } else {
@@ -206,8 +213,10 @@ void record_linear(App& a, const store::Station& st, store::North north) {
   r.observer = a.person();
   std::string err;
   const std::string label = "reading " + r.ref + " " + pad.text + " at " + st.code;
-  if (a.act(label, [&](store::Project& p) { store::add(p, r); }, &err)) {
-    pad.status = "Recorded " + r.ref + ": " + geo::format_trend_plunge({r.trend, r.plunge}) + " " + kind_label(pad.kind);
+  if (a.act(
+          label, [&](store::Project& p) { store::add(p, r); }, &err)) {
+    pad.status =
+        "Recorded " + r.ref + ": " + geo::format_trend_plunge({r.trend, r.plunge}) + " " + kind_label(pad.kind);
     pad.text.clear();
   } else {
     pad.error = err;
@@ -221,10 +230,14 @@ void pad_record(App& a, const store::Station& st, const Parsed& parsed, store::N
   if (button("Record reading", -1, !a.model->project().read_only(), true)) {
     pad.status.clear();
     pad.error.clear();
-    if (pad.text.empty()) pad.error = "nothing typed: type the attitude on the keypad";
-    else if (!parsed.error.empty()) pad.error = parsed.error;
-    else if (!pad.linear) record_planar(a, st, north);
-    else record_linear(a, st, north);
+    if (pad.text.empty())
+      pad.error = "nothing typed: type the attitude on the keypad";
+    else if (!parsed.error.empty())
+      pad.error = parsed.error;
+    else if (!pad.linear)
+      record_planar(a, st, north);
+    else
+      record_linear(a, st, north);
   }
   if (!pad.error.empty()) error_box("Not recorded: " + pad.error);
   if (!pad.status.empty()) text_colour(lk.pal.ok, pad.status);
@@ -324,10 +337,13 @@ void pad_live_check(App& a, const Parsed& parsed, double declination) {
   Look& lk = look();
   const PadState& pad = a.pad;
   std::optional<geo::Plane> reading_true;
-  if (parsed.plane) reading_true = geo::Plane{std::fmod(parsed.plane->strike + declination + 360.0, 360.0), parsed.plane->dip};
+  if (parsed.plane)
+    reading_true = geo::Plane{std::fmod(parsed.plane->strike + declination + 360.0, 360.0), parsed.plane->dip};
   std::optional<geo::Line> line_true;
-  if (parsed.line) line_true = geo::Line{pad.notation == 1 ? parsed.line->trend : std::fmod(parsed.line->trend + declination + 360.0, 360.0),
-                                         parsed.line->plunge};
+  if (parsed.line)
+    line_true =
+        geo::Line{pad.notation == 1 ? parsed.line->trend : std::fmod(parsed.line->trend + declination + 360.0, 360.0),
+                  parsed.line->plunge};
   const geo::ContactFit* fit = pad.contact.empty() ? nullptr : m.fit_of(pad.contact);
   {
     plot::NetData d;
@@ -338,7 +354,8 @@ void pad_live_check(App& a, const Parsed& parsed, double declination) {
     if (reading_true) d.planes.push_back({*reading_true, plot::kOkabeIto[5], plot::Shape::Circle, false});
     if (line_true) d.lines.push_back({*line_true, plot::kOkabeIto[5], plot::Shape::Triangle, false});
     if (fit) d.fits.push_back({*fit->plane, fit->fit->cone95, plot::kOkabeIto[6], fit->contact});
-    const float size = std::min(ImGui::GetContentRegionAvail().x, std::max(lk.m.tap * 4, ImGui::GetContentRegionAvail().y - lk.m.tap * 3.5f));
+    const float size = std::min(ImGui::GetContentRegionAvail().x,
+                                std::max(lk.m.tap * 4, ImGui::GetContentRegionAvail().y - lk.m.tap * 3.5f));
     const ImVec2 p = ImGui::GetCursorScreenPos();
     ImGuiCanvas canvas(ImGui::GetWindowDrawList(), lk.fonts.small, lk.theme);
     plot::draw_net(canvas, plot::Rect{p.x, p.y, size, size}, d, o);
@@ -352,10 +369,12 @@ void pad_live_check(App& a, const Parsed& parsed, double declination) {
   } else if (fit && reading_true) {
     const geo::CheckOptions opts;
     const double misfit = geo::angle_between_planes(*reading_true, *fit->plane);
-    const double tol = geo::comparison_tolerance(geo::reading_sigma(pad.quality > 0 ? std::optional<int>(pad.quality) : std::nullopt, opts),
-                                                 fit->fit->cone95, opts.confidence);
+    const double tol = geo::comparison_tolerance(
+        geo::reading_sigma(pad.quality > 0 ? std::optional<int>(pad.quality) : std::nullopt, opts), fit->fit->cone95,
+        opts.confidence);
     const std::string head = "Misfit " + fmt("%.1f\xC2\xB0", misfit) + " to " + fit->contact + " (" +
-                             geo::format_strike_dip(*fit->plane) + ", tolerance " + fmt("%.1f\xC2\xB0", tol) + " at 99%)";
+                             geo::format_strike_dip(*fit->plane) + ", tolerance " + fmt("%.1f\xC2\xB0", tol) +
+                             " at 99%)";
     if (misfit <= tol) {
       text_colour(lk.pal.ok, "\xE2\x9C\x93 agrees: " + head);
     } else {

@@ -52,8 +52,8 @@ void build(App& a, const CheckResult& c) {
   for (const auto& p : c.data.input.planes) {
     auto it = st.find(p.station);
     if (it == st.end()) continue;
-    d.attitudes.push_back({it->second->e, it->second->n, plot::grid_azimuth(p.plane.strike, ps.convergence), p.plane.dip,
-                           plot::attitude_symbol(p.kind, p.facing == geo::CheckFacing::Overturned),
+    d.attitudes.push_back({it->second->e, it->second->n, plot::grid_azimuth(p.plane.strike, ps.convergence),
+                           p.plane.dip, plot::attitude_symbol(p.kind, p.facing == geo::CheckFacing::Overturned),
                            unit_col(it->second->unit)});
   }
   // Strike lines of each fitted contact near its own points, where the fit is
@@ -86,7 +86,8 @@ void build(App& a, const CheckResult& c) {
     if (!lines) continue;
     ps.notes.push_back(f.contact + ": strike lines every " + fmt("%g m", interval));
     for (const auto& l : *lines)
-      d.strike_lines.push_back({l.e0, l.n0, l.e1, l.n1, l.elevation, contact_col.count(f.contact_id) ? contact_col[f.contact_id] : plot::kInk});
+      d.strike_lines.push_back({l.e0, l.n0, l.e1, l.n1, l.elevation,
+                                contact_col.count(f.contact_id) ? contact_col[f.contact_id] : plot::kInk});
   }
   // The ground (app/plot/plan_terrain.h): hillshade, terrain contours, the
   // predicted traces and their 95% bands, computed here once per change of the
@@ -96,7 +97,9 @@ void build(App& a, const CheckResult& c) {
     if (const auto t = store::terrain_info(pr); t && t->epsg == formats::utm_epsg(c.data.zone)) {
       std::vector<plot::TracedContact> traced;
       for (const auto& f : c.report.fits)
-        if (f.fit) traced.push_back({f.contact, &*f.fit, contact_col.count(f.contact_id) ? contact_col[f.contact_id] : plot::kInk});
+        if (f.fit)
+          traced.push_back(
+              {f.contact, &*f.fit, contact_col.count(f.contact_id) ? contact_col[f.contact_id] : plot::kInk});
       for (auto& note : plot::add_terrain(d, *store::load_terrain(pr), traced, t->vertical_accuracy.value_or(0)))
         ps.notes.push_back(note);
     }
@@ -110,7 +113,8 @@ void build(App& a, const CheckResult& c) {
     for (size_t i = 0; i < d.stations.size(); ++i) {
       double best = 1e300;
       for (size_t j = 0; j < d.stations.size(); ++j)
-        if (i != j) best = std::min(best, std::hypot(d.stations[i].e - d.stations[j].e, d.stations[i].n - d.stations[j].n));
+        if (i != j)
+          best = std::min(best, std::hypot(d.stations[i].e - d.stations[j].e, d.stations[i].n - d.stations[j].n));
       nn.push_back(best);
     }
     std::nth_element(nn.begin(), nn.begin() + static_cast<long>(nn.size() / 2), nn.end());
@@ -232,8 +236,8 @@ void draw_plan_screen(App& a) {
     }
     for (const auto& [name, v] : nearest) {
       const auto [d, qx, qy] = v;
-      const double bearing = std::fmod(std::atan2(qx - pr.e, qy - pr.n) * 180 / 3.14159265358979323846 +
-                                           ps.convergence + 720.0, 360.0);
+      const double bearing =
+          std::fmod(std::atan2(qx - pr.e, qy - pr.n) * 180 / 3.14159265358979323846 + ps.convergence + 720.0, 360.0);
       pr.lines.push_back(name + " trace: " + fmt("%.0f m", d) + " at " + fmt("%03.0f", bearing));
     }
     if (pr.lines.empty()) pr.lines.push_back("no fitted contact");
@@ -262,13 +266,15 @@ void draw_plan_screen(App& a) {
   std::snprintf(view_key, sizeof view_key, "|%.6f|%.6f|%.9g|%.0fx%.0f|%d|%d%d%d%d", ps.view.centre_e, ps.view.centre_n,
                 ps.view.scale, r.w, r.h, static_cast<int>(lk.theme), o.dip_values, o.strike_only, o.station_labels,
                 ps.probe.has_value());
-  const std::string picture_key = ps.key + view_key + (ps.probe ? fmt("%.3f", ps.probe->first) + fmt("%.3f", ps.probe->second) : "");
+  const std::string picture_key =
+      ps.key + view_key + (ps.probe ? fmt("%.3f", ps.probe->first) + fmt("%.3f", ps.probe->second) : "");
   if (picture_key != ps.picture_key || !ps.picture || !ps.picture->ready()) {
     ps.picture_key = picture_key;
     plot::RecordingCanvas rec;
     plot::draw_plan(rec, plot::Rect{0, 0, r.w, r.h}, ps.data, ps.view, o);
     if (!ps.picture) ps.picture = std::make_unique<GlPicture>();
-    if (!ps.picture->render(rec, static_cast<int>(r.w), static_cast<int>(r.h), lk.theme, lk.fonts.small, lk.pal.background)) {
+    if (!ps.picture->render(rec, static_cast<int>(r.w), static_cast<int>(r.h), lk.theme, lk.fonts.small,
+                            lk.pal.background)) {
       ps.picture.reset();
       dl->PushClipRect(ImVec2(r.x, r.y), ImVec2(r.x + r.w, r.y + r.h), true);
       ImGuiCanvas canvas(dl, lk.fonts.small, lk.theme);

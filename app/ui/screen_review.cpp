@@ -72,8 +72,8 @@ void flags_tab(App& a) {
       if (r.flag_key != rs.flag_key) continue;
       any = true;
       const store::Person* p = m.person(r.person);
-      text_wrapped(r.meta.created.substr(0, 16) + "  " + store::to_string(r.status) + (p ? " by " + p->initials : std::string()) +
-                   (r.comment.empty() ? std::string() : ": " + r.comment));
+      text_wrapped(r.meta.created.substr(0, 16) + "  " + store::to_string(r.status) +
+                   (p ? " by " + p->initials : std::string()) + (r.comment.empty() ? std::string() : ": " + r.comment));
     }
     if (!any) text_dim("Not reviewed yet.");
     if (rs.unlocked) {
@@ -92,9 +92,10 @@ void flags_tab(App& a) {
         r.person = a.person();
         auto id = std::make_shared<std::string>();
         std::string err;
-        if (m.act_custom("mark " + f.rule + " " + store::to_string(st),
-                         [&r, id](store::Project& p) { *id = store::add_flag_review(p, r); },
-                         [id](store::Project& p) { store::withdraw_flag_review(p, *id); }, &err)) {
+        if (m.act_custom(
+                "mark " + f.rule + " " + store::to_string(st),
+                [&r, id](store::Project& p) { *id = store::add_flag_review(p, r); },
+                [id](store::Project& p) { store::withdraw_flag_review(p, *id); }, &err)) {
           rs.comment.clear();
           rs.message = "Saved: marked " + store::to_string(st);
         } else {
@@ -106,8 +107,10 @@ void flags_tab(App& a) {
       if (button("Mark resolved", 0, true, true)) mark(store::ReviewStatus::Resolved);
     }
     if (!rs.message.empty()) {
-      if (rs.message.rfind("Saved", 0) == 0) text_colour(lk.pal.ok, rs.message);
-      else error_box(rs.message);
+      if (rs.message.rfind("Saved", 0) == 0)
+        text_colour(lk.pal.ok, rs.message);
+      else
+        error_box(rs.message);
     }
   }
   touch_scroll();
@@ -149,8 +152,9 @@ void days_tab(App& a) {
         d.person = a.person();
         auto id = std::make_shared<std::string>();
         std::string err;
-        if (m.act_custom("sign off " + day, [&d, id](store::Project& p) { *id = store::sign_off_day(p, d); },
-                         [id](store::Project& p) { store::withdraw_signoff(p, *id); }, &err))
+        if (m.act_custom(
+                "sign off " + day, [&d, id](store::Project& p) { *id = store::sign_off_day(p, d); },
+                [id](store::Project& p) { store::withdraw_signoff(p, *id); }, &err))
           rs.message = "Saved: " + day + " signed off";
         else
           rs.message = err;
@@ -162,8 +166,10 @@ void days_tab(App& a) {
   }
   if (stations.empty()) text_dim("No field days yet.");
   if (!rs.message.empty()) {
-    if (rs.message.rfind("Saved", 0) == 0) text(rs.message);
-    else error_box(rs.message);
+    if (rs.message.rfind("Saved", 0) == 0)
+      text(rs.message);
+    else
+      error_box(rs.message);
   }
   touch_scroll();
   ImGui::EndChild();
@@ -215,7 +221,8 @@ void audit_tab(App& a) {
     heading("Audit trail");
     for (const auto& e : trail) {
       const store::Person* p = m.person(e.person);
-      std::string who = devices.count(e.device) && !devices[e.device].empty() ? devices[e.device] : e.device.substr(0, 8);
+      std::string who =
+          devices.count(e.device) && !devices[e.device].empty() ? devices[e.device] : e.device.substr(0, 8);
       text(e.at.substr(0, 19) + "  " + e.action + "  on " + who + (p ? " by " + p->initials : std::string()));
       const auto before = formats::flat_json_object(e.old_values), after = formats::flat_json_object(e.new_values);
       // References are shown by their codes and names, not their UUIDs.
@@ -277,9 +284,12 @@ void draw_review(App& a) {
     rs.tab = t;
     rs.message.clear();
   }
-  if (rs.tab == 0) flags_tab(a);
-  else if (rs.tab == 1) days_tab(a);
-  else audit_tab(a);
+  if (rs.tab == 0)
+    flags_tab(a);
+  else if (rs.tab == 1)
+    days_tab(a);
+  else
+    audit_tab(a);
 }
 
 }  // namespace cairn::ui

@@ -58,8 +58,9 @@ bool position_form(App& a, const store::Station* existing) {
   const auto zone = working_zone(m);
   {
     ImGui::PushID("coords");
-    const int hit = chip_row({"latitude / longitude", zone ? "UTM " + zone_text(*zone) + " easting / northing" : "UTM (no zone set)"},
-                             e.utm ? 1 : 0);
+    const int hit = chip_row(
+        {"latitude / longitude", zone ? "UTM " + zone_text(*zone) + " easting / northing" : "UTM (no zone set)"},
+        e.utm ? 1 : 0);
     ImGui::PopID();
     if (hit == 0) e.utm = false;
     if (hit == 1 && zone) e.utm = true;
@@ -70,10 +71,11 @@ bool position_form(App& a, const store::Station* existing) {
   if (field("Elevation m", e.elev, e.field == 2, fw)) e.field = 2;
   text_dim(e.utm ? "Easting and northing in metres." : "Decimal degrees, WGS84; south and west negative.");
   // Three keys a row across the column (a comfortable thumb reach: at most 2.6 taps wide each).
-  const float kw = std::clamp((ImGui::GetContentRegionAvail().x - ImGui::GetStyle().ItemSpacing.x * 2) / 3, lk.m.tap * 1.6f,
-                              lk.m.tap * 2.6f),
+  const float kw = std::clamp((ImGui::GetContentRegionAvail().x - ImGui::GetStyle().ItemSpacing.x * 2) / 3,
+                              lk.m.tap * 1.6f, lk.m.tap * 2.6f),
               kh = lk.m.tap * 1.15f;
-  const std::string k = keypad({"7", "8", "9", "4", "5", "6", "1", "2", "3", "-", "0", ".", "\xE2\x8C\xAB", "Clear", "Next"}, 3, kw, kh);
+  const std::string k =
+      keypad({"7", "8", "9", "4", "5", "6", "1", "2", "3", "-", "0", ".", "\xE2\x8C\xAB", "Clear", "Next"}, 3, kw, kh);
   std::string* target = e.field == 0 ? &e.a : e.field == 1 ? &e.b : &e.elev;
   if (k == "\xE2\x8C\xAB") {
     if (!target->empty()) target->pop_back();
@@ -122,8 +124,10 @@ bool position_form(App& a, const store::Station* existing) {
     s.v_accuracy.reset();
     s.source = store::PositionSource::Manual;
     std::string err;
-    const bool ok = creating ? a.act("new station " + code, [&](store::Project& p) { store::add(p, s); }, &err)
-                             : a.act("typed position of " + code, [&](store::Project& p) { store::update(p, s); }, &err);
+    const bool ok = creating ? a.act(
+                                   "new station " + code, [&](store::Project& p) { store::add(p, s); }, &err)
+                             : a.act(
+                                   "typed position of " + code, [&](store::Project& p) { store::update(p, s); }, &err);
     if (!ok) {
       e.error = err;  // nothing was written
       return false;
@@ -145,7 +149,8 @@ void repeated_surfaces(const std::vector<const store::PlanarReading*>& planes) {
   std::map<std::string, std::vector<const store::PlanarReading*>> sets;  // first reading -> the set
   for (const auto* p : planes) {
     const store::PlanarReading* at = p;
-    for (int hop = 0; hop < 100 && !at->repeat_of.empty() && by_id.count(at->repeat_of); ++hop) at = by_id[at->repeat_of];
+    for (int hop = 0; hop < 100 && !at->repeat_of.empty() && by_id.count(at->repeat_of); ++hop)
+      at = by_id[at->repeat_of];
     sets[at->meta.uuid].push_back(p);
   }
   bool first = true;
@@ -163,7 +168,10 @@ void repeated_surfaces(const std::vector<const store::PlanarReading*>& planes) {
     first = false;
     text_wrapped(std::string(store::to_string(set.front()->kind)) + " " + geo::format_strike_dip(m->plane) +
                  ": Fisher mean of " + std::to_string(m->n) + " readings (" + refs + "), " +
-                 (m->alpha95 ? "\xCE\xB1" "95 " + fmt("%.1f\xC2\xB0", *m->alpha95) : std::string("too scattered for a cone")));
+                 (m->alpha95 ? "\xCE\xB1"
+                               "95 " +
+                                   fmt("%.1f\xC2\xB0", *m->alpha95)
+                             : std::string("too scattered for a cone")));
   }
 }
 
@@ -210,7 +218,8 @@ void station_new(App& a) {
     return;
   }
   heading("New station " + m.next_station_code(a.person()));
-  text_dim(a.fix.has_position() ? "A GPS fix is available: " + describe(a.fix) : describe(a.fix) + ": type the position.");
+  text_dim(a.fix.has_position() ? "A GPS fix is available: " + describe(a.fix)
+                                : describe(a.fix) + ": type the position.");
   if (a.fix.has_position() && button("Use the GPS position", 0, true, true)) {
     new_station(a);
     return;
@@ -295,7 +304,8 @@ void station_notes(App& a, const store::Station*& s) {
   Model& m = *a.model;
   const bool writable = !m.project().read_only();
   heading("Notes");
-  ImGui::InputTextMultiline("##notes", &a.edit.notes, ImVec2(-1, look().m.tap * 2.2f), writable ? 0 : ImGuiInputTextFlags_ReadOnly);
+  ImGui::InputTextMultiline("##notes", &a.edit.notes, ImVec2(-1, look().m.tap * 2.2f),
+                            writable ? 0 : ImGuiInputTextFlags_ReadOnly);
   this_frame().targets.push_back({"notes", ImGui::GetItemRectMin(), ImGui::GetItemRectMax(), writable});
   record_box("notes");
   if (ImGui::IsItemDeactivatedAfterEdit() && a.edit.notes != s->notes) {
@@ -330,8 +340,11 @@ void add_typed_photo(App& a, const store::Station& s) {
   ph.sha256 = formats::sha256_hex(ss.str());
   ph.time = now_local_iso();
   std::string err;
-  if (a.act("photo " + path, [&](store::Project& p) { store::add(p, ph); }, &err)) a.edit.photo_path.clear();
-  else a.edit.error = err;
+  if (a.act(
+          "photo " + path, [&](store::Project& p) { store::add(p, ph); }, &err))
+    a.edit.photo_path.clear();
+  else
+    a.edit.error = err;
 }
 
 // The station's photo references and a field to add one by its file name.
@@ -362,7 +375,8 @@ void station_readings(App& a, const store::Station& s) {
   std::map<std::string, geo::Severity> worst;
   if (auto c = m.check())
     for (const auto& f : c->report.flags)
-      if (!f.reading.empty()) worst[f.reading] = std::max(worst.count(f.reading) ? worst[f.reading] : f.severity, f.severity);
+      if (!f.reading.empty())
+        worst[f.reading] = std::max(worst.count(f.reading) ? worst[f.reading] : f.severity, f.severity);
   heading("Readings");
   const auto planes = m.planes_of(s.meta.uuid);
   const auto lines = m.lines_of(s.meta.uuid);
@@ -371,8 +385,10 @@ void station_readings(App& a, const store::Station& s) {
     ImGui::PushID(uuid.c_str());
     if (uuid == a.reading) {
       const ImVec2 p = ImGui::GetCursorScreenPos();
-      ImGui::GetWindowDrawList()->AddRectFilled(p, ImVec2(p.x + ImGui::GetContentRegionAvail().x, p.y + lk.m.tap), lk.pal.panel);
-      ImGui::GetWindowDrawList()->AddRect(p, ImVec2(p.x + ImGui::GetContentRegionAvail().x, p.y + lk.m.tap), lk.pal.accent, 0, 0, 3);
+      ImGui::GetWindowDrawList()->AddRectFilled(p, ImVec2(p.x + ImGui::GetContentRegionAvail().x, p.y + lk.m.tap),
+                                                lk.pal.panel);
+      ImGui::GetWindowDrawList()->AddRect(p, ImVec2(p.x + ImGui::GetContentRegionAvail().x, p.y + lk.m.tap),
+                                          lk.pal.accent, 0, 0, 3);
     }
     if (button("Delete", 0, writable)) {
       a.act("delete " + what, [&](store::Project& p) { store::soft_delete(p, kind, uuid); });
@@ -390,7 +406,8 @@ void station_readings(App& a, const store::Station& s) {
     if (const store::Contact* c = m.contact(p->contact)) summary += "   " + c->name;
     row(p->meta.uuid, summary, store::Kind::Plane, "reading " + (p->ref.empty() ? p->typed : p->ref));
   }
-  for (const auto* l : lines) row(l->meta.uuid, reading_summary(*l), store::Kind::Line, "reading " + (l->ref.empty() ? l->typed : l->ref));
+  for (const auto* l : lines)
+    row(l->meta.uuid, reading_summary(*l), store::Kind::Line, "reading " + (l->ref.empty() ? l->typed : l->ref));
   repeated_surfaces(planes);
 }
 

@@ -8,15 +8,15 @@
 
 namespace cairn::ui {
 
-void draw_open(App& a);        // choose or create a project file
-void draw_logbook(App& a);     // Logbook: stations by day
-void draw_station(App& a);     // Station sheet
-void draw_pad(App& a);         // Reading pad
-void draw_net_screen(App& a);  // Net
-void draw_plan_screen(App& a); // Plan
-void draw_crosscheck(App& a);  // Crosscheck
-void draw_camp(App& a);        // Camp
-void draw_review(App& a);      // Review
+void draw_open(App& a);         // choose or create a project file
+void draw_logbook(App& a);      // Logbook: stations by day
+void draw_station(App& a);      // Station sheet
+void draw_pad(App& a);          // Reading pad
+void draw_net_screen(App& a);   // Net
+void draw_plan_screen(App& a);  // Plan
+void draw_crosscheck(App& a);   // Crosscheck
+void draw_camp(App& a);         // Camp
+void draw_review(App& a);       // Review
 
 // Shared by several screens.
 

@@ -54,9 +54,9 @@ bool number(const std::string& s, double* v) {
 }
 
 const std::vector<std::pair<std::string, size_t>> kArity = {
-    {"tap", 1},   {"tap-if", 1}, {"touch", 1},      {"tap-at", 2}, {"drag", 4},       {"pinch", 3}, {"type", 1},
-    {"key", 1},   {"wait", 0},       {"wait-idle", 0}, {"wait-for", 1}, {"expect", 1}, {"expect-not", 1}, {"expect-fit", 0},
-    {"screenshot", 1}, {"quit", 0}};
+    {"tap", 1},        {"tap-if", 1},     {"touch", 1},      {"tap-at", 2},    {"drag", 4},     {"pinch", 3},
+    {"type", 1},       {"key", 1},        {"wait", 0},       {"wait-idle", 0}, {"wait-for", 1}, {"expect", 1},
+    {"expect-not", 1}, {"expect-fit", 0}, {"screenshot", 1}, {"quit", 0}};
 
 }  // namespace
 
@@ -78,8 +78,8 @@ Script Script::load(const std::string& path) {
       if (words[0] == name) {
         known = true;
         if (words.size() < arity + 1)
-          throw std::runtime_error(path + ":" + std::to_string(n) + ": '" + name + "' needs " +
-                                   std::to_string(arity) + " argument" + (arity == 1 ? "" : "s"));
+          throw std::runtime_error(path + ":" + std::to_string(n) + ": '" + name + "' needs " + std::to_string(arity) +
+                                   " argument" + (arity == 1 ? "" : "s"));
       }
     if (!known) throw std::runtime_error(path + ":" + std::to_string(n) + ": unknown command '" + words[0] + "'");
     s.commands_.push_back({n, std::move(words)});
@@ -226,7 +226,8 @@ bool Script::run(App& app, const Command& c) {
     SDL_Event d = finger(SDL_FINGERDOWN, 8, static_cast<float>(v[0]), static_cast<float>(v[1]));
     SDL_PushEvent(&d);
     for (int i = 1; i <= 8; ++i) {
-      const float x = static_cast<float>(v[0] + (v[2] - v[0]) * i / 8), y = static_cast<float>(v[1] + (v[3] - v[1]) * i / 8);
+      const float x = static_cast<float>(v[0] + (v[2] - v[0]) * i / 8),
+                  y = static_cast<float>(v[1] + (v[3] - v[1]) * i / 8);
       push_later(i, finger(SDL_FINGERMOTION, 8, x, y));
     }
     push_later(9, finger(SDL_FINGERUP, 8, static_cast<float>(v[2]), static_cast<float>(v[3])));
@@ -309,7 +310,8 @@ bool Script::run(App& app, const Command& c) {
   }
   if (cmd == "expect-not") {
     for (const auto& t : last_frame().texts)
-      if (t.find(c.words[1]) != std::string::npos) return fail(c, "did not expect '" + c.words[1] + "' on screen: " + t);
+      if (t.find(c.words[1]) != std::string::npos)
+        return fail(c, "did not expect '" + c.words[1] + "' on screen: " + t);
     return true;
   }
   if (cmd == "expect-fit") {
@@ -317,7 +319,8 @@ bool Script::run(App& app, const Command& c) {
     if (problems.empty()) return true;
     std::string list;
     for (const auto& p : problems) list += "\n  " + p;
-    return fail(c, std::to_string(problems.size()) + " layout problem" + (problems.size() == 1 ? "" : "s") + ":" + list);
+    return fail(c,
+                std::to_string(problems.size()) + " layout problem" + (problems.size() == 1 ? "" : "s") + ":" + list);
   }
   if (cmd == "screenshot") {
     app.request_screenshot(c.words[1]);

@@ -34,7 +34,7 @@ namespace cairn::ui {
 class App;
 
 class Script {
-public:
+ public:
   // Reads FILE; throws std::runtime_error naming the file and line of a bad command.
   static Script load(const std::string& path);
 
@@ -43,7 +43,7 @@ public:
   Step step(App& app);
   const std::string& failure() const { return failure_; }
 
-private:
+ private:
   struct Command {
     int line = 0;
     std::vector<std::string> words;
@@ -63,7 +63,7 @@ private:
   int wait_frames_ = 0;
   bool wait_idle_ = false;
   int idle_budget_ = 0;
-  std::string wait_text_;  // wait-for: the text awaited
+  std::string wait_text_;          // wait-for: the text awaited
   Uint32 wait_text_deadline_ = 0;  // SDL_GetTicks() time
   int wait_text_line_ = 0;
   std::vector<Delayed> delayed_;

@@ -41,10 +41,9 @@ Fonts load_fonts(const Metrics& m) {
   // Latin-1, Greek (alpha, kappa, sigma, pi, beta), punctuation (dashes, ellipsis),
   // arrows, math (plus-minus lives in Latin-1; minus, infinity), technical symbols
   // (the erase key), block elements (the caret), shapes and the warning sign.
-  static const ImWchar ranges[] = {0x0020, 0x00FF, 0x0370, 0x03FF, 0x2010, 0x2027, 0x2190, 0x21FF,
-                                   0x2212, 0x2212, 0x221E, 0x221E, 0x2264, 0x2265, 0x2300, 0x23FF,
-                                   0x2580, 0x259F, 0x25A0, 0x25FF,
-                                   0x26A0, 0x26A0, 0x2713, 0x2717, 0};
+  static const ImWchar ranges[] = {0x0020, 0x00FF, 0x0370, 0x03FF, 0x2010, 0x2027, 0x2190, 0x21FF, 0x2212,
+                                   0x2212, 0x221E, 0x221E, 0x2264, 0x2265, 0x2300, 0x23FF, 0x2580, 0x259F,
+                                   0x25A0, 0x25FF, 0x26A0, 0x26A0, 0x2713, 0x2717, 0};
   ImFontConfig cfg;
   cfg.OversampleH = 2;
   cfg.OversampleV = 1;
@@ -89,14 +88,15 @@ Palette apply_theme(ThemeKind kind, const Metrics& m) {
   // Outdoor: black on white with heavy borders, the most readable in direct sun.
   // The accent is Okabe-Ito blue (5.1:1 against white text); a caution is
   // Okabe-Ito yellow with black text, a warning sign's colours.
-  static const Scheme outdoor{{0, 0, 0},       {80, 80, 80},    {255, 255, 255}, {244, 244, 244}, {232, 232, 232},
-                              {170, 170, 170}, {0, 0, 0},       {240, 240, 240}, {90, 90, 90},    {245, 245, 220},
-                              {0, 114, 178},   {255, 255, 255}, {160, 0, 0},     {255, 228, 225}, {0, 105, 75},
-                              {240, 228, 66},  {0, 0, 0},       {0, 0, 0},       0.45f};
+  static const Scheme outdoor{
+      {0, 0, 0},   {80, 80, 80},    {255, 255, 255}, {244, 244, 244}, {232, 232, 232}, {170, 170, 170},
+      {0, 0, 0},   {240, 240, 240}, {90, 90, 90},    {245, 245, 220}, {0, 114, 178},   {255, 255, 255},
+      {160, 0, 0}, {255, 228, 225}, {0, 105, 75},    {240, 228, 66},  {0, 0, 0},       {0, 0, 0},
+      0.45f};
   // Night: dim red-amber on black, little blue light.
-  static const Scheme night{{205, 135, 100}, {140, 95, 72},   {8, 6, 5},      {20, 14, 11},    {40, 26, 20},
-                            {90, 45, 30},    {130, 75, 55},   {15, 10, 8},    {130, 75, 55},   {35, 22, 16},
-                            {120, 45, 25},   {240, 190, 160}, {255, 110, 80}, {60, 14, 8},     {150, 170, 90},
+  static const Scheme night{{205, 135, 100}, {140, 95, 72},   {8, 6, 5},      {20, 14, 11},  {40, 26, 20},
+                            {90, 45, 30},    {130, 75, 55},   {15, 10, 8},    {130, 75, 55}, {35, 22, 16},
+                            {120, 45, 25},   {240, 190, 160}, {255, 110, 80}, {60, 14, 8},   {150, 170, 90},
                             {70, 55, 8},     {240, 210, 120}, {220, 170, 60}, 0.6f};
   const Scheme& k = kind == ThemeKind::Outdoor ? outdoor : night;
   auto v4 = [](Rgb8 c, float a = 1.0f) { return rgb(c.r, c.g, c.b, a); };
@@ -113,7 +113,8 @@ Palette apply_theme(ThemeKind kind, const Metrics& m) {
   c[ImGuiCol_ButtonActive] = c[ImGuiCol_HeaderActive] = v4(k.pressed);
   c[ImGuiCol_ScrollbarBg] = v4(k.scroll_bg);
   c[ImGuiCol_ScrollbarGrab] = c[ImGuiCol_ScrollbarGrabHovered] = v4(k.grab);
-  c[ImGuiCol_ScrollbarGrabActive] = c[ImGuiCol_CheckMark] = c[ImGuiCol_SliderGrab] = c[ImGuiCol_SliderGrabActive] = v4(k.ink);
+  c[ImGuiCol_ScrollbarGrabActive] = c[ImGuiCol_CheckMark] = c[ImGuiCol_SliderGrab] = c[ImGuiCol_SliderGrabActive] =
+      v4(k.ink);
   c[ImGuiCol_Separator] = c[ImGuiCol_TableBorderStrong] = v4(k.edge);
   c[ImGuiCol_TableBorderLight] = c[ImGuiCol_TableRowBgAlt] = v4(k.panel);
   c[ImGuiCol_PlotHistogram] = c[ImGuiCol_NavHighlight] = v4(k.accent);
@@ -148,9 +149,12 @@ plot::Rgba theme_colour(ThemeKind kind, plot::Rgba c) {
   if (mx > mn) {
     const double d = mx - mn;
     s = l > 0.5 ? d / (2 - mx - mn) : d / (mx + mn);
-    if (mx == r) h = (g - b) / d + (g < b ? 6 : 0);
-    else if (mx == g) h = (b - r) / d + 2;
-    else h = (r - g) / d + 4;
+    if (mx == r)
+      h = (g - b) / d + (g < b ? 6 : 0);
+    else if (mx == g)
+      h = (b - r) / d + 2;
+    else
+      h = (r - g) / d + 4;
     h /= 6;
   }
   const double l2 = (1 - l) * 0.75 + 0.02;

@@ -13,10 +13,10 @@ namespace cairn::ui {
 
 // Physical sizes on this display.
 struct Metrics {
-  double dpi = 96;       // dots per inch of the display (SDL_GetDisplayDPI, else 96)
-  float tap = 46;        // pixels of the smallest tap target: 12 mm
-  float font = 23;       // pixels of body text
-  float gap = 8;         // pixels between targets
+  double dpi = 96;  // dots per inch of the display (SDL_GetDisplayDPI, else 96)
+  float tap = 46;   // pixels of the smallest tap target: 12 mm
+  float font = 23;  // pixels of body text
+  float gap = 8;    // pixels between targets
   float px_per_mm() const { return static_cast<float>(dpi / 25.4); }
 };
 
@@ -29,9 +29,9 @@ enum class ThemeKind { Outdoor, Night };
 // Colours the screens draw with themselves (beyond ImGui's style).
 struct Palette {
   ImU32 text, text_dim, background, panel, border;
-  ImU32 accent, accent_text;      // selected chips, primary buttons
-  ImU32 error, error_bg;          // invalid input
-  ImU32 ok;                       // an agreeing reading
+  ImU32 accent, accent_text;                       // selected chips, primary buttons
+  ImU32 error, error_bg;                           // invalid input
+  ImU32 ok;                                        // an agreeing reading
   ImU32 caution_bg, caution_text, caution_border;  // hazard cautions
 };
 

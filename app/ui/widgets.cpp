@@ -23,7 +23,9 @@ void record_target(const std::string& label, bool enabled) {
 ImVec4 to_vec4(ImU32 c) { return ImGui::ColorConvertU32ToFloat4(c); }
 
 // A label's text width in the current font (several lines: the widest).
-float text_width(const std::string& label) { return ImGui::CalcTextSize(visible_label(label).c_str(), nullptr, true).x; }
+float text_width(const std::string& label) {
+  return ImGui::CalcTextSize(visible_label(label).c_str(), nullptr, true).x;
+}
 
 // The room a framed widget of the last item's width leaves for its label.
 float label_room() { return ImGui::GetItemRectSize().x - 2 * ImGui::GetStyle().FramePadding.x; }
@@ -40,8 +42,8 @@ void record_box(const std::string& what, float text_w, float room_w) {
   if (!ImGui::IsItemVisible()) return;
   const ImGuiWindow* w = ImGui::GetCurrentWindow();
   const bool scrolls = !(w->Flags & ImGuiWindowFlags_NoScrollbar);
-  this_frame().boxes.push_back({what, ImGui::GetItemRectMin(), ImGui::GetItemRectMax(), w->InnerClipRect.Min, w->InnerClipRect.Max,
-                                scrolls, text_w, room_w});
+  this_frame().boxes.push_back({what, ImGui::GetItemRectMin(), ImGui::GetItemRectMax(), w->InnerClipRect.Min,
+                                w->InnerClipRect.Max, scrolls, text_w, room_w});
 }
 
 std::vector<std::string> layout_problems(const FrameRecord& f, ImVec2 display) {
@@ -49,18 +51,19 @@ std::vector<std::string> layout_problems(const FrameRecord& f, ImVec2 display) {
   const float eps = 0.5f;
   std::vector<std::string> out;
   for (const Box& b : f.boxes) {
-    const std::string name = "'" + visible_label(b.what) + "' at (" + px(b.min.x) + "," + px(b.min.y) + ")-(" + px(b.max.x) +
-                             "," + px(b.max.y) + ")";
+    const std::string name = "'" + visible_label(b.what) + "' at (" + px(b.min.x) + "," + px(b.min.y) + ")-(" +
+                             px(b.max.x) + "," + px(b.max.y) + ")";
     // What shows of the box: its part inside the region that clips it.
     const ImVec2 lo(std::max(b.min.x, b.clip_min.x), std::max(b.min.y, b.clip_min.y));
     const ImVec2 hi(std::min(b.max.x, b.clip_max.x), std::min(b.max.y, b.clip_max.y));
     if (lo.x < -eps || lo.y < -eps || hi.x > display.x + eps || hi.y > display.y + eps)
       out.push_back(name + " lies outside the " + px(display.x) + "x" + px(display.y) + " window");
     else if (b.min.x < b.clip_min.x - eps || b.max.x > b.clip_max.x + eps)
-      out.push_back(name + " is cut by the side of its region (x " + px(b.clip_min.x) + " to " + px(b.clip_max.x) + ")");
+      out.push_back(name + " is cut by the side of its region (x " + px(b.clip_min.x) + " to " + px(b.clip_max.x) +
+                    ")");
     else if (!b.scrolls && (b.min.y < b.clip_min.y - eps || b.max.y > b.clip_max.y + eps))
-      out.push_back(name + " is cut by the top or bottom of a region that does not scroll (y " + px(b.clip_min.y) + " to " +
-                    px(b.clip_max.y) + ")");
+      out.push_back(name + " is cut by the top or bottom of a region that does not scroll (y " + px(b.clip_min.y) +
+                    " to " + px(b.clip_max.y) + ")");
     if (b.room_w > 0 && b.text_w > b.room_w + eps)
       out.push_back(name + ": label " + px(b.text_w) + " px wide in a widget with room for " + px(b.room_w) + " px");
   }

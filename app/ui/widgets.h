@@ -29,8 +29,8 @@ struct Target {
 struct Box {
   std::string what;
   ImVec2 min, max;
-  ImVec2 clip_min, clip_max;  // the region of its window that shows it
-  bool scrolls = true;        // the window scrolls (a finger drag), so an item may be partly below or above it
+  ImVec2 clip_min, clip_max;     // the region of its window that shows it
+  bool scrolls = true;           // the window scrolls (a finger drag), so an item may be partly below or above it
   float text_w = 0, room_w = 0;  // room_w 0: no label to fit
 };
 

@@ -21,7 +21,7 @@ struct Outcome {
 };
 
 class CliTest : public ::testing::Test {
-protected:
+ protected:
   void SetUp() override {
     std::string tmpl = (std::filesystem::temp_directory_path() / "cairn-cli-XXXXXX").string();
     ASSERT_NE(mkdtemp(tmpl.data()), nullptr);

@@ -13,7 +13,7 @@ using cairn::cli_test::Outcome;
 namespace {
 
 class CmdCheck : public CliTest {
-protected:
+ protected:
   // A project with one station and one bedding reading taken at TIME.
   std::string project_with_reading_on(const std::string& name, const std::string& time) {
     write(name + "-s.csv", "station,lat,lon,elevation\nS1,61.2,-135.6,900\n");
@@ -76,8 +76,9 @@ TEST_F(CmdCheck, ScreeningSettingsAreStoredAndOverriddenAndRepeatsImported) {
   // from the face's opposite (330), and (90 - 75) + 30 = 45 <= 60. Toppling with
   // a 30 degree window, not with a 12 degree one.
   write("t-s.csv", "station,lat,lon,elevation\nS1,61.2,-135.6,900\n");
-  write("t-p.csv", "station,kind,strike,dip,ref,repeat_of,time\nS1,slope,60,60,F,,\nS1,joint,260,75,J,,\n"
-                   "S1,bedding,30,40,A,,2026-07-06T10:00:00Z\nS1,bedding,31,40.5,B,A,2026-07-06T10:03:00Z\n");
+  write("t-p.csv",
+        "station,kind,strike,dip,ref,repeat_of,time\nS1,slope,60,60,F,,\nS1,joint,260,75,J,,\n"
+        "S1,bedding,30,40,A,,2026-07-06T10:00:00Z\nS1,bedding,31,40.5,B,A,2026-07-06T10:03:00Z\n");
   ASSERT_EQ(cairn("new t.cairn --name t --utm 8N --toppling-window 12").status, 0);
   ASSERT_EQ(cairn("import t.cairn stations t-s.csv").status, 0);
   const Outcome imported = cairn("import t.cairn planes t-p.csv");
@@ -92,8 +93,9 @@ TEST_F(CmdCheck, ScreeningSettingsAreStoredAndOverriddenAndRepeatsImported) {
   // entry made twice, though unmarked it would be (u.cairn); a repeat of a ref
   // that does not exist is refused naming file, line and column, nothing written.
   EXPECT_EQ(cairn("check t.cairn --json").out.find("\"rule\":\"duplicate\""), std::string::npos);
-  write("u-p.csv", "station,kind,strike,dip,ref,time\nS1,bedding,30,40,A,2026-07-06T10:00:00Z\n"
-                   "S1,bedding,31,40.5,B,2026-07-06T10:03:00Z\n");
+  write("u-p.csv",
+        "station,kind,strike,dip,ref,time\nS1,bedding,30,40,A,2026-07-06T10:00:00Z\n"
+        "S1,bedding,31,40.5,B,2026-07-06T10:03:00Z\n");
   ASSERT_EQ(cairn("new u.cairn --name u --utm 8N").status, 0);
   ASSERT_EQ(cairn("import u.cairn stations t-s.csv").status, 0);
   ASSERT_EQ(cairn("import u.cairn planes u-p.csv").status, 0);
@@ -105,6 +107,5 @@ TEST_F(CmdCheck, ScreeningSettingsAreStoredAndOverriddenAndRepeatsImported) {
       << bad.err;
   const Outcome refused = cairn("new w.cairn --name w --toppling-window 0");
   EXPECT_EQ(refused.status, 2);
-  EXPECT_NE(refused.err.find("--toppling-window: 0 is outside 1 to 90"), std::string::npos)
-      << refused.err;
+  EXPECT_NE(refused.err.find("--toppling-window: 0 is outside 1 to 90"), std::string::npos) << refused.err;
 }

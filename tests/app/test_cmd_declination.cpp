@@ -23,8 +23,7 @@ struct CairnRun {
 };
 
 // Runs `cairn ARGS` through the shell; `redirect` is appended (e.g. "2>&1").
-CairnRun cairn(const std::string& args, const std::string& redirect = "2>/dev/null",
-          const std::string& env = "") {
+CairnRun cairn(const std::string& args, const std::string& redirect = "2>/dev/null", const std::string& env = "") {
   const std::string cmd = env + " '" + std::string(CAIRN_BINARY) + "' " + args + " " + redirect;
   CairnRun r{-1, {}};
   FILE* p = popen(cmd.c_str(), "r");
@@ -79,8 +78,8 @@ TEST(CmdDeclination, JsonMatchesEveryReferenceRow) {
   for (const auto& row : rows) {
     ASSERT_EQ(row.size(), 11u);
     const std::string height_m = std::to_string(std::stod(row[1]) * 1000.0);
-    const CairnRun r = cairn("declination " + row[2] + " " + row[3] + " --date " + row[0] + " --height " +
-                        height_m + " --json");
+    const CairnRun r =
+        cairn("declination " + row[2] + " " + row[3] + " --date " + row[0] + " --height " + height_m + " --json");
     SCOPED_TRACE(row[0] + " " + row[2] + " " + row[3] + ": " + r.out);
     ASSERT_EQ(r.status, 0);
     EXPECT_NEAR(json_number(r.out, "declination"), std::stod(row[10]), 0.01);
@@ -95,8 +94,8 @@ TEST(CmdDeclination, CalendarDateAndText) {
   for (const auto& row : reference_rows()) {
     if (row[0] != "2028.000000") continue;
     const std::string height_m = std::to_string(std::stod(row[1]) * 1000.0);
-    const CairnRun j = cairn("declination " + row[2] + " " + row[3] + " --date 2028-01-01 --height " +
-                             height_m + " --json");
+    const CairnRun j =
+        cairn("declination " + row[2] + " " + row[3] + " --date 2028-01-01 --height " + height_m + " --json");
     ASSERT_EQ(j.status, 0) << j.out;
     EXPECT_EQ(json_string(j.out, "date"), "2028-01-01");
     EXPECT_NEAR(json_number(j.out, "decimal_year"), 2028.0, 1e-9);

@@ -18,7 +18,7 @@ using cairn::cli_test::Outcome;
 namespace {
 
 class CampVerbs : public CliTest {
-protected:
+ protected:
   // A camp file with a legend, and two tablets copied from it with a station each.
   void camp_and_tablets() {
     ASSERT_EQ(cairn("new camp.cairn --name 'Quartz Gully' --utm 33N").status, 0);
@@ -40,9 +40,11 @@ TEST_F(CampVerbs, MergeReportsWhatCameFromEachFile) {
   Outcome r = cairn("merge camp.cairn tabletA.cairn tabletB.cairn");
   ASSERT_EQ(r.status, 0) << r.err;
   EXPECT_NE(r.out.find("Merged 2 files into camp.cairn"), std::string::npos) << r.out;
-  EXPECT_NE(r.out.find("tabletA.cairn (\"Quartz Gully\"): 2 added, 0 updated, 2 skipped, 0 conflicts"), std::string::npos)
+  EXPECT_NE(r.out.find("tabletA.cairn (\"Quartz Gully\"): 2 added, 0 updated, 2 skipped, 0 conflicts"),
+            std::string::npos)
       << r.out;
-  EXPECT_NE(r.out.find("tabletB.cairn (\"Quartz Gully\"): 1 added, 0 updated, 2 skipped, 0 conflicts"), std::string::npos)
+  EXPECT_NE(r.out.find("tabletB.cairn (\"Quartz Gully\"): 1 added, 0 updated, 2 skipped, 0 conflicts"),
+            std::string::npos)
       << r.out;
   EXPECT_NE(r.out.find("by device"), std::string::npos);
   EXPECT_NE(r.out.find("by person"), std::string::npos);
@@ -100,7 +102,8 @@ TEST_F(CampVerbs, ExportWritesEachFormat) {
   ASSERT_EQ(cairn("merge camp.cairn tabletA.cairn tabletB.cairn").status, 0);
   Outcome r = cairn("export camp.cairn camp.gpkg --json");
   ASSERT_EQ(r.status, 0) << r.err;
-  EXPECT_EQ(r.out.rfind("{\"path\":\"camp.gpkg\",\"format\":\"GeoPackage\",\"epsg\":32633,\"layers\":[", 0), 0u) << r.out;
+  EXPECT_EQ(r.out.rfind("{\"path\":\"camp.gpkg\",\"format\":\"GeoPackage\",\"epsg\":32633,\"layers\":[", 0), 0u)
+      << r.out;
   EXPECT_NE(r.out.find("{\"name\":\"stations\",\"count\":3}"), std::string::npos) << r.out;
   r = cairn("export camp.cairn camp.geojson");
   ASSERT_EQ(r.status, 0) << r.err;

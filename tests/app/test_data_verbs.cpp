@@ -77,8 +77,8 @@ TEST_F(Verbs, Waypoints) {
 }
 
 TEST_F(Verbs, UsageErrors) {
-  EXPECT_EQ(cairn("new x.cairn").status, 2);                      // --name is required
-  EXPECT_EQ(cairn("new x.cairn --name x --utm 61N").status, 2);   // zones are 1..60
+  EXPECT_EQ(cairn("new x.cairn").status, 2);                     // --name is required
+  EXPECT_EQ(cairn("new x.cairn --name x --utm 61N").status, 2);  // zones are 1..60
   EXPECT_EQ(cairn("new x.cairn --name x --north grid").status, 2);
   ASSERT_EQ(cairn("new y.cairn --name y").status, 0);
   EXPECT_EQ(cairn("list y.cairn rocks").status, 2);

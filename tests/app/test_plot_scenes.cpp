@@ -68,10 +68,10 @@ TEST_P(NetPoles, PlungeNinetyAtTheCentreAndZeroOnThePrimitive) {
   const auto kind = GetParam();
   NetData d;
   const Rgba c_flat{10, 0, 0, 255}, c_ns{20, 0, 0, 255}, c_ew{30, 0, 0, 255}, c_60{40, 0, 0, 255};
-  d.planes.push_back({cairn::geo::Plane{0, 0}, c_flat, Shape::Circle});      // pole plunges 90
-  d.planes.push_back({cairn::geo::Plane{0, 90}, c_ns, Shape::Circle});       // pole 270/00: west
-  d.planes.push_back({cairn::geo::Plane{90, 90}, c_ew, Shape::Circle});      // pole 000/00: north
-  d.planes.push_back({cairn::geo::Plane{0, 60}, c_60, Shape::Circle});       // pole 270/30
+  d.planes.push_back({cairn::geo::Plane{0, 0}, c_flat, Shape::Circle});  // pole plunges 90
+  d.planes.push_back({cairn::geo::Plane{0, 90}, c_ns, Shape::Circle});   // pole 270/00: west
+  d.planes.push_back({cairn::geo::Plane{90, 90}, c_ew, Shape::Circle});  // pole 000/00: north
+  d.planes.push_back({cairn::geo::Plane{0, 60}, c_60, Shape::Circle});   // pole 270/30
   NetOptions o;
   o.kind = kind;
   o.legend = false;
@@ -155,8 +155,8 @@ TEST(NetScene, FitIsDrawnWithItsConeAroundThePole) {
 namespace {
 
 struct Symbol {
-  const DrawOp* strike = nullptr;          // the strike line
-  std::vector<const DrawOp*> marks;        // everything else that is a stroke or fill
+  const DrawOp* strike = nullptr;    // the strike line
+  std::vector<const DrawOp*> marks;  // everything else that is a stroke or fill
   const DrawOp* label = nullptr;
   const DrawOp* ring = nullptr;
 };
@@ -235,8 +235,9 @@ TEST(FgdcSymbols, VerticalHasTicksOnBothSidesAndNoValue) {
   draw_attitude_symbol(c, at, 20, 90, AttitudeSymbol::Bedding, 30, kInk, 1, 10);
   const Symbol s = read_symbol(c, at, 30);
   ASSERT_TRUE(s.strike);
-  EXPECT_LT(axial_difference(page_azimuth(s.strike->pts[1].x - s.strike->pts[0].x,
-                                          s.strike->pts[1].y - s.strike->pts[0].y), 20), 1e-9);
+  EXPECT_LT(axial_difference(
+                page_azimuth(s.strike->pts[1].x - s.strike->pts[0].x, s.strike->pts[1].y - s.strike->pts[0].y), 20),
+            1e-9);
   double lo = 0, hi = 0;
   for (const auto* m : s.marks)
     for (const auto& p : m->pts) lo = std::min(lo, along(at, p, 110)), hi = std::max(hi, along(at, p, 110));

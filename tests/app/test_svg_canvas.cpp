@@ -69,7 +69,11 @@ TEST(SvgCanvas, EscapesTheFivePredefinedEntities) {
 
 TEST(SvgCanvas, RepairsWhatXmlCannotHold) {
   // XML 1.0 section 2.2: no C0 controls but tab, LF, CR.
-  EXPECT_EQ(xml_escape(std::string("a\x01" "b\x1F" "c\td", 7)), "abc\td");
+  EXPECT_EQ(xml_escape(std::string("a\x01"
+                                   "b\x1F"
+                                   "c\td",
+                                   7)),
+            "abc\td");
   // Unicode 3.9 / RFC 3629: a stray continuation byte, an invalid lead byte, an
   // overlong "/" and an encoded surrogate each become U+FFFD per bad byte.
   EXPECT_EQ(xml_escape("x\x80y"), "x\xEF\xBF\xBDy");
@@ -96,7 +100,10 @@ TEST(SvgCanvas, OutputParsesAsXmlAndKeepsTheText) {
   }
   // Open group left for svg() to close.
   c.begin_group("labels");
-  c.text({10, 10}, "Unit <Kb> & \"marl\" 'q' \xCE\xB1" "95 \x01 \xFF", kInk, 11, Anchor::Middle);
+  c.text({10, 10},
+         "Unit <Kb> & \"marl\" 'q' \xCE\xB1"
+         "95 \x01 \xFF",
+         kInk, 11, Anchor::Middle);
   // Non-finite coordinates are skipped, not written as "nan".
   c.polyline({{0, 0}, {std::nan(""), 1}}, kInk, 1);
   c.text({std::nan(""), 0}, "lost", kInk, 11);

@@ -20,14 +20,16 @@ TEST_F(UiTest, CampImportsMergesAndExportsOnTheWorker) {
   const std::string tablet = file("tablet.cairn");
   {
     store::Project p = store::Project::create(camp, store::NewProject{"Camp", "8N", store::North::True, 0.0}, quiet());
-    store::Project t = store::Project::create(tablet, store::NewProject{"Camp", "8N", store::North::True, 0.0}, quiet());
+    store::Project t =
+        store::Project::create(tablet, store::NewProject{"Camp", "8N", store::North::True, 0.0}, quiet());
     store::Station s;
     s.code = "T1";
     s.lat = 61.21;
     s.lon = -135.61;
     store::add(t, s);
   }
-  std::ofstream(file("stations.csv")) << "station,lat,lon,elevation\r\nC1,61.2,-135.6,950\r\nC2,61.201,-135.602,955\r\n";
+  std::ofstream(file("stations.csv"))
+      << "station,lat,lon,elevation\r\nC1,61.2,-135.6,950\r\nC2,61.201,-135.602,955\r\n";
 
   std::string s = "wait 3\n";
   s += "tap \"Camp\"\n";

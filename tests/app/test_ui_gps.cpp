@@ -52,7 +52,8 @@ TEST(NmeaLog, EverySentenceHasTheRightChecksum) {
 }
 
 TEST_F(UiTest, NewStationAtTheFixReplayedThroughGpsd) {
-  ASSERT_EQ(std::system("command -v gpsfake >/dev/null 2>&1"), 0) << "gpsfake is missing: run scripts/install-deps.sh --test";
+  ASSERT_EQ(std::system("command -v gpsfake >/dev/null 2>&1"), 0)
+      << "gpsfake is missing: run scripts/install-deps.sh --test";
   const std::string path = file("gps.cairn");
   {
     store::Project p = store::Project::create(path, store::NewProject{"GPS", "8N", store::North::True, 0.0}, quiet());
@@ -97,7 +98,7 @@ TEST_F(UiTest, NewStationAtTheFixReplayedThroughGpsd) {
   store::Project p = store::Project::open(path, quiet());
   auto st = store::find_station(p, "S1");
   ASSERT_TRUE(st);
-  EXPECT_NEAR(st->lat, 61.0 + 10.9100 / 60.0, 1e-7);       // 6110.9100,N
+  EXPECT_NEAR(st->lat, 61.0 + 10.9100 / 60.0, 1e-7);      // 6110.9100,N
   EXPECT_NEAR(st->lon, -(135.0 + 35.4000 / 60.0), 1e-7);  // 13535.4000,W
   ASSERT_TRUE(st->elevation);
   EXPECT_NEAR(*st->elevation, 1012.5, 1e-6);  // GGA altitude above mean sea level

@@ -66,22 +66,23 @@ TEST_P(UiLayout, EveryScreenFitsAtEveryDensity) {
     std::ofstream(file("tour.txt")) << tour(dpi == 96);
     const std::string size = std::to_string(sz.w) + "x" + std::to_string(sz.h);
     const std::string cmd = "cd '" + dir_.string() + "' && xvfb-run -a -s '-screen 0 2000x1400x24' '" +
-                            std::string(CAIRN_BINARY) + "' gui camp.cairn --no-gps --person MT --station MT-01 --size " + size +
-                            " --dpi " + std::to_string(dpi) + " --script tour.txt >gui-out.txt 2>gui-err.txt";
+                            std::string(CAIRN_BINARY) +
+                            "' gui camp.cairn --no-gps --person MT --station MT-01 --size " + size + " --dpi " +
+                            std::to_string(dpi) + " --script tour.txt >gui-out.txt 2>gui-err.txt";
     const int rc = std::system(cmd.c_str());
-    EXPECT_TRUE(WIFEXITED(rc) && WEXITSTATUS(rc) == 0)
-        << size << " at " << dpi << " dpi:\n" << cairn::ui_test::slurp(file("gui-err.txt"));
+    EXPECT_TRUE(WIFEXITED(rc) && WEXITSTATUS(rc) == 0) << size << " at " << dpi << " dpi:\n"
+                                                       << cairn::ui_test::slurp(file("gui-err.txt"));
   }
   // The Open screen (no project yet), at the same size.
   std::ofstream(file("open.txt")) << "wait 3\nexpect-fit\n";
   for (int dpi : {96, 192}) {
     const std::string size = std::to_string(sz.w) + "x" + std::to_string(sz.h);
     const std::string cmd = "cd '" + dir_.string() + "' && xvfb-run -a -s '-screen 0 2000x1400x24' '" +
-                            std::string(CAIRN_BINARY) + "' gui --no-gps --size " + size + " --dpi " + std::to_string(dpi) +
-                            " --script open.txt >gui-out.txt 2>gui-err.txt";
+                            std::string(CAIRN_BINARY) + "' gui --no-gps --size " + size + " --dpi " +
+                            std::to_string(dpi) + " --script open.txt >gui-out.txt 2>gui-err.txt";
     const int rc = std::system(cmd.c_str());
-    EXPECT_TRUE(WIFEXITED(rc) && WEXITSTATUS(rc) == 0)
-        << "Open screen, " << size << " at " << dpi << " dpi:\n" << cairn::ui_test::slurp(file("gui-err.txt"));
+    EXPECT_TRUE(WIFEXITED(rc) && WEXITSTATUS(rc) == 0) << "Open screen, " << size << " at " << dpi << " dpi:\n"
+                                                       << cairn::ui_test::slurp(file("gui-err.txt"));
   }
 }
 

@@ -40,7 +40,8 @@ TEST_F(UiTest, PickListsAreEditedOnTheCampScreenAndTheReadingPadOffersOnlyTheLis
   s += "tap \"joint\"\nwait 2\ntap \"bedding\"\nwait 2\n";
   s += "tap \"new lithology\"\ntype \"quartz sandstone\"\nwait 2\ntap \"Add lithology\"\nwait 2\n";
   s += "drag 1000 650 1000 200\nwait 5\nwait-for \"Add unit\"\n";  // a finger scrolls the Camp's right column up
-  s += "tap \"unit code\"\ntype \"Kls\"\ntap \"unit name\"\ntype \"grey limestone\"\nwait 2\ntap \"Add unit\"\nwait 2\n";
+  s +=
+      "tap \"unit code\"\ntype \"Kls\"\ntap \"unit name\"\ntype \"grey limestone\"\nwait 2\ntap \"Add unit\"\nwait 2\n";
   s += "tap \"initials\"\ntype \"BX\"\ntap \"person name\"\ntype \"Bo Xu\"\nwait 2\ntap \"Add person\"\nwait 2\n";
   s += "expect \"Units, oldest first: Kls\"\nexpect \"People: AQ, BX\"\n";
   const auto r = gui(path, s);
@@ -54,7 +55,8 @@ TEST_F(UiTest, PickListsAreEditedOnTheCampScreenAndTheReadingPadOffersOnlyTheLis
     ASSERT_TRUE(store::find_person(p, "BX"));
   }
   // The Reading pad offers bedding and joint, and no fault.
-  const auto pad = gui(path, "wait 3\ntap \"bedding\"\ntap \"joint\"\ntap \"fault\"\n", "--view pad --station S1 --person AQ");
+  const auto pad =
+      gui(path, "wait 3\ntap \"bedding\"\ntap \"joint\"\ntap \"fault\"\n", "--view pad --station S1 --person AQ");
   EXPECT_EQ(pad.status, 3);
   EXPECT_NE(pad.err.find("no target 'fault'"), std::string::npos) << pad.err;
 }

@@ -49,7 +49,7 @@ TEST_F(UiTest, TapOnThePlanGivesTheContactElevationAndAPinchZooms) {
   }
   std::string s = "wait 3\nwait-idle\n";
   s += "tap \"Plan\"\nwait 3\n";
-  s += "expect \"100 m\"\n";   // the scale bar at first
+  s += "expect \"100 m\"\n";  // the scale bar at first
   s += "expect-not \"50 m\"\n";
   s += "tap \"plan map\"\n";  // the middle of the map
   s += "wait-for \"Westdip contact: 1000 m\"\n";

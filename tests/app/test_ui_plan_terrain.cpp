@@ -23,7 +23,8 @@ TEST_F(UiTest, TapOnThePlanGivesTheNearestPredictedTrace) {
   const std::string path = file("ground.cairn");
   const double e0 = 500000, n0 = 6780000;
   {
-    store::Project p = store::Project::create(path, store::NewProject{"Ground", "8N", store::North::True, 0.0}, quiet());
+    store::Project p =
+        store::Project::create(path, store::NewProject{"Ground", "8N", store::North::True, 0.0}, quiet());
     store::Unit lo, up;
     lo.code = "Ka";
     lo.name = "lower";

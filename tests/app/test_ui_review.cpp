@@ -18,7 +18,8 @@ TEST_F(UiTest, ReviewIsReadOnlyUntilUnlockedThenSavesReviewsAndSignOffs) {
   const std::string path = file("review.cairn");
   std::string person;
   {
-    store::Project p = store::Project::create(path, store::NewProject{"Review", "8N", store::North::True, 0.0}, quiet());
+    store::Project p =
+        store::Project::create(path, store::NewProject{"Review", "8N", store::North::True, 0.0}, quiet());
     store::Person who;
     who.name = "Ada Quarry";
     who.initials = "AQ";

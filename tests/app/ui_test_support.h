@@ -35,7 +35,7 @@ inline std::string slurp(const std::string& path) {
 inline bool have_xvfb() { return std::system("command -v xvfb-run >/dev/null 2>&1") == 0; }
 
 class UiTest : public ::testing::Test {
-protected:
+ protected:
   void SetUp() override {
     std::string tmpl = (std::filesystem::temp_directory_path() / "cairn-ui-XXXXXX").string();
     ASSERT_NE(mkdtemp(tmpl.data()), nullptr);
@@ -44,8 +44,10 @@ protected:
     ASSERT_TRUE(have_xvfb()) << "xvfb-run is missing: run scripts/install-deps.sh --test";
   }
   void TearDown() override {
-    if (!HasFailure()) std::filesystem::remove_all(dir_);
-    else std::cerr << "kept " << dir_ << " for a look\n";
+    if (!HasFailure())
+      std::filesystem::remove_all(dir_);
+    else
+      std::cerr << "kept " << dir_ << " for a look\n";
   }
 
   std::string file(const std::string& name) const { return (dir_ / name).string(); }

@@ -34,7 +34,8 @@ struct Fixture {
   }
 };
 
-std::string add_reading(store::Project& p, const std::string& typed, store::North north, std::string* station = nullptr) {
+std::string add_reading(store::Project& p, const std::string& typed, store::North north,
+                        std::string* station = nullptr) {
   store::Station s;
   s.code = "S" + std::to_string(store::list_stations(p).size() + 1);
   s.lat = 61.2;

@@ -172,7 +172,8 @@ TEST(Export, GeoPackageStructureFollowsTheStandard) {
   EXPECT_EQ(g.db.query_int("SELECT count(*) FROM gpkg_spatial_ref_sys WHERE srs_id IN (-1, 0, 4326, 32633)"), 4);
   EXPECT_EQ(g.db.query_text("SELECT definition FROM gpkg_spatial_ref_sys WHERE srs_id = -1"), "undefined");
   EXPECT_EQ(g.db.query_text("SELECT organization FROM gpkg_spatial_ref_sys WHERE srs_id = 0"), "NONE");
-  for (const char* layer : {"stations", "planar_readings", "linear_readings", "contact_points", "fitted_contacts", "flags"}) {
+  for (const char* layer :
+       {"stations", "planar_readings", "linear_readings", "contact_points", "fitted_contacts", "flags"}) {
     Stmt c(g.db, "SELECT data_type, srs_id FROM gpkg_contents WHERE table_name = ?");
     c.bind(1, layer);
     ASSERT_TRUE(c.step()) << layer;
@@ -195,9 +196,9 @@ TEST(Export, GeoPackageStructureFollowsTheStandard) {
   EXPECT_EQ(blob.substr(0, 2), "GP");
   EXPECT_EQ(blob[2], 0);
   const unsigned flags = static_cast<unsigned char>(blob[3]);
-  EXPECT_EQ(flags & 1u, 1u);           // B: little-endian
-  EXPECT_EQ((flags >> 1) & 7u, 1u);    // E: envelope minx, maxx, miny, maxy
-  EXPECT_EQ(flags & 0xF0u, 0u);        // standard, not empty, reserved bits 0
+  EXPECT_EQ(flags & 1u, 1u);         // B: little-endian
+  EXPECT_EQ((flags >> 1) & 7u, 1u);  // E: envelope minx, maxx, miny, maxy
+  EXPECT_EQ(flags & 0xF0u, 0u);      // standard, not empty, reserved bits 0
   int32_t srs;
   std::memcpy(&srs, blob.data() + 4, 4);  // little-endian host, as the flag says
   EXPECT_EQ(srs, 32633);

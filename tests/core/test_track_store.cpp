@@ -34,8 +34,10 @@ TEST(TrackStore, FixesAreListedByPersonAndDayInTimeOrderAndBadOnesAreRefused) {
   EXPECT_EQ(day[1].elevation, 1200.0);
   EXPECT_EQ(list_track(p).size(), 4u);
   EXPECT_EQ(list_track(p, "", "2026-07-06").size(), 3u);
-  EXPECT_THROW(add_track_point(p, {"ada", "2026-07-06T11:00:00Z", 91.0, 14.2, std::nullopt, std::nullopt}), ValidationError);
-  EXPECT_THROW(add_track_point(p, {"ada", "2026-07-06T11:00:00Z", 46.0, 181.0, std::nullopt, std::nullopt}), ValidationError);
+  EXPECT_THROW(add_track_point(p, {"ada", "2026-07-06T11:00:00Z", 91.0, 14.2, std::nullopt, std::nullopt}),
+               ValidationError);
+  EXPECT_THROW(add_track_point(p, {"ada", "2026-07-06T11:00:00Z", 46.0, 181.0, std::nullopt, std::nullopt}),
+               ValidationError);
   EXPECT_THROW(add_track_point(p, {"ada", "2026-07-06T11:00:00Z", 46.0, 14.0, std::nullopt, -1.0}), ValidationError);
   EXPECT_EQ(list_track(p).size(), 4u);
 }
@@ -43,7 +45,8 @@ TEST(TrackStore, FixesAreListedByPersonAndDayInTimeOrderAndBadOnesAreRefused) {
 // `cairn export FILE OUT.gpx`: one GPX 1.1 track per person and day, read back
 // by libxml2's xmllint (Debian libxml2-utils): well-formed, the points counted.
 TEST(TrackStore, DayTracksExportAsOneGpxTrackPerPersonAndDay) {
-  ASSERT_EQ(std::system("command -v xmllint >/dev/null 2>&1"), 0) << "xmllint is missing: scripts/install-deps.sh --test";
+  ASSERT_EQ(std::system("command -v xmllint >/dev/null 2>&1"), 0)
+      << "xmllint is missing: scripts/install-deps.sh --test";
   TempDir dir;
   Project p = Project::create(dir.file("t.cairn"), NewProject{"track", "33N", North::True, 0}, quiet());
   Person who;

@@ -22,7 +22,9 @@ struct Scratch {
   fs::path dir = fs::temp_directory_path() / ("cairn-atomic-" + std::to_string(::getpid()));
   Scratch() { fs::create_directories(dir); }
   ~Scratch() { fs::remove_all(dir); }
-  size_t entries() const { return static_cast<size_t>(std::distance(fs::directory_iterator(dir), fs::directory_iterator())); }
+  size_t entries() const {
+    return static_cast<size_t>(std::distance(fs::directory_iterator(dir), fs::directory_iterator()));
+  }
 };
 
 std::string slurp(const fs::path& p) {

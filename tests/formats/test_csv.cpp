@@ -66,7 +66,10 @@ TEST(Csv, SpacesAfterAClosingQuoteAreNotPartOfTheField) {
 
 TEST(Csv, Utf16InputGetsAClearError) {
   // UTF-16LE with its byte-order mark (FF FE), as spreadsheets write "Unicode text".
-  const std::string utf16("\xFF\xFE" "a\0,\0b\0\n\0", 10);
+  const std::string utf16(
+      "\xFF\xFE"
+      "a\0,\0b\0\n\0",
+      10);
   EXPECT_EQ(error(utf16),
             "t.csv:1:1: encoding: the file is UTF-16 or UTF-32 text; save it as UTF-8 (\"CSV UTF-8\") and import it "
             "again");
@@ -80,7 +83,10 @@ TEST(Csv, InvalidUtf8AndControlCharactersAreRefusedWithLineAndColumn) {
   // ECMA-48: ESC (0x1B) starts a terminal control sequence.
   EXPECT_EQ(error("a,b\r\nx,\x1B[2J\r\n"), "t.csv:2:3: control: control character U+001B is not allowed in text");
   // A UTF-8 byte-order mark is ignored, and UTF-8 text is kept as it is.
-  EXPECT_EQ(ok("\xEF\xBB\xBF" "a\ncaf\xC3\xA9\n").rows[0][0], "caf\xC3\xA9");
+  EXPECT_EQ(ok("\xEF\xBB\xBF"
+               "a\ncaf\xC3\xA9\n")
+                .rows[0][0],
+            "caf\xC3\xA9");
 }
 
 TEST(Csv, FormulaPrefixesAreNeutralisedOnWritingAndUndoneOnReading) {

@@ -33,9 +33,11 @@ std::string xpath(const std::string& file, const std::string& expr) {
 }  // namespace
 
 TEST(GpxWrite, TracksAreWellFormedGpx11InTheSchemasOrder) {
-  ASSERT_EQ(std::system("command -v xmllint >/dev/null 2>&1"), 0) << "xmllint is missing: scripts/install-deps.sh --test";
+  ASSERT_EQ(std::system("command -v xmllint >/dev/null 2>&1"), 0)
+      << "xmllint is missing: scripts/install-deps.sh --test";
   const std::vector<GpxTrack> tracks{
-      {"AQ 2026-07-06 <day> & more", {{{61.1818333, -135.59, 1012.5, "2026-07-06T17:00:00Z"}, {61.1819, -135.5901, std::nullopt, ""}}}},
+      {"AQ 2026-07-06 <day> & more",
+       {{{61.1818333, -135.59, 1012.5, "2026-07-06T17:00:00Z"}, {61.1819, -135.5901, std::nullopt, ""}}}},
       {"BX", {{{-45.5, 179.99999999, std::nullopt, "2026-07-06T18:00:00Z"}}, {{0, -180, 0.0, ""}}}}};
   const std::string path = (std::filesystem::temp_directory_path() / "cairn-gpx-write-test.gpx").string();
   std::ofstream(path) << write_gpx_tracks(tracks, "Cairn \"test\"");

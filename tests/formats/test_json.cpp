@@ -11,8 +11,8 @@
 
 #include "formats/json.h"
 
-using cairn::formats::JsonWriter;
 using cairn::formats::flat_json_object;
+using cairn::formats::JsonWriter;
 
 TEST(JsonWriter, EscapesStringsPerRfc8259) {
   EXPECT_EQ(JsonWriter::escape("plain"), "plain");
@@ -68,7 +68,8 @@ TEST(JsonWriter, InvalidUtf8BecomesReplacementCharacter) {
 // "JSON Functions") must read back with both intact.
 TEST(FlatJsonObject, ReadsEscapesAsRfc8259Defines) {
   auto m = flat_json_object(R"({"notes":"a\rb\u0001c\u00e9","dip":40.5,"unit":null,"ok":true})");
-  EXPECT_EQ(m["notes"], std::string("a\rb\x01" "c\xc3\xa9"));
+  EXPECT_EQ(m["notes"], std::string("a\rb\x01"
+                                    "c\xc3\xa9"));
   EXPECT_EQ(m["dip"], "40.5");
   EXPECT_EQ(m["unit"], "");
   EXPECT_EQ(m["ok"], "true");

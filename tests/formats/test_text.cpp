@@ -19,10 +19,10 @@ TEST(Utf8, AcceptsUtf8AndRefusesWhatRfc3629Forbids) {
   EXPECT_FALSE(find_invalid_utf8("plain"));
   EXPECT_FALSE(find_invalid_utf8("caf\xC3\xA9 \xE2\x82\xAC \xF0\x9F\x98\x80"));  // é € U+1F600
   EXPECT_FALSE(find_invalid_utf8("\xF4\x8F\xBF\xBF"));                           // U+10FFFF, the last one
-  for (const char* bad : {"\xC0\xAF",              // overlong '/'
-                          "\xE0\x80\xAF",          // overlong '/'
-                          "\xED\xA0\x80",          // U+D800, a surrogate
-                          "\xF4\x90\x80\x80",      // above U+10FFFF
+  for (const char* bad : {"\xC0\xAF",                                            // overlong '/'
+                          "\xE0\x80\xAF",                                        // overlong '/'
+                          "\xED\xA0\x80",                                        // U+D800, a surrogate
+                          "\xF4\x90\x80\x80",                                    // above U+10FFFF
                           "\xFE", "\x80", "\xC3"}) {  // never in UTF-8; a lone continuation; cut short
     auto f = find_invalid_utf8(std::string("ab\n") + bad);
     ASSERT_TRUE(f) << bad;
@@ -42,7 +42,9 @@ TEST(Utf8, ControlCharactersAndTerminalEscaping) {
     EXPECT_EQ(f->rule, "control");
     EXPECT_EQ(f->column, 2);
   }
-  EXPECT_EQ(terminal_safe("S1\x1B[2J\xC2\x9B" "1m caf\xC3\xA9 \xE9"), "S1\\x1B[2J\\u009B1m caf\xC3\xA9 \\xE9");
+  EXPECT_EQ(terminal_safe("S1\x1B[2J\xC2\x9B"
+                          "1m caf\xC3\xA9 \xE9"),
+            "S1\\x1B[2J\\u009B1m caf\xC3\xA9 \\xE9");
   auto b = check_text("spur\x1B", "notes");
   ASSERT_TRUE(b);
   EXPECT_EQ(b->rule, "control");
@@ -79,7 +81,7 @@ TEST(Xml, DoctypesAndEntityDeclarationsAreRefused) {
 TEST(Xml, TheDeclaredEncodingIsHonouredOrRefused) {
   auto latin = parse_xml("<?xml version='1.0' encoding='ISO-8859-1'?><a>caf\xE9</a>", "l.gpx");
   ASSERT_TRUE(latin) << latin.error();
-  EXPECT_EQ(latin->text, "caf\xC3\xA9");  // read as U+00E9, held as UTF-8
+  EXPECT_EQ(latin->text, "caf\xC3\xA9");                   // read as U+00E9, held as UTF-8
   auto utf8_wrong = parse_xml("<a>caf\xE9</a>", "u.gpx");  // no declaration: UTF-8, and 0xE9 alone is not
   EXPECT_FALSE(utf8_wrong);
   auto unknown = parse_xml("<?xml version='1.0' encoding='x-unknown-7'?><a/>", "x.gpx");
@@ -95,11 +97,12 @@ TEST(Xml, TheDeclaredEncodingIsHonouredOrRefused) {
 TEST(Gpx, ControlCharactersInWaypointTextAreRefused) {
   // GPX 1.1 schema: name is xsd:string; XML 1.0 allows DEL and C1 characters,
   // which still drive terminals (ECMA-48), so they are refused.
-  GpxFile g = parse_gpx("<gpx xmlns='http://www.topografix.com/GPX/1/1' version='1.1' creator='x'>\n"
-                        "<wpt lat='1' lon='2'><name>S\xC2\x9B" "1</name></wpt></gpx>",
-                        "c.gpx");
+  GpxFile g = parse_gpx(
+      "<gpx xmlns='http://www.topografix.com/GPX/1/1' version='1.1' creator='x'>\n"
+      "<wpt lat='1' lon='2'><name>S\xC2\x9B"
+      "1</name></wpt></gpx>",
+      "c.gpx");
   ASSERT_EQ(g.errors.size(), 1u);
-  EXPECT_NE(g.errors[0].find("c.gpx:2:22: control: name: control character U+009B"), std::string::npos)
-      << g.errors[0];
+  EXPECT_NE(g.errors[0].find("c.gpx:2:22: control: name: control character U+009B"), std::string::npos) << g.errors[0];
   EXPECT_TRUE(g.waypoints.empty());
 }

@@ -23,8 +23,8 @@ struct Undo {};
 
 inline std::string scratch_dir() {
   const char* base = std::filesystem::exists("/dev/shm") ? "/dev/shm" : nullptr;
-  std::string tmpl = (base ? std::filesystem::path(base) : std::filesystem::temp_directory_path()) /
-                     "cairn-fuzz-XXXXXX";
+  std::string tmpl =
+      (base ? std::filesystem::path(base) : std::filesystem::temp_directory_path()) / "cairn-fuzz-XXXXXX";
   if (!mkdtemp(tmpl.data())) std::abort();
   return tmpl;
 }
@@ -36,8 +36,8 @@ inline store::Project& scratch_project() {
   const std::string dir = scratch_dir();
   store::OpenOptions o;
   o.backups = false;
-  p = std::make_unique<store::Project>(store::Project::create(
-      dir + "/fuzz.cairn", store::NewProject{"fuzz", "33N", store::North::True, 2.5}, o));
+  p = std::make_unique<store::Project>(
+      store::Project::create(dir + "/fuzz.cairn", store::NewProject{"fuzz", "33N", store::North::True, 2.5}, o));
   const struct {
     store::ImportKind kind;
     const char* csv;
@@ -60,8 +60,7 @@ void undone(store::Project& p, F&& f) {
       f();
       throw Undo{};
     });
-  } catch (const Undo&) {
-  }
+  } catch (const Undo&) {}
 }
 
 }  // namespace cairn::fuzz

@@ -16,8 +16,8 @@ inline double deg(double r) { return r * 180.0 / kPi; }
 
 // Unit vector of trend/plunge: x east, y north, z up; plunge downward.
 inline Vec3 dir(double trend, double plunge) {
-  return Vec3(std::sin(rad(trend)) * std::cos(rad(plunge)),
-              std::cos(rad(trend)) * std::cos(rad(plunge)), -std::sin(rad(plunge)));
+  return Vec3(std::sin(rad(trend)) * std::cos(rad(plunge)), std::cos(rad(trend)) * std::cos(rad(plunge)),
+              -std::sin(rad(plunge)));
 }
 
 // Trend/plunge of a vector, taken downward.
@@ -34,8 +34,6 @@ inline double axial_angle(const Vec3& a, const Vec3& b) {
 
 // Uniform double in [0, 1) from the top 53 bits (the same on every platform, unlike
 // the standard library's distributions).
-inline double uniform(std::mt19937_64& rng) {
-  return static_cast<double>(rng() >> 11) * 0x1.0p-53;
-}
+inline double uniform(std::mt19937_64& rng) { return static_cast<double>(rng() >> 11) * 0x1.0p-53; }
 
 }  // namespace cairn::geo::test

@@ -26,8 +26,7 @@ ScalarGrid sample(int n, const std::function<double(double, double)>& f) {
 
 double shoelace(const std::vector<NetPoint>& ring) {
   double s = 0;
-  for (std::size_t i = 0; i + 1 < ring.size(); ++i)
-    s += ring[i][0] * ring[i + 1][1] - ring[i + 1][0] * ring[i][1];
+  for (std::size_t i = 0; i + 1 < ring.size(); ++i) s += ring[i][0] * ring[i + 1][1] - ring[i + 1][0] * ring[i][1];
   return std::abs(s) / 2;
 }
 

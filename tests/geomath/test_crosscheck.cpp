@@ -23,8 +23,8 @@ namespace {
 
 // A contact on the plane z = z0 + a*e + b*n, sampled over a 1.2 km square with
 // GPS-like noise (h 2 m, v 3 m 1-sigma).
-CheckContact planar_contact(const Plane& p, const std::string& id, unsigned seed, int n = 30,
-                            double h = 2.0, double v = 3.0, double half = 600.0) {
+CheckContact planar_contact(const Plane& p, const std::string& id, unsigned seed, int n = 30, double h = 2.0,
+                            double v = 3.0, double half = 600.0) {
   std::mt19937_64 rng(seed);
   std::uniform_real_distribution<double> u(-half, half);
   std::normal_distribution<double> gh(0, h), gv(0, v);
@@ -327,12 +327,13 @@ TEST(Crosscheck, FalsePositivesOnCleanReadings) {
     const Vec3 p = pole_vector(t);
     const Vec3 a = p.unitOrthogonal(), b = p.cross(a);
     const Vec3 q = (p + g(rng) * a + g(rng) * b).normalized();
-    in.planes.push_back(reading(std::to_string(i), "1", plane_from_pole(line_from_vector(q)), "bedding",
-                                "C" + std::to_string(i % 4)));
+    in.planes.push_back(
+        reading(std::to_string(i), "1", plane_from_pole(line_from_vector(q)), "bedding", "C" + std::to_string(i % 4)));
   }
   CheckReport rep = run_crosscheck(in);
   int misfits = 0;
-  for (const auto& f : rep.flags) misfits += f.rule == "misfit" || f.rule == "reversed-dip" || f.rule == "declination-suspect";
+  for (const auto& f : rep.flags)
+    misfits += f.rule == "misfit" || f.rule == "reversed-dip" || f.rule == "declination-suspect";
   for (const auto& f : rep.fits) EXPECT_TRUE(f.usable) << f.contact << ": " << f.verdict;
   EXPECT_LT(misfits, 5);
 }
@@ -358,7 +359,10 @@ TEST(Crosscheck, CircularMeanRotationMatchesNumpy) {
   //   t = np.radians(d); S, C = np.sin(t).sum(), np.cos(t).sum(); m = np.arctan2(S, C)
   //   R = np.hypot(S, C) / n; rho2 = np.mean(np.cos(2 * (t - m)))
   //   se = np.sqrt((1 - rho2) / (2 * R * R) / n)
-  struct Case { std::vector<double> d; double mean, r, se, t975; };
+  struct Case {
+    std::vector<double> d;
+    double mean, r, se, t975;
+  };
   const Case cases[] = {
       {{11.0, 14.5, 9.0, 13.0, 12.5, 10.0}, 11.666651385780376, 0.9994712318667321, 0.7608935024559901, 2.571},
       {{-8.0, -11.5, -6.0, -9.5, -12.0}, -9.40015451085927, 0.9992477516411548, 0.9943159517248229, 2.776},
@@ -398,8 +402,8 @@ CheckInput observer_day(const std::vector<double>& stored_error, double local_de
   // Another crew member's readings the same day, unbiased: never part of the group.
   const double noise[] = {1.5, -2.0, 0.5, -1.0};
   for (int i = 0; i < 4; ++i) {
-    CheckPlane r = reading("o" + std::to_string(i), "1", Plane{wrap360(truth.strike + noise[i]), truth.dip},
-                           "bedding", "C1");
+    CheckPlane r =
+        reading("o" + std::to_string(i), "1", Plane{wrap360(truth.strike + noise[i]), truth.dip}, "bedding", "C1");
     r.quality = 3;
     r.observer = "CD";
     r.day = "2026-07-14";

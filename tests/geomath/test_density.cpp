@@ -27,8 +27,7 @@ using namespace test;
 // Direction of a net point by Snyder's inverse, continued past the primitive.
 Vec3 node_direction(NetKind k, const NetPoint& p) {
   const double r = std::hypot(p[0], p[1]);
-  const double chi = k == NetKind::EqualArea ? 2.0 * std::asin(std::min(1.0, r / std::sqrt(2.0)))
-                                             : 2.0 * std::atan(r);
+  const double chi = k == NetKind::EqualArea ? 2.0 * std::asin(std::min(1.0, r / std::sqrt(2.0))) : 2.0 * std::atan(r);
   const double az = std::atan2(p[0], p[1]);
   return Vec3(std::sin(chi) * std::sin(az), std::sin(chi) * std::cos(az), -std::cos(chi));
 }

@@ -35,7 +35,7 @@ TEST(Distributions, IncompleteBetaClosedForms) {
 
 TEST(Distributions, FQuantileMatchesTableAndClosedForm) {
   // F_0.95(2, nu), A&S Table 26.9: 199.5, 19.00, 9.55, 6.94, 5.79, 4.10, 3.49, 3.32.
-  const std::vector<std::pair<double, double>> table = {{1, 199.5}, {2, 19.00}, {3, 9.55}, {4, 6.94},
+  const std::vector<std::pair<double, double>> table = {{1, 199.5}, {2, 19.00}, {3, 9.55},  {4, 6.94},
                                                         {5, 5.79},  {10, 4.10}, {20, 3.49}, {30, 3.32}};
   for (auto [nu, want] : table) {
     auto f = f_quantile(0.95, 2, nu);

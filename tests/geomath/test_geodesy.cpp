@@ -20,9 +20,9 @@ TEST(Geodesy, ZoneRules) {
   EXPECT_EQ(utm_zone_for(LatLon{46.5, 7.1})->zone, 32);
   EXPECT_EQ(utm_zone_for(LatLon{10, -177})->zone, 1);
   EXPECT_EQ(utm_zone_for(LatLon{10, 179})->zone, 60);
-  EXPECT_EQ(utm_zone_for(LatLon{60, 5})->zone, 32);    // Norway: 31 -> 32
-  EXPECT_EQ(utm_zone_for(LatLon{78, 10})->zone, 33);   // Svalbard: 32 -> 33
-  EXPECT_EQ(utm_zone_for(LatLon{78, 22})->zone, 35);   // Svalbard: 34 -> 35
+  EXPECT_EQ(utm_zone_for(LatLon{60, 5})->zone, 32);   // Norway: 31 -> 32
+  EXPECT_EQ(utm_zone_for(LatLon{78, 10})->zone, 33);  // Svalbard: 32 -> 33
+  EXPECT_EQ(utm_zone_for(LatLon{78, 22})->zone, 35);  // Svalbard: 34 -> 35
   EXPECT_FALSE(utm_zone_for(LatLon{-33, 18})->northp);
   EXPECT_TRUE(utm_zone_for(LatLon{0, 18})->northp);
 }

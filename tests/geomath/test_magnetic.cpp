@@ -60,8 +60,8 @@ std::vector<TestPoint> test_points() {
     p.line = n;
     char c;
     std::istringstream ls(line);
-    ls >> p.year >> c >> p.height_km >> c >> p.lat >> c >> p.lon >> c >> p.X >> c >> p.Y >> c >> p.Z >>
-        c >> p.H >> c >> p.F >> c >> p.incl >> c >> p.decl;
+    ls >> p.year >> c >> p.height_km >> c >> p.lat >> c >> p.lon >> c >> p.X >> c >> p.Y >> c >> p.Z >> c >> p.H >> c >>
+        p.F >> c >> p.incl >> c >> p.decl;
     EXPECT_FALSE(ls.fail()) << "bad reference row " << n << ": " << line;
     rows.push_back(p);
   }
@@ -186,8 +186,8 @@ TEST(MagneticModelParse, OtherLayoutErrors) {
   EXPECT_NE(missing.error().find("line 4"), std::string::npos) << missing.error();
   EXPECT_NE(missing.error().find("expected n=2 m=0"), std::string::npos) << missing.error();
   // A short row.
-  auto short_row = MagneticModel::parse(replaced(text, "  1  1    -1410.8     4545.4        9.7      -21.5",
-                                                 "  1  1    -1410.8     4545.4        9.7"));
+  auto short_row = MagneticModel::parse(
+      replaced(text, "  1  1    -1410.8     4545.4        9.7      -21.5", "  1  1    -1410.8     4545.4        9.7"));
   ASSERT_FALSE(short_row.ok());
   EXPECT_NE(short_row.error().find("line 3"), std::string::npos) << short_row.error();
   // No header.
@@ -200,13 +200,13 @@ TEST(MagneticModelParse, OtherLayoutErrors) {
 TEST(DecimalYear, WmmConvention) {
   // WMM software convention (value from memory): year + (day_of_year - 1) / days_in_year.
   EXPECT_DOUBLE_EQ(cairn::geo::decimal_year(2025, 1, 1), 2025.0);
-  EXPECT_DOUBLE_EQ(cairn::geo::decimal_year(2025, 7, 2), 2025.0 + 182.0 / 365.0);    // day 183
+  EXPECT_DOUBLE_EQ(cairn::geo::decimal_year(2025, 7, 2), 2025.0 + 182.0 / 365.0);  // day 183
   EXPECT_DOUBLE_EQ(cairn::geo::decimal_year(2025, 12, 31), 2025.0 + 364.0 / 365.0);
-  EXPECT_DOUBLE_EQ(cairn::geo::decimal_year(2024, 3, 1), 2024.0 + 60.0 / 366.0);     // leap year, day 61
+  EXPECT_DOUBLE_EQ(cairn::geo::decimal_year(2024, 3, 1), 2024.0 + 60.0 / 366.0);  // leap year, day 61
   EXPECT_DOUBLE_EQ(cairn::geo::decimal_year(2024, 12, 31), 2024.0 + 365.0 / 366.0);
-  EXPECT_DOUBLE_EQ(cairn::geo::decimal_year(2000, 2, 29), 2000.0 + 59.0 / 366.0);    // 2000 is leap
-  EXPECT_THROW(cairn::geo::decimal_year(2025, 2, 29), std::domain_error);            // 2025 is not
-  EXPECT_THROW(cairn::geo::decimal_year(2100, 2, 29), std::domain_error);            // nor is 2100
+  EXPECT_DOUBLE_EQ(cairn::geo::decimal_year(2000, 2, 29), 2000.0 + 59.0 / 366.0);  // 2000 is leap
+  EXPECT_THROW(cairn::geo::decimal_year(2025, 2, 29), std::domain_error);          // 2025 is not
+  EXPECT_THROW(cairn::geo::decimal_year(2100, 2, 29), std::domain_error);          // nor is 2100
   EXPECT_THROW(cairn::geo::decimal_year(2025, 13, 1), std::domain_error);
   EXPECT_THROW(cairn::geo::decimal_year(2025, 4, 31), std::domain_error);
   EXPECT_THROW(cairn::geo::decimal_year(2025, 1, 0), std::domain_error);
@@ -215,12 +215,10 @@ TEST(DecimalYear, WmmConvention) {
 TEST(DecimalYear, CalendarDateIsTheInverse) {
   // Same convention: the day a decimal year falls on.
   using cairn::geo::calendar_date;
-  auto same = [](cairn::geo::CalendarDate c, int y, int m, int d) {
-    return c.year == y && c.month == m && c.day == d;
-  };
+  auto same = [](cairn::geo::CalendarDate c, int y, int m, int d) { return c.year == y && c.month == m && c.day == d; };
   EXPECT_TRUE(same(calendar_date(2025.0), 2025, 1, 1));
-  EXPECT_TRUE(same(calendar_date(2027.5), 2027, 7, 2));   // floor(182.5) + 1 = day 183
-  EXPECT_TRUE(same(calendar_date(2028.5), 2028, 7, 2));   // floor(183) + 1 = day 184 of a leap year
+  EXPECT_TRUE(same(calendar_date(2027.5), 2027, 7, 2));  // floor(182.5) + 1 = day 183
+  EXPECT_TRUE(same(calendar_date(2028.5), 2028, 7, 2));  // floor(183) + 1 = day 184 of a leap year
   EXPECT_TRUE(same(calendar_date(2025.0 + 364.0 / 365.0), 2025, 12, 31));
   EXPECT_TRUE(same(calendar_date(2024.0 + 59.0 / 366.0), 2024, 2, 29));
   // Every day of a common and a leap year goes there and back.

@@ -76,9 +76,10 @@ TEST(Notation, InvalidInputTable) {
   EXPECT_EQ(err_plane("030/40SE7"), "unexpected '7' after the dip");
   EXPECT_EQ(err_plane("N95E 40S"), "strike: quadrant angle 95 is out of range: 0 to 90");
   EXPECT_EQ(err_plane("N30E 40"), "quadrant notation needs the dip quadrant after the dip: N30E 40SE or N30E 40NW?");
-  EXPECT_EQ(err_plane("030/40"),
-            "attitude '030/40' is ambiguous: as strike/dip (right-hand rule) it dips 40 towards 120; "
-            "as dip direction/dip it dips 40 towards 030. Say which convention, or add the dip quadrant (e.g. 030/40SE)");
+  EXPECT_EQ(
+      err_plane("030/40"),
+      "attitude '030/40' is ambiguous: as strike/dip (right-hand rule) it dips 40 towards 120; "
+      "as dip direction/dip it dips 40 towards 030. Say which convention, or add the dip quadrant (e.g. 030/40SE)");
   EXPECT_EQ(err_plane("120/40NE", PlaneConvention::DipDirectionDip), "dip quadrant NE contradicts dip direction 120");
   EXPECT_EQ(err_plane("030/40Q", PlaneConvention::StrikeDipRHR), "unexpected 'Q' after the dip");
   EXPECT_EQ(err_plane("030/-4", PlaneConvention::StrikeDipRHR), "dip '-4' is not a number");

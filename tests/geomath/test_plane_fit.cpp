@@ -213,10 +213,9 @@ TEST(FitPlane, StrikeLineFactOfTheTrade) {
   const double sx = std::sin(deg2rad(strike)), sy = std::cos(deg2rad(strike));
   const double dx = std::sin(deg2rad(strike + 90)), dy = std::cos(deg2rad(strike + 90));
   const double e0 = 402000, n0 = 6120000;
-  std::vector<FitPoint> pts = {
-      P(e0, n0, 700), P(e0 + 420 * sx, n0 + 420 * sy, 700),  // upper strike line
-      P(e0 + spacing * dx + 80 * sx, n0 + spacing * dy + 80 * sy, 600),
-      P(e0 + spacing * dx + 310 * sx, n0 + spacing * dy + 310 * sy, 600)};  // lower
+  std::vector<FitPoint> pts = {P(e0, n0, 700), P(e0 + 420 * sx, n0 + 420 * sy, 700),  // upper strike line
+                               P(e0 + spacing * dx + 80 * sx, n0 + spacing * dy + 80 * sy, 600),
+                               P(e0 + spacing * dx + 310 * sx, n0 + spacing * dy + 310 * sy, 600)};  // lower
   auto fit = fit_plane(pts);
   ASSERT_TRUE(fit.ok()) << fit.error();
   EXPECT_NEAR(fit->plane.dip, 10.5, 0.05);
@@ -341,7 +340,10 @@ TEST(FitPlane, ConeCoversTheTruePoleNinetyFivePercent) {
   // must contain the true pole in 93-97% of fits, whether the accuracies are
   // stated correctly, understated by half, or not given (definition of a
   // confidence region; Draper & Smith 1998, 5.4). Fixed seed.
-  struct Case { const char* name; double stated; };
+  struct Case {
+    const char* name;
+    double stated;
+  };
   const Case cases[] = {{"stated", 1.0}, {"understated by half", 0.5}, {"absent", 0.0}};
   std::mt19937_64 rng(20261203);
   std::uniform_real_distribution<double> u(-250, 250), dipd(0, 360), dipa(5, 60);
@@ -383,8 +385,8 @@ TEST(FitPlane, ConeCoversTheTruePoleNinetyFivePercent) {
 
 TEST(FitPlane, SameInputSameCone) {
   // The Monte Carlo seed is fixed: a fit is repeatable.
-  std::vector<FitPoint> pts = {P(0, 0, 10, 2, 3), P(200, 10, 40, 2, 3), P(30, 180, 0, 2, 3),
-                               P(190, 200, 33, 2, 3), P(100, 90, 21, 2, 3)};
+  std::vector<FitPoint> pts = {P(0, 0, 10, 2, 3), P(200, 10, 40, 2, 3), P(30, 180, 0, 2, 3), P(190, 200, 33, 2, 3),
+                               P(100, 90, 21, 2, 3)};
   auto a = fit_plane(pts), b = fit_plane(pts);
   ASSERT_TRUE(a.ok() && b.ok() && a->cone95 && b->cone95);
   EXPECT_EQ(*a->cone95, *b->cone95);
@@ -410,9 +412,8 @@ TEST(FitPlane, WeightsFollowTheAccuracies) {
   EXPECT_NEAR(w->residuals[4], 5.0 - w->centroid.z(), 1e-9);
   // Its residual of ~5 m is 5 sigma for that point, ~0 for the others.
   ASSERT_TRUE(w->misfit_ratio);
-  EXPECT_NEAR(*w->misfit_ratio, std::sqrt((std::pow(5.0 - w->centroid.z(), 2) / 1.0 +
-                                           4 * std::pow(w->centroid.z() / 0.01, 2)) /
-                                          2.0),
+  EXPECT_NEAR(*w->misfit_ratio,
+              std::sqrt((std::pow(5.0 - w->centroid.z(), 2) / 1.0 + 4 * std::pow(w->centroid.z() / 0.01, 2)) / 2.0),
               1e-6);
 }
 
@@ -420,8 +421,7 @@ TEST(FitPlane, NearlyCollinearIsWeak) {
   // 400 m along a line, only ~1 m across it, with 3 m horizontal accuracy: the
   // spread across must exceed the precision (in the spirit of Jones et al. 2016).
   std::vector<FitPoint> pts;
-  for (int i = 0; i < 6; ++i)
-    pts.push_back(P(80.0 * i, (i % 2) * 2.0, 100 - 8.0 * i + (i % 2) * 0.5, 3.0, 5.0));
+  for (int i = 0; i < 6; ++i) pts.push_back(P(80.0 * i, (i % 2) * 2.0, 100 - 8.0 * i + (i % 2) * 0.5, 3.0, 5.0));
   auto fit = fit_plane(pts);
   ASSERT_TRUE(fit.ok()) << fit.error();
   EXPECT_TRUE(fit->weak_geometry);
@@ -534,7 +534,7 @@ TEST(StructureContours, ObliquePlaneSegmentsLieOnThePlaneAndTheEdges) {
     // Segments run along strike.
     const double az = wrap360(rad2deg(std::atan2(s.e1 - s.e0, s.n1 - s.n0)));
     EXPECT_NEAR(std::abs(azimuth_difference(az, p.strike)) < 90 ? azimuth_difference(az, p.strike)
-                                                                 : azimuth_difference(az, p.strike + 180),
+                                                                : azimuth_difference(az, p.strike + 180),
                 0.0, 1e-6);
   }
   // Neighbouring contours are interval / tan(dip) apart horizontally.

@@ -242,8 +242,7 @@ TEST(Girdle, FindsTheFoldAxis) {
   EXPECT_GT(g->beta_cone, 0.0);
   EXPECT_LT(g->beta_cone, 10.0);
   // The girdle is the plane whose pole is beta (written out: pole trend = dip dir + 180).
-  EXPECT_LT(axial_angle(dir(g->girdle.strike + 270.0, 90.0 - g->girdle.dip), line_vector(g->beta)),
-            1e-6);
+  EXPECT_LT(axial_angle(dir(g->girdle.strike + 270.0, 90.0 - g->girdle.dip), line_vector(g->beta)), 1e-6);
   // Same seed, same cone; another seed, another (bootstrap) cone.
   auto again = fit_girdle(poles);
   ASSERT_TRUE(again.ok());

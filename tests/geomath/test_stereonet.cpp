@@ -27,8 +27,8 @@ constexpr double kPiT = test::kPi;
 // Snyder (1987) polar aspect, scaled to a unit primitive circle.
 NetPoint snyder(NetKind kind, double trend, double plunge) {
   const double chi = rad(90.0 - plunge);  // colatitude from the downward vertical
-  const double rho = kind == NetKind::EqualArea ? 2.0 * (1.0 / std::sqrt(2.0)) * std::sin(chi / 2)
-                                                : 2.0 * 0.5 * std::tan(chi / 2);
+  const double rho =
+      kind == NetKind::EqualArea ? 2.0 * (1.0 / std::sqrt(2.0)) * std::sin(chi / 2) : 2.0 * 0.5 * std::tan(chi / 2);
   return {rho * std::sin(rad(trend)), rho * std::cos(rad(trend))};
 }
 
@@ -155,11 +155,9 @@ TEST(Stereonet, EqualAreaRandomCellsKeepTheirShareOfTheArea) {
 }
 
 // Centre and radius of the circle through three points.
-void circumcircle(const NetPoint& a, const NetPoint& b, const NetPoint& c, NetPoint& centre,
-                  double& r) {
+void circumcircle(const NetPoint& a, const NetPoint& b, const NetPoint& c, NetPoint& centre, double& r) {
   const double d = 2 * (a[0] * (b[1] - c[1]) + b[0] * (c[1] - a[1]) + c[0] * (a[1] - b[1]));
-  const double a2 = a[0] * a[0] + a[1] * a[1], b2 = b[0] * b[0] + b[1] * b[1],
-               c2 = c[0] * c[0] + c[1] * c[1];
+  const double a2 = a[0] * a[0] + a[1] * a[1], b2 = b[0] * b[0] + b[1] * b[1], c2 = c[0] * c[0] + c[1] * c[1];
   centre = {(a2 * (b[1] - c[1]) + b2 * (c[1] - a[1]) + c2 * (a[1] - b[1])) / d,
             (a2 * (c[0] - b[0]) + b2 * (a[0] - c[0]) + c2 * (b[0] - a[0])) / d};
   r = std::hypot(a[0] - centre[0], a[1] - centre[1]);
@@ -221,8 +219,8 @@ TEST(Stereonet, EqualAngleKeepsAnglesBetweenGreatCircles) {
       return std::array<double, 2>{a[0] - b[0], a[1] - b[1]};
     };
     const auto u = tangent(t1), w = tangent(t2);
-    const double got = deg(std::acos(std::abs(u[0] * w[0] + u[1] * w[1]) /
-                                     (std::hypot(u[0], u[1]) * std::hypot(w[0], w[1]))));
+    const double got =
+        deg(std::acos(std::abs(u[0] * w[0] + u[1] * w[1]) / (std::hypot(u[0], u[1]) * std::hypot(w[0], w[1]))));
     EXPECT_NEAR(got, want, 1e-4);
   }
 }
@@ -304,8 +302,8 @@ TEST(Stereonet, SmallCircleThroughTheHorizontalWrapsByAntipodes) {
       (mid[0] > 0 ? east : west)++;
       for (const NetPoint* end : {&pl.pts.front(), &pl.pts.back()}) {
         const double az = std::fmod(deg(std::atan2((*end)[0], (*end)[1])) + 360.0, 360.0);
-        const bool ok = std::abs(az - 60) < 1e-6 || std::abs(az - 120) < 1e-6 ||
-                        std::abs(az - 240) < 1e-6 || std::abs(az - 300) < 1e-6;
+        const bool ok = std::abs(az - 60) < 1e-6 || std::abs(az - 120) < 1e-6 || std::abs(az - 240) < 1e-6 ||
+                        std::abs(az - 300) < 1e-6;
         EXPECT_TRUE(ok) << az;
       }
     }

@@ -118,11 +118,11 @@ TEST(TerrainHorn, PlaneGivesItsOwnSlopeAndAspect) {
   EXPECT_NEAR(slope, 12.6044, 1e-4);  // value worked by hand
   EXPECT_NEAR(s[5 * g.nx + 7], slope, 1e-3);
   EXPECT_NEAR(a[5 * g.nx + 7], aspect, 1e-2);
-  EXPECT_TRUE(std::isnan(s[0]));              // border: no value (as gdaldem)
+  EXPECT_TRUE(std::isnan(s[0]));  // border: no value (as gdaldem)
   const auto at = slope_at(g, 205, 205);
   ASSERT_TRUE(at.ok());
   EXPECT_NEAR(at->slope, slope, 1e-3);
-  EXPECT_FALSE(slope_at(g, 3, 3).ok());      // a border cell
+  EXPECT_FALSE(slope_at(g, 3, 3).ok());  // a border cell
   // Hillshade (Burrough & McDonnell 1998): flat ground lit from 45 degrees -> cos 45.
   TerrainGrid flat = ramp();
   for (float& v : flat.z) v = 500;

@@ -47,7 +47,8 @@ struct Legend {
 
 // A camp file: two units, a contact, two people, station S1 with one bedding reading.
 inline Legend make_camp(const std::string& path) {
-  Project p = Project::create(path, NewProject{"Quartz Gully", "33N", North::True, 3.0}, device(kCampDevice, "camp laptop"));
+  Project p =
+      Project::create(path, NewProject{"Quartz Gully", "33N", North::True, 3.0}, device(kCampDevice, "camp laptop"));
   Legend l;
   Person a;
   a.name = "Ana Example";
@@ -102,8 +103,9 @@ inline void copy_file(const std::string& from, const std::string& to) {
 inline std::string dump(const std::string& path) {
   Db db(path, SQLITE_OPEN_READONLY);
   std::string out;
-  const std::vector<std::string> tables = {"devices", "people", "units", "contacts", "stations", "planes", "lines",
-                                           "points",  "photos", "audit", "conflicts", "conflict_values", "key_clashes"};
+  const std::vector<std::string> tables = {"devices",   "people",          "units",      "contacts", "stations",
+                                           "planes",    "lines",           "points",     "photos",   "audit",
+                                           "conflicts", "conflict_values", "key_clashes"};
   for (const auto& t : tables) {
     std::vector<std::string> cols;
     {

@@ -13,7 +13,7 @@
 namespace cairn::store::testing {
 
 class TempDir {
-public:
+ public:
   TempDir() {
     std::string tmpl = (std::filesystem::temp_directory_path() / "cairn-store-XXXXXX").string();
     if (!mkdtemp(tmpl.data())) throw std::runtime_error("mkdtemp failed");
@@ -26,7 +26,7 @@ public:
   std::string file(const std::string& name) const { return (path_ / name).string(); }
   const std::filesystem::path& path() const { return path_; }
 
-private:
+ private:
   std::filesystem::path path_;
 };
 

@@ -80,7 +80,8 @@ TEST(Crash, CommittedReadingsSurviveSigkill) {
     // Let the writer run for a random moment, collecting what it reports.
     const auto deadline = std::chrono::steady_clock::now() + std::chrono::milliseconds(delay_ms(rng));
     for (;;) {
-      const auto left = std::chrono::duration_cast<std::chrono::milliseconds>(deadline - std::chrono::steady_clock::now());
+      const auto left =
+          std::chrono::duration_cast<std::chrono::milliseconds>(deadline - std::chrono::steady_clock::now());
       if (left.count() <= 0) break;
       pollfd pf{fds[0], POLLIN, 0};
       if (poll(&pf, 1, static_cast<int>(left.count())) > 0) {
@@ -98,15 +99,16 @@ TEST(Crash, CommittedReadingsSurviveSigkill) {
     close(fds[0]);
     int status = 0;
     ASSERT_EQ(waitpid(pid, &status, 0), pid);
-    if (WIFSIGNALED(status) && WTERMSIG(status) == SIGKILL) ++killed;
-    else ADD_FAILURE() << "the writer ended by itself with status " << status;
+    if (WIFSIGNALED(status) && WTERMSIG(status) == SIGKILL)
+      ++killed;
+    else
+      ADD_FAILURE() << "the writer ended by itself with status " << status;
     // Only whole lines count: a line cut by the kill was not reported.
     size_t start = 0;
     for (size_t nl; (nl = buffer.find('\n', start)) != std::string::npos; start = nl + 1)
       committed.insert(buffer.substr(start, nl - start));
   }
-  std::cout << "[ info     ] " << committed.size() << " readings reported committed across " << kRounds
-            << " kills\n";
+  std::cout << "[ info     ] " << committed.size() << " readings reported committed across " << kRounds << " kills\n";
   EXPECT_EQ(killed, kRounds);
   EXPECT_GT(committed.size(), 0u) << "the writer never got a reading in";
 
@@ -122,6 +124,5 @@ TEST(Crash, CommittedReadingsSurviveSigkill) {
     if (!present.count(u)) ++missing;
   EXPECT_EQ(missing, 0u) << "of " << committed.size() << " readings reported as committed";
   // Each insert wrote its audit row in the same transaction.
-  EXPECT_EQ(p.db().query_int("SELECT count(*) FROM audit WHERE tbl = 'planes'"),
-            static_cast<int64_t>(present.size()));
+  EXPECT_EQ(p.db().query_int("SELECT count(*) FROM audit WHERE tbl = 'planes'"), static_cast<int64_t>(present.size()));
 }

@@ -86,11 +86,12 @@ TEST(Gpx, RejectsOtherRootsAndBrokenXml) {
             "old.gpx:1:1: gpx: the root element is <gpx> in namespace 'http://www.topografix.com/GPX/1/0', not "
             "<gpx> in the GPX 1.1 namespace http://www.topografix.com/GPX/1/1");
   // XML 1.0 well-formedness: end tag must match the start tag.
-  GpxFile broken = parse_gpx("<gpx xmlns=\"http://www.topografix.com/GPX/1/1\">\n<wpt lat=\"1\" lon=\"2\"></gpx>", "b.gpx");
+  GpxFile broken =
+      parse_gpx("<gpx xmlns=\"http://www.topografix.com/GPX/1/1\">\n<wpt lat=\"1\" lon=\"2\"></gpx>", "b.gpx");
   ASSERT_EQ(broken.errors.size(), 1u);
   // expat's message and position (the name of the end tag that does not match).
   EXPECT_EQ(broken.errors[0], "b.gpx:2:24: xml: mismatched tag");
-  EXPECT_FALSE(parse_xml("<a>&nbsp;</a>", "e.xml"));  // only the five predefined entities exist
+  EXPECT_FALSE(parse_xml("<a>&nbsp;</a>", "e.xml"));     // only the five predefined entities exist
   EXPECT_FALSE(parse_xml("<a x='1' x='2'/>", "e.xml"));  // XML 1.0 3.1: unique attribute names
   EXPECT_FALSE(parse_xml("<p:a/>", "e.xml"));            // undeclared prefix
   EXPECT_FALSE(parse_xml("<!DOCTYPE a><a/>", "e.xml"));

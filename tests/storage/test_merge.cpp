@@ -515,11 +515,12 @@ TEST(Merge, AnOlderTabletFileIsMergedAndLeftUntouched) {
     Db db(a, SQLITE_OPEN_READWRITE);
     // Back to version 2: without the v3 tables, the v4 project setting, the
     // v5 screening settings and repeat_of, the v6 terrain and the v7 pick-lists and track.
-    db.exec("DROP TABLE pick_lists; DROP TABLE track_points; DROP TABLE terrain_tiles; DROP TABLE terrain; "
-            "DROP TABLE conflict_values; DROP TABLE conflicts; DROP TABLE key_clashes; "
-            "ALTER TABLE project DROP COLUMN nearby_radius; ALTER TABLE project DROP COLUMN friction_angle; "
-            "ALTER TABLE project DROP COLUMN sliding_window; ALTER TABLE project DROP COLUMN toppling_window; "
-            "ALTER TABLE planes DROP COLUMN repeat_of; PRAGMA user_version = 2");
+    db.exec(
+        "DROP TABLE pick_lists; DROP TABLE track_points; DROP TABLE terrain_tiles; DROP TABLE terrain; "
+        "DROP TABLE conflict_values; DROP TABLE conflicts; DROP TABLE key_clashes; "
+        "ALTER TABLE project DROP COLUMN nearby_radius; ALTER TABLE project DROP COLUMN friction_angle; "
+        "ALTER TABLE project DROP COLUMN sliding_window; ALTER TABLE project DROP COLUMN toppling_window; "
+        "ALTER TABLE planes DROP COLUMN repeat_of; PRAGMA user_version = 2");
     db.exec("PRAGMA journal_mode = DELETE");
   }
   const std::string bytes = read_file(a);

@@ -47,9 +47,10 @@ TEST(Untrusted, AnUntrustedConnectionRunsNoTriggerAndReadsNoView) {
   const std::string f = d.file("x.sqlite");
   {
     Db db(f, SQLITE_OPEN_READWRITE | SQLITE_OPEN_CREATE);
-    db.exec("CREATE TABLE t(x); CREATE TABLE log(y);"
-            "CREATE TRIGGER t_log AFTER INSERT ON t BEGIN INSERT INTO log VALUES (new.x); END;"
-            "CREATE VIEW v AS SELECT x FROM t;");
+    db.exec(
+        "CREATE TABLE t(x); CREATE TABLE log(y);"
+        "CREATE TRIGGER t_log AFTER INSERT ON t BEGIN INSERT INTO log VALUES (new.x); END;"
+        "CREATE VIEW v AS SELECT x FROM t;");
     db.exec("INSERT INTO t VALUES (1)");
     EXPECT_EQ(db.query_int("SELECT count(*) FROM log"), 1);  // an own connection runs it
   }
@@ -67,13 +68,14 @@ TEST(Untrusted, TablesTriggersAndViewsOfASourceAreNamedNeverAdopted) {
   const std::string a = c.tablet("tabletA.cairn");
   {
     Db db(a, SQLITE_OPEN_READWRITE);
-    db.exec("CREATE TABLE field_sketches (uuid TEXT PRIMARY KEY, caption TEXT NOT NULL, created TEXT NOT NULL, "
-            "updated TEXT NOT NULL, device TEXT NOT NULL, deleted TEXT);"
-            "INSERT INTO field_sketches VALUES ('5a0c1e2d-0000-4000-8000-000000000001', 'fold hinge', "
-            "'2025-06-14T10:00:00.000Z', '2025-06-14T10:00:00.000Z', 'a0000000-0000-4000-8000-00000000000a', NULL);"
-            "CREATE TABLE \"odd\"\"name\" (uuid TEXT, updated TEXT, device TEXT, deleted TEXT, created TEXT);"
-            "CREATE TRIGGER tamper AFTER INSERT ON devices BEGIN UPDATE stations SET notes = 'tampered'; END;"
-            "CREATE VIEW every_station AS SELECT * FROM stations;");
+    db.exec(
+        "CREATE TABLE field_sketches (uuid TEXT PRIMARY KEY, caption TEXT NOT NULL, created TEXT NOT NULL, "
+        "updated TEXT NOT NULL, device TEXT NOT NULL, deleted TEXT);"
+        "INSERT INTO field_sketches VALUES ('5a0c1e2d-0000-4000-8000-000000000001', 'fold hinge', "
+        "'2025-06-14T10:00:00.000Z', '2025-06-14T10:00:00.000Z', 'a0000000-0000-4000-8000-00000000000a', NULL);"
+        "CREATE TABLE \"odd\"\"name\" (uuid TEXT, updated TEXT, device TEXT, deleted TEXT, created TEXT);"
+        "CREATE TRIGGER tamper AFTER INSERT ON devices BEGIN UPDATE stations SET notes = 'tampered'; END;"
+        "CREATE VIEW every_station AS SELECT * FROM stations;");
   }
   const MergeReport rep = merge_into(c.camp, {a});
   const auto& ign = rep.sources.at(0).ignored;
@@ -90,9 +92,7 @@ TEST(Untrusted, TablesTriggersAndViewsOfASourceAreNamedNeverAdopted) {
 
 TEST(Untrusted, AViewStandingInForARecordTableIsRefused) {
   Camp c;
-  {
-    Project p = Project::open(c.camp, device(kCampDevice, "camp laptop"));
-  }
+  { Project p = Project::open(c.camp, device(kCampDevice, "camp laptop")); }
   const std::string before = dump(c.camp);
   const std::string a = c.tablet("tabletA.cairn");
   {

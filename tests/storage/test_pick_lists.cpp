@@ -70,7 +70,7 @@ TEST(PickLists, StructureKindsAndLithologiesAreAddedInOrderAndValidated) {
   EXPECT_THROW(add_pick(c.p, PickList::Lithology, ""), ValidationError);
   EXPECT_THROW(add_pick(c.p, PickList::Lithology, "tab\there"), ValidationError);
   EXPECT_THROW(add_pick(c.p, PickList::Unit, "Qm"), ValidationError);  // units are records
-  EXPECT_EQ(pick_list(c.p, PickList::Structure).size(), 2u);            // nothing written by a refusal
+  EXPECT_EQ(pick_list(c.p, PickList::Structure).size(), 2u);           // nothing written by a refusal
   remove_pick(c.p, PickList::Structure, "bedding");
   EXPECT_EQ(pick_list(c.p, PickList::Structure), std::vector<std::string>{"lineation"});
 }
@@ -85,18 +85,23 @@ TEST(PickLists, AnImportRefusesAStructureKindNotInTheListAndNamesTheList) {
       "p.csv:3:2: pick-list: structure kind 'joint' is not in the project's structure list (bedding, foliation)"};
   EXPECT_EQ(r.errors, expected);
   EXPECT_EQ(c.planes(), 0) << "a good row of a refused file must not be written";
-  const ImportReport lines = import_csv(c.p, ImportKind::Lines, "station,kind,trend,plunge\nS1,lineation,120,35\n", "l.csv");
+  const ImportReport lines =
+      import_csv(c.p, ImportKind::Lines, "station,kind,trend,plunge\nS1,lineation,120,35\n", "l.csv");
   ASSERT_EQ(lines.errors.size(), 1u);
-  EXPECT_NE(lines.errors[0].find("structure kind 'lineation' is not in the project's structure list (bedding, foliation)"),
-            std::string::npos);
+  EXPECT_NE(
+      lines.errors[0].find("structure kind 'lineation' is not in the project's structure list (bedding, foliation)"),
+      std::string::npos);
 }
 
 TEST(PickLists, AnImportRefusesAUnitOrAnObserverNotInTheListAndNamesTheList) {
   Camp c;
   const ImportReport units = import_csv(c.p, ImportKind::Stations, "station,lat,lon,unit\nS2,46.5,14.2,Zz\n", "s.csv");
-  EXPECT_EQ(units.errors, std::vector<std::string>{"s.csv:2:4: unknown-unit: unit 'Zz' is not in the project's unit list (Kls)"});
-  const ImportReport who = import_csv(c.p, ImportKind::Stations, "station,lat,lon,observer\nS2,46.5,14.2,BX\n", "s.csv");
-  EXPECT_EQ(who.errors, std::vector<std::string>{"s.csv:2:4: pick-list: person 'BX' is not in the project's person list (AQ)"});
+  EXPECT_EQ(units.errors,
+            std::vector<std::string>{"s.csv:2:4: unknown-unit: unit 'Zz' is not in the project's unit list (Kls)"});
+  const ImportReport who =
+      import_csv(c.p, ImportKind::Stations, "station,lat,lon,observer\nS2,46.5,14.2,BX\n", "s.csv");
+  EXPECT_EQ(who.errors,
+            std::vector<std::string>{"s.csv:2:4: pick-list: person 'BX' is not in the project's person list (AQ)"});
   EXPECT_FALSE(find_station(c.p, "S2"));
   EXPECT_FALSE(find_person(c.p, "BX"));
   // A listed observer is taken.

@@ -268,9 +268,8 @@ TEST(Records, MagneticReadingKeepsRawAndDeclination) {
 TEST(Records, InjectionStringsAreStoredLiterally) {
   // SQLite documentation: bound parameters are never parsed as SQL.
   Fixture f;
-  const std::vector<std::string> nasty = {
-      "'); DROP TABLE stations;--", "\"; DELETE FROM planes; --", "S2' OR '1'='1",
-      "Robert'); DROP TABLE units;--", "x\"); PRAGMA writable_schema=1;--"};
+  const std::vector<std::string> nasty = {"'); DROP TABLE stations;--", "\"; DELETE FROM planes; --", "S2' OR '1'='1",
+                                          "Robert'); DROP TABLE units;--", "x\"); PRAGMA writable_schema=1;--"};
   for (size_t i = 0; i < nasty.size(); ++i) {
     Station s;
     s.code = nasty[i];

@@ -67,7 +67,7 @@ TEST(SurveyBox, Parses) {
   EXPECT_EQ(b->north, 61.3);
   EXPECT_FALSE(survey::parse_bbox("1,2,3"));
   EXPECT_FALSE(survey::parse_bbox("1,2,3,x"));
-  EXPECT_FALSE(survey::parse_bbox("1,50,3,40"));   // south above north
+  EXPECT_FALSE(survey::parse_bbox("1,50,3,40"));    // south above north
   EXPECT_FALSE(survey::parse_bbox("200,0,210,1"));  // longitude out of range
 }
 
@@ -88,7 +88,7 @@ std::map<std::string, std::string> read_state(const std::string& path) {
 }
 
 class SurveyServer : public ::testing::Test {
-protected:
+ protected:
   static void SetUpTestSuite() {
     const char* given = std::getenv("CAIRN_PG_STATE");
     if (given && fs::exists(given)) {
@@ -96,8 +96,8 @@ protected:
       return;
     }
     own_state_ = (fs::temp_directory_path() / ("cairn-test-pg-" + std::to_string(getpid()))).string();
-    const std::string cmd = "OWNER_PID=" + std::to_string(getpid()) + " bash " CAIRN_SOURCE_DIR
-                            "/tests/survey/pg_cluster.sh start " + own_state_ + " >/dev/null";
+    const std::string cmd = "OWNER_PID=" + std::to_string(getpid()) +
+                            " bash " CAIRN_SOURCE_DIR "/tests/survey/pg_cluster.sh start " + own_state_ + " >/dev/null";
     ASSERT_EQ(std::system(cmd.c_str()), 0) << "could not start a PostgreSQL cluster";
     state_ = read_state(own_state_);
   }
@@ -205,7 +205,8 @@ TEST_F(SurveyServer, ChangedOnTwoTabletsIsAConflictOnTheServer) {
       << "the later version is current";
   EXPECT_EQ(value("SELECT count(*) FROM cairn.conflicts WHERE record = '" + uuid + "'"), "1");
   EXPECT_EQ(value("SELECT value FROM cairn.conflict_values v JOIN cairn.conflicts c ON c.uuid = v.conflict AND "
-                  "c.project = v.project WHERE c.record = '" + uuid + "' AND v.col = 'notes'"),
+                  "c.project = v.project WHERE c.record = '" +
+                  uuid + "' AND v.col = 'notes'"),
             "notes from one.cairn")
       << "the other version is kept whole on the server";
   // Any order, any number of times: the same store.

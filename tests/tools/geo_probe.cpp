@@ -23,9 +23,12 @@ int main(int argc, char** argv) {
   std::optional<UtmZone> zone;
   for (int i = 1; i < argc; ++i) {
     const std::string a = argv[i];
-    if (a == "--inverse") mode = "inverse";
-    else if (a == "--factors") mode = "factors";
-    else if (a == "--set") mode = "set";
+    if (a == "--inverse")
+      mode = "inverse";
+    else if (a == "--factors")
+      mode = "factors";
+    else if (a == "--set")
+      mode = "set";
     else if (a == "--zone" && i + 1 < argc) {
       auto z = parse_utm_zone(argv[++i]);
       if (!z) {
@@ -52,8 +55,10 @@ int main(int argc, char** argv) {
       }
       u.northp = hemi == "N";
       auto r = from_utm(u);
-      if (!r) std::printf("error: %s\n", r.error().c_str());
-      else std::printf("%.10f %.10f\n", r->lat, r->lon);
+      if (!r)
+        std::printf("error: %s\n", r.error().c_str());
+      else
+        std::printf("%.10f %.10f\n", r->lat, r->lon);
       continue;
     }
     LatLon p;
@@ -80,18 +85,24 @@ int main(int argc, char** argv) {
         z = *s;
       }
       auto f = utm_grid_factors(p, z);
-      if (!f) std::printf("error: %s\n", f.error().c_str());
-      else std::printf("%d %s %.10f %.12f\n", z.zone, z.northp ? "N" : "S", f->convergence, f->scale);
+      if (!f)
+        std::printf("error: %s\n", f.error().c_str());
+      else
+        std::printf("%d %s %.10f %.12f\n", z.zone, z.northp ? "N" : "S", f->convergence, f->scale);
     } else {
       auto u = to_utm(p, zone);
-      if (!u) std::printf("error: %s\n", u.error().c_str());
-      else std::printf("%d %s %.6f %.6f\n", u->zone, u->northp ? "N" : "S", u->easting, u->northing);
+      if (!u)
+        std::printf("error: %s\n", u.error().c_str());
+      else
+        std::printf("%d %s %.6f %.6f\n", u->zone, u->northp ? "N" : "S", u->easting, u->northing);
     }
   }
   if (mode == "set") {
     auto z = utm_zone_for(set);
-    if (!z) std::printf("error: %s\n", z.error().c_str());
-    else std::printf("%d %s\n", z->zone, z->northp ? "N" : "S");
+    if (!z)
+      std::printf("error: %s\n", z.error().c_str());
+    else
+      std::printf("%d %s\n", z->zone, z->northp ? "N" : "S");
   }
   return 0;
 }

@@ -38,8 +38,7 @@ bool read_lines(std::vector<Line>& out) {
     std::istringstream in(text);
     Line l;
     if (!(in >> l.trend >> l.plunge) || l.plunge < 0 || l.plunge > 90) {
-      std::cerr << "net_probe: stdin line " << row << ": expected 'trend plunge', got '" << text
-                << "'\n";
+      std::cerr << "net_probe: stdin line " << row << ": expected 'trend plunge', got '" << text << "'\n";
       return false;
     }
     out.push_back(l);
@@ -54,9 +53,12 @@ void put(const char* key, std::initializer_list<double> values) {
 }
 
 bool parse_kind(const std::string& s, NetKind& k) {
-  if (s == "area") k = NetKind::EqualArea;
-  else if (s == "angle") k = NetKind::EqualAngle;
-  else return false;
+  if (s == "area")
+    k = NetKind::EqualArea;
+  else if (s == "angle")
+    k = NetKind::EqualAngle;
+  else
+    return false;
   return true;
 }
 
@@ -106,9 +108,12 @@ int main(int argc, char** argv) {
     if (argc < 5 || !parse_kind(argv[2], k)) return usage();
     DensityOptions opt;
     const std::string method = argv[3];
-    if (method == "kamb") opt.method = CountingMethod::Kamb;
-    else if (method == "percent") opt.method = CountingMethod::OnePercent;
-    else return usage();
+    if (method == "kamb")
+      opt.method = CountingMethod::Kamb;
+    else if (method == "percent")
+      opt.method = CountingMethod::OnePercent;
+    else
+      return usage();
     opt.grid_nodes = std::atoi(argv[4]);
     auto g = density_grid(k, lines, opt);
     if (!g) return std::cerr << "net_probe: " << g.error() << "\n", 1;
