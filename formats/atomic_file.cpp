@@ -46,6 +46,14 @@ void sync_to_disk(const std::string& path) {
     throw std::runtime_error("cannot flush " + path + " to disk: " + why);
 }
 
+void move_into_place(const std::string& tmp, const std::string& path) {
+  std::error_code ec;
+  sync_to_disk(tmp);
+  fs::rename(tmp, path, ec);
+  if (ec) throw std::runtime_error("cannot move " + tmp + " to " + path + ": " + ec.message());
+  sync_to_disk(folder_of(path).string());
+}
+
 void replace_file_atomically(const std::string& path, const std::function<void(const std::string& tmp)>& fill) {
   std::error_code ec;
   const fs::path dir = folder_of(path);
@@ -53,10 +61,7 @@ void replace_file_atomically(const std::string& path, const std::function<void(c
   const std::string tmp = temporary_path_beside(path);
   try {
     fill(tmp);
-    sync_to_disk(tmp);
-    fs::rename(tmp, path, ec);
-    if (ec) throw std::runtime_error(ec.message());
-    sync_to_disk(dir.string());
+    move_into_place(tmp, path);
   } catch (const std::exception& e) {
     remove_with_side_files(tmp);
     throw std::runtime_error("cannot write " + path + ": " + e.what());

@@ -18,6 +18,12 @@ std::string temporary_path_beside(const std::string& target);
 // Flushes a file or a folder to disk (fsync). Throws std::runtime_error naming PATH.
 void sync_to_disk(const std::string& path);
 
+// Moves the finished file TMP to PATH durably: TMP is flushed to disk, renamed
+// over PATH (same folder or at least the same file system), and PATH's folder is
+// flushed so the new entry survives a power cut. Throws std::runtime_error naming
+// PATH; TMP is left in place on failure (its owner removes it).
+void move_into_place(const std::string& tmp, const std::string& path);
+
 // Writes TEXT to PATH atomically. Throws std::runtime_error naming PATH and the
 // cause; the temporary file is removed on failure.
 void write_file_atomically(const std::string& path, std::string_view text);

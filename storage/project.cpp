@@ -17,6 +17,7 @@
 
 #include "geomath/geodesy.h"
 #include "geomath/magnetic.h"
+#include "formats/atomic_file.h"
 #include "formats/ids.h"
 #include "formats/iso8601.h"
 #include "formats/sha256.h"
@@ -146,7 +147,7 @@ std::string publish_backup(TempPath& tmp, const std::string& path, const std::st
   fs::path target = folder / (stem_of(path) + "-" + stamp + ".cairn");
   for (int n = 2; fs::exists(target); ++n)
     target = folder / (stem_of(path) + "-" + stamp + "-" + std::to_string(n) + ".cairn");
-  fs::rename(tmp.path(), target);
+  formats::move_into_place(tmp.path(), target.string());  // fsync of the copy and of the folder
   tmp.release();
   prune_backups(path, dir, keep);
   return target.string();

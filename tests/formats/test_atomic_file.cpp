@@ -79,3 +79,24 @@ TEST(AtomicFile, TheTemporaryNameIsBesideTheTarget) {
   EXPECT_EQ(fs::path(t).filename().string().rfind(".camp.gpkg.", 0), 0u) << t;
   EXPECT_NE(t, temporary_path_beside("/some/folder/camp.gpkg"));  // random part
 }
+
+TEST(AtomicFile, MoveIntoPlaceReplacesTheTargetAndKeepsTheSourceOnFailure) {
+  Scratch s;
+  const fs::path tmp = s.dir / "staged.tmp", target = s.dir / "backup.cairn";
+  std::ofstream(tmp) << "new state";
+  std::ofstream(target) << "old state";
+  move_into_place(tmp.string(), target.string());
+  EXPECT_EQ(slurp(target), "new state");
+  EXPECT_FALSE(fs::exists(tmp));
+  // rename() into a folder that does not exist fails (POSIX: ENOENT); the staged
+  // file stays for its owner to remove, and the message names both paths.
+  std::ofstream(tmp) << "again";
+  const std::string nowhere = (s.dir / "gone" / "b.cairn").string();
+  try {
+    move_into_place(tmp.string(), nowhere);
+    FAIL() << "no error";
+  } catch (const std::runtime_error& e) {
+    EXPECT_NE(std::string(e.what()).find(nowhere), std::string::npos) << e.what();
+  }
+  EXPECT_EQ(slurp(tmp), "again");
+}
