@@ -6,6 +6,7 @@
 #include <cstdio>
 #include <ctime>
 #include <random>
+#include <fmt/format.h>
 
 namespace cairn::formats {
 
@@ -26,10 +27,9 @@ std::string new_uuid() {
   }
   b[6] = static_cast<unsigned char>((b[6] & 0x0f) | 0x40);  // version 4 (RFC 4122 4.4)
   b[8] = static_cast<unsigned char>((b[8] & 0x3f) | 0x80);  // variant 10xx (RFC 4122 4.1.1)
-  char out[37];
-  std::snprintf(out, sizeof out, "%02x%02x%02x%02x-%02x%02x-%02x%02x-%02x%02x-%02x%02x%02x%02x%02x%02x", b[0], b[1],
-                b[2], b[3], b[4], b[5], b[6], b[7], b[8], b[9], b[10], b[11], b[12], b[13], b[14], b[15]);
-  return out;
+  return fmt::format(
+      "{:02x}{:02x}{:02x}{:02x}-{:02x}{:02x}-{:02x}{:02x}-{:02x}{:02x}-{:02x}{:02x}{:02x}{:02x}{:02x}{:02x}", b[0],
+      b[1], b[2], b[3], b[4], b[5], b[6], b[7], b[8], b[9], b[10], b[11], b[12], b[13], b[14], b[15]);
 }
 
 bool is_uuid(std::string_view s) {

@@ -2,6 +2,7 @@
 
 #include <cstdint>
 #include <cstdio>
+#include <fmt/format.h>
 
 namespace cairn::formats {
 
@@ -77,9 +78,10 @@ std::string sha256_hex(std::string_view data) {
   for (int j = 0; j < 8; ++j) tail[len - 1 - j] = static_cast<unsigned char>(bits >> (8 * j));
   block(h, tail);
   if (len == 128) block(h, tail + 64);
-  char out[65];
-  for (int j = 0; j < 8; ++j) std::snprintf(out + 8 * j, 9, "%08x", h[j]);
-  return std::string(out, 64);
+  std::string out;
+  out.reserve(64);
+  for (int j = 0; j < 8; ++j) out += fmt::format("{:08x}", h[j]);
+  return out;
 }
 
 }  // namespace cairn::formats

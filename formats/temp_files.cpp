@@ -12,6 +12,7 @@
 #include <mutex>
 #include <random>
 #include <stdexcept>
+#include <fmt/format.h>
 
 namespace fs = std::filesystem;
 
@@ -85,9 +86,7 @@ void install_handlers() {
 
 std::string random_hex8() {
   static thread_local std::mt19937 gen(std::random_device{}());
-  char buf[16];
-  std::snprintf(buf, sizeof buf, "%08x", static_cast<unsigned>(gen()));
-  return buf;
+  return fmt::format("{:08x}", static_cast<unsigned>(gen()));
 }
 
 const char* const kMarker = ".tmp-";

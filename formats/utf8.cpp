@@ -2,6 +2,7 @@
 
 #include <algorithm>
 #include <cstdio>
+#include <fmt/format.h>
 
 #include "formats/validate.h"
 
@@ -54,17 +55,9 @@ bool is_control(unsigned cp, bool multiline) {
   return cp < 0x20 || cp == 0x7F || (cp >= 0x80 && cp <= 0x9F);
 }
 
-std::string hex2(unsigned v) {
-  char buf[8];
-  std::snprintf(buf, sizeof buf, "%02X", v & 0xFF);
-  return buf;
-}
+std::string hex2(unsigned v) { return fmt::format("{:02X}", v & 0xFF); }
 
-std::string u4(unsigned v) {
-  char buf[12];
-  std::snprintf(buf, sizeof buf, "U+%04X", v);
-  return buf;
-}
+std::string u4(unsigned v) { return fmt::format("U+{:04X}", v); }
 
 std::optional<TextFault> scan(std::string_view t, bool check_controls, bool multiline) {
   TextFault f;

@@ -8,15 +8,14 @@
 
 #include "formats/ids.h"
 #include "formats/iso8601.h"
+#include "geomath/decimal.h"
 
 namespace cairn::formats {
 
 std::string format_number(double v) {
   // %.15g prints any decimal of up to 15 significant digits back exactly
   // (DBL_DIG = 15), so a typed value survives list -> import -> list unchanged.
-  char buf[40];
-  std::snprintf(buf, sizeof buf, "%.15g", v);
-  std::string s = buf;
+  std::string s = geo::format_decimal("%.15g", v);
   if (s == "-0") s = "0";
   return s;
 }

@@ -14,7 +14,7 @@ tmp=$(mktemp -d)
 trap 'rm -rf "$tmp"' EXIT
 "$cairn" demo "$tmp/demo" >/dev/null
 cd "$tmp/demo"
-gui() { xvfb-run -a -s '-screen 0 1400x1000x24' "$cairn" gui camp.cairn --no-gps --size 1280x800 --dpi 96 "$@"; }
+gui() { "$here/tests/tools/xvfb-do" 1400x1000x24 "$cairn" gui camp.cairn --no-gps --size 1280x800 --dpi 96 "$@"; }
 shot() {  # shot NAME [gui options...] < event script
   local name=$1; shift
   { cat; printf 'wait 3\nscreenshot %s\nwait 3\n' "$out/$name.png"; } > "$tmp/$name.txt"

@@ -18,6 +18,7 @@
 #include "formats/validate.h"
 #include "storage/reviews.h"
 #include "storage/terrain.h"
+#include "geomath/decimal.h"
 
 namespace fs = std::filesystem;
 
@@ -77,11 +78,7 @@ struct Value {
     switch (type) {
       case Null: return "";
       case Int: return std::to_string(i);
-      case Real: {
-        char buf[40];
-        std::snprintf(buf, sizeof buf, "%.17g", d);
-        return buf;
-      }
+      case Real: return geo::format_decimal("%.17g", d);
       case Text: return s;
     }
     return "";

@@ -8,6 +8,7 @@
 #include "geomath/angles.h"
 #include "geomath/notation.h"
 #include "storage/repository.h"
+#include "geomath/decimal.h"
 
 namespace cairn::core {
 
@@ -51,10 +52,8 @@ Result<std::string> relabel_north(Project& p, const PlanarReading& r, double tur
     u.declination_source.clear();
     return std::string("north reference magnetic -> true (declination was already set on the compass)");
   }
-  char buf[160];
-  std::snprintf(buf, sizeof buf, "the suggested turn of %+.1f degrees does not match the reading's north reference",
-                turn);
-  return R::failure(buf);
+  return R::failure(
+      geo::format_decimal("the suggested turn of %+.1f degrees does not match the reading's north reference", turn));
 }
 
 // One audited change for every reading of a group flag, all or nothing.
@@ -81,8 +80,7 @@ Result<std::string> apply_group(Project& p, const geo::Flag& f) {
           u.notation = PlaneNotation::StrikeDip;
           change = r->typed + " -> " + u.typed;
         }
-        char turn[32];
-        std::snprintf(turn, sizeof turn, "%+.1f", *f.rotation);
+        const std::string turn = geo::format_decimal("%+.1f", *f.rotation);
         u.notes = r->notes + (r->notes.empty() ? "" : " ") + "[corrected after " + f.rule + " of " + f.observer +
                   (f.day.empty() ? "" : " " + f.day) + ", turn " + turn + ": " + change + "]";
         if (update(p, u)) ++changed;

@@ -22,6 +22,7 @@
 #include "storage/schema.h"
 #include "storage/sqlite.h"
 #include "app/survey/pg.h"
+#include "geomath/decimal.h"
 
 namespace fs = std::filesystem;
 
@@ -213,11 +214,7 @@ const char* pg_type(char t) {
 
 // ---- values ------------------------------------------------------------------------------
 
-std::string real_text(double d) {
-  char buf[40];
-  std::snprintf(buf, sizeof buf, "%.17g", d);
-  return buf;
-}
+std::string real_text(double d) { return geo::format_decimal("%.17g", d); }
 
 // The canonical COPY fields of one row read from the store (FIELDS in store column order).
 Fields canonical_from_store(const TableDef& t, const Fields& in) {

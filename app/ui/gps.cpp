@@ -1,4 +1,5 @@
 #include "app/ui/gps.h"
+#include "geomath/decimal.h"
 
 #include <cmath>
 #include <cstdio>
@@ -32,13 +33,9 @@ std::string describe(const GpsFix& f) {
   if (!f.connected) return "no GPS" + (f.error.empty() ? std::string() : " (" + f.error + ")");
   if (f.mode < 2) return "GPS: no fix yet";
   if (f.age_s >= 10) return "GPS: fix lost";
-  char buf[160];
   std::string s = f.mode >= 3 ? "3D fix" : "2D fix";
   if (const char* n = status_name(f.status)) s += std::string(" (") + n + ")";
-  if (f.h_accuracy) {
-    std::snprintf(buf, sizeof buf, " \xC2\xB1%.0f m", *f.h_accuracy);
-    s += buf;
-  }
+  if (f.h_accuracy) s += geo::format_decimal(" \xC2\xB1%.0f m", *f.h_accuracy);
   if (f.satellites > 0) s += ", " + std::to_string(f.satellites) + " satellites";
   return s;
 }

@@ -5,6 +5,7 @@
 #include <algorithm>
 #include <cstdio>
 #include <cstdlib>
+#include <fmt/format.h>
 
 #include "app/cli/magnetic_source.h"
 #include "formats/ids.h"
@@ -214,8 +215,7 @@ std::string validity_warning(int outside) {
   } catch (const std::exception&) {
     return "";
   }
-  char range[64];
-  std::snprintf(range, sizeof range, "%g to %g", model->valid_from(), model->valid_to());
+  const std::string range = fmt::format("{:g} to {:g}", model->valid_from(), model->valid_to());
   return std::to_string(outside) + (outside == 1 ? " reading is" : " readings are") + " dated outside " +
          model->name() + "'s validity (" + range + "); " + (outside == 1 ? "its" : "their") +
          " declination is extrapolated and less certain.";

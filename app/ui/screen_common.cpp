@@ -49,7 +49,7 @@ std::string reading_summary(const store::PlanarReading& r) {
 std::string reading_summary(const store::LinearReading& r) {
   std::string s = (r.ref.empty() ? std::string() : r.ref + "  ") +
                   geo::format_trend_plunge(geo::Line{r.trend, r.plunge}) + "  " + std::string(store::to_string(r.kind));
-  if (r.rake) s += "  (rake " + fmt("%.0f", *r.rake) + ")";
+  if (r.rake) s += "  (rake " + geo::format_decimal("%.0f", *r.rake) + ")";
   return s;
 }
 

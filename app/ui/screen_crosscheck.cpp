@@ -64,8 +64,9 @@ void flag_window(App& a, const geo::Flag& f) {
   text_wrapped(f.message);
   if (f.rotation && f.rotation_interval) {
     // A group flag: its rotation and every reading it concerns.
-    text("common turn " + fmt("%+.1f\xC2\xB0", *f.rotation) + " (95% interval " +
-         fmt("%+.1f", f.rotation_interval->first) + " to " + fmt("%+.1f\xC2\xB0", f.rotation_interval->second) + ")");
+    text("common turn " + geo::format_decimal("%+.1f\xC2\xB0", *f.rotation) + " (95% interval " +
+         geo::format_decimal("%+.1f", f.rotation_interval->first) + " to " +
+         geo::format_decimal("%+.1f\xC2\xB0", f.rotation_interval->second) + ")");
     std::string list;
     for (size_t i = 0; i < f.readings.size(); ++i)
       list += (i ? ", " : "") + (i < f.stations.size() ? f.stations[i] + " " : std::string()) +
@@ -73,8 +74,9 @@ void flag_window(App& a, const geo::Flag& f) {
     text_wrapped(std::to_string(f.readings.size()) + " readings: " + list);
   }
   if (f.misfit) {
-    std::string mf = "misfit " + fmt("%.1f\xC2\xB0", *f.misfit);
-    if (f.misfit_corrected) mf += ", after the suggested correction " + fmt("%.1f\xC2\xB0", *f.misfit_corrected);
+    std::string mf = "misfit " + geo::format_decimal("%.1f\xC2\xB0", *f.misfit);
+    if (f.misfit_corrected)
+      mf += ", after the suggested correction " + geo::format_decimal("%.1f\xC2\xB0", *f.misfit_corrected);
     text(mf);
   }
   text_wrapped("Action: " + f.action);

@@ -51,7 +51,7 @@ Parsed parse(const PadState& pad, const Model& m) {
     }
     r.plane = *p;
     r.meaning = "strike " + geo::format_strike_dip(*p) + " (right-hand rule), dip direction " +
-                fmt("%03.0f", p->dip_direction()) + ", " + geo::format_quadrant(*p);
+                geo::format_decimal("%03.0f", p->dip_direction()) + ", " + geo::format_quadrant(*p);
   } else if (pad.notation == 1) {
     const store::PlanarReading* host = m.plane(pad.host_plane);
     if (!host) {
@@ -73,7 +73,8 @@ Parsed parse(const PadState& pad, const Model& m) {
       return r;
     }
     r.line = *l;
-    r.meaning = "trend " + fmt("%03.0f", l->trend) + ", plunge " + fmt("%.0f", l->plunge);
+    r.meaning =
+        "trend " + geo::format_decimal("%03.0f", l->trend) + ", plunge " + geo::format_decimal("%.0f", l->plunge);
   }
   return r;
 }
@@ -93,8 +94,8 @@ Declination pad_declination(Model& m, const PadState& pad, const store::Station&
   try {
     const auto v = m.project().declination_at(st.lat, st.lon, "");
     d.degrees = v.degrees;
-    d.note = "declination " + fmt("%.1f\xC2\xB0", std::abs(v.degrees)) + (v.degrees >= 0 ? " E" : " W") + " (" +
-             v.source + ") will be added";
+    d.note = "declination " + geo::format_decimal("%.1f\xC2\xB0", std::abs(v.degrees)) +
+             (v.degrees >= 0 ? " E" : " W") + " (" + v.source + ") will be added";
   } catch (const std::exception& e) {
     d.note = e.what();
   }
@@ -372,9 +373,9 @@ void pad_live_check(App& a, const Parsed& parsed, double declination) {
     const double tol = geo::comparison_tolerance(
         geo::reading_sigma(pad.quality > 0 ? std::optional<int>(pad.quality) : std::nullopt, opts), fit->fit->cone95,
         opts.confidence);
-    const std::string head = "Misfit " + fmt("%.1f\xC2\xB0", misfit) + " to " + fit->contact + " (" +
-                             geo::format_strike_dip(*fit->plane) + ", tolerance " + fmt("%.1f\xC2\xB0", tol) +
-                             " at 99%)";
+    const std::string head = "Misfit " + geo::format_decimal("%.1f\xC2\xB0", misfit) + " to " + fit->contact + " (" +
+                             geo::format_strike_dip(*fit->plane) + ", tolerance " +
+                             geo::format_decimal("%.1f\xC2\xB0", tol) + " at 99%)";
     if (misfit <= tol) {
       text_colour(lk.pal.ok, "\xE2\x9C\x93 agrees: " + head);
     } else {

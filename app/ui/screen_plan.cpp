@@ -7,6 +7,7 @@
 #include <cmath>
 #include <map>
 #include <tuple>
+#include <fmt/printf.h>
 
 #include "app/plot/plan_scene.h"
 #include "app/plot/plan_terrain.h"
@@ -79,12 +80,13 @@ void build(App& a, const CheckResult& c) {
     double interval = ps.interval;
     if (interval <= 0) interval = std::max(1.0, plot::nice_length(across * tan_dip / 8));
     if (across * tan_dip / interval > 60) {
-      ps.notes.push_back(f.contact + ": strike lines every " + fmt("%g m", interval) + " would be too dense here");
+      ps.notes.push_back(f.contact + ": strike lines every " + geo::format_decimal("%g m", interval) +
+                         " would be too dense here");
       continue;
     }
     auto lines = geo::structure_contours(*f.fit, b, interval, 80);
     if (!lines) continue;
-    ps.notes.push_back(f.contact + ": strike lines every " + fmt("%g m", interval));
+    ps.notes.push_back(f.contact + ": strike lines every " + geo::format_decimal("%g m", interval));
     for (const auto& l : *lines)
       d.strike_lines.push_back({l.e0, l.n0, l.e1, l.n1, l.elevation,
                                 contact_col.count(f.contact_id) ? contact_col[f.contact_id] : plot::kInk});
@@ -138,7 +140,7 @@ void draw_plan_screen(App& a) {
     error_box("The plan needs the project's positions in UTM: " + c->error);
     return;
   }
-  const std::string key = std::to_string(c->revision) + "|" + fmt("%g", ps.interval) + "|" + a.station;
+  const std::string key = std::to_string(c->revision) + "|" + geo::format_decimal("%g", ps.interval) + "|" + a.station;
   if (key != ps.key) {
     ps.key = key;
     build(a, *c);
@@ -218,8 +220,8 @@ void draw_plan_screen(App& a) {
       if (!f.usable || !f.fit) continue;
       auto est = geo::elevation_at(*f.fit, pr.e, pr.n);
       if (!est) continue;
-      std::string l = f.contact + ": " + fmt("%.0f m", est->elevation);
-      if (est->half_width95) l += " \xC2\xB1" + fmt("%.0f", *est->half_width95);
+      std::string l = f.contact + ": " + geo::format_decimal("%.0f m", est->elevation);
+      if (est->half_width95) l += " \xC2\xB1" + geo::format_decimal("%.0f", *est->half_width95);
       pr.lines.push_back(l);
     }
     // Where next on the ground: the nearest stretch of each predicted trace.
@@ -238,7 +240,8 @@ void draw_plan_screen(App& a) {
       const auto [d, qx, qy] = v;
       const double bearing =
           std::fmod(std::atan2(qx - pr.e, qy - pr.n) * 180 / 3.14159265358979323846 + ps.convergence + 720.0, 360.0);
-      pr.lines.push_back(name + " trace: " + fmt("%.0f m", d) + " at " + fmt("%03.0f", bearing));
+      pr.lines.push_back(name + " trace: " + geo::format_decimal("%.0f m", d) + " at " +
+                         geo::format_decimal("%03.0f", bearing));
     }
     if (pr.lines.empty()) pr.lines.push_back("no fitted contact");
     ps.data.probe = pr;
@@ -262,12 +265,12 @@ void draw_plan_screen(App& a) {
   // The picture is drawn into a texture when data, view, size or theme change
   // (every frame of a drag or a pinch, once while the map stands still).
   ImDrawList* dl = ImGui::GetWindowDrawList();
-  char view_key[160];
-  std::snprintf(view_key, sizeof view_key, "|%.6f|%.6f|%.9g|%.0fx%.0f|%d|%d%d%d%d", ps.view.centre_e, ps.view.centre_n,
-                ps.view.scale, r.w, r.h, static_cast<int>(lk.theme), o.dip_values, o.strike_only, o.station_labels,
-                ps.probe.has_value());
+  const std::string view_key =
+      fmt::sprintf("|%.6f|%.6f|%.9g|%.0fx%.0f|%d|%d%d%d%d", ps.view.centre_e, ps.view.centre_n, ps.view.scale, r.w, r.h,
+                   static_cast<int>(lk.theme), o.dip_values, o.strike_only, o.station_labels, ps.probe.has_value());
   const std::string picture_key =
-      ps.key + view_key + (ps.probe ? fmt("%.3f", ps.probe->first) + fmt("%.3f", ps.probe->second) : "");
+      ps.key + view_key +
+      (ps.probe ? geo::format_decimal("%.3f", ps.probe->first) + geo::format_decimal("%.3f", ps.probe->second) : "");
   if (picture_key != ps.picture_key || !ps.picture || !ps.picture->ready()) {
     ps.picture_key = picture_key;
     plot::RecordingCanvas rec;

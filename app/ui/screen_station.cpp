@@ -170,7 +170,7 @@ void repeated_surfaces(const std::vector<const store::PlanarReading*>& planes) {
                  ": Fisher mean of " + std::to_string(m->n) + " readings (" + refs + "), " +
                  (m->alpha95 ? "\xCE\xB1"
                                "95 " +
-                                   fmt("%.1f\xC2\xB0", *m->alpha95)
+                                   geo::format_decimal("%.1f\xC2\xB0", *m->alpha95)
                              : std::string("too scattered for a cone")));
   }
 }
@@ -195,12 +195,13 @@ void where_next(App& a, const store::Station& s) {
     auto est = geo::elevation_at(*f.fit, u->easting, u->northing);
     if (!est) continue;
     ++shown;
-    std::string line = f.contact + ": contact at " + fmt("%.0f m", est->elevation);
-    if (est->half_width95) line += " \xC2\xB1" + fmt("%.0f", *est->half_width95) + " (95%)";
+    std::string line = f.contact + ": contact at " + geo::format_decimal("%.0f m", est->elevation);
+    if (est->half_width95) line += " \xC2\xB1" + geo::format_decimal("%.0f", *est->half_width95) + " (95%)";
     if (s.elevation) {
       const double d = est->elevation - *s.elevation;
-      line += std::abs(d) < 0.5 ? ", at the station's height"
-                                : ", " + fmt("%.0f m", std::abs(d)) + (d > 0 ? " above" : " below") + " the station";
+      line += std::abs(d) < 0.5
+                  ? ", at the station's height"
+                  : ", " + geo::format_decimal("%.0f m", std::abs(d)) + (d > 0 ? " above" : " below") + " the station";
     }
     text_wrapped(line);
   }
@@ -255,11 +256,11 @@ bool station_position(App& a, const store::Station*& s) {
   const bool writable = !m.project().read_only();
   heading("Position");
   std::string pos = lat_lon_text(s->lat, s->lon);
-  if (s->elevation) pos += ",  " + fmt("%.0f m", *s->elevation);
+  if (s->elevation) pos += ",  " + geo::format_decimal("%.0f m", *s->elevation);
   text_wrapped(pos);
   std::string how = std::string("from ") + std::string(store::to_string(s->source));
-  if (s->h_accuracy) how += ",  \xC2\xB1" + fmt("%.0f m", *s->h_accuracy) + " horizontal";
-  if (s->v_accuracy) how += ",  \xC2\xB1" + fmt("%.0f m", *s->v_accuracy) + " vertical";
+  if (s->h_accuracy) how += ",  \xC2\xB1" + geo::format_decimal("%.0f m", *s->h_accuracy) + " horizontal";
+  if (s->v_accuracy) how += ",  \xC2\xB1" + geo::format_decimal("%.0f m", *s->v_accuracy) + " vertical";
   text_dim(how);
   if (button("Use GPS position", 0, writable && a.fix.has_position())) {
     store::Station u = *s;

@@ -295,7 +295,7 @@ bool Script::run(App& app, const Command& c) {
   }
   if (cmd == "wait-for") {
     wait_text_ = c.words[1];
-    const int secs = c.words.size() > 2 ? std::max(1, std::atoi(c.words[2].c_str())) : 20;
+    const int secs = c.words.size() > 2 ? std::max(1, std::atoi(c.words[2].c_str())) : 60;
     wait_text_deadline_ = SDL_GetTicks() + static_cast<Uint32>(secs) * 1000u;
     wait_text_line_ = c.line;
     return true;

@@ -13,7 +13,8 @@
 //   key NAME            key press and release (SDL key names: Return, Backspace, ...)
 //   wait [N]            let N frames pass (default 1)
 //   wait-idle           let frames pass until no job runs and the cross-check is current
-//   wait-for TEXT [S]   let frames pass until TEXT is on screen (fail after S seconds, default 20)
+//   wait-for TEXT [S]   let frames pass until TEXT is on screen (fail after S seconds, default 60:
+//                       generous, for a loaded test machine)
 //   expect TEXT         fail unless some text or target label on screen contains TEXT
 //   expect-not TEXT     fail if some text on screen contains TEXT
 //   expect-fit          fail if a widget of the last frame lies outside the window, is cut by the

@@ -1,21 +1,15 @@
 // Small text helpers shared by the screens.
 #pragma once
 #include <ctime>
-#include <cstdio>
 #include <optional>
 #include <string>
 
+#include "geomath/decimal.h"
+
 namespace cairn::ui {
 
-// printf-style number formatting into a std::string.
-inline std::string fmt(const char* f, double v) {
-  char buf[64];
-  std::snprintf(buf, sizeof buf, f, v);
-  return buf;
-}
-
 inline std::string fmt_opt(const char* f, const std::optional<double>& v, const char* none = "-") {
-  return v ? fmt(f, *v) : std::string(none);
+  return v ? geo::format_decimal(f, *v) : std::string(none);
 }
 
 // Now as local ISO 8601 with its UTC offset ("2025-06-14T09:32:10+02:00"):
@@ -33,8 +27,8 @@ inline std::string now_local_iso() {
 
 // "41.23456° N, 12.34567° E"
 inline std::string lat_lon_text(double lat, double lon) {
-  return fmt("%.5f\xC2\xB0 ", lat < 0 ? -lat : lat) + (lat < 0 ? "S" : "N") + ", " +
-         fmt("%.5f\xC2\xB0 ", lon < 0 ? -lon : lon) + (lon < 0 ? "W" : "E");
+  return geo::format_decimal("%.5f\xC2\xB0 ", lat < 0 ? -lat : lat) + (lat < 0 ? "S" : "N") + ", " +
+         geo::format_decimal("%.5f\xC2\xB0 ", lon < 0 ? -lon : lon) + (lon < 0 ? "W" : "E");
 }
 
 }  // namespace cairn::ui

@@ -1,4 +1,5 @@
 #include "app/ui/widgets.h"
+#include "geomath/decimal.h"
 
 #include <algorithm>
 #include <cmath>
@@ -30,11 +31,7 @@ float text_width(const std::string& label) {
 // The room a framed widget of the last item's width leaves for its label.
 float label_room() { return ImGui::GetItemRectSize().x - 2 * ImGui::GetStyle().FramePadding.x; }
 
-std::string px(float v) {
-  char b[32];
-  std::snprintf(b, sizeof b, "%.1f", static_cast<double>(v));
-  return b;
-}
+std::string px(float v) { return geo::format_decimal("%.1f", static_cast<double>(v)); }
 
 }  // namespace
 

@@ -1,5 +1,5 @@
 // The touch UI driven like a mapper drives it (taps and finger touches pushed
-// through SDL's event queue by an event script, under xvfb-run), checked in the
+// through SDL's event queue by an event script, on a virtual display (tests/tools/xvfb-do)), checked in the
 // project file afterwards: a new station with typed coordinates, readings
 // entered on the Reading pad's keypad in three notations, an invalid reading
 // that shows the parser's exact error and writes nothing, and undo.

@@ -1,6 +1,6 @@
 // Layouts that fit: every screen of the touch UI on the bundled demo at four
 // common tablet sizes (1280x800, 800x1280, 1024x600, 1920x1200), each at 1x,
-// 1.5x and 2x display density (96, 144 and 192 dpi), under xvfb-run. After
+// 1.5x and 2x display density (96, 144 and 192 dpi), on a virtual display (tests/tools/xvfb-do). After
 // each screen the event script's `expect-fit` asks Dear ImGui's own
 // measurements whether any widget lies outside the window, is cut by the edge
 // of the region it is drawn in, or has a label wider than the widget leaves
@@ -65,7 +65,7 @@ TEST_P(UiLayout, EveryScreenFitsAtEveryDensity) {
   for (int dpi : {96, 144, 192}) {
     std::ofstream(file("tour.txt")) << tour(dpi == 96);
     const std::string size = std::to_string(sz.w) + "x" + std::to_string(sz.h);
-    const std::string cmd = "cd '" + dir_.string() + "' && xvfb-run -a -s '-screen 0 2000x1400x24' '" +
+    const std::string cmd = "cd '" + dir_.string() + "' && " + cairn::ui_test::xvfb_run("2000x1400x24") + " '" +
                             std::string(CAIRN_BINARY) +
                             "' gui camp.cairn --no-gps --person MT --station MT-01 --size " + size + " --dpi " +
                             std::to_string(dpi) + " --script tour.txt >gui-out.txt 2>gui-err.txt";
@@ -77,7 +77,7 @@ TEST_P(UiLayout, EveryScreenFitsAtEveryDensity) {
   std::ofstream(file("open.txt")) << "wait 3\nexpect-fit\n";
   for (int dpi : {96, 192}) {
     const std::string size = std::to_string(sz.w) + "x" + std::to_string(sz.h);
-    const std::string cmd = "cd '" + dir_.string() + "' && xvfb-run -a -s '-screen 0 2000x1400x24' '" +
+    const std::string cmd = "cd '" + dir_.string() + "' && " + cairn::ui_test::xvfb_run("2000x1400x24") + " '" +
                             std::string(CAIRN_BINARY) + "' gui --no-gps --size " + size + " --dpi " +
                             std::to_string(dpi) + " --script open.txt >gui-out.txt 2>gui-err.txt";
     const int rc = std::system(cmd.c_str());

@@ -1,5 +1,5 @@
 // Running the real touch UI in tests: a private folder, a project made through
-// storage, and `cairn gui FILE --script EVENTS` under xvfb-run (a virtual X
+// storage, and `cairn gui FILE --script EVENTS` on a virtual display (tests/tools/xvfb-do) (a virtual X
 // display; Mesa's llvmpipe renders OpenGL 3 there). The script pushes SDL
 // events into SDL's own queue and checks what the screen shows
 // (app/ui/script.h); the test then reads the project file through storage.
@@ -31,8 +31,14 @@ inline std::string slurp(const std::string& path) {
   return ss.str();
 }
 
-// Whether xvfb-run is installed (scripts/install-deps.sh --test installs it).
-inline bool have_xvfb() { return std::system("command -v xvfb-run >/dev/null 2>&1") == 0; }
+// Whether Xvfb is installed (scripts/install-deps.sh --test installs it).
+inline bool have_xvfb() { return std::system("command -v Xvfb >/dev/null 2>&1") == 0; }
+
+// The prefix that runs one command on a virtual display of its own
+// (tests/tools/xvfb-do: a display number per process, the server always stopped).
+inline std::string xvfb_run(const std::string& screen) {
+  return "'" + std::string(CAIRN_SOURCE_DIR) + "/tests/tools/xvfb-do' " + screen;
+}
 
 class UiTest : public ::testing::Test {
  protected:
@@ -41,7 +47,7 @@ class UiTest : public ::testing::Test {
     ASSERT_NE(mkdtemp(tmpl.data()), nullptr);
     dir_ = tmpl;
     // The UI tests need the virtual display: without it they fail, not skip.
-    ASSERT_TRUE(have_xvfb()) << "xvfb-run is missing: run scripts/install-deps.sh --test";
+    ASSERT_TRUE(have_xvfb()) << "Xvfb is missing: run scripts/install-deps.sh --test";
   }
   void TearDown() override {
     if (!HasFailure())
@@ -61,7 +67,7 @@ class UiTest : public ::testing::Test {
   // Runs the UI on PROJECT with the event script SCRIPT (its text) and extra arguments.
   GuiRun gui(const std::string& project, const std::string& script, const std::string& extra = "") const {
     std::ofstream(file("events.txt")) << script;
-    const std::string cmd = "cd '" + dir_.string() + "' && xvfb-run -a -s '-screen 0 1400x1000x24' '" +
+    const std::string cmd = "cd '" + dir_.string() + "' && " + xvfb_run("1400x1000x24") + " '" +
                             std::string(CAIRN_BINARY) + "' gui '" + project + "' --script events.txt --size 1280x800 " +
                             extra + " >gui-out.txt 2>gui-err.txt";
     const int rc = std::system(cmd.c_str());

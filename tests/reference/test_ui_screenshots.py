@@ -1,7 +1,7 @@
 """Every screen of the touch UI renders under Xvfb and writes a real PNG.
 
 `cairn demo` builds the invented field area; `cairn gui camp.cairn --view V
---screenshot OUT --size WxH` is run under xvfb-run for each screen, outdoors
+--screenshot OUT --size WxH` is run on a virtual display (tests/tools/xvfb-do) for each screen, outdoors
 and at night. Each PNG is decoded here with Python's zlib by the rules of the
 PNG standard (W3C, Portable Network Graphics (PNG) Specification, 2nd
 edition: signature, IHDR, IDAT, filter types 0-4 of section 9), independently
@@ -18,6 +18,7 @@ import sys
 import tempfile
 
 sys.path.insert(0, os.path.dirname(os.path.abspath(__file__)))
+XVFB_DO = os.path.join(os.path.dirname(os.path.abspath(__file__)), "..", "tools", "xvfb-do")
 from refcheck import parse_args, Tally  # noqa: E402
 from png_read import read_png  # noqa: E402
 
@@ -41,7 +42,7 @@ def stats(rows):
 def main():
     args = parse_args(required=("cairn",))
     t = Tally("test_ui_screenshots")
-    if not t.check(shutil.which("xvfb-run") is not None, "xvfb-run is installed (scripts/install-deps.sh --test)"):
+    if not t.check(shutil.which("Xvfb") is not None, "Xvfb is installed (scripts/install-deps.sh --test)"):
         return t.finish()
     tmp = tempfile.mkdtemp(prefix="cairn-shots-")
     try:
@@ -53,7 +54,8 @@ def main():
         for night in (False, True):
             for view in VIEWS:
                 out = os.path.join(tmp, "%s%s.png" % (view, "-night" if night else ""))
-                cmd = ["xvfb-run", "-a", "-s", "-screen 0 1280x900x24", args.cairn, "gui", camp, "--view", view,
+                # A virtual display of this run's own (tests/tools/xvfb-do).
+                cmd = [XVFB_DO, "1280x900x24", args.cairn, "gui", camp, "--view", view,
                        "--screenshot", out, "--size", "%dx%d" % (W, H), "--station", "BK-05"]
                 if night:
                     cmd.append("--night")
