@@ -288,24 +288,9 @@ int run_check(const CheckArgs& a, std::ostream& out, std::ostream& err) {
   o.friction_angle = friction >= 0 ? friction : info.friction_angle;
   o.sliding_window = sliding >= 0 ? sliding : info.sliding_window;
   o.toppling_window = toppling >= 0 ? toppling : info.toppling_window;
-  const geo::MagneticModel* model = nullptr;
-  try {
-    model = &wmm();
-  } catch (const std::exception& e) {
-    err << "warning: no magnetic model (" << e.what() << "); declination-suspect is not checked\n";
-  }
-  core::LocalDeclination decl;
   int outside = 0;  // readings dated outside the model's validity
-  if (model)
-    decl = [model, &outside](double lat, double lon, double year) -> std::optional<double> {
-      if (!model->in_validity(year)) ++outside;
-      return model->evaluate(lat, lon, 0.0, year).declination;
-    };
-  core::CheckData data = core::load_check_input(p, decl);
-  if (outside > 0)
-    err << "warning: " << outside << " reading" << (outside == 1 ? " is" : "s are") << " dated outside "
-        << model->name() << "'s validity (" << model->valid_from() << " to " << model->valid_to() << "); "
-        << (outside == 1 ? "its" : "their") << " declination is extrapolated and less certain\n";
+  core::CheckData data = core::load_check_input(p, wmm_declination(&err, &outside));
+  if (outside > 0) err << "warning: " << outside_validity_warning(outside) << "\n";
   const GroundCheck ground = add_terrain_faces(p, data, o);
   const geo::CheckReport rep = geo::run_crosscheck(data.input, o);
   GroundReport gr;

@@ -120,9 +120,7 @@ int run_report(const ReportArgs& a, std::ostream& out, std::ostream& err) {
   }
   core::LocalDeclination decl;
   if (model) {
-    decl = [model](double lat, double lon, double year) -> std::optional<double> {
-      return model->evaluate(lat, lon, 0.0, year).declination;
-    };
+    decl = wmm_declination(nullptr);
     try {
       d.declination = summarise_declination(*model, d);
     } catch (const std::exception& e) {

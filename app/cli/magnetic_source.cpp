@@ -1,6 +1,7 @@
 #include "app/cli/magnetic_source.h"
 
 #include <stdexcept>
+#include <fmt/format.h>
 
 #include "app/cli/assets.h"
 
@@ -22,16 +23,31 @@ const cairn::geo::MagneticModel& wmm() {
   return model;
 }
 
-std::function<std::optional<double>(double, double, double)> wmm_declination_or_warn(std::ostream& err) {
+std::function<std::optional<double>(double, double, double)> wmm_declination(std::ostream* warn, int* outside) {
   try {
     const cairn::geo::MagneticModel* model = &wmm();
-    return [model](double lat, double lon, double year) -> std::optional<double> {
+    return [model, outside](double lat, double lon, double year) -> std::optional<double> {
+      if (outside && !model->in_validity(year)) ++*outside;
       return model->evaluate(lat, lon, 0.0, year).declination;
     };
   } catch (const std::exception& e) {
-    err << "warning: no magnetic model (" << e.what() << "); declination-suspect is not checked\n";
+    if (warn) *warn << "warning: no magnetic model (" << e.what() << "); declination-suspect is not checked\n";
     return {};
   }
+}
+
+std::string outside_validity_warning(int outside) {
+  if (outside <= 0) return "";
+  const cairn::geo::MagneticModel* model = nullptr;
+  try {
+    model = &wmm();
+  } catch (const std::exception&) {
+    return "";
+  }
+  const std::string range = fmt::format("{:g} to {:g}", model->valid_from(), model->valid_to());
+  return std::to_string(outside) + (outside == 1 ? " reading is" : " readings are") + " dated outside " +
+         model->name() + "'s validity (" + range + "); " + (outside == 1 ? "its" : "their") +
+         " declination is extrapolated and less certain";
 }
 
 }  // namespace cairn::cli

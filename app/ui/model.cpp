@@ -194,31 +194,11 @@ const geo::ContactFit* Model::fit_of(const std::string& contact_uuid) const {
   return nullptr;
 }
 
-core::LocalDeclination wmm_local_declination(int* outside) {
-  const geo::MagneticModel* model = nullptr;
-  try {
-    model = &cli::wmm();
-  } catch (const std::exception&) {
-    return {};  // declination-suspect is then not checked
-  }
-  return [model, outside](double lat, double lon, double year) -> std::optional<double> {
-    if (outside && !model->in_validity(year)) ++*outside;
-    return model->evaluate(lat, lon, 0.0, year).declination;
-  };
-}
+core::LocalDeclination wmm_local_declination(int* outside) { return cli::wmm_declination(nullptr, outside); }
 
 std::string validity_warning(int outside) {
-  if (outside <= 0) return "";
-  const geo::MagneticModel* model = nullptr;
-  try {
-    model = &cli::wmm();
-  } catch (const std::exception&) {
-    return "";
-  }
-  const std::string range = fmt::format("{:g} to {:g}", model->valid_from(), model->valid_to());
-  return std::to_string(outside) + (outside == 1 ? " reading is" : " readings are") + " dated outside " +
-         model->name() + "'s validity (" + range + "); " + (outside == 1 ? "its" : "their") +
-         " declination is extrapolated and less certain.";
+  const std::string w = cli::outside_validity_warning(outside);
+  return w.empty() ? w : w + ".";
 }
 
 CheckResult run_check_on_file(const std::string& path, std::uint64_t revision,
