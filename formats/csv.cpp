@@ -21,6 +21,9 @@ static std::string trim(std::string s) {
   return s.substr(b, e - b + 1);
 }
 
+// One pass over the text as a small state machine (RFC 4180 section 2 plus
+// the line ends and limits noted inside); kept whole because the states share
+// the line and column they report errors at.
 Result<CsvTable> parse_csv(std::string_view text, const std::string& filename) {
   auto fail_at = [&](int line, int column, const std::string& rule, const std::string& why) {
     return Result<CsvTable>::failure(filename + ":" + std::to_string(line) + ":" + std::to_string(column) + ": " +

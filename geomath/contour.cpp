@@ -16,6 +16,8 @@ struct Segment {
 
 }  // namespace
 
+// Marching squares, then chaining the segments into lines; longer than a
+// screen because both passes share the edge numbering set up at the top.
 std::vector<NetPolyline> contour_lines(const ScalarGrid& g, double level) {
   std::vector<NetPolyline> out;
   if (g.nx < 2 || g.ny < 2 || g.values.size() != static_cast<std::size_t>(g.nx) * static_cast<std::size_t>(g.ny)) {

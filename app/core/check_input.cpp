@@ -42,6 +42,9 @@ std::optional<double> decimal_year_of(const std::string& iso) {
   return geo::decimal_year(t->day);
 }
 
+// Longer than a screen: the steps below (zone, grid factors, readings, each
+// contact's fit) share the working zone and the factors found first; each is
+// marked by its comment.
 CheckData load_check_input(Project& p, const LocalDeclination& local_declination) {
   CheckData out;
   const auto stations = list_stations(p);

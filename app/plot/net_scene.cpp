@@ -258,6 +258,9 @@ double net_height_for_width(double width, bool has_title, int legend_lines, cons
   return title_h + label_room + diameter + below + pad;
 }
 
+// Longer than a screen: the layers of the net are drawn bottom to top in the
+// order they must overlap (contours, great circles, fits, poles, legend), each
+// marked by its comment.
 NetStatistics draw_net(Canvas& c, const Rect& r, const NetData& d, const NetOptions& o) {
   NetStatistics s = net_statistics(d, o);
   const auto entries = legend_entries(d, s, o);

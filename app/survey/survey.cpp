@@ -997,6 +997,9 @@ void set_crew(const std::string& url, const std::string& role, const std::string
 
 // ---- publish --------------------------------------------------------------------------------
 
+// Long on purpose: a publish is one transaction on the store, and its steps
+// (read the file, check the crew and the project, copy each table, write the
+// report) read in the order the store sees them; the copying is in the helpers above.
 PublishReport publish(const std::string& file, const std::string& url, const PublishOptions& o) {
   PublishReport rep;
   Template tmpl;
@@ -1203,6 +1206,9 @@ Result<BBox> parse_bbox(const std::string& text) {
   return b;
 }
 
+// Long on purpose: one read-only transaction on the store, then one new file:
+// choose the stations and points, then the records that hang on them, in the
+// order a project file needs them.
 PullReport pull(const std::string& url, const std::string& out, const PullOptions& o) {
   PullReport rep;
   rep.project = o.project;

@@ -159,6 +159,9 @@ bool App::idle() const {
   return !model || model->check_is_current() || (model->check() && !model->check()->error.empty());
 }
 
+// Longer than a screen: SDL, the window, OpenGL and Dear ImGui come up in this
+// order, and each step needs the one before it (the density sets the sizes the
+// window and the fonts are made with).
 bool App::init(std::string* error) {
   SDL_SetHint(SDL_HINT_VIDEO_X11_NET_WM_BYPASS_COMPOSITOR, "0");
   if (SDL_Init(SDL_INIT_VIDEO | SDL_INIT_TIMER) != 0) {

@@ -31,6 +31,8 @@ std::string review_note(const Model& m, const std::string& key) {
 }
 
 // The open flag, as a modal window: it cannot be closed by tapping beside it.
+// Immediate mode: the window's parts (what, why, cautions, actions) are drawn
+// in the order they appear, which is why it is longer than a screen.
 void flag_window(App& a, const geo::Flag& f) {
   Model& m = *a.model;
   Look& lk = look();

@@ -40,6 +40,8 @@ constexpr size_t kMaxGreatCircles = 1500;
 
 }  // namespace
 
+// Immediate mode: the screen is laid out top to bottom as it appears (filters,
+// summary, the net), which is why it is one function longer than a screen.
 void draw_net_screen(App& a) {
   Model& m = *a.model;
   Look& lk = look();

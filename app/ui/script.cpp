@@ -138,6 +138,9 @@ Script::Step Script::step(App& app) {
   return done_ && delayed_.empty() ? Step::Done : Step::Continue;
 }
 
+// One script command. Long on purpose: one branch per command of the script
+// language (listed in script.h), each a few lines, kept together so that the
+// language reads as one table.
 bool Script::run(App& app, const Command& c) {
   const std::string& cmd = c.words[0];
   const Uint32 win = SDL_GetWindowID(app.window());
