@@ -95,9 +95,9 @@ Result<DemRead> read_window(const std::string& path, GDALDatasetH ds, int x0, in
 
 int utm_epsg(int zone, bool northp) { return (northp ? 32600 : 32700) + zone; }
 
-// Longer than a screen: every check on an untrusted raster (size, CRS, bands,
-// no-data, geotransform) comes before any memory is given to it, in one place,
-// so that no path reads cells from a file that was not checked.
+// Longer than a screen: every check on an untrusted raster (bands, size,
+// geotransform, CRS, coverage of the area, the size of the window to read)
+// comes before any cell is read, in one place, for both paths (same CRS, warped).
 Result<DemRead> read_dem(const std::string& path, const DemRequest& request) {
   register_gdal();
   QuietGdal quiet;
