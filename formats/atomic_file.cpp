@@ -8,7 +8,7 @@
 #include <filesystem>
 #include <stdexcept>
 
-#include "formats/ids.h"
+#include "formats/temp_files.h"
 
 namespace fs = std::filesystem;
 
@@ -18,22 +18,12 @@ namespace {
 
 std::string errno_text() { return std::strerror(errno); }
 
-void remove_with_side_files(const std::string& path) {
-  std::error_code ec;
-  for (const char* suffix : {"", "-journal", "-wal", "-shm"}) fs::remove(path + suffix, ec);
-}
-
 fs::path folder_of(const std::string& path) {
   fs::path dir = fs::path(path).parent_path();
   return dir.empty() ? fs::path(".") : dir;
 }
 
 }  // namespace
-
-std::string temporary_path_beside(const std::string& target) {
-  const fs::path t(target);
-  return (t.parent_path() / ("." + t.filename().string() + "." + new_uuid().substr(0, 8) + ".tmp")).string();
-}
 
 void sync_to_disk(const std::string& path) {
   const int fd = ::open(path.c_str(), O_RDONLY | O_CLOEXEC);
@@ -58,12 +48,12 @@ void replace_file_atomically(const std::string& path, const std::function<void(c
   std::error_code ec;
   const fs::path dir = folder_of(path);
   if (!fs::is_directory(dir, ec)) throw std::runtime_error("cannot write " + path + ": no folder " + dir.string());
-  const std::string tmp = temporary_path_beside(path);
+  TempPath tmp(path);  // removed with its SQLite companions unless released
   try {
-    fill(tmp);
-    move_into_place(tmp, path);
+    fill(tmp.path());
+    move_into_place(tmp.path(), path);
+    tmp.release();
   } catch (const std::exception& e) {
-    remove_with_side_files(tmp);
     throw std::runtime_error("cannot write " + path + ": " + e.what());
   }
 }

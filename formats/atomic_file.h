@@ -1,8 +1,9 @@
 // Replacing a file all at once, so that a crash or a power cut leaves either the
 // old file or the new one, never half of either. The new content goes to a
 // temporary file beside the target (same folder, so the rename stays on one file
-// system), is flushed to disk with fsync, renamed over the target, and the
-// folder is fsynced so the rename itself is durable (POSIX.1-2017: rename() replaces
+// system; a TempPath of formats/temp_files.h, so that it is removed on any exit
+// and, after a SIGKILL, at the next start), is flushed to disk with fsync,
+// renamed over the target, and the folder is fsynced so the rename itself is durable (POSIX.1-2017: rename() replaces
 // the target atomically; fsync() of the file, then of its folder, makes the data
 // and the new folder entry durable).
 #pragma once
@@ -11,9 +12,6 @@
 #include <string_view>
 
 namespace cairn::formats {
-
-// The temporary name used beside TARGET: ".NAME.XXXXXXXX.tmp" (random hex).
-std::string temporary_path_beside(const std::string& target);
 
 // Flushes a file or a folder to disk (fsync). Throws std::runtime_error naming PATH.
 void sync_to_disk(const std::string& path);

@@ -73,11 +73,21 @@ TEST(AtomicFile, AMissingFolderIsNamed) {
   }
 }
 
-TEST(AtomicFile, TheTemporaryNameIsBesideTheTarget) {
-  const std::string t = temporary_path_beside("/some/folder/camp.gpkg");
-  EXPECT_EQ(fs::path(t).parent_path(), fs::path("/some/folder"));
-  EXPECT_EQ(fs::path(t).filename().string().rfind(".camp.gpkg.", 0), 0u) << t;
-  EXPECT_NE(t, temporary_path_beside("/some/folder/camp.gpkg"));  // random part
+TEST(AtomicFile, TheTemporaryFileIsBesideTheTargetAndRegistered) {
+  Scratch s;
+  const std::string target = (s.dir / "camp.gpkg").string();
+  std::string seen;
+  write_file_atomically(target, "x");  // warm: the writer itself works
+  replace_file_atomically(target, [&](const std::string& tmp) {
+    seen = tmp;
+    std::ofstream(tmp) << "y";
+  });
+  EXPECT_EQ(fs::path(seen).parent_path(), s.dir);
+  // The temp registry's name (formats/temp_files.h): TARGET.tmp-PID-xxxxxxxx, so that a
+  // later run can clean it up after a SIGKILL.
+  EXPECT_EQ(fs::path(seen).filename().string().rfind("camp.gpkg.tmp-" + std::to_string(::getpid()) + "-", 0), 0u)
+      << seen;
+  EXPECT_EQ(slurp(target), "y");
 }
 
 TEST(AtomicFile, MoveIntoPlaceReplacesTheTargetAndKeepsTheSourceOnFailure) {
