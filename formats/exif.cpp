@@ -81,7 +81,8 @@ std::optional<double> coordinate(ExifData* d, ExifTag ref_tag, ExifTag tag, char
   }
   const double deg = (*v)[0], min = (*v)[1], sec = (*v)[2];
   const double value = deg + min / 60 + sec / 3600;
-  if (min >= 60 || sec >= 60 || value > limit) {
+  // Writers round 17' 59.9999" up to 17' 60" (exiftool does): 60 itself is accepted.
+  if (min > 60 || sec > 60 || value > limit) {
     notes.push_back(fmt::format("{}: {} {} {} is not a {} in degrees, minutes, seconds", name, deg, min, sec,
                                 limit == 90 ? "latitude" : "longitude"));
     return std::nullopt;
@@ -256,8 +257,7 @@ Result<std::string> write_exif_jpeg(std::string_view jpeg, const ExifToWrite& w)
   if (!buf || len == 0 || len + 2 > 0xFFFF) return R::failure("write_exif_jpeg: libexif wrote no EXIF block");
   // After SOI, and after a JFIF APP0 segment when there is one.
   size_t at = 2;
-  if (static_cast<unsigned char>(jpeg[2]) == 0xFF && static_cast<unsigned char>(jpeg[3]) == 0xE0 &&
-      jpeg.size() >= 6) {
+  if (static_cast<unsigned char>(jpeg[2]) == 0xFF && static_cast<unsigned char>(jpeg[3]) == 0xE0 && jpeg.size() >= 6) {
     const size_t seg = (static_cast<unsigned char>(jpeg[4]) << 8 | static_cast<unsigned char>(jpeg[5]));
     if (4 + seg <= jpeg.size()) at = 4 + seg;
   }

@@ -121,7 +121,8 @@ std::vector<PhotoMatch> match_photos(const std::vector<MatchStation>& stations, 
                fmt::format("T{:02d}:{:02d}:{:02d}", hms.hours().count(), hms.minutes().count(), hms.seconds().count());
       if (fixed->utc_offset) {
         const long long o = fixed->utc_offset->count();
-        m.time += o == 0 ? "Z" : fmt::format("{}{:02d}:{:02d}", o < 0 ? '-' : '+', std::llabs(o) / 60, std::llabs(o) % 60);
+        m.time +=
+            o == 0 ? "Z" : fmt::format("{}{:02d}:{:02d}", o < 0 ? '-' : '+', std::llabs(o) / 60, std::llabs(o) % 60);
       }
     }
     struct Candidate {
@@ -144,7 +145,7 @@ std::vector<PhotoMatch> match_photos(const std::vector<MatchStation>& stations, 
         } else if (nearest_gap < 0 || std::fabs(after) < nearest_gap) {
           nearest_gap = std::fabs(after);
           nearest_code = visits[i].s->code + (after < 0 ? " is " + duration_text(after) + " later"
-                                                         : " is " + duration_text(after) + " earlier");
+                                                        : " is " + duration_text(after) + " earlier");
         }
       }
     }
@@ -160,8 +161,9 @@ std::vector<PhotoMatch> match_photos(const std::vector<MatchStation>& stations, 
       pick = &*std::min_element(cands.begin(), cands.end(),
                                 [](const Candidate& a, const Candidate& b) { return *a.distance < *b.distance; });
       if (*pick->distance > rules.max_distance) {
-        m.reason = fmt::format("the station in time, {}, is {:.0f} m from the photo's position, beyond the {:.0f} m limit",
-                               pick->s->code, *pick->distance, rules.max_distance);
+        m.reason =
+            fmt::format("the station in time, {}, is {:.0f} m from the photo's position, beyond the {:.0f} m limit",
+                        pick->s->code, *pick->distance, rules.max_distance);
         out.push_back(m);
         continue;
       }

@@ -51,9 +51,9 @@ struct MatchRules {
 };
 
 struct PhotoMatch {
-  std::string station;       // station UUID, "" when unmatched
-  std::string code;          // station code, ""
-  std::string time;          // corrected time ("" when the photo had none)
+  std::string station;             // station UUID, "" when unmatched
+  std::string code;                // station code, ""
+  std::string time;                // corrected time ("" when the photo had none)
   std::optional<double> distance;  // metres from the station (when the photo has a position)
   double seconds_after = 0;        // corrected time minus the station's time
   std::string reason;              // why unmatched ("" when matched)

@@ -61,7 +61,9 @@ class Exif : public ::testing::Test {
     }
     return f;
   }
-  std::string tool(const fs::path& f, const std::string& tag) { return run("exiftool -n -s3 -" + tag + " '" + f.string() + "'"); }
+  std::string tool(const fs::path& f, const std::string& tag) {
+    return run("exiftool -n -s3 -" + tag + " '" + f.string() + "'");
+  }
   fs::path dir_;
 };
 
@@ -95,6 +97,16 @@ TEST_F(Exif, NorthEastWithoutOffsetOrAltitude) {
   EXPECT_NEAR(*r->lat, std::stod(tool(f, "Composite:GPSLatitude")), 1e-9);
   EXPECT_NEAR(*r->lon, std::stod(tool(f, "Composite:GPSLongitude")), 1e-9);
   EXPECT_FALSE(r->altitude);
+}
+
+TEST_F(Exif, SixtySecondsAsExiftoolRoundsThem) {
+  // exiftool writes 61.3 degrees as 61 17 60 (seconds rounded up) and reads it as 61.3.
+  const fs::path f = photo("s.jpg", "-GPSLatitude=61.3 -GPSLatitudeRef=N -GPSLongitude=135.6 -GPSLongitudeRef=W");
+  const auto r = read_exif(slurp(f), "s.jpg");
+  ASSERT_TRUE(r.ok()) << r.error();
+  ASSERT_TRUE(r->lat && r->lon) << (r->notes.empty() ? "" : r->notes[0]);
+  EXPECT_NEAR(*r->lat, std::stod(tool(f, "Composite:GPSLatitude")), 1e-9);
+  EXPECT_NEAR(*r->lon, std::stod(tool(f, "Composite:GPSLongitude")), 1e-9);
 }
 
 TEST_F(Exif, NoExifIsEmptyNotAnError) {
@@ -145,10 +157,10 @@ TEST_F(Exif, MissingReferenceIsNotGuessed) {
 
 TEST_F(Exif, NotAJpegOrTooLargeIsRefused) {
   const fs::path png = dir_ / "p.png";
-  ASSERT_EQ(std::system(("/usr/bin/python3 -c \"from PIL import Image; Image.new('RGB',(4,4)).save('" + png.string() +
-                         "')\"")
-                            .c_str()),
-            0);
+  ASSERT_EQ(
+      std::system(("/usr/bin/python3 -c \"from PIL import Image; Image.new('RGB',(4,4)).save('" + png.string() + "')\"")
+                      .c_str()),
+      0);
   const auto r = read_exif(slurp(png), "p.png");
   ASSERT_FALSE(r.ok());
   EXPECT_NE(r.error().find("p.png: not a JPEG"), std::string::npos);
@@ -158,8 +170,9 @@ TEST_F(Exif, NotAJpegOrTooLargeIsRefused) {
 }
 
 TEST_F(Exif, EveryTruncationIsReadWithoutCrashing) {
-  const fs::path f = photo("t.jpg", "'-DateTimeOriginal=2026:07:14 10:32:05' -GPSLatitude=12.5 -GPSLatitudeRef=S "
-                                    "-GPSLongitude=70.25 -GPSLongitudeRef=W");
+  const fs::path f = photo("t.jpg",
+                           "'-DateTimeOriginal=2026:07:14 10:32:05' -GPSLatitude=12.5 -GPSLatitudeRef=S "
+                           "-GPSLongitude=70.25 -GPSLongitudeRef=W");
   const std::string bytes = slurp(f);
   size_t with_time = 0;
   for (size_t n = 0; n <= bytes.size(); ++n) {
