@@ -126,8 +126,7 @@ int run(const PhotosArgs& a, std::ostream& out, std::ostream& err) {
     if (project.read_only()) return 1;
     const auto batch = core::record_photos(project, *plan);
     recorded = batch.added;
-    if (!a.json)
-      out << "recorded " << recorded << " photo reference(s) in one transaction, each in the audit trail\n";
+    if (!a.json) out << "recorded " << recorded << " photo reference(s) in one transaction, each in the audit trail\n";
   } else if (!a.json && n > 0) {
     out << "nothing recorded: run again with --yes to record the " << n << " matched photo reference(s)\n";
   }
@@ -154,7 +153,7 @@ Runner define(CLI::App& app) {
 
 }  // namespace
 
-CAIRN_COMMAND(Command{"photos", "match a folder of photos to their stations by EXIF time and GPS position, and record them",
-                      define});
+CAIRN_COMMAND(Command{
+    "photos", "match a folder of photos to their stations by EXIF time and GPS position, and record them", define});
 
 }  // namespace cairn::cli

@@ -167,7 +167,8 @@ Result<PhotoPlan> plan_photos(store::Project& p, const std::string& folder, cons
   }
 
   std::vector<MatchStation> stations;
-  for (const auto& s : store::list_stations(p)) stations.push_back({s.meta.uuid, s.code, s.observer, s.lat, s.lon, s.time});
+  for (const auto& s : store::list_stations(p))
+    stations.push_back({s.meta.uuid, s.code, s.observer, s.lat, s.lon, s.time});
   const auto matches = match_photos(stations, to_match, plan.rules);
   for (size_t i = 0; i < matches.size(); ++i) {
     PlannedPhoto& pp = plan.photos[index[i]];

@@ -37,16 +37,16 @@ struct PhotoPlanOptions {
 enum class PhotoStatus { Match, Unmatched, Recorded, Unreadable };
 
 struct PlannedPhoto {
-  std::string path;      // relative to the project folder, '/' separated
-  std::string sha256;    // "" when unreadable
+  std::string path;    // relative to the project folder, '/' separated
+  std::string sha256;  // "" when unreadable
   formats::PhotoExif exif;
-  PhotoMatch match;      // station or reason
+  PhotoMatch match;  // station or reason
   PhotoStatus status = PhotoStatus::Unmatched;
   std::string recorded_as;  // Recorded: the path of the reference with the same content
 };
 
 struct PhotoPlan {
-  std::string folder;  // as given
+  std::string folder;                        // as given
   std::string person_uuid, person_initials;  // whose stations ("" = every station)
   std::chrono::seconds clock_offset{0};
   std::string clock_note;  // how the offset was found ("given", "from PHOTO: shown T, EXIF T")

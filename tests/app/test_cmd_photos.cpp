@@ -44,11 +44,13 @@ class PhotosVerb : public CliTest {
     ASSERT_EQ(cairn("import p.cairn stations s.csv").status, 0);
     std::filesystem::create_directories(dir_ / "photos" / "day1");
     // a: 08:48:00 at S1 -> +00:02:10 -> 08:50:10, S1's window opens 08:50 -> S1.
-    photo("photos/day1/a.jpg", 10, "'-DateTimeOriginal=2026:07:14 08:48:00' -GPSLatitude=46.5 -GPSLatitudeRef=N "
-                                   "-GPSLongitude=14.25 -GPSLongitudeRef=E");
+    photo("photos/day1/a.jpg", 10,
+          "'-DateTimeOriginal=2026:07:14 08:48:00' -GPSLatitude=46.5 -GPSLatitudeRef=N "
+          "-GPSLongitude=14.25 -GPSLongitudeRef=E");
     // b: 09:33:00 -> 09:35:10, 11 m south of S2 and 545 m north of S1 -> S2.
-    photo("photos/day1/b.jpg", 20, "'-DateTimeOriginal=2026:07:14 09:33:00' -GPSLatitude=46.5049 -GPSLatitudeRef=N "
-                                   "-GPSLongitude=14.25 -GPSLongitudeRef=E");
+    photo("photos/day1/b.jpg", 20,
+          "'-DateTimeOriginal=2026:07:14 09:33:00' -GPSLatitude=46.5049 -GPSLatitudeRef=N "
+          "-GPSLongitude=14.25 -GPSLongitudeRef=E");
     // c: 10:50:00 -> 10:52:10, after S2's window closed at 10:40 -> not matched.
     photo("photos/day1/c.jpg", 30, "'-DateTimeOriginal=2026:07:14 10:50:00'");
     // d: the same content as a (a copy): recorded once.
@@ -112,6 +114,36 @@ TEST_F(PhotosVerb, ListsThenRecordsOnceInOneTransaction) {
   ASSERT_EQ(r.status, 0) << r.err;
   EXPECT_NE(r.out.find("0 to record, 1 not matched, 3 already recorded"), std::string::npos) << r.out;
   EXPECT_EQ(recorded().size(), 2u);
+}
+
+// The GeoPackage's photos layer read back by GDAL (ogr2ogr, reprojecting to
+// WGS84 with PROJ): one point per reference at its station's position.
+// Merge: a warning per photo file missing beside the camp file.
+TEST_F(PhotosVerb, ExportLayerAndMergeWarnings) {
+  ASSERT_EQ(cairn("photos p.cairn photos --clock-offset +00:02:10 --person AB --yes").status, 0);
+  ASSERT_EQ(cairn("export p.cairn out.gpkg").status, 0);
+  const std::string csv =
+      shell("ogr2ogr -f CSV /vsistdout/ '" + file("out.gpkg") +
+            "' photos -t_srs EPSG:4326 -lco GEOMETRY=AS_XY -select station,path,caption,sha256,time");
+  ASSERT_FALSE(csv.empty()) << "ogr2ogr (gdal-bin) missing or failed";
+  EXPECT_EQ(csv.substr(0, csv.find('\n')), "X,Y,station,path,caption,sha256,time");
+  const std::string sha_a = shell("sha256sum '" + file("photos/day1/a.jpg") + "'").substr(0, 64);
+  EXPECT_NE(csv.find("14.25,46.5,S1,photos/day1/a.jpg,," + sha_a + ",2026-07-14T08:50:10"), std::string::npos) << csv;
+  EXPECT_NE(csv.find("14.25,46.505,S2,photos/day1/b.jpg,,"), std::string::npos) << csv;
+
+  std::filesystem::create_directories(dir_ / "camp");
+  Outcome r = cairn("merge camp/camp.cairn p.cairn --json");
+  ASSERT_EQ(r.status, 0) << r.err;
+  EXPECT_NE(r.out.find("photo file photos/day1/a.jpg (station S1) is missing beside camp/camp.cairn"),
+            std::string::npos)
+      << r.out;
+  EXPECT_NE(r.out.find("photo file photos/day1/b.jpg (station S2) is missing"), std::string::npos) << r.out;
+  std::filesystem::create_directories(dir_ / "camp" / "photos" / "day1");
+  std::filesystem::copy_file(file("photos/day1/a.jpg"), file("camp/photos/day1/a.jpg"));
+  r = cairn("merge camp/camp.cairn p.cairn");
+  ASSERT_EQ(r.status, 0) << r.err;
+  EXPECT_EQ(r.out.find("photos/day1/a.jpg (station S1) is missing"), std::string::npos) << r.out;
+  EXPECT_NE(r.out.find("photos/day1/b.jpg (station S2) is missing"), std::string::npos) << r.out;
 }
 
 TEST_F(PhotosVerb, ClockFromAPhotoOfTheTabletClock) {
