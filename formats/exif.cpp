@@ -233,7 +233,6 @@ Result<std::string> write_exif_jpeg(std::string_view jpeg, const ExifToWrite& w)
   exif_time[10] = ' ';
   ExifPtr d(exif_data_new());
   exif_data_set_byte_order(d.get(), EXIF_BYTE_ORDER_INTEL);
-  exif_data_unset_option(d.get(), EXIF_DATA_OPTION_FOLLOW_SPECIFICATION);
   put_ascii(d.get(), EXIF_IFD_EXIF, EXIF_TAG_DATE_TIME_ORIGINAL, exif_time);
   if (w.lat && w.lon) {
     ExifEntry* v = new_entry(d.get(), EXIF_IFD_GPS, kGpsVersion, EXIF_FORMAT_BYTE, 4);
@@ -250,6 +249,8 @@ Result<std::string> write_exif_jpeg(std::string_view jpeg, const ExifToWrite& w)
                         {static_cast<ExifLong>(std::lround(std::fabs(*w.altitude) * 100)), 100});
     }
   }
+  // The tags EXIF requires (ExifVersion, resolution, ...), with libexif's defaults.
+  exif_data_fix(d.get());
   unsigned char* buf = nullptr;
   unsigned int len = 0;
   exif_data_save_data(d.get(), &buf, &len);
