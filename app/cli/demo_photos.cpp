@@ -83,7 +83,7 @@ std::string write_demo_photos(const fs::path& dir, const Area& area, store::Proj
     formats::ExifToWrite w;
     // Taken 2 to 7 minutes after the station was recorded, by a camera 2 min 10 s behind.
     w.time = camera_time(s.time, 120 + 60 * (i % 6) - behind);
-    if (i % 4 != 3) {  // every fourth photo from a camera without GPS
+    if (i % 4 != 3) {                           // every fourth photo from a camera without GPS
       w.lat = s.lat + 0.00004 * ((i % 3) - 1);  // a few metres from the station
       w.lon = s.lon + 0.00006 * ((i % 2) ? 1 : -1);
       if (s.elevation) w.altitude = *s.elevation + 1.5;
@@ -101,10 +101,10 @@ std::string write_demo_photos(const fs::path& dir, const Area& area, store::Proj
   const auto plan = core::plan_photos(camp, folder.string(), o);
   if (!plan) throw std::logic_error("the demo's photos do not match: " + plan.error());
   const auto batch = core::record_photos(camp, *plan);
-  return fmt::format("  photos/         {} JPEGs with EXIF (camera clock {} behind), {} matched to RO's stations "
-                     "and recorded in camp.cairn, {} left unmatched\n",
-                     kMatched + 1, std::string(kDemoClockOffset).substr(1), batch.added,
-                     plan->count(core::PhotoStatus::Unmatched));
+  return fmt::format(
+      "  photos/         {} JPEGs with EXIF (camera clock {} behind), {} matched to RO's stations "
+      "and recorded in camp.cairn, {} left unmatched\n",
+      kMatched + 1, std::string(kDemoClockOffset).substr(1), batch.added, plan->count(core::PhotoStatus::Unmatched));
 }
 
 }  // namespace cairn::cli::demo

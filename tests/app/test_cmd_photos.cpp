@@ -146,6 +146,25 @@ TEST_F(PhotosVerb, ExportLayerAndMergeWarnings) {
   EXPECT_NE(r.out.find("photos/day1/b.jpg (station S2) is missing"), std::string::npos) << r.out;
 }
 
+// The report embeds each photo's thumbnail as a JPEG data: URI (RFC 2397);
+// Python's base64 and Pillow (outside readers) decode them.
+TEST_F(PhotosVerb, ReportEmbedsThumbnails) {
+  ASSERT_EQ(cairn("photos p.cairn photos --clock-offset +00:02:10 --person AB --yes").status, 0);
+  Outcome r = cairn("report p.cairn -o r.html");
+  ASSERT_EQ(r.status, 0) << r.err;
+  const std::string py =
+      "/usr/bin/python3 -c \"import re,base64,io,sys; from PIL import Image; "
+      "t=open(sys.argv[1]).read(); "
+      "[print(Image.open(io.BytesIO(base64.b64decode(m))).format, Image.open(io.BytesIO(base64.b64decode(m))).size) "
+      "for m in re.findall(r'src=.data:image/jpeg;base64,([A-Za-z0-9+/=]+)', t)]\" '" +
+      file("r.html") + "'";
+  // Pillow made the photos 40 x 30 pixels; they are below the thumbnail size, so kept as they are.
+  EXPECT_EQ(shell(py), "JPEG (40, 30)\nJPEG (40, 30)\n");
+  const std::string html = slurp(file("r.html"));
+  EXPECT_NE(html.find("<b>S1</b> photos/day1/a.jpg"), std::string::npos);
+  EXPECT_EQ(html.find("src=\"http"), std::string::npos);  // nothing fetched
+}
+
 TEST_F(PhotosVerb, ClockFromAPhotoOfTheTabletClock) {
   // The camera wrote 10:29:55 while the tablet's clock showed 10:32:05: +00:02:10.
   photo("clock.jpg", 40, "'-DateTimeOriginal=2026:07:14 10:29:55'");

@@ -182,6 +182,30 @@ TEST_F(Exif, EveryTruncationIsReadWithoutCrashing) {
   EXPECT_GT(with_time, 0u);  // the whole file at least
 }
 
+// Thumbnails (formats/image.h): Pillow's picture size, and the scaled size worked
+// by hand (800 x 600 to a longer side of 256: 256 x 192).
+TEST_F(Exif, ThumbnailDecodedAndScaled) {
+  const fs::path f = dir_ / "big.jpg";
+  ASSERT_EQ(std::system(("/usr/bin/python3 -c \"from PIL import Image; Image.new('RGB',(800,600),(200,40,40)).save('" +
+                         f.string() + "', quality=90)\"")
+                            .c_str()),
+            0);
+  const auto pic = decode_jpeg(slurp(f), "big.jpg");
+  ASSERT_TRUE(pic.ok()) << pic.error();
+  EXPECT_EQ(pic->width, 800);
+  EXPECT_EQ(pic->height, 600);
+  const Picture t = scale_to_fit(*pic, 256);
+  EXPECT_EQ(t.width, 256);
+  EXPECT_EQ(t.height, 192);
+  EXPECT_NEAR(t.rgb[0], 200, 6);  // Pillow's red survives JPEG and scaling within a few levels
+  const fs::path out = dir_ / "thumb.jpg";
+  std::ofstream(out, std::ios::binary) << encode_jpeg(t);
+  EXPECT_EQ(tool(out, "ImageSize"), "256 192");
+  EXPECT_FALSE(decode_jpeg("not a jpeg", "x.jpg").ok());
+  std::string truncated = slurp(f).substr(0, 40);
+  EXPECT_FALSE(decode_jpeg(truncated, "t.jpg").ok());
+}
+
 TEST_F(Exif, WrittenExifReadsBackInExiftool) {
   Picture p;
   p.width = 16, p.height = 12;
