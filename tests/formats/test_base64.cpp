@@ -24,7 +24,8 @@ TEST(Base64, EveryByteAsPythonEncodesIt) {
   std::string all;
   for (int i = 0; i < 256; ++i) all += static_cast<char>(255 - i);
   std::unique_ptr<FILE, int (*)(FILE*)> p(
-      popen("/usr/bin/python3 -c \"import base64,sys; sys.stdout.write(base64.b64encode(bytes(range(255,-1,-1))).decode())\"",
+      popen("/usr/bin/python3 -c \"import base64,sys; "
+            "sys.stdout.write(base64.b64encode(bytes(range(255,-1,-1))).decode())\"",
             "r"),
       pclose);
   ASSERT_TRUE(p);
