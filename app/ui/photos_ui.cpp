@@ -198,8 +198,8 @@ void camp_photos(App& a) {
             std::string l = x.path;
             if (x.status == core::PhotoStatus::Match)
               l += " -> " + x.match.code +
-                   (x.match.distance ? fmt::format(", {:.0f} m", *x.match.distance) : std::string(", no GPS")) +
-                   ", " + (x.match.seconds_after < 0 ? "-" : "+") + core::duration_text(x.match.seconds_after);
+                   (x.match.distance ? fmt::format(", {:.0f} m", *x.match.distance) : std::string(", no GPS")) + ", " +
+                   (x.match.seconds_after < 0 ? "-" : "+") + core::duration_text(x.match.seconds_after);
             else if (x.status == core::PhotoStatus::Recorded)
               l += ": already recorded";
             else
