@@ -4,17 +4,18 @@
 set -euo pipefail
 want=(cmake g++ make pkg-config libeigen3-dev libgeographiclib-dev libsqlite3-dev
       libsdl2-dev libimgui-dev libstb-dev libgps-dev libgtest-dev fonts-dejavu-core libgdal-dev zlib1g-dev
-      libfmt-dev nlohmann-json3-dev libcli11-dev libhowardhinnant-date-dev libexpat1-dev libpq-dev)
+      libfmt-dev nlohmann-json3-dev libcli11-dev libhowardhinnant-date-dev libexpat1-dev libpq-dev libexif-dev)
 if [ "${1:-}" = "--test" ]; then
   # Outside references for the tests: numpy, PROJ (pyproj), GDAL's ogrinfo, gdaldem,
   # gdal_contour, gdallocationinfo and its Python bindings,
   # a virtual display for the UI, headless Chromium for the report, gpsd for GPS replay,
   # PostgreSQL + PostGIS for a throwaway survey store (tests/survey/pg_cluster.sh),
   # xmllint for GPX output, clang with its libFuzzer and sanitizer runtimes for
-  # scripts/ci-sanitize.sh.
+  # scripts/ci-sanitize.sh, exiftool for the photos' EXIF and Pillow to make test photos.
   want+=(xvfb xauth python3 python3-numpy python3-pyproj gdal-bin python3-gdal chromium
          mesa-utils libgl1-mesa-dri gpsd gpsd-clients dpkg-dev git clang-format
-         postgresql-15 postgresql-15-postgis-3 libxml2-utils clang libclang-rt-14-dev ccache)
+         postgresql-15 postgresql-15-postgis-3 libxml2-utils clang libclang-rt-14-dev ccache
+         libimage-exiftool-perl python3-pil)
 fi
 missing=()
 for p in "${want[@]}"; do

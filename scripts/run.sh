@@ -14,6 +14,7 @@ if [ ! -f "$work/camp.cairn" ]; then
   if [ -f "$here/demo_project/camp.cairn" ]; then
     mkdir -p "$work"
     cp "$here"/demo_project/*.cairn "$here"/demo_project/*.csv "$here"/demo_project/*.gpx "$work"/
+    if [ -d "$here/demo_project/photos" ]; then cp -r "$here/demo_project/photos" "$work"/; fi
   else
     "$cairn" demo "$work" --force >/dev/null
   fi

@@ -1157,6 +1157,35 @@ class Merger {
 
 }  // namespace
 
+namespace {
+
+// Most lines of missing photo files in one report; the rest are counted.
+constexpr int kMaxMissingPhotoLines = 100;
+
+// A warning for each live photo reference whose file is not beside the target
+// (photos travel apart from the project file; the merge never refuses for them).
+void missing_photo_warnings(Project& p, MergeReport& rep) {
+  const fs::path base = fs::absolute(p.path()).parent_path();
+  Stmt s(p.db(),
+         "SELECT ph.path, COALESCE(st.code, '') FROM photos ph LEFT JOIN stations st ON st.uuid = ph.station "
+         "WHERE ph.deleted IS NULL ORDER BY ph.path, ph.uuid");
+  int missing = 0;
+  while (s.step()) {
+    const std::string path = s.text(0), code = s.text(1);
+    if (formats::check_photo_path(path)) continue;  // never looked up outside the project folder
+    std::error_code ec;
+    if (fs::is_regular_file(base / path, ec)) continue;
+    if (++missing <= kMaxMissingPhotoLines)
+      rep.warnings.push_back("photo file " + path + (code.empty() ? "" : " (station " + code + ")") +
+                             " is missing beside " + p.path() + ": copy it there from the tablet or camera");
+  }
+  if (missing > kMaxMissingPhotoLines)
+    rep.warnings.push_back("... and " + std::to_string(missing - kMaxMissingPhotoLines) +
+                           " more photo files missing beside " + p.path());
+}
+
+}  // namespace
+
 MergeReport merge_files(Project& target, const std::vector<std::string>& sources, const MergeOptions& options) {
   if (sources.empty()) throw std::invalid_argument("no source files to merge");
   std::error_code ec;
@@ -1177,6 +1206,7 @@ MergeReport merge_files(Project& target, const std::vector<std::string>& sources
     m.dangling_warnings();
     m.names();
   });
+  missing_photo_warnings(target, rep);
   return rep;
 }
 

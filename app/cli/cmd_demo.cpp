@@ -5,6 +5,7 @@
 
 #include "app/cli/command.h"
 #include "app/cli/demo_area.h"
+#include "app/cli/demo_photos.h"
 #include "app/cli/project_access.h"
 #include "formats/raster.h"
 #include "storage/import.h"
@@ -123,6 +124,7 @@ int run_demo(const DemoArgs& a, std::ostream& out, std::ostream&) {
     throw std::logic_error("the demo's tablets should merge without conflicts");
   check_import(store::import_csv(camp, store::ImportKind::Planes, area.notebook_csv, "notebook.csv"), "notebook");
   check_import(store::import_gpx(camp, area.gpx, "handheld.gpx", area.gpx_contact), "handheld waypoints");
+  const std::string photos = demo::write_demo_photos(dir, area, camp);
 
   out << "Demo field area \"" << area.project_name << "\" written to " << dir.string() << ":\n"
       << "  tablet-a.cairn  " << area.a.stations.size() << " stations, " << area.a.planes.size() << " planar and "
@@ -133,7 +135,7 @@ int run_demo(const DemoArgs& a, std::ostream& out, std::ostream&) {
       << "  handheld.gpx    waypoints along the " << area.gpx_contact << "\n"
       << "  terrain.tif     the area's ground (GeoTIFF, UTM zone 8N), attached to every project file\n"
       << "  camp.cairn      the two tablets merged, the notebook and the waypoints imported\n"
-      << "Next: cairn check " << (dir / "camp.cairn").string() << "\n";
+      << photos << "Next: cairn check " << (dir / "camp.cairn").string() << "\n";
   return 0;
 }
 

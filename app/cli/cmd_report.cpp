@@ -12,6 +12,7 @@
 #include "app/cli/command.h"
 #include "app/cli/magnetic_source.h"
 #include "app/cli/report_html.h"
+#include "app/core/photo_thumbs.h"
 #include "formats/atomic_file.h"
 #include "geomath/crosscheck.h"
 #include "app/core/check_input.h"
@@ -132,6 +133,17 @@ int run_report(const ReportArgs& a, std::ostream& out, std::ostream& err) {
   if (const auto t = store::terrain_info(p); t && t->epsg == formats::utm_epsg(d.check.zone)) {
     d.terrain = store::load_terrain(p);
     d.terrain_sigma = t->vertical_accuracy;
+  }
+
+  for (const auto& ph : store::list_photos(p)) {
+    ReportPhoto rp{ph, "", "", true};
+    if (const auto t = core::load_thumbnail(args[0], ph)) {
+      rp.thumbnail_jpeg = formats::encode_jpeg(t->picture, 75);
+      rp.content_matches = t->content_matches;
+    } else {
+      rp.problem = t.error();
+    }
+    d.photos.push_back(std::move(rp));
   }
 
   formats::write_file_atomically(*output, render_report_html(d));

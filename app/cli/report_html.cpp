@@ -1,5 +1,7 @@
 #include "app/cli/report_html.h"
 
+#include "formats/base64.h"
+
 #include <algorithm>
 #include <cmath>
 #include <cstdio>
@@ -648,6 +650,40 @@ void write_contact_nets(std::ostream& o, const ReportData& d, const Index& ix) {
   o << "</section>\n";
 }
 
+// ---------------------------------------------------------------- photos
+
+// Thumbnails by station (in the stations' order), each a JPEG data: URI (RFC 2397).
+void write_photos(std::ostream& o, const ReportData& d, const Index& ix) {
+  if (d.photos.empty()) return;
+  o << "<section id=\"photos\"><h2>Photos</h2>\n<div class=\"photos\">\n";
+  std::vector<const ReportPhoto*> order;
+  for (const auto& p : d.photos) order.push_back(&p);
+  std::unordered_map<std::string, size_t> rank;
+  for (size_t i = 0; i < d.stations.size(); ++i) rank[d.stations[i].meta.uuid] = i;
+  const auto rank_of = [&](const ReportPhoto* p) {
+    const auto it = rank.find(p->photo.station);
+    return it == rank.end() ? d.stations.size() : it->second;
+  };
+  std::stable_sort(order.begin(), order.end(),
+                   [&](const ReportPhoto* a, const ReportPhoto* b) { return rank_of(a) < rank_of(b); });
+  for (const ReportPhoto* p : order) {
+    const auto st = ix.station.find(p->photo.station);
+    const std::string code = st == ix.station.end() ? std::string("no station") : st->second->code;
+    o << "<figure class=\"photo\">";
+    if (!p->thumbnail_jpeg.empty())
+      o << "<img src=\"data:image/jpeg;base64," << formats::base64_encode(p->thumbnail_jpeg) << "\" alt=\""
+        << esc(p->photo.path) << "\">";
+    else
+      o << "<p class=\"small\">" << esc(p->problem) << "</p>";
+    o << "<figcaption><b>" << esc(code) << "</b> " << esc(p->photo.path);
+    if (!p->photo.time.empty()) o << "<br>" << esc(p->photo.time);
+    if (!p->photo.caption.empty()) o << "<br>" << esc(p->photo.caption);
+    if (!p->content_matches) o << "<br><b>the file is not the one recorded (SHA-256 differs)</b>";
+    o << "</figcaption></figure>\n";
+  }
+  o << "</div>\n</section>\n";
+}
+
 // ---------------------------------------------------------------- page
 
 const char* const kCss = R"CSS(
@@ -679,6 +715,8 @@ tr.sev-conflict td { background: #fdf6e6; }
 figure { margin: 2mm 0; }
 figure svg { display: block; width: 100%; height: auto; }
 figure.plan svg { max-height: 225mm; border: 0; }
+.photos { display: grid; grid-template-columns: repeat(auto-fill, minmax(42mm, 1fr)); gap: 3mm; }
+figure.photo img { display: block; max-width: 100%; height: auto; border: 0.6pt solid #999; }
 .nets { display: grid; grid-template-columns: 1fr 1fr; gap: 4mm 6mm; align-items: start; }
 footer { margin-top: 8mm; font-size: 8pt; color: #555; border-top: 0.6pt solid #999; padding-top: 1.5mm; }
 @media print {
@@ -710,6 +748,7 @@ std::string render_report_html(const ReportData& d) {
   write_fits(o, d, ix);
   write_unit_nets(o, d, ix);
   write_contact_nets(o, d, ix);
+  write_photos(o, d, ix);
   o << "<footer>Nets: " << (d.net == geo::NetKind::EqualArea ? "equal-area (Schmidt)" : "equal-angle (Wulff)")
     << ", lower hemisphere. Kamb (1959) contours at 2σ steps where a unit has 5 or more poles of one kind; "
        "Fisher (1953) mean with α95 and κ for clusters, π-girdle and β with a bootstrap 95% cone when Woodcock's "

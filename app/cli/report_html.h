@@ -2,7 +2,8 @@
 // and SVG, no script, nothing fetched from a network) for the debrief in camp and
 // for supervisors. It holds a summary per day and per person, the declination
 // used, the flags with their cautions, a plan, the contact fits, and nets per
-// unit and per contact. Print rules fit both A4 and Letter.
+// unit and per contact, and the photos' thumbnails (embedded as base64 JPEG data:
+// URIs, RFC 2397). Print rules fit both A4 and Letter.
 //
 // The renderer is pure: the verb (cmd_report.cpp) reads the project and runs the
 // cross-check; this file only turns the result into HTML.
@@ -30,6 +31,14 @@ struct DeclinationSummary {
   double valid_from = 0, valid_to = 0;  // decimal years
 };
 
+// A photo reference with its thumbnail (JPEG bytes), or why there is none.
+struct ReportPhoto {
+  store::Photo photo;
+  std::string thumbnail_jpeg;   // "" when the file could not be read
+  std::string problem;          // why there is no thumbnail
+  bool content_matches = true;  // false: the file is not the one recorded (SHA-256 differs)
+};
+
 struct ReportData {
   std::string file;       // the project file as named on the command line
   std::string generated;  // "2026-06-14 21:05 UTC"
@@ -49,6 +58,7 @@ struct ReportData {
   std::optional<DeclinationSummary> declination;
   std::string declination_problem;  // why there is no summary ("" when there is one)
   geo::NetKind net = geo::NetKind::EqualArea;
+  std::vector<ReportPhoto> photos;  // embedded as data: URIs in the Photos section
 };
 
 std::string render_report_html(const ReportData& d);

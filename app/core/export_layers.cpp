@@ -72,6 +72,7 @@ class Builder {
     planes();
     lines();
     points();
+    photos();
     fitted_contacts();
     flags();
     terrain_layers();
@@ -159,6 +160,26 @@ class Builder {
   std::string station_code(const std::string& uuid) const {
     auto it = station_.find(uuid);
     return it == station_.end() ? std::string() : it->second.code;
+  }
+
+  // Photo references at their station's position (a photo of no station has no geometry).
+  void photos() {
+    Layer l{"photos",
+            "Photos",
+            "Photo references, at their station's position (path relative to the project file).",
+            {},
+            {}};
+    using T = FieldType;
+    l.fields = {{"uuid", T::Text},    {"station", T::Text}, {"path", T::Text},
+                {"caption", T::Text}, {"sha256", T::Text},  {"time", T::Text}};
+    meta_fields(l);
+    for (const auto& ph : list_photos(p_)) {
+      Feature f = at_station(ph.station);
+      f.values = {ph.meta.uuid, text(station_code(ph.station)), ph.path, text(ph.caption), ph.sha256, text(ph.time)};
+      meta_values(f, ph.meta);
+      l.features.push_back(std::move(f));
+    }
+    out_.layers.push_back(std::move(l));
   }
 
   void planes() {

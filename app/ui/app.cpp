@@ -271,6 +271,7 @@ void App::shutdown() {
   gps.stop();
   jobs.join();
   checker.join();
+  photos.textures.clear();  // while the OpenGL context is still there
   if (ImGui::GetCurrentContext()) {
     ImGui_ImplOpenGL3_Shutdown();
     ImGui_ImplSDL2_Shutdown();

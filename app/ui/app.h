@@ -22,6 +22,7 @@
 #include "app/ui/gps.h"
 #include "app/ui/jobs.h"
 #include "app/ui/model.h"
+#include "app/ui/photos_ui.h"
 #include "app/ui/theme.h"
 #include "geomath/track.h"
 #include "storage/merge.h"
@@ -183,6 +184,7 @@ class App {
   CampState camp;
   ReviewState review;
   LogbookState logbook;
+  PhotosUi photos;                // thumbnails of the session, the enlarged photo, the Camp screen's Photos form
   std::string open_error;         // Open screen
   std::string new_name;           // Open screen: name of a new project
   std::vector<Finger> fingers;    // touches now down

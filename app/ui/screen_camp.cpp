@@ -311,6 +311,7 @@ void draw_camp(App& a) {
       });
     });
   }
+  camp_photos(a);
   touch_scroll();
   ImGui::EndChild();
   if (two) ImGui::SameLine();

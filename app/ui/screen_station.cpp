@@ -354,8 +354,7 @@ void station_photos(App& a, const store::Station& s) {
   Look& lk = look();
   const bool writable = !m.project().read_only();
   heading("Photos");
-  for (const store::Photo* ph : m.photos_of(s.meta.uuid))
-    text_wrapped(ph->path + (ph->caption.empty() ? std::string() : "   " + ph->caption));
+  station_thumbnails(a, s);
   const float button_w = label_width("Add photo") + ImGui::GetStyle().ItemSpacing.x;
   const bool one_line = ImGui::GetContentRegionAvail().x - button_w >= lk.m.tap * 4;
   ImGui::SetNextItemWidth(one_line ? ImGui::GetContentRegionAvail().x - button_w : -1);
@@ -455,6 +454,7 @@ void draw_station(App& a) {
   where_next(a, *s);
   touch_scroll();
   ImGui::EndChild();
+  photo_overlay(a);
 }
 
 }  // namespace cairn::ui

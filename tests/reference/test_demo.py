@@ -155,4 +155,26 @@ with tempfile.TemporaryDirectory() as tmp:
         with open(os.path.join(d1, name)) as fa, open(os.path.join(args.source, "demo_project", name)) as fb:
             t.check(fa.read() == fb.read(), "bundled demo_project/%s is the current demo" % name)
 
+    # The demo's photos: a dozen JPEGs under 10 KB each, the same bytes as the
+    # bundled ones, their EXIF time read by exiftool (outside reader); the camp
+    # file has 11 of them recorded and the planted evening photo left unmatched.
+    photos = sorted(os.listdir(os.path.join(d1, "photos")))
+    t.check(len(photos) == 12, "demo writes 12 photos (got %d)" % len(photos))
+    for name in photos:
+        path = os.path.join(d1, "photos", name)
+        t.check(os.path.getsize(path) < 10240, "%s is under 10 KB" % name)
+        with open(path, "rb") as fa, open(os.path.join(args.source, "demo_project", "photos", name), "rb") as fb:
+            t.check(fa.read() == fb.read(), "bundled demo_project/photos/%s is the current demo" % name)
+    if shutil.which("exiftool"):
+        r = subprocess.run(["exiftool", "-j", "-DateTimeOriginal", os.path.join(d1, "photos")],
+                           capture_output=True, text=True)
+        times = [x.get("DateTimeOriginal", "") for x in json.loads(r.stdout)]
+        t.check(len(times) == 12 and all(len(x) == 19 for x in times), "exiftool reads every photo's time")
+    r = run("photos", camp, os.path.join(d1, "photos"), "--person", "RO", "--clock-offset", "+00:02:10", "--json")
+    plan = json.loads(r.stdout)
+    status = [p["status"] for p in plan["photos"]]
+    t.check(status.count("recorded") == 11, "camp.cairn holds 11 photos (%s)" % status)
+    unmatched = [p["path"] for p in plan["photos"] if p["status"] == "unmatched"]
+    t.check(unmatched == ["photos/IMG_0112.JPG"], "the evening photo is the one unmatched (%s)" % unmatched)
+
 sys.exit(t.finish())

@@ -93,7 +93,7 @@ with tempfile.TemporaryDirectory() as tmp:
     if found:
         deb = os.path.join(debs, found[0])
         depends = subprocess.run(["dpkg-deb", "-f", deb, "Depends"], capture_output=True, text=True).stdout
-        for lib in ("libsqlite3", "libgeographiclib", "libsdl2", "libc6"):
+        for lib in ("libsqlite3", "libgeographiclib", "libsdl2", "libc6", "libexif12"):
             t.check(lib in depends, "the package depends on %s: %s" % (lib, depends.strip()))
         root = os.path.join(tmp, "root")
         r = subprocess.run(["dpkg", "-x", deb, root], capture_output=True, text=True)
