@@ -70,11 +70,13 @@ Result<std::pair<std::string, std::string>> whose(store::Project& p, const std::
   const std::set<std::string>& pick = mine.size() == 1 ? mine : all;
   if (pick.empty()) return std::make_pair(std::string(), std::string());
   if (pick.size() > 1) {
-    std::string names;
+    std::set<std::string> initials;  // sorted by initials, so the message is the same every time
     for (const auto& u : pick) {
       const auto q = store::get_person(p, u);
-      names += (names.empty() ? "" : ", ") + (q ? q->initials : u);
+      initials.insert(q ? q->initials : u);
     }
+    std::string names;
+    for (const auto& i : initials) names += (names.empty() ? "" : ", ") + i;
     return R::failure("the stations are by several people (" + names +
                       "): say whose photos these are with --person INITIALS");
   }
