@@ -127,6 +127,8 @@ struct SourceMerge {
   std::map<std::string, MergeCounts> by_person;  // person UUID ("" = unknown) -> counts
   int devices_added = 0;
   int audit_added = 0;  // audit rows new to the target
+  // Day-track fixes (storage/track.h) new to the target, and those it had already.
+  long track_added = 0, track_skipped = 0;
   // What the source holds that Cairn does not merge: "table NAME" for a table
   // Cairn does not know, "trigger NAME", "view NAME". Never run, never adopted.
   std::vector<std::string> ignored;
