@@ -5,6 +5,7 @@
 
 #include "app/cli/command.h"
 #include "app/cli/demo_area.h"
+#include "app/cli/demo_track.h"
 #include "app/cli/project_access.h"
 #include "formats/raster.h"
 #include "storage/import.h"
@@ -53,6 +54,7 @@ void write_tablet(const fs::path& dir, const demo::Area& area, const demo::Table
   np.north_default = north;
   store::Project p = store::Project::create((dir / t.file).string(), np, demo_options(t.device_id, t.device_name));
   write_records(p, t);
+  demo::add_demo_tracks(p, t);
 }
 
 void write_text(const fs::path& f, const std::string& text) {

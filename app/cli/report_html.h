@@ -14,6 +14,7 @@
 #include "geomath/crosscheck.h"
 #include "geomath/stereonet.h"
 #include "app/core/check_input.h"
+#include "app/plot/plan_scene.h"
 #include "geomath/terrain.h"
 #include "storage/records.h"
 
@@ -49,6 +50,9 @@ struct ReportData {
   std::optional<DeclinationSummary> declination;
   std::string declination_problem;  // why there is no summary ("" when there is one)
   geo::NetKind net = geo::NetKind::EqualArea;
+  // The day track of the newest day with fixes, drawn on the Plan (app/plot/plan_track.h).
+  std::string track_day;
+  std::vector<plot::PlanPath> tracks;
 };
 
 std::string render_report_html(const ReportData& d);
