@@ -74,8 +74,9 @@ size_t add_demo_tracks(store::Project& p, const Tablet& tablet) {
           const double jitter_e = 2 * std::sin(t * 0.37), jitter_n = 2 * std::cos(t * 0.23);
           const double e = u * de - swing * dn + jitter_e, n = u * dn + swing * de + jitter_n;
           fixes.push_back({t, a.lat + n / m_lat, a.lon + e / m_lon});
-          heights.push_back(a.elevation && b.elevation ? std::optional<double>(*a.elevation + u * (*b.elevation - *a.elevation))
-                                                       : std::nullopt);
+          heights.push_back(a.elevation && b.elevation
+                                ? std::optional<double>(*a.elevation + u * (*b.elevation - *a.elevation))
+                                : std::nullopt);
         }
       }
       if (!stops.empty()) {
@@ -87,8 +88,7 @@ size_t add_demo_tracks(store::Project& p, const Tablet& tablet) {
       for (size_t i = 0; i < fixes.size(); ++i) {
         if (!geo::keep_fix(last, fixes[i])) continue;
         last = fixes[i];
-        store::add_track_point(p, {key.first, utc_text(fixes[i].t), fixes[i].lat, fixes[i].lon,
-                                   heights[i], 4.0});
+        store::add_track_point(p, {key.first, utc_text(fixes[i].t), fixes[i].lat, fixes[i].lon, heights[i], 4.0});
         ++kept;
       }
     }

@@ -47,8 +47,11 @@ TEST(PlanTrack, ADayTrackIsDashedAlongItsFixesAndMarkedAtTheLastOne) {
     if (op.kind == DrawOp::Marker && op.shape == Shape::Square) square = &op;
     if (op.kind == DrawOp::Text && op.text == "MT") label = &op;
   }
-  const std::vector<std::vector<Pt>> want{{{200, 100}, {206, 100}}, {{209, 100}, {215, 100}}, {{218, 100}, {224, 100}},
-                                          {{227, 100}, {227, 94}},  {{227, 91}, {227, 85}}};
+  const std::vector<std::vector<Pt>> want{{{200, 100}, {206, 100}},
+                                          {{209, 100}, {215, 100}},
+                                          {{218, 100}, {224, 100}},
+                                          {{227, 100}, {227, 94}},
+                                          {{227, 91}, {227, 85}}};
   ASSERT_EQ(dashes.size(), want.size());
   for (size_t i = 0; i < want.size(); ++i) {
     ASSERT_EQ(dashes[i].size(), 2u);
