@@ -604,8 +604,8 @@ class Merger {
                               " photo record(s) added; the image files are not copied: copy them beside this file");
     merge_side_tables(src, path, sm);
     if (o_.terrain) merge_terrain_of(src, path, sm);
-    merge_track_of(src, path, sm);
-    report_pick_lists(src, path);
+    if (o_.track) merge_track_of(src, path, sm);
+    if (o_.pick_list_report) report_pick_lists(src, path);
     const bool changed = writes_ > writes_before;
     if (changed) {
       rep_.changed = true;

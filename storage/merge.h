@@ -70,6 +70,11 @@ struct MergeOptions {
   // Carry the sources' terrain (storage/terrain.h). Off for a target that keeps
   // no terrain (the survey store's mirror of a project).
   bool terrain = true;
+  // Carry the sources' day tracks (storage/track.h), and name a source's
+  // pick-list codes the target's lists have not got. Off for a target that
+  // keeps neither (the survey store's mirror of a project).
+  bool track = true;
+  bool pick_list_report = true;
 };
 
 struct MergeCounts {

@@ -160,3 +160,22 @@ TEST(MergeTrack, ATabletsPickListCodesAreReportedNotAdopted) {
   EXPECT_EQ(pick_list(p, PickList::Lithology), std::vector<std::string>{"slate"});
   EXPECT_EQ(pick_list(p, PickList::Structure), std::vector<std::string>{"bedding"});
 }
+
+// The survey store's mirror keeps no day track and no pick-lists
+// (MergeOptions::track, pick_list_report off): nothing of either comes in or is reported.
+TEST(MergeTrack, AMergeAskedToLeaveTheTrackAndTheListsAloneDoesSo) {
+  Camp c;
+  const std::string a = walked(c, "tabletA.cairn", kTabletA, c.legend.person_a, 46.5);
+  {
+    Project p = Project::open(a, device(kTabletA, "tablet A"));
+    add_pick(p, PickList::Lithology, "phyllite");
+  }
+  MergeOptions o;
+  o.track = false;
+  o.pick_list_report = false;
+  const MergeReport r = merge_into(c.camp, {a}, o);
+  EXPECT_EQ(r.sources[0].track_added, 0);
+  for (const auto& w : r.warnings) EXPECT_EQ(w.find("phyllite"), std::string::npos) << w;
+  Project p = Project::open(c.camp, device(kCampDevice, "camp laptop"));
+  EXPECT_TRUE(list_track(p).empty());
+}
