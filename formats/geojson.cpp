@@ -49,17 +49,29 @@ void write_geojson(std::ostream& out, const LayerSet& set) {
       }
       j.key("geometry");
       if (!f.lonlat_parts.empty()) {
-        // RFC 7946 3.1.5 MultiLineString, 3.1.7 MultiPolygon (rings closed, exterior counter-clockwise, 3.1.6).
-        const bool poly = l.geometry == "MULTIPOLYGON";
-        j.begin_object().key("type").value(poly ? "MultiPolygon" : "MultiLineString").key("coordinates").begin_array();
-        for (const auto& part : f.lonlat_parts) {
-          j.begin_array();
-          if (poly) j.begin_array();
-          for (const auto& q : part) j.begin_array().value(coordinate(q[0])).value(coordinate(q[1])).end_array();
-          if (poly) j.end_array();
-          j.end_array();
+        // RFC 7946 3.1.4 LineString, 3.1.5 MultiLineString, 3.1.7 MultiPolygon (rings closed, exterior
+        // counter-clockwise, 3.1.6).
+        const bool poly = l.geometry == "MULTIPOLYGON", single = l.geometry == "LINESTRING";
+        if (single) {
+          j.begin_object().key("type").value("LineString").key("coordinates").begin_array();
+          for (const auto& q : f.lonlat_parts.front())
+            j.begin_array().value(coordinate(q[0])).value(coordinate(q[1])).end_array();
+          j.end_array().end_object();
+        } else {
+          j.begin_object()
+              .key("type")
+              .value(poly ? "MultiPolygon" : "MultiLineString")
+              .key("coordinates")
+              .begin_array();
+          for (const auto& part : f.lonlat_parts) {
+            j.begin_array();
+            if (poly) j.begin_array();
+            for (const auto& q : part) j.begin_array().value(coordinate(q[0])).value(coordinate(q[1])).end_array();
+            if (poly) j.end_array();
+            j.end_array();
+          }
+          j.end_array().end_object();
         }
-        j.end_array().end_object();
       } else if (f.where) {
         // section 3.1.1: longitude first
         j.begin_object().key("type").value("Point").key("coordinates").begin_array();

@@ -43,7 +43,8 @@ struct Layer {
   std::string description;
   std::vector<FieldDef> fields;
   std::vector<Feature> features;
-  // GeoPackage geometry type name (clause 2.1.6): POINT, MULTILINESTRING or MULTIPOLYGON.
+  // GeoPackage geometry type name (clause 2.1.6): POINT, LINESTRING (the first
+  // part of each feature), MULTILINESTRING or MULTIPOLYGON.
   std::string geometry = "POINT";
 };
 

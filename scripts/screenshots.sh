@@ -25,4 +25,5 @@ printf 'wait-idle\n' | shot logbook --view logbook
 printf 'wait-idle\nwait-for "HAZARD"\n' | shot crosscheck-hazard --view crosscheck --flag daylighting
 printf 'wait-idle\ntap "key 0"\ntap "key 3"\ntap "key 5"\ntap "key /"\ntap "key 6"\ntap "key 0"\ntap "Tolm unconformity"\n' |
   shot reading-pad --view pad --station MT-02 --person MT
+printf 'wait-idle\nwait-for "day track"\n' | shot plan-track --view plan
 printf 'wait-idle\ntap "Kamb contours"\ntap "statistics"\nwait 5\n' | shot net-night --view net --night

@@ -107,8 +107,10 @@ std::string gpkg_point(int32_t srs_id, double x, double y) {
 
 // Lines or polygons as GeoPackage binary, the header as for a point with the
 // parts' envelope, then ISO WKB (OGC 06-103r4 clause 8): MultiLineString (type 5)
-// of LineStrings (2), or MultiPolygon (6) of Polygons (3) with one ring each.
-std::string gpkg_multi(int32_t srs_id, bool polygons, const Parts& parts, double env[4]) {
+// of LineStrings (2), or MultiPolygon (6) of Polygons (3) with one ring each;
+// for a LINESTRING layer the first part alone as a LineString (2).
+std::string gpkg_multi(int32_t srs_id, const std::string& geometry, const Parts& parts, double env[4]) {
+  const bool polygons = geometry == "MULTIPOLYGON", single = geometry == "LINESTRING";
   std::string b;
   b += "GP";
   put_u8(b, 0);
@@ -122,10 +124,13 @@ std::string gpkg_multi(int32_t srs_id, bool polygons, const Parts& parts, double
       env[2] = std::min(env[2], q[1]), env[3] = std::max(env[3], q[1]);
     }
   for (int k = 0; k < 4; ++k) put_le_double(b, env[k]);
-  put_u8(b, 1);
-  put_le32(b, polygons ? 6 : 5);
-  put_le32(b, static_cast<uint32_t>(parts.size()));
+  if (!single) {
+    put_u8(b, 1);
+    put_le32(b, polygons ? 6 : 5);
+    put_le32(b, static_cast<uint32_t>(parts.size()));
+  }
   for (const auto& part : parts) {
+    if (single && &part != &parts.front()) break;
     put_u8(b, 1);
     put_le32(b, polygons ? 3 : 2);
     if (polygons) put_le32(b, 1);  // one ring
@@ -243,7 +248,7 @@ void write_geopackage(const std::string& path, const LayerSet& set, int epsg) {
     for (const Feature& f : l.features) {
       if (!f.grid_parts.empty()) {
         double env[4];
-        ins.bind_blob(1, gpkg_multi(epsg, l.geometry == "MULTIPOLYGON", f.grid_parts, env));
+        ins.bind_blob(1, gpkg_multi(epsg, l.geometry, f.grid_parts, env));
         min_x = std::min(min_x, env[0]);
         max_x = std::max(max_x, env[1]);
         min_y = std::min(min_y, env[2]);

@@ -19,6 +19,8 @@
 #include "storage/reviews.h"
 #include "storage/terrain.h"
 #include "geomath/decimal.h"
+#include "storage/track.h"
+#include "storage/pick_lists.h"
 
 namespace fs = std::filesystem;
 
@@ -255,8 +257,9 @@ const char* const kRecordOrder[] = {"people", "units", "contacts", "stations", "
 const std::set<std::string> kOwnTables = {"project", "devices", "audit", "merges", "conflicts", "conflict_values",
                                           "key_clashes", "people", "units", "contacts", "stations", "planes", "lines",
                                           "points", "photos",
-                                          // the terrain merges on its own rules (storage/terrain.h); the
-                                          // pick-lists and day track stay with their camp (storage/SCHEMA.md)
+                                          // the terrain and the day track merge on their own rules
+                                          // (storage/terrain.h, storage/track.h); the pick-lists stay with
+                                          // their camp, a source's extra codes reported (storage/SCHEMA.md)
                                           "terrain", "terrain_tiles", "pick_lists", "track_points"};
 
 // Tables Cairn's modules keep beside the records (rows with the record columns
@@ -465,7 +468,7 @@ Check check_cell(const std::string& table, const Column& c, const Stmt& s, int i
 // records, code clashes, side tables) and refuses the first bad value, naming
 // the file, table, record UUID and rule. Runs before anything is written.
 void validate_source(Db& db, const std::string& path) {
-  std::vector<std::string> tables = {"devices", "audit", "key_clashes"};
+  std::vector<std::string> tables = {"devices", "audit", "key_clashes", "track_points", "pick_lists"};
   for (const char* t : kRecordOrder) tables.push_back(t);
   for (const auto& side : kSideTables) {
     Stmt h(db, "SELECT 1 FROM sqlite_master WHERE type = 'table' AND name = ?");
@@ -475,7 +478,11 @@ void validate_source(Db& db, const std::string& path) {
   for (const auto& name : tables) {
     const Table t = table_info(db, name);
     Stmt s(db, "SELECT " + t.list() + " FROM " + quoted(name));
-    const int id_col = t.uuid >= 0 ? t.uuid : t.col("record");
+    // What names a row: its UUID, the record it is about, a fix's row id, a pick-list code.
+    const int id_col = t.uuid >= 0            ? t.uuid
+                       : t.col("record") >= 0 ? t.col("record")
+                       : t.col("id") >= 0     ? t.col("id")
+                                              : t.col("code");
     while (s.step()) {
       for (size_t i = 0; i < t.cols.size(); ++i) {
         const Check b = check_cell(name, t.cols[i], s, static_cast<int>(i));
@@ -594,6 +601,8 @@ class Merger {
                               " photo record(s) added; the image files are not copied: copy them beside this file");
     merge_side_tables(src, path, sm);
     if (o_.terrain) merge_terrain_of(src, path, sm);
+    if (o_.track) merge_track_of(src, path, sm);
+    if (o_.pick_list_report) report_pick_lists(src, path);
     const bool changed = writes_ > writes_before;
     if (changed) {
       rep_.changed = true;
@@ -692,6 +701,40 @@ class Merger {
     if (m.outcome == TerrainMerge::Skipped) ++sm.counts.skipped;
     if (m.outcome == TerrainMerge::Conflict) ++sm.counts.conflicts;
     if (!m.message.empty()) rep_.warnings.push_back(path + ": " + m.message);
+  }
+
+  // The day track (storage/track.h): every fix the camp has not got, identical ones skipped.
+  void merge_track_of(Source& src, const std::string& path, SourceMerge& sm) {
+    try {
+      const TrackMerge m = merge_track(p_, src.db());
+      sm.track_added = m.added;
+      sm.track_skipped = m.skipped;
+      if (m.added > 0) wrote();
+    } catch (const SqlError& e) {
+      throw std::runtime_error(path + ": day track: " + e.what());
+    } catch (const std::runtime_error& e) {
+      if (o_.fail_after && writes_ > *o_.fail_after) throw;
+      throw std::runtime_error(path + ": " + e.what());
+    }
+  }
+
+  // Pick-lists (storage/pick_lists.h) are the camp's: a source's lithologies and
+  // structure kinds are never adopted; those the camp's lists have not got are
+  // reported so that someone adds them on the Camp screen if they belong.
+  void report_pick_lists(Source& src, const std::string& path) {
+    for (const PickList l : {PickList::Lithology, PickList::Structure}) {
+      const std::vector<std::string> mine = pick_list(p_, l), theirs = pick_list(*src.project, l);
+      std::string extra;
+      size_t n = 0;
+      for (const auto& code : theirs)
+        if (std::find(mine.begin(), mine.end(), code) == mine.end())
+          extra += std::string(n++ ? ", " : "") + terminal_safe(code);
+      if (n == 0) continue;
+      const std::string list(to_string(l));
+      rep_.warnings.push_back(path + ": its " + list + " list has " + std::to_string(n) + " code" +
+                              (n == 1 ? "" : "s") + " this file's list has not (" + extra +
+                              "); the camp's list is kept: add them on the Camp screen if they belong");
+    }
   }
 
   // ---- one record --------------------------------------------------------------

@@ -70,6 +70,11 @@ struct MergeOptions {
   // Carry the sources' terrain (storage/terrain.h). Off for a target that keeps
   // no terrain (the survey store's mirror of a project).
   bool terrain = true;
+  // Carry the sources' day tracks (storage/track.h), and name a source's
+  // pick-list codes the target's lists have not got. Off for a target that
+  // keeps neither (the survey store's mirror of a project).
+  bool track = true;
+  bool pick_list_report = true;
 };
 
 struct MergeCounts {
@@ -127,6 +132,8 @@ struct SourceMerge {
   std::map<std::string, MergeCounts> by_person;  // person UUID ("" = unknown) -> counts
   int devices_added = 0;
   int audit_added = 0;  // audit rows new to the target
+  // Day-track fixes (storage/track.h) new to the target, and those it had already.
+  long track_added = 0, track_skipped = 0;
   // What the source holds that Cairn does not merge: "table NAME" for a table
   // Cairn does not know, "trigger NAME", "view NAME". Never run, never adopted.
   std::vector<std::string> ignored;

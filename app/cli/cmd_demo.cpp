@@ -6,6 +6,7 @@
 #include "app/cli/command.h"
 #include "app/cli/demo_area.h"
 #include "app/cli/demo_photos.h"
+#include "app/cli/demo_track.h"
 #include "app/cli/project_access.h"
 #include "formats/raster.h"
 #include "storage/import.h"
@@ -54,6 +55,7 @@ void write_tablet(const fs::path& dir, const demo::Area& area, const demo::Table
   np.north_default = north;
   store::Project p = store::Project::create((dir / t.file).string(), np, demo_options(t.device_id, t.device_name));
   write_records(p, t);
+  demo::add_demo_tracks(p, t);
 }
 
 void write_text(const fs::path& f, const std::string& text) {

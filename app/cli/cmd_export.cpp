@@ -88,7 +88,8 @@ int run(const ExportArgs& a, std::ostream& out, std::ostream& err) {
 Runner define(CLI::App& app) {
   auto a = std::make_shared<ExportArgs>();
   positional(app, "FILE", a->file, "the project file");
-  positional(app, "OUT", a->target, "OUT.gpkg (GeoPackage), OUT.geojson (GeoJSON) or a FOLDER (CSV files)");
+  positional(app, "OUT", a->target,
+             "OUT.gpkg (GeoPackage), OUT.geojson (GeoJSON), OUT.gpx (the day tracks, GPX 1.1) or a FOLDER (CSV files)");
   flag(app, "--overwrite", a->overwrite,
        "replace an existing OUT file, or the CSV files in a folder that is not empty (never a project file)");
   flag(app, "--json", a->json, "print a JSON summary of what was written");

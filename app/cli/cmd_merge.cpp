@@ -70,6 +70,9 @@ void write_text(std::ostream& out, const std::string& target, const store::Merge
     out << "\n" << s.path << " (\"" << s.name << "\"): " << counts_text(s.counts);
     if (s.audit_added) out << "; " << plural(s.audit_added, "audit row", "audit rows");
     if (s.devices_added) out << "; " << plural(s.devices_added, "new device", "new devices");
+    if (s.track_added || s.track_skipped)
+      out << "; day track: " << s.track_added << " new fix" << (s.track_added == 1 ? "" : "es") << ", "
+          << s.track_skipped << " already here";
     out << "\n";
     if (!s.by_device.empty()) out << "  by device\n";
     for (const auto& [id, c] : s.by_device)
@@ -159,6 +162,8 @@ void write_json(std::ostream& out, const std::string& target, const store::Merge
     counts_json(j, s.counts);
     j.key("audit_rows_added").value(s.audit_added);
     j.key("devices_added").value(s.devices_added);
+    j.key("track_points_added").value(s.track_added);
+    j.key("track_points_skipped").value(s.track_skipped);
     j.key("by_device").begin_array();
     for (const auto& [id, c] : s.by_device) {
       j.begin_object();

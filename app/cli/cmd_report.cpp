@@ -13,6 +13,7 @@
 #include "app/cli/magnetic_source.h"
 #include "app/cli/report_html.h"
 #include "app/core/photo_thumbs.h"
+#include "app/plot/plan_track.h"
 #include "formats/atomic_file.h"
 #include "geomath/crosscheck.h"
 #include "app/core/check_input.h"
@@ -145,6 +146,8 @@ int run_report(const ReportArgs& a, std::ostream& out, std::ostream& err) {
     }
     d.photos.push_back(std::move(rp));
   }
+  d.track_day = plot::newest_track_day(p);
+  d.tracks = plot::day_track_paths(p, d.check.zone, d.track_day);
 
   formats::write_file_atomically(*output, render_report_html(d));
   out << "wrote " << *output << ": " << d.stations.size() << " stations, " << d.result.fits.size() << " contacts, "

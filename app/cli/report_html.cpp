@@ -438,6 +438,8 @@ void write_plan(std::ostream& o, const ReportData& d, const Index& ix) {
     ground_notes = plot::add_terrain(pd, *d.terrain, traced, d.terrain_sigma.value_or(0));
   }
 
+  pd.tracks = d.tracks;
+
   plot::SvgCanvas svg(W, H, 1);
   svg.set_fixed_size(false);
   svg.set_class("plan");
@@ -464,6 +466,10 @@ void write_plan(std::ostream& o, const ReportData& d, const Index& ix) {
     for (size_t i = 0; i < ground_notes.size(); ++i) o << (i ? "; " : "") << esc(ground_notes[i]);
     o << ". Predicted outcrop traces (where each fitted plane meets the ground) are thick lines in the contact's "
          "colour, with their 95% trace bands tinted.";
+  }
+  if (!d.tracks.empty()) {
+    o << " Day track of " << esc(d.track_day) << " (UTC): dashed, one line per person, an open square and the "
+      << "person's initials at the last fix (every day's tracks: <code>cairn export FILE OUT.gpx</code>).";
   }
   o << "</figcaption></figure>\n<p class=\"key\">";
   for (size_t i = 0; i < d.units.size(); ++i)

@@ -15,6 +15,7 @@
 #include "geomath/crosscheck.h"
 #include "geomath/stereonet.h"
 #include "app/core/check_input.h"
+#include "app/plot/plan_scene.h"
 #include "geomath/terrain.h"
 #include "storage/records.h"
 
@@ -59,6 +60,9 @@ struct ReportData {
   std::string declination_problem;  // why there is no summary ("" when there is one)
   geo::NetKind net = geo::NetKind::EqualArea;
   std::vector<ReportPhoto> photos;  // embedded as data: URIs in the Photos section
+  // The day track of the newest day with fixes, drawn on the Plan (app/plot/plan_track.h).
+  std::string track_day;
+  std::vector<plot::PlanPath> tracks;
 };
 
 std::string render_report_html(const ReportData& d);

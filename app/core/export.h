@@ -10,7 +10,10 @@
 //      terrain (storage/terrain.h) also predicted_traces (MultiLineString per
 //      fitted contact: `contact`, `interval` = mean half width in metres of
 //      its 95% trace band across the trace) and trace_bands (MultiPolygon of
-//      the terrain cells inside the band: `contact`, `confidence` = 0.95).
+//      the terrain cells inside the band: `contact`, `confidence` = 0.95);
+//      and day_tracks (LineString per person and UTC day through the day
+//      track's fixes: `person` initials, `day`, `start`, `end`, `fixes`,
+//      `length_m` on the WGS84 ellipsoid; app/core/export_track.h).
 //  - OUT ending in .geojson: one RFC 7946 FeatureCollection in WGS84
 //    longitude/latitude with the same features; RFC 7946 has no layers, so
 //    each feature carries its layer's name in the property "layer".

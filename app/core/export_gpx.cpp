@@ -1,5 +1,6 @@
 // The day tracks as GPX 1.1: one track per person and day, in time order.
 #include <map>
+#include <vector>
 
 #include "formats/gpx_write.h"
 #include "app/core/export.h"
@@ -14,20 +15,17 @@ using namespace cairn::store;  // the project file and its records (storage/)
 ExportSummary export_gpx_tracks(Project& p, const std::string& path) {
   std::map<std::string, std::string> initials;
   for (const auto& who : list_people(p)) initials[who.meta.uuid] = who.initials;
-  // (person, day) -> points, in time order (list_track sorts by time).
-  std::map<std::pair<std::string, std::string>, std::vector<formats::GpxTrackPoint>> days;
-  size_t n = 0;
-  for (const auto& t : list_track(p)) {
-    days[{t.person, t.time.substr(0, 10)}].push_back({t.lat, t.lon, t.elevation, t.time});
-    ++n;
-  }
   std::vector<formats::GpxTrack> tracks;
-  for (auto& [key, pts] : days) {
-    const auto it = initials.find(key.first);
+  size_t n = 0;
+  for (const auto& day : day_tracks(p)) {
+    std::vector<formats::GpxTrackPoint> pts;
+    for (const auto& t : day.points) pts.push_back({t.lat, t.lon, t.elevation, t.time});
+    n += pts.size();
+    const auto it = initials.find(day.person);
     const std::string who = it != initials.end() ? it->second
-                            : key.first.empty()  ? std::string("nobody chosen")
-                                                 : key.first;
-    tracks.push_back({who + " " + key.second, {std::move(pts)}});
+                            : day.person.empty() ? std::string("nobody chosen")
+                                                 : day.person;
+    tracks.push_back({who + " " + day.day, {std::move(pts)}});
   }
   formats::write_file_atomically(path, formats::write_gpx_tracks(tracks, "Cairn"));
   ExportSummary s;

@@ -1,5 +1,7 @@
 #include "app/core/export_layers.h"
 
+#include "app/core/export_track.h"
+
 #include <algorithm>
 #include <filesystem>
 #include <fstream>
@@ -76,6 +78,7 @@ class Builder {
     fitted_contacts();
     flags();
     terrain_layers();
+    out_.layers.push_back(day_track_layer(p_, out_.zone));
     return std::move(out_);
   }
 

@@ -213,6 +213,36 @@ void draw_path(Canvas& c, const Rect& r, const PlanView& v, const PlanPath& p, d
   if (p.pts.size() >= 2 && path_on_canvas(r, v, p.pts, pts)) c.polyline(pts, p.colour, p.width * line_width);
 }
 
+// A day track: dashes of 3 line widths' gap after 6 widths of line, the pattern
+// carried on across vertices; the last fix an open square with the label beside it.
+void draw_track(Canvas& c, const Rect& r, const PlanView& v, const PlanPath& p, const PlanOptions& o) {
+  std::vector<Pt> pts;
+  if (p.pts.empty() || !path_on_canvas(r, v, p.pts, pts)) return;
+  const double w = p.width * o.line_width, dash = 6 * w, gap = 3 * w;
+  double phase = 0;  // distance into the current dash + gap period
+  for (size_t i = 0; i + 1 < pts.size(); ++i) {
+    const Pt a = pts[i], b = pts[i + 1];
+    const double len = std::hypot(b.x - a.x, b.y - a.y);
+    double at = 0;
+    while (at < len) {
+      const bool on = phase < dash;
+      const double step = std::min(len - at, (on ? dash : dash + gap) - phase);
+      if (on) {
+        const double t0 = at / len, t1 = (at + step) / len;
+        c.polyline({{a.x + (b.x - a.x) * t0, a.y + (b.y - a.y) * t0}, {a.x + (b.x - a.x) * t1, a.y + (b.y - a.y) * t1}},
+                   p.colour, w);
+      }
+      at += step;
+      phase = std::fmod(phase + step, dash + gap);
+    }
+  }
+  const Pt last = pts.back();
+  if (!near_rect(r, last, o.mark_size)) return;
+  c.marker(last, Shape::Square, o.mark_size * 0.7, p.colour, false);
+  if (!p.label.empty())
+    c.text({last.x + o.mark_size * 0.7, last.y + o.mark_size * 0.2}, p.label, p.colour, o.text_size);
+}
+
 void draw_ground(Canvas& c, const Rect& r, const PlanData& d, const PlanView& v, const PlanOptions& o) {
   std::vector<Pt> pts;
   for (const auto& a : d.shading) {
@@ -267,6 +297,7 @@ void draw_plan(Canvas& c, const Rect& r, const PlanData& d, const PlanView& v, c
     }
   }
   for (const auto& t : d.traces) draw_path(c, r, v, t, o.line_width);
+  for (const auto& t : d.tracks) draw_track(c, r, v, t, o);
   for (const auto& p : d.points) {
     const Pt at = plan_to_canvas(v, r, p.e, p.n);
     if (!near_rect(r, at, o.mark_size)) continue;

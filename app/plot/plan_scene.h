@@ -109,6 +109,9 @@ struct PlanData {
   std::vector<PlanPoint> points;
   std::vector<PlanAttitude> attitudes;
   std::vector<PlanStrikeLine> strike_lines;
+  // Day tracks (app/plot/plan_track.h): dashed, one per person, `label` the
+  // person's initials written at the last fix (marked by an open square).
+  std::vector<PlanPath> tracks;
   std::optional<PlanProbe> probe;
 };
 
@@ -160,7 +163,7 @@ void draw_attitude_symbol(Canvas& c, Pt at, double strike, double dip, AttitudeS
                           double width, double text_size);
 
 // Draws the background, the ground (shading, terrain contours, trace bands), strike lines,
-// predicted traces, contact points, strike-dip symbols,
+// predicted traces, day tracks, contact points, strike-dip symbols,
 // stations, the probe, a scale bar and a grid-north arrow. Objects outside the
 // rect are skipped.
 void draw_plan(Canvas& c, const Rect& r, const PlanData& d, const PlanView& v, const PlanOptions& o);

@@ -1118,6 +1118,8 @@ PublishReport publish(const std::string& file, const std::string& url, const Pub
     T("plain");
     MergeOptions mo;
     mo.terrain = false;  // the store keeps no terrain (read_tables)
+    mo.track = false;    // nor day tracks, nor pick-lists
+    mo.pick_list_report = false;
     rep.merge = merge_files(mirror, {plain ? copy : file}, mo);
     T("merged");
     if (plain) {

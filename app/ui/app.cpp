@@ -116,6 +116,7 @@ void App::log_track() {
   try {
     store::add_track_point(model->project(),
                            {person_, formats::utc_now(), fix.lat, fix.lon, fix.altitude, fix.h_accuracy});
+    ++track_logged_;
   } catch (const std::exception& e) {
     notify(std::string("The day track was not saved: ") + e.what());
   }

@@ -106,6 +106,11 @@ struct PlanState {
   float pinch_distance = 0;
   std::string picture_key;             // what the picture below shows
   std::unique_ptr<GlPicture> picture;  // the plan as a texture
+  // The day track shown (app/plot/plan_track.h): "" none; the newest day until
+  // the Track button chooses another; the days that have fixes.
+  std::string track_day;
+  bool track_chosen = false;
+  std::vector<std::string> track_days;
 };
 
 struct CrosscheckState {
@@ -205,6 +210,8 @@ class App {
 
   // Writes a PNG of the next frame drawn.
   void request_screenshot(const std::string& path) { pending_screenshot_ = path; }
+  // How many fixes this session has added to the day track (the Plan redraws it when this changes).
+  long track_logged() const { return track_logged_; }
   SDL_Window* window() const { return window_; }
   float frame_width() const;
   float frame_height() const;
@@ -237,6 +244,7 @@ class App {
   bool want_text_ = false;
   std::string pending_screenshot_;
   std::optional<geo::TrackFix> track_last_;  // the last fix kept in the day track (this project)
+  long track_logged_ = 0;
   // Time to build each frame (events to ImGui::Render, no GPU work), for --frame-stats.
   std::vector<double> build_ms_;
 };

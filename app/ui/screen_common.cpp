@@ -113,9 +113,13 @@ void draw_open(App& a) {
   ImGui::AlignTextToFramePadding();
   text("New project: name");
   ImGui::SameLine();
-  ImGui::SetNextItemWidth(lk.m.tap * 8);
+  // The name field: eight taps wide where that fits, else what is left of the
+  // line, and on a line of its own when less than four taps are left.
+  if (ImGui::GetContentRegionAvail().x < lk.m.tap * 4) ImGui::NewLine();
+  ImGui::SetNextItemWidth(std::min(lk.m.tap * 8, ImGui::GetContentRegionAvail().x));
   ImGui::InputText("##newname", &a.new_name);
   this_frame().targets.push_back({"project name", ImGui::GetItemRectMin(), ImGui::GetItemRectMax(), true});
+  record_box("project name");
   ImGui::SameLine();
   if (button("Create project", 0, !a.new_name.empty(), true)) {
     try {

@@ -11,6 +11,7 @@
 
 #include "app/plot/plan_scene.h"
 #include "app/plot/plan_terrain.h"
+#include "app/plot/plan_track.h"
 #include "app/plot/symbols.h"
 #include "formats/layers.h"
 #include "app/ui/gl_picture.h"
@@ -22,6 +23,7 @@
 #include "geomath/strike_lines.h"
 #include "app/core/export.h"
 #include "storage/terrain.h"
+#include "storage/track.h"
 
 namespace cairn::ui {
 
@@ -108,6 +110,12 @@ void build(App& a, const CheckResult& c) {
   } catch (const std::exception& e) {
     ps.notes.push_back(std::string("terrain not drawn: ") + e.what());
   }
+  // The day track of the chosen day (app/plot/plan_track.h).
+  try {
+    d.tracks = plot::day_track_paths(m.project(), c.data.zone, ps.track_day);
+  } catch (const std::exception& e) {
+    ps.notes.push_back(std::string("day track not drawn: ") + e.what());
+  }
   // Typical distance between neighbouring stations, for deciding when labels fit.
   ps.spacing = 0;
   if (d.stations.size() >= 2 && d.stations.size() <= 3000) {
@@ -140,9 +148,12 @@ void draw_plan_screen(App& a) {
     error_box("The plan needs the project's positions in UTM: " + c->error);
     return;
   }
-  const std::string key = std::to_string(c->revision) + "|" + geo::format_decimal("%g", ps.interval) + "|" + a.station;
+  const std::string key = std::to_string(c->revision) + "|" + geo::format_decimal("%g", ps.interval) + "|" + a.station +
+                          "|" + std::to_string(a.track_logged()) + "|" + (ps.track_chosen ? ps.track_day : "newest");
   if (key != ps.key) {
     ps.key = key;
+    ps.track_days = store::track_days(m.project());
+    if (!ps.track_chosen) ps.track_day = ps.track_days.empty() ? std::string() : ps.track_days.back();
     build(a, *c);
   }
 
@@ -153,6 +164,16 @@ void draw_plan_screen(App& a) {
   bool zoom_out = button("Zoom out");
   ImGui::SameLine();
   const bool fit_all = button("Show all");
+  // The day track: a tap steps to the day before, then to none, then to the newest again.
+  if (!ps.track_days.empty()) {
+    ImGui::SameLine();
+    if (button(ps.track_day.empty() ? std::string("No track") : "Track " + ps.track_day)) {
+      const auto& days = ps.track_days;
+      const auto at = std::find(days.begin(), days.end(), ps.track_day);
+      ps.track_day = ps.track_day.empty() ? days.back() : at == days.begin() || at == days.end() ? "" : *(at - 1);
+      ps.track_chosen = true;
+    }
+  }
   ImGui::SameLine();
   wrap_if_past_edge(ImGui::CalcTextSize("Strike lines every").x);
   ImGui::AlignTextToFramePadding();
@@ -292,6 +313,7 @@ void draw_plan_screen(App& a) {
   ImGui::SetCursorScreenPos(ImVec2(origin.x + lk.m.gap, origin.y + lk.m.gap));
   text_dim("grid north; UTM " + std::to_string(c->data.zone.zone) + (c->data.zone.northp ? "N" : "S") + ", " +
            std::to_string(ps.data.stations.size()) + " stations" +
+           (ps.track_day.empty() ? std::string() : "; day track " + ps.track_day + " dashed") +
            (o.station_labels ? std::string() : "; zoom in for station codes"));
   // The notes over the map, as many as fit above its bottom edge.
   const float line_h = ImGui::GetTextLineHeightWithSpacing();

@@ -80,6 +80,7 @@ void flags_tab(App& a) {
       text("Comment");
       ImGui::InputTextMultiline("##comment", &rs.comment, ImVec2(-1, lk.m.tap * 1.8f));
       this_frame().targets.push_back({"comment", ImGui::GetItemRectMin(), ImGui::GetItemRectMax(), true});
+      record_box("comment");
       auto mark = [&](store::ReviewStatus st) {
         store::FlagReview r;
         r.flag_key = rs.flag_key;

@@ -43,6 +43,8 @@ std::string tour(bool all_in_sight) {
   in_screen("line");
   in_screen("rake");
   nav("Net");
+  in_screen("Kamb contours");  // the contours' key
+  in_screen("statistics");     // the statistics panel
   nav("Plan");
   nav("Camp");
   nav("Review");
@@ -75,7 +77,7 @@ TEST_P(UiLayout, EveryScreenFitsAtEveryDensity) {
   }
   // The Open screen (no project yet), at the same size.
   std::ofstream(file("open.txt")) << "wait 3\nexpect-fit\n";
-  for (int dpi : {96, 192}) {
+  for (int dpi : {96, 144, 192}) {
     const std::string size = std::to_string(sz.w) + "x" + std::to_string(sz.h);
     const std::string cmd = "cd '" + dir_.string() + "' && " + cairn::ui_test::xvfb_run("2000x1400x24") + " '" +
                             std::string(CAIRN_BINARY) + "' gui --no-gps --size " + size + " --dpi " +

@@ -19,6 +19,13 @@ and from the standards, never from Cairn:
     azimuth of a true strike (the symbol rotation's convention);
   - declination as NOAA defines it (true = magnetic + declination) and the
     right-hand rule (dip direction = strike + 90) for the spot-checked values;
+  - the day track (rows written into the project's track_points with Python's
+    sqlite3, as the UI's logging would): one OGC LineString per person and
+    day in the GeoPackage (OGC 06-103r4 clause 8, WKB type 2) and an RFC 7946
+    LineString (3.1.4) in the GeoJSON, its vertices where PROJ puts the fixes,
+    its length_m the geodesic length pyproj.Geod.line_length gives (Karney
+    2013); a day of one fix has no line (a LineString needs two points,
+    OGC 06-103r4 6.1.7);
   - CSV round trip: export, `cairn import` into a fresh project, export again:
     the files must be identical byte for byte (the issue's requirement).
 """
@@ -77,6 +84,17 @@ KINDS = [("units", UNITS), ("contacts", CONTACTS), ("stations", STATIONS), ("pla
          ("lines", LINES), ("points", POINTS)]
 EXPECTED = {"stations": 3, "planar_readings": 3, "linear_readings": 2, "contact_points": 5,
             "fitted_contacts": 1}
+# The day track: (initials, time, lat, lon, elevation). AE walks four fixes and BS
+# three on 14 June; AE has a single fix on 15 June (no line).
+FIXES = [("AE", "2025-06-14T09:20:00Z", 46.4990, 16.1990, 1190.0),
+         ("AE", "2025-06-14T09:25:00Z", 46.4995, 16.1996, None),
+         ("AE", "2025-06-14T09:28:30Z", 46.5000, 16.2000, 1200.0),
+         ("AE", "2025-06-14T10:05:00Z", 46.5040, 16.2050, 1234.0),
+         ("BS", "2025-06-14T10:40:00Z", 46.5070, 16.1980, None),
+         ("BS", "2025-06-14T10:50:00Z", 46.5076, 16.1986, None),
+         ("BS", "2025-06-14T11:00:00Z", 46.5080, 16.1990, 1250.0),
+         ("AE", "2025-06-15T08:00:00Z", 46.5100, 16.2100, None)]
+TRACK_LINES = 2
 
 
 def run(*a, env=None):
@@ -93,6 +111,14 @@ def make_project(path, tmp):
         with open(csv, "w") as f:
             f.write(text)
         ok = run("import", path, kind, csv).returncode == 0 and ok
+    db = sqlite3.connect(path)
+    people = dict(db.execute("SELECT initials, uuid FROM people"))
+    device = db.execute("SELECT uuid FROM devices LIMIT 1").fetchone()[0]
+    for who, time, lat, lon, ele in FIXES:
+        db.execute("INSERT INTO track_points (person, device, time, lat, lon, elevation) VALUES (?,?,?,?,?,?)",
+                   (people[who], device, time, lat, lon, ele))
+    db.commit()
+    db.close()
     return ok
 
 
@@ -208,6 +234,33 @@ with tempfile.TemporaryDirectory() as tmp:
     for layer, n_expected in EXPECTED.items():
         t.check(counts.get(layer) == n_expected, "ogrinfo: %s has %d features (got %s)" % (layer, n_expected, counts.get(layer)))
     t.check(counts.get("flags") == flags_expected, "ogrinfo: flags layer as many as cairn check lists (consistency)")
+
+    # The day track: one LineString per person and day.
+    t.check(counts.get("day_tracks") == TRACK_LINES, "ogrinfo: day_tracks has %d lines (got %s)"
+            % (TRACK_LINES, counts.get("day_tracks")))
+    t.check("Geometry: Line String" in summary.stdout.split("Layer name: day_tracks")[-1].split("Layer name:")[0],
+            "ogrinfo: day_tracks is a Line String layer")
+    geod = pyproj.Geod(ellps="WGS84")
+    for who in ("AE", "BS"):
+        mine = [f for f in FIXES if f[0] == who and f[1].startswith("2025-06-14")]
+        d = ogrinfo("-where", "person = '%s'" % who, gpkg, "day_tracks")
+        quiet(d, "day_tracks " + who)
+        t.check(attribute(d.stdout, "fixes") == [str(len(mine))], "%s: %d fixes" % (who, len(mine)))
+        t.check(attribute(d.stdout, "day") == ["2025-06-14"] and attribute(d.stdout, "start") == [mine[0][1]]
+                and attribute(d.stdout, "end") == [mine[-1][1]], "%s: day, first and last time" % who)
+        want = geod.line_length([f[3] for f in mine], [f[2] for f in mine])
+        got = attribute(d.stdout, "length_m")
+        t.check(len(got) == 1 and abs(float(got[0]) - want) < 1e-3,
+                "%s: length_m %s is pyproj.Geod's %.4f m within 1 mm" % (who, got, want))
+        wkt = [line.strip() for line in d.stdout.splitlines() if line.strip().startswith("LINESTRING")]
+        ok = len(wkt) == 1
+        if ok:
+            pts = [tuple(map(float, p.split())) for p in wkt[0][len("LINESTRING ("):-1].split(",")]
+            ok = len(pts) == len(mine)
+            for (x, y), f in zip(pts, mine):
+                e, n = utm.transform(f[3], f[2])
+                ok = ok and abs(x - e) < 1e-3 and abs(y - n) < 1e-3
+        t.check(ok, "%s: the line's vertices are the fixes in time order, where PROJ puts them (1 mm)" % who)
     full = ogrinfo("-al", gpkg)
     quiet(full, "GeoPackage features")
     s2 = ogrinfo("-where", "code = 'S2'", gpkg, "stations")
@@ -260,8 +313,14 @@ with tempfile.TemporaryDirectory() as tmp:
     summary = ogrinfo("-so", "-al", geojson)
     quiet(summary, "GeoJSON")
     total = sum(feature_counts(summary.stdout).values())
-    t.check(total == len(feats) and total == sum(EXPECTED.values()) + flags_expected,
+    t.check(total == len(feats) and total == sum(EXPECTED.values()) + flags_expected + TRACK_LINES,
             "ogrinfo: the GeoJSON holds every feature (%d)" % total)
+    tracks = by_layer.get("day_tracks", [])
+    ae = [x for x in tracks if x["properties"]["person"] == "AE"]
+    t.check(len(ae) == 1 and ae[0]["geometry"]["type"] == "LineString"
+            and [tuple(c) for c in ae[0]["geometry"]["coordinates"]]
+            == [(f[3], f[2]) for f in FIXES if f[0] == "AE" and f[1].startswith("2025-06-14")],
+            "GeoJSON: AE's day track is a LineString of longitude, latitude (RFC 7946 3.1.4, 3.1.1)")
     quiet(ogrinfo("-al", geojson), "GeoJSON features")
     gs2 = ogrinfo("-al", "-where", "code = 'S2'", geojson)
     t.check(attribute(gs2.stdout, "elevation") == ["1234.5"], "ogrinfo reads S2's elevation from the GeoJSON")

@@ -98,21 +98,22 @@ inline void copy_file(const std::string& from, const std::string& to) {
 
 // Every row of every table that holds records, audit rows, conflicts and code
 // clashes, sorted, with reals printed to 17 significant digits (exact for
-// IEEE doubles). `merges` (a log of when merges ran) and the time a conflict
-// was found are left out: they say when, not what.
+// IEEE doubles). `merges` (a log of when merges ran), the time a conflict
+// was found and a fix's row id (the order it came in) are left out: they say
+// when, not what.
 inline std::string dump(const std::string& path) {
   Db db(path, SQLITE_OPEN_READONLY);
   std::string out;
-  const std::vector<std::string> tables = {"devices",   "people",          "units",      "contacts", "stations",
-                                           "planes",    "lines",           "points",     "photos",   "audit",
-                                           "conflicts", "conflict_values", "key_clashes"};
+  const std::vector<std::string> tables = {"devices",   "people",          "units",       "contacts",     "stations",
+                                           "planes",    "lines",           "points",      "photos",       "audit",
+                                           "conflicts", "conflict_values", "key_clashes", "track_points", "pick_lists"};
   for (const auto& t : tables) {
     std::vector<std::string> cols;
     {
       Stmt s(db, "SELECT name FROM pragma_table_info(?) ORDER BY cid");
       s.bind(1, t);
       while (s.step())
-        if (s.text(0) != "found_at") cols.push_back(s.text(0));
+        if (s.text(0) != "found_at" && !(t == "track_points" && s.text(0) == "id")) cols.push_back(s.text(0));
     }
     std::string sel;
     for (const auto& c : cols) sel += (sel.empty() ? "" : ", ") + std::string("typeof(\"") + c + "\"), \"" + c + "\"";
