@@ -8,7 +8,7 @@
 #include <filesystem>
 #include <stdexcept>
 
-#include "formats/ids.h"
+#include "formats/temp_files.h"
 
 namespace fs = std::filesystem;
 
@@ -18,11 +18,6 @@ namespace {
 
 std::string errno_text() { return std::strerror(errno); }
 
-void remove_with_side_files(const std::string& path) {
-  std::error_code ec;
-  for (const char* suffix : {"", "-journal", "-wal", "-shm"}) fs::remove(path + suffix, ec);
-}
-
 fs::path folder_of(const std::string& path) {
   fs::path dir = fs::path(path).parent_path();
   return dir.empty() ? fs::path(".") : dir;
@@ -30,10 +25,7 @@ fs::path folder_of(const std::string& path) {
 
 }  // namespace
 
-std::string temporary_path_beside(const std::string& target) {
-  const fs::path t(target);
-  return (t.parent_path() / ("." + t.filename().string() + "." + new_uuid().substr(0, 8) + ".tmp")).string();
-}
+std::string temporary_path_beside(const std::string& target) { return temp_path_beside(target); }
 
 void sync_to_disk(const std::string& path) {
   const int fd = ::open(path.c_str(), O_RDONLY | O_CLOEXEC);
@@ -50,15 +42,18 @@ void replace_file_atomically(const std::string& path, const std::function<void(c
   std::error_code ec;
   const fs::path dir = folder_of(path);
   if (!fs::is_directory(dir, ec)) throw std::runtime_error("cannot write " + path + ": no folder " + dir.string());
-  const std::string tmp = temporary_path_beside(path);
+  // Leftovers of a run that was killed while writing PATH go first; this run's
+  // temporary file is registered, so that it goes on SIGTERM too (formats/temp_files.h).
+  remove_stale_temp_files(path);
+  TempPath tmp(path);
   try {
-    fill(tmp);
-    sync_to_disk(tmp);
-    fs::rename(tmp, path, ec);
+    fill(tmp.path());
+    sync_to_disk(tmp.path());
+    fs::rename(tmp.path(), path, ec);
     if (ec) throw std::runtime_error(ec.message());
+    tmp.release();
     sync_to_disk(dir.string());
   } catch (const std::exception& e) {
-    remove_with_side_files(tmp);
     throw std::runtime_error("cannot write " + path + ": " + e.what());
   }
 }

@@ -76,6 +76,6 @@ TEST(AtomicFile, AMissingFolderIsNamed) {
 TEST(AtomicFile, TheTemporaryNameIsBesideTheTarget) {
   const std::string t = temporary_path_beside("/some/folder/camp.gpkg");
   EXPECT_EQ(fs::path(t).parent_path(), fs::path("/some/folder"));
-  EXPECT_EQ(fs::path(t).filename().string().rfind(".camp.gpkg.", 0), 0u) << t;
+  EXPECT_EQ(fs::path(t).filename().string().rfind("camp.gpkg.tmp-" + std::to_string(getpid()) + "-", 0), 0u) << t;
   EXPECT_NE(t, temporary_path_beside("/some/folder/camp.gpkg"));  // random part
 }
