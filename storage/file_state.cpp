@@ -167,7 +167,8 @@ WalInspection inspect_wal(const std::string& path) {
   std::ifstream f(wal, std::ios::binary);
   unsigned char h[32] = {};
   if (size < 32 || !f.read(reinterpret_cast<char*>(h), sizeof h)) {
-    r.problem = wal + " is " + std::to_string(size) + " bytes, shorter than the 32-byte header of a -wal: it is damaged";
+    r.problem =
+        wal + " is " + std::to_string(size) + " bytes, shorter than the 32-byte header of a -wal: it is damaged";
     r.advice = keep + move_away;
     return r;
   }

@@ -33,13 +33,13 @@
 namespace cairn::store {
 
 struct WalInspection {
-  bool inspected = false;       // false: no -wal with content, or a connection has the file open
-  std::string problem;          // why the -wal cannot be trusted, in words ("" when it can)
-  std::string advice;           // what to do about it
-  long frames = 0;              // frames SQLite would read
-  long committed = 0;           // of those, up to the last commit
-  long dropped_commits = 0;     // committed transactions SQLite would skip
-  std::string file_uuid;        // project.file_uuid in the file alone ("" when it cannot be read there)
+  bool inspected = false;    // false: no -wal with content, or a connection has the file open
+  std::string problem;       // why the -wal cannot be trusted, in words ("" when it can)
+  std::string advice;        // what to do about it
+  long frames = 0;           // frames SQLite would read
+  long committed = 0;        // of those, up to the last commit
+  long dropped_commits = 0;  // committed transactions SQLite would skip
+  std::string file_uuid;     // project.file_uuid in the file alone ("" when it cannot be read there)
 };
 
 WalInspection inspect_wal(const std::string& path);

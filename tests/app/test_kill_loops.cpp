@@ -163,7 +163,8 @@ class KillLoops : public CliTest {
     std::vector<std::string> names;
     if (sqlite3_prepare_v2(db, "SELECT table_name FROM gpkg_contents ORDER BY table_name", -1, &st, nullptr) ==
         SQLITE_OK)
-      while (sqlite3_step(st) == SQLITE_ROW) names.emplace_back(reinterpret_cast<const char*>(sqlite3_column_text(st, 0)));
+      while (sqlite3_step(st) == SQLITE_ROW)
+        names.emplace_back(reinterpret_cast<const char*>(sqlite3_column_text(st, 0)));
     sqlite3_finalize(st);
     sqlite3_close(db);
     for (const auto& n : names) out[n] = count(path, "SELECT count(*) FROM \"" + n + "\"");
@@ -204,8 +205,7 @@ class KillLoops : public CliTest {
     EXPECT_EQ(digest("camp.cairn"), project);
     std::cout << "[ info     ] " << args[0] << " " << args.back() << ": " << killed << " of " << kRounds
               << " runs killed at random, " << complete << " left a complete output; "
-              << (mid_write ? "one killed while writing left its temporary file" : "none caught while writing")
-              << "\n";
+              << (mid_write ? "one killed while writing left its temporary file" : "none caught while writing") << "\n";
     EXPECT_GT(killed, 0) << "no run was killed: the kills came too late";
     // The next start: the same command, to its end.
     time_one_run(args);
@@ -222,16 +222,19 @@ std::string bytes_of(const std::string& path) {
   return ss.str();
 }
 
-bool same_bytes(const std::string& a, const std::string& b) { return bytes_of(a) == bytes_of(b) && !bytes_of(a).empty(); }
+bool same_bytes(const std::string& a, const std::string& b) {
+  return bytes_of(a) == bytes_of(b) && !bytes_of(a).empty();
+}
 
 }  // namespace
 
 TEST_F(KillLoops, GeoPackageExport) {
-  kill_loop({"export", "camp.cairn", "out.gpkg"}, "out.gpkg", "ref.gpkg", [](const std::string& a, const std::string& b) {
-    const auto la = layers(a), lb = layers(b);
-    EXPECT_EQ(la, lb);
-    return la == lb && !la.empty();
-  });
+  kill_loop({"export", "camp.cairn", "out.gpkg"}, "out.gpkg", "ref.gpkg",
+            [](const std::string& a, const std::string& b) {
+              const auto la = layers(a), lb = layers(b);
+              EXPECT_EQ(la, lb);
+              return la == lb && !la.empty();
+            });
 }
 
 TEST_F(KillLoops, GeoJsonExport) {
