@@ -94,18 +94,18 @@ class KillLoops : public CliTest {
     return WIFSIGNALED(status) && WTERMSIG(status) == SIGKILL;
   }
 
-  // Kills `cairn ARGS` the moment a temporary file of its appears in the folder
-  // (polling), up to five tries; true when one was killed so.
-  bool kill_while_writing(const std::vector<std::string>& args) const {
+  // Sends SIG to `cairn ARGS` the moment a temporary file of its appears in the
+  // folder (polling), up to five tries; true when one died of it so.
+  bool kill_while_writing(const std::vector<std::string>& args, int sig = SIGKILL) const {
     for (int attempt = 0; attempt < 5; ++attempt) {
       const pid_t pid = start(args);
       int status = 0;
       bool killed = false;
       while (waitpid(pid, &status, WNOHANG) == 0) {
         if (!leftovers().empty()) {
-          kill(pid, SIGKILL);
+          kill(pid, sig);
           waitpid(pid, &status, 0);
-          killed = WIFSIGNALED(status);
+          killed = WIFSIGNALED(status) && WTERMSIG(status) == sig;
           break;
         }
         std::this_thread::sleep_for(std::chrono::microseconds(200));
@@ -117,11 +117,14 @@ class KillLoops : public CliTest {
 
   std::string digest(const std::string& name) const { return cairn::formats::sha256_hex(slurp(file(name))); }
 
-  // Names in the folder (recursively) that are temporary files of formats/temp_files.h.
+  // Names in the folder (recursively) that are temporary files: formats/temp_files.h's
+  // (NAME.tmp-PID-xxxxxxxx) or any other "*.tmp".
   std::vector<std::string> leftovers() const {
     std::vector<std::string> out;
-    for (const auto& e : fs::recursive_directory_iterator(dir_))
-      if (e.path().filename().string().find(".tmp-") != std::string::npos) out.push_back(e.path().string());
+    for (const auto& e : fs::recursive_directory_iterator(dir_)) {
+      const std::string n = e.path().filename().string();
+      if (n.find(".tmp-") != std::string::npos || e.path().extension() == ".tmp") out.push_back(e.path().string());
+    }
     return out;
   }
 
@@ -340,4 +343,18 @@ TEST_F(KillLoops, MergeIntoAnExistingCampFile) {
   EXPECT_EQ(r.status, 0) << r.err;
   EXPECT_EQ(count(file("camp2.cairn"), "SELECT count(*) FROM stations"), stations);
   EXPECT_EQ(leftovers(), std::vector<std::string>{});
+}
+
+TEST_F(KillLoops, AnExportStoppedWithSigtermRemovesItsTemporaryFileAtOnce) {
+  // SIGTERM can be caught (formats/temp_files.h): nothing is left, not even until the next start.
+  for (const char* out : {"out.gpkg", "out.geojson"}) {
+    const std::string project = digest("camp.cairn");
+    if (!kill_while_writing({"export", "camp.cairn", out}, SIGTERM)) {
+      std::cout << "[ info     ] " << out << ": no run caught while writing\n";
+      continue;
+    }
+    EXPECT_EQ(leftovers(), std::vector<std::string>{}) << out;
+    EXPECT_FALSE(fs::exists(file(out)));
+    EXPECT_EQ(digest("camp.cairn"), project);
+  }
 }
