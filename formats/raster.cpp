@@ -207,6 +207,12 @@ Result<DemRead> read_dem(const std::string& path, const DemRequest& request) {
     return fail<DemRead>(path, fmt::format("reprojected over the project's area it would be {:.0f} x {:.0f} cells, "
                                            "more than the limit of {}; coarsen it first",
                                            fx, fy, request.max_cells));
+  // The warper reprojects every band (only the first is kept): the limit is on all of them.
+  const int bands = GDALGetRasterCount(ds);
+  if (fx * fy * bands > static_cast<double>(request.max_cells))
+    return fail<DemRead>(path, fmt::format("has {} bands; a DEM has one, its elevations: save that band alone first "
+                                           "(gdal_translate -b 1)",
+                                           bands));
   auto num = [](double v) {
     std::ostringstream s;
     s.precision(17);
