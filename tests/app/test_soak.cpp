@@ -3,9 +3,11 @@
 // afterwards every reading the writer saw committed is there with what was
 // written, no other, and PRAGMA integrity_check says ok.
 //
-// The full run is 100 000 readings (about an hour and a half here, 2 busy cores):
+// The full run is 100 000 readings:
 //   CAIRN_SOAK_READINGS=100000 build/tests/test_app --gtest_filter='Soak.*'
-// The default, 3000, keeps ctest quick and still overlaps at least ten checks
+// (2026-12-03, Release, 2 cores shared with four other builds: 100 000 readings
+// saved while 139 checks ran, 335 s, passed.)
+// The default, 3000 (about 25 s there), keeps ctest quick and still overlaps at least ten checks
 // with the writes: the writer waits, at each tenth of its readings, for a check
 // to finish after it got there, so the overlap does not depend on the speed of
 // the machine (no timing is asserted).
