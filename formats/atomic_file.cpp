@@ -48,6 +48,9 @@ void replace_file_atomically(const std::string& path, const std::function<void(c
   std::error_code ec;
   const fs::path dir = folder_of(path);
   if (!fs::is_directory(dir, ec)) throw std::runtime_error("cannot write " + path + ": no folder " + dir.string());
+  // Leftovers of a run that was killed while writing PATH go first; this run's
+  // temporary file is registered, so that it goes on SIGTERM too (formats/temp_files.h).
+  remove_stale_temp_files(path);
   TempPath tmp(path);  // removed with its SQLite companions unless released
   try {
     fill(tmp.path());

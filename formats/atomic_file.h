@@ -30,7 +30,9 @@ void write_file_atomically(const std::string& path, std::string_view text);
 // (FILL gets the temporary path; e.g. an SQLite database written there). On
 // success the temporary file is synced and renamed over PATH; on any failure it
 // (and SQLite's -journal/-wal/-shm beside it) is removed and the error rethrown
-// as std::runtime_error naming PATH.
+// as std::runtime_error naming PATH. The temporary file is registered with
+// formats/temp_files.h (removed on exit and on SIGTERM), and leftovers of a
+// killed run that wrote PATH are removed before a new one starts.
 void replace_file_atomically(const std::string& path, const std::function<void(const std::string& tmp)>& fill);
 
 }  // namespace cairn::formats

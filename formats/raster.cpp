@@ -6,6 +6,8 @@
 #include <sstream>
 #include <vector>
 
+#include <fmt/format.h>
+
 #include <cpl_conv.h>
 #include <cpl_error.h>
 #include <cpl_string.h>
@@ -49,6 +51,15 @@ struct SrsDeleter {
   }
 };
 using SrsPtr = std::unique_ptr<void, SrsDeleter>;
+
+// A cell index from a coordinate, clamped to LO..HI (NaN gives LO): a
+// geotransform from the file can put it anywhere, and a double outside int's
+// range must not be cast (C++17 [conv.fpint]: undefined behaviour).
+int cell_index(double v, int lo, int hi) {
+  if (!(v > lo)) return lo;
+  if (!(v < hi)) return hi;
+  return static_cast<int>(v);
+}
 
 template <class T>
 Result<T> fail(const std::string& path, const std::string& why) {
@@ -137,10 +148,10 @@ Result<DemRead> read_dem(const std::string& path, const DemRequest& request) {
     int x0 = 0, y0 = 0, x1 = sx, y1 = sy;
     if (request.area) {
       const DemArea& a = *request.area;
-      x0 = std::max(0, static_cast<int>(std::floor((a.west - gt[0]) / gt[1])));
-      x1 = std::min(sx, static_cast<int>(std::ceil((a.east - gt[0]) / gt[1])));
-      y0 = std::max(0, static_cast<int>(std::floor((gt[3] - a.north) / -gt[5])));
-      y1 = std::min(sy, static_cast<int>(std::ceil((gt[3] - a.south) / -gt[5])));
+      x0 = cell_index(std::floor((a.west - gt[0]) / gt[1]), 0, sx);
+      x1 = cell_index(std::ceil((a.east - gt[0]) / gt[1]), 0, sx);
+      y0 = cell_index(std::floor((gt[3] - a.north) / -gt[5]), 0, sy);
+      y1 = cell_index(std::ceil((gt[3] - a.south) / -gt[5]), 0, sy);
       if (x1 <= x0 || y1 <= y0) return fail<DemRead>(path, "does not cover the project's area");
     }
     const long long cells = static_cast<long long>(x1 - x0) * (y1 - y0);
@@ -190,13 +201,21 @@ Result<DemRead> read_dem(const std::string& path, const DemRequest& request) {
   a.south = std::floor(a.south / cell) * cell;
   a.east = std::ceil(a.east / cell) * cell;
   a.north = std::ceil(a.north / cell) * cell;
-  const long long nx = std::llround((a.east - a.west) / cell), ny = std::llround((a.north - a.south) / cell);
-  if (nx * ny > request.max_cells) {
-    std::ostringstream s;
-    s << "reprojected over the project's area it would be " << nx << " x " << ny << " cells, more than the limit of "
-      << request.max_cells << "; coarsen it first";
-    return fail<DemRead>(path, s.str());
-  }
+  // Both in cells, as doubles first: a geotransform from the file can make them
+  // infinite or NaN, and their product must not overflow.
+  const double fx = std::round((a.east - a.west) / cell), fy = std::round((a.north - a.south) / cell);
+  if (!(cell > 0) || !std::isfinite(fx) || !std::isfinite(fy) || fx < 1 || fy < 1)
+    return fail<DemRead>(path, "has a cell size or extent that cannot be reprojected (a damaged geotransform?)");
+  if (fx * fy > static_cast<double>(request.max_cells))
+    return fail<DemRead>(path, fmt::format("reprojected over the project's area it would be {:.0f} x {:.0f} cells, "
+                                           "more than the limit of {}; coarsen it first",
+                                           fx, fy, request.max_cells));
+  // The warper reprojects every band (only the first is kept): the limit is on all of them.
+  const int bands = GDALGetRasterCount(ds);
+  if (fx * fy * bands > static_cast<double>(request.max_cells))
+    return fail<DemRead>(path, fmt::format("has {} bands; a DEM has one, its elevations: save that band alone first "
+                                           "(gdal_translate -b 1)",
+                                           bands));
   auto num = [](double v) {
     std::ostringstream s;
     s.precision(17);

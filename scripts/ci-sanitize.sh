@@ -18,7 +18,7 @@ command -v ccache >/dev/null && launcher=(-DCMAKE_CXX_COMPILER_LAUNCHER=ccache -
 echo "== ASan+UBSan build of the test suite (build-asan)"
 cmake -S "$here" -B "$here/build-asan" -DCMAKE_BUILD_TYPE=RelWithDebInfo -DCAIRN_SANITIZE=ON \
   -DCAIRN_BUILD_UI=OFF "${launcher[@]}" >/dev/null
-replays=(fuzz_attitude_replay fuzz_gpx_replay fuzz_merge_replay fuzz_exif_replay)
+replays=(fuzz_attitude_replay fuzz_gpx_replay fuzz_merge_replay fuzz_exif_replay fuzz_raster_replay)
 for k in units contacts stations planes lines points; do replays+=("fuzz_csv_${k}_replay"); done
 cmake --build "$here/build-asan" -j"$jobs" --target test_geomath test_formats test_storage "${replays[@]}"
 # test_app and the reference checks need the `cairn` binary with its UI: not part of this run.
@@ -27,7 +27,7 @@ cmake --build "$here/build-asan" -j"$jobs" --target test_geomath test_formats te
 echo "== libFuzzer targets, ${secs} s each (build-fuzz)"
 CC=clang CXX=clang++ cmake -S "$here" -B "$here/build-fuzz" -DCMAKE_BUILD_TYPE=RelWithDebInfo -DCAIRN_FUZZ=ON \
   -DCAIRN_BUILD_UI=OFF -DCAIRN_BUILD_TESTS=ON "${launcher[@]}" >/dev/null
-targets=(attitude gpx merge exif)
+targets=(attitude gpx merge exif raster)
 for k in units contacts stations planes lines points; do targets+=("csv_$k"); done
 cmake --build "$here/build-fuzz" -j"$jobs" --target "${targets[@]/#/fuzz_}"
 mkdir -p "$here/build-fuzz/crashes"
@@ -36,6 +36,7 @@ trap 'rm -rf "$scratch"' EXIT
 for t in "${targets[@]}"; do
   max_len=4096
   [ "$t" = merge ] && max_len=262144
+  [ "$t" = raster ] && max_len=16384
   mkdir -p "$scratch/$t"
   echo "-- fuzz_$t"
   "$here/build-fuzz/tests/fuzz/fuzz_$t" -max_total_time="$secs" -max_len="$max_len" -timeout=10 -rss_limit_mb=2048 \

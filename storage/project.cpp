@@ -22,6 +22,7 @@
 #include "formats/iso8601.h"
 #include "formats/sha256.h"
 #include "formats/temp_files.h"
+#include "storage/file_state.h"
 #include "storage/schema.h"
 
 namespace fs = std::filesystem;
@@ -33,6 +34,7 @@ using namespace cairn::formats;  // file formats and value rules (formats/)
 struct Project::Impl {
   std::string path;
   OpenOptions options;
+  std::unique_ptr<OpenFileMark> mark;  // lives longer than the connection (storage/file_state.h)
   Db db;
   bool read_only = false;
   std::string problem;
@@ -271,10 +273,19 @@ Project Project::open(const std::string& path, OpenOptions options) {
                              "finish; " +
                              newest_backup_sentence(path, bdir) +
                              " (cairn restore FILE BACKUP); the file has not been changed");
+  // The file as it lies (storage/file_state.h): a -wal that cannot be trusted,
+  // or a place Cairn cannot write, opens it read-only and touches nothing.
+  const FileState state = options.untrusted ? FileState{} : examine_file(path, !options.read_only);
+  auto connect = [&](int flags) {
+    const Trust trust = options.untrusted ? Trust::Untrusted : Trust::Own;
+    return state.immutable ? Db(immutable_uri(path), SQLITE_OPEN_READONLY | SQLITE_OPEN_URI, trust)
+                           : Db(path, flags, trust);
+  };
+  impl->mark = std::make_unique<OpenFileMark>(path);
   auto open_read_only = [&](const std::string& why) {
     const std::string sentence = why + "; " + newest_backup_sentence(path, bdir);
     try {
-      impl->db = Db(path, SQLITE_OPEN_READONLY, options.untrusted ? Trust::Untrusted : Trust::Own);
+      impl->db = connect(SQLITE_OPEN_READONLY);
       set_pragmas(impl->db, options, false);
       impl->db.query_int("SELECT count(*) FROM project");  // readable at all?
     } catch (const std::exception& e) {
@@ -284,12 +295,11 @@ Project Project::open(const std::string& path, OpenOptions options) {
     impl->problem = sentence + "; the file is open read-only";
   };
 
-  bool writable = !options.read_only;
+  bool writable = !options.read_only && !state.read_only;
   // Leftovers of a run that was killed (a merge's copy, a backup half written).
   if (writable && !options.untrusted) remove_stale_temp_files(path);
   try {
-    impl->db = Db(path, writable ? SQLITE_OPEN_READWRITE : SQLITE_OPEN_READONLY,
-                  options.untrusted ? Trust::Untrusted : Trust::Own);
+    impl->db = connect(writable ? SQLITE_OPEN_READWRITE : SQLITE_OPEN_READONLY);
     sqlite3_busy_timeout(impl->db.handle(), options.busy_timeout_ms);
     const int64_t app = impl->db.query_int("PRAGMA application_id");
     const int64_t version = impl->db.query_int("PRAGMA user_version");
@@ -338,6 +348,7 @@ Project Project::open(const std::string& path, OpenOptions options) {
     }
   }
   impl->read_only = !writable;
+  if (impl->problem.empty()) impl->problem = state.problem;
   impl->device = options.device_id;
   if (impl->device.empty()) impl->device = impl->db.query_text("SELECT local_device FROM project");
   Project p(std::move(impl));
@@ -461,7 +472,16 @@ void Project::write(const std::function<void()>& f) {
   impl_->db.exec("BEGIN IMMEDIATE");
   impl_->depth = 1;
   try {
+    const int64_t changes_before = sqlite3_total_changes64(impl_->db.handle());
     f();
+    // A commit that changes anything also stamps project.updated, so that its
+    // -wal carries the page of the project row and names the project it belongs
+    // to (storage/file_state.h). (SQLite skips a write that changes no byte.)
+    if (sqlite3_total_changes64(impl_->db.handle()) != changes_before) {
+      Stmt u(impl_->db, "UPDATE project SET updated = ? WHERE id = 1");
+      u.bind(1, utc_now());
+      u.run();
+    }
     impl_->db.exec("COMMIT");
   } catch (...) {
     impl_->depth = 0;
@@ -525,6 +545,12 @@ std::string restore_from_backup(Project& p, const std::string& backup) {
   if (rc != SQLITE_DONE)
     throw std::runtime_error("restoring " + backup + " failed (" + sqlite3_errstr(rc) + "); " + p.path() +
                              " is as it was, and its state is also kept in " + kept);
+  // Into the file itself at once: a -wal whose file_uuid differs from the
+  // file's (a backup of another file) would read as foreign after a crash
+  // (storage/file_state.h).
+  try {
+    p.db().exec("PRAGMA wal_checkpoint(TRUNCATE)");
+  } catch (const std::exception&) {}
   return kept;
 }
 

@@ -1,11 +1,11 @@
 // `cairn import FILE KIND PATH [--contact NAME]`: reads a CSV (or, for
 // waypoints, a GPX 1.1 file) into a project, all or nothing.
-#include <chrono>
 #include <ostream>
 #include <stdexcept>
 
 #include "app/cli/command.h"
 #include "app/cli/project_access.h"
+#include "app/core/progress.h"
 #include "formats/limits.h"
 #include "formats/utf8.h"
 #include "storage/import.h"
@@ -37,14 +37,13 @@ int run(const ImportArgs& a, std::ostream& out, std::ostream& err) {
   auto project = open_project(file, false, err);
   // A progress line on stderr once an import has run for 2 s: rows checked
   // and rows per second (a terminal sees it rewritten in place).
-  const auto start = std::chrono::steady_clock::now();
+  // (app/core/progress.h: the same figures as the UI's job bar).
+  const core::RowRate rate;
   bool shown = false;
   auto progress = [&](size_t done, size_t total) {
-    const double s = std::chrono::duration<double>(std::chrono::steady_clock::now() - start).count();
-    if (s < 2.0) return;
+    if (rate.seconds() < 2.0) return;
     shown = true;
-    err << "\rimporting " << formats::terminal_safe(path) << ": " << done << " of " << total << " rows ("
-        << static_cast<long>(done / s) << " rows/s)" << std::flush;
+    err << "\rimporting " << formats::terminal_safe(path) << ": " << rate.line(done, total) << std::flush;
   };
   const store::ImportReport rep = waypoints ? store::import_gpx(project, text, path, contact.value_or(""))
                                             : store::import_csv(project, *kind, text, path, progress);

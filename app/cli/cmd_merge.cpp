@@ -11,14 +11,19 @@
 #include <cstdlib>
 #include <filesystem>
 #include <iomanip>
+#include <memory>
+#include <optional>
 #include <ostream>
 #include <sstream>
 #include <stdexcept>
 #include <fmt/format.h>
 
 #include "app/cli/command.h"
+#include "formats/atomic_file.h"
 #include "formats/json.h"
+#include "formats/temp_files.h"
 #include "app/cli/project_access.h"
+#include "app/core/progress.h"
 #include "formats/utf8.h"
 #include "storage/merge.h"
 
@@ -257,20 +262,30 @@ int run(const MergeArgs& a, std::ostream& out, std::ostream& err) {
   }
   int last_step = -1;
   std::string last_source;
+  std::optional<core::RowRate> rate;  // per source (app/core/progress.h: the UI shows the same figures)
+  std::string rate_source;
   o.progress = [&](const store::MergeProgress& m) {
+    if (!rate || m.source != rate_source) {
+      rate.emplace();
+      rate_source = m.source;
+    }
     if (quiet || !(show_progress || m.total > kLongMerge) || m.total == 0) return;
     const int step = static_cast<int>(10 * m.done / m.total);
     if (m.source == last_source && step == last_step) return;
     last_source = m.source;
     last_step = step;
     err << "merging " << std::filesystem::path(m.source).filename().string() << " (" << m.source_index + 1 << "/"
-        << m.sources << "): " << 10 * step << "% (" << m.table << ")\n";
+        << m.sources << "): " << 10 * step << "% (" << m.table << "), " << rate->line(m.done, m.total) << "\n";
   };
   // The first evening there is no camp file yet: make one with the first
-  // tablet's settings (a file of its own, with its own identity).
+  // tablet's settings (a file of its own, with its own identity). It is built
+  // under a temporary name beside TARGET and renamed into place once the merge
+  // has committed, so that a merge killed on the way leaves no camp file at all
+  // (formats/temp_files.h removes the temporary one, at once or at the next start).
   namespace fs = std::filesystem;
   std::error_code ec;
-  bool created = false;
+  std::unique_ptr<formats::TempPath> fresh;
+  std::string into = target;
   if (!fs::exists(target, ec)) {
     for (const auto& s : sources)
       if (!fs::exists(s, ec)) throw std::runtime_error("no project file " + s);
@@ -283,21 +298,27 @@ int run(const MergeArgs& a, std::ostream& out, std::ostream& err) {
     } catch (const std::exception& e) {
       throw std::runtime_error(std::string(e.what()) + "; or make " + target + " first with 'cairn new'");
     }
-    store::Project::create(target, store::NewProject{info.name, info.utm_zone, info.north_default, info.declination},
-                           cli_open_options(false));
-    created = true;
-    err << "created " << target << " with the settings of " << sources.front() << "\n";
+    formats::remove_stale_temp_files(target);
+    fresh = std::make_unique<formats::TempPath>(target);
+    into = fresh->path();
+    store::OpenOptions no_backups = cli_open_options(false);
+    no_backups.backups = false;  // a new camp has no earlier state to keep
+    store::Project::create(into, store::NewProject{info.name, info.utm_zone, info.north_default, info.declination},
+                           no_backups);
   }
   store::MergeReport rep;
-  try {
-    auto project = open_project(target, false, err);
+  {
+    store::OpenOptions oo = cli_open_options(false);
+    oo.backups = false;
+    auto project = fresh ? store::Project::open(into, oo) : open_project(target, false, err);
     rep = store::merge_files(project, sources, o);
-  } catch (...) {
-    if (created) {  // nothing is left behind by a merge that failed
-      for (const std::string& f : {target, target + "-wal", target + "-shm"}) fs::remove(f, ec);
-      fs::remove_all(target + ".backups", ec);
-    }
-    throw;
+  }  // closed: its -wal is checkpointed into the file
+  if (fresh) {
+    fs::rename(into, target, ec);
+    if (ec) throw std::runtime_error("cannot name the new camp file " + target + ": " + ec.message());
+    fresh->release();
+    formats::sync_to_disk(fs::absolute(target).parent_path().string());
+    err << "created " << target << " with the settings of " << sources.front() << "\n";
   }
   if (json)
     write_json(out, target, rep);

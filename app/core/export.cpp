@@ -7,6 +7,7 @@
 #include "app/core/export_layers.h"
 #include "formats/atomic_file.h"
 #include "formats/csv.h"
+#include "formats/temp_files.h"
 #include "storage/gpkg.h"
 #include "storage/import.h"
 
@@ -55,11 +56,27 @@ ExportSummary export_csv_folder(Project& p, const std::string& dir) {
     s.layers.push_back({name, table ? table->rows.size() : 0});
     files.emplace_back(name, std::move(csv));
   }
+  std::string folder = dir;
+  while (folder.size() > 1 && folder.back() == '/') folder.pop_back();
+  remove_stale_temp_files(folder);  // the folder of an export that was killed
   std::error_code ec;
-  fs::create_directories(dir, ec);
-  if (ec || !fs::is_directory(dir))
-    throw std::runtime_error("cannot make the folder " + dir + (ec ? ": " + ec.message() : ""));
-  for (const auto& [name, text] : files) formats::write_file_atomically((fs::path(dir) / name).string(), text);
+  if (!fs::exists(folder, ec) || (fs::is_directory(folder, ec) && fs::is_empty(folder, ec))) {
+    // A new folder appears whole or not at all: its files are written in a
+    // temporary folder beside it, which is then renamed (over an empty one).
+    const fs::path parent = fs::absolute(folder).parent_path();
+    fs::create_directories(parent, ec);
+    TempPath tmp(folder, true);
+    for (const auto& [name, text] : files) write_file_atomically((fs::path(tmp.path()) / name).string(), text);
+    fs::rename(tmp.path(), folder, ec);
+    if (ec) throw std::runtime_error("cannot make the folder " + folder + ": " + ec.message());
+    tmp.release();
+    sync_to_disk(parent.string());
+    return s;
+  }
+  // An existing folder (--overwrite): each file is replaced whole, one by one.
+  if (!fs::is_directory(folder, ec))
+    throw std::runtime_error("cannot make the folder " + folder + ": a file has that name");
+  for (const auto& [name, text] : files) write_file_atomically((fs::path(folder) / name).string(), text);
   return s;
 }
 

@@ -12,6 +12,8 @@
 #include "app/ui/widgets.h"
 #include "storage/import.h"
 #include "app/core/export.h"
+#include "app/core/progress.h"
+#include "formats/limits.h"
 #include "storage/merge.h"
 #include "storage/pick_lists.h"
 #include "storage/repository.h"
@@ -249,12 +251,22 @@ void draw_camp(App& a) {
     CampState* camp = &cs;
     a.jobs.start("Import", [project, file, kind, contact, is_gpx, model, camp](JobProgress& pr) {
       pr.set(-1.0f, "reading " + fs::path(file).filename().string());
-      const std::string text = cli::read_text_file(file);
+      // At most kMaxImportBytes, as `cairn import` reads (formats/limits.h).
+      auto read = formats::read_file_limited(file);
+      if (!read) throw std::runtime_error(read.error());
+      const std::string& text = read.value();
       store::Project p = store::Project::open(project, cli::cli_open_options(false));
       pr.set(-1.0f, "checking and writing every row");
+      // The figures of `cairn import`'s progress line (app/core/progress.h).
+      const core::RowRate rate;
+      auto progress = [&pr, &rate](size_t done, size_t total) {
+        pr.set(total ? static_cast<float>(done) / static_cast<float>(total) : -1.0f,
+               "checking and writing: " + rate.line(done, total));
+      };
       const store::ImportReport r =
           is_gpx ? store::import_gpx(p, text, file, contact)
-                 : store::import_csv(p, *store::parse_import_kind(kKinds[static_cast<size_t>(kind)]), text, file);
+                 : store::import_csv(p, *store::parse_import_kind(kKinds[static_cast<size_t>(kind)]), text, file,
+                                     progress);
       std::vector<std::string> log;
       const std::string name = fs::path(file).filename().string();
       if (r.ok())
@@ -288,11 +300,17 @@ void draw_camp(App& a) {
     a.jobs.start("Merge", [project, file, model, camp](JobProgress& pr) {
       store::Project target = store::Project::open(project, cli::cli_open_options(false));
       store::MergeOptions mo;
-      mo.progress = [&pr](const store::MergeProgress& mp) {
+      core::RowRate rate;  // per source, the figures of `cairn merge --progress` (app/core/progress.h)
+      std::string rate_source;
+      mo.progress = [&pr, &rate, &rate_source](const store::MergeProgress& mp) {
+        if (mp.source != rate_source) {
+          rate = core::RowRate();
+          rate_source = mp.source;
+        }
         const float part = mp.total ? static_cast<float>(mp.done) / static_cast<float>(mp.total) : 0.0f;
         const float f =
             (static_cast<float>(mp.source_index) + part) / static_cast<float>(std::max<size_t>(1, mp.sources));
-        pr.set(f, fs::path(mp.source).filename().string() + ": " + mp.table);
+        pr.set(f, fs::path(mp.source).filename().string() + ": " + mp.table + ", " + rate.line(mp.done, mp.total));
       };
       const store::MergeReport rep = store::merge_files(target, {file}, mo);
       std::vector<std::string> log;

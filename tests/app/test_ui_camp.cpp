@@ -69,3 +69,30 @@ TEST_F(UiTest, CampImportsMergesAndExportsOnTheWorker) {
   store::Db g(file("camp.gpkg"), 1 /* SQLITE_OPEN_READONLY */);
   EXPECT_EQ(g.query_int("PRAGMA application_id"), 0x47504B47);
 }
+
+// A long import shows its progress on the Camp screen with the figures of
+// `cairn import`'s progress line (app/core/progress.h): rows checked of the
+// rows in the file, and rows per second. The file: 12 000 stations, one per
+// CSV record (RFC 4180).
+TEST_F(UiTest, ALongImportShowsRowsAndRowsPerSecond) {
+  const std::string camp = file("camp.cairn");
+  {
+    store::Project p = store::Project::create(camp, store::NewProject{"Camp", "8N", store::North::True, 0.0}, quiet());
+  }
+  {
+    std::ofstream csv(file("many.csv"));
+    csv << "station,lat,lon\n";
+    for (int i = 0; i < 12000; ++i)
+      csv << "M" << i << "," << 61.0 + (i % 1000) * 1e-4 << "," << -135.0 - (i / 1000) * 1e-4 << "\n";
+  }
+  std::string s = "wait 3\n";
+  s += "tap \"Camp\"\n";
+  s += "tap \"many.csv\"\n";
+  s += "tap \"stations\"\n";
+  s += "tap \"Import many.csv\"\n";
+  s += "wait-for \"of 12000 rows (\" 300\n";
+  s += "expect \"rows/s)\"\n";
+  s += "wait-for \"many.csv: 12000 added, 0 already there\" 600\n";
+  const auto r = gui(camp, s);
+  ASSERT_EQ(r.status, 0) << r.err;
+}
