@@ -216,28 +216,24 @@ Result<Oriented> orient(const Input& in, const geo::PlaneFit& fit) {
   return o;
 }
 
-// What both reports show.
+// What both reports show: the fit, oriented, with its strike lines.
 struct FitReport {
   std::string path;
   const Input& in;
   const geo::PlaneFit& fit;
-  const Oriented& o;
+  geo::Plane plane;
+  geo::Vec3 normal;
+  std::optional<geo::GridFactors> factors;
   double interval;
   Result<double> spacing;
   Result<double> strike_az;
+  size_t N;  // the number of points
+
+  void print_json(std::ostream& out) const;
+  void print_text(std::ostream& out) const;
 };
 
-void print_json(const FitReport& r, std::ostream& out) {
-  const Input& in = r.in;
-  const geo::PlaneFit& fit = r.fit;
-  const geo::Plane& plane = r.o.plane;
-  const geo::Vec3& normal = r.o.normal;
-  const auto& factors = r.o.factors;
-  const std::string& path = r.path;
-  const double interval = r.interval;
-  const auto& spacing = r.spacing;
-  const auto& strike_az = r.strike_az;
-  const size_t N = fit.count;
+void FitReport::print_json(std::ostream& out) const {
   JsonWriter j(out);
   j.begin_object();
   j.key("file").value(path);
@@ -318,16 +314,7 @@ void print_json(const FitReport& r, std::ostream& out) {
   out << "\n";
 }
 
-void print_text(const FitReport& r, std::ostream& out) {
-  const Input& in = r.in;
-  const geo::PlaneFit& fit = r.fit;
-  const geo::Plane& plane = r.o.plane;
-  const auto& factors = r.o.factors;
-  const std::string& path = r.path;
-  const double interval = r.interval;
-  const auto& spacing = r.spacing;
-  const auto& strike_az = r.strike_az;
-  const size_t N = fit.count;
+void FitReport::print_text(std::ostream& out) const {
   auto row = [&](const std::string& label, const std::string& value) {
     // Pad by characters, not bytes (labels may hold UTF-8 such as "á").
     size_t chars = 0;
@@ -419,14 +406,17 @@ int run_fit(const FitArgs& a, std::ostream& out, std::ostream& err) {
   const FitReport report{a.path,
                          *input,
                          *fitted,
-                         *oriented,
+                         oriented->plane,
+                         oriented->normal,
+                         oriented->factors,
                          interval,
                          geo::strike_line_spacing(oriented->plane, interval),
-                         geo::strike_line_azimuth(oriented->plane)};
+                         geo::strike_line_azimuth(oriented->plane),
+                         fitted->count};
   if (a.json)
-    print_json(report, out);
+    report.print_json(out);
   else
-    print_text(report, out);
+    report.print_text(out);
   return 0;
 }
 
