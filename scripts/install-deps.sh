@@ -11,10 +11,10 @@ if [ "${1:-}" = "--test" ]; then
   # a virtual display for the UI, headless Chromium for the report, gpsd for GPS replay,
   # PostgreSQL + PostGIS for a throwaway survey store (tests/survey/pg_cluster.sh),
   # xmllint for GPX output, clang with its libFuzzer and sanitizer runtimes for
-  # scripts/ci-sanitize.sh.
+  # scripts/ci-sanitize.sh, /usr/bin/time for bench/run (peak memory).
   want+=(xvfb xauth python3 python3-numpy python3-pyproj gdal-bin python3-gdal chromium
          mesa-utils libgl1-mesa-dri gpsd gpsd-clients dpkg-dev git clang-format
-         postgresql-15 postgresql-15-postgis-3 libxml2-utils clang libclang-rt-14-dev ccache)
+         postgresql-15 postgresql-15-postgis-3 libxml2-utils clang libclang-rt-14-dev ccache time)
 fi
 missing=()
 for p in "${want[@]}"; do
