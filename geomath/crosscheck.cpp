@@ -1,6 +1,10 @@
 #include "geomath/crosscheck.h"
 
 #include <algorithm>
+#include <atomic>
+#include <exception>
+#include <mutex>
+#include <thread>
 #include <cmath>
 #include <cstdio>
 #include <map>
@@ -119,6 +123,36 @@ std::vector<Outlier> leave_one_out(const std::vector<FitPoint>& all) {
     keep.erase(std::find(keep.begin(), keep.end(), worst->index));
   }
   return out;
+}
+
+// Runs body(0 .. n-1) on up to four threads (fewer on a smaller machine or for
+// little work); rethrows the first exception a body threw.
+template <class F>
+void parallel_for(size_t n, F&& body) {
+  const size_t cores = std::max(1u, std::thread::hardware_concurrency());
+  const size_t threads = std::min({cores, size_t{4}, n / 16 + 1});
+  if (threads <= 1) {
+    for (size_t i = 0; i < n; ++i) body(i);
+    return;
+  }
+  std::atomic<size_t> next{0};
+  std::exception_ptr error;
+  std::mutex error_mutex;
+  auto run = [&] {
+    for (size_t i = next++; i < n; i = next++) {
+      try {
+        body(i);
+      } catch (...) {
+        std::lock_guard<std::mutex> lock(error_mutex);
+        if (!error) error = std::current_exception();
+      }
+    }
+  };
+  std::vector<std::thread> pool;
+  for (size_t t = 1; t < threads; ++t) pool.emplace_back(run);
+  run();
+  for (auto& t : pool) t.join();
+  if (error) std::rethrow_exception(error);
 }
 
 std::string plane_text(const Plane& p) { return format_strike_dip(p); }
@@ -277,14 +311,31 @@ class Checker {
 
   // 1. Fits: a plane through each contact's points, its verdict and whether
   // readings are compared against it.
+  // The plane fit and the leave-one-out screening of one contact: most of the
+  // check's time, and independent from contact to contact.
+  struct FitWork {
+    std::optional<Result<PlaneFit>> fit;
+    std::vector<Outlier> outliers;
+  };
+
   void fit_contacts() {
-    for (const auto& c : in_.contacts) {
-      fit_of_[c.uuid] = rep_.fits.size();
-      rep_.fits.push_back(fit_contact(c));
+    // The fits run on the machine's cores (each contact's Monte Carlo has its
+    // own fixed seed, so the results do not depend on the order); the flags are
+    // then made one contact after the other, in the contacts' order.
+    std::vector<FitWork> work(in_.contacts.size());
+    parallel_for(in_.contacts.size(), [&](size_t i) {
+      const CheckContact& c = in_.contacts[i];
+      if (c.points.size() < 3) return;
+      work[i].fit = fit_plane(c.points);
+      if (*work[i].fit) work[i].outliers = leave_one_out(c.points);
+    });
+    for (size_t i = 0; i < in_.contacts.size(); ++i) {
+      fit_of_[in_.contacts[i].uuid] = rep_.fits.size();
+      rep_.fits.push_back(fit_contact(in_.contacts[i], work[i]));
     }
   }
 
-  ContactFit fit_contact(const CheckContact& c) {
+  ContactFit fit_contact(const CheckContact& c, const FitWork& work) {
     ContactFit cf;
     cf.contact = c.name;
     cf.contact_id = c.uuid;
@@ -293,7 +344,7 @@ class Checker {
       cf.verdict = c.points.empty() ? "no points mapped" : "fewer than 3 points: no plane";
       return cf;
     }
-    auto f = fit_plane(c.points);
+    const Result<PlaneFit>& f = *work.fit;
     Flag flag;
     flag.contact = c.name;
     flag.rule = "weak-geometry";
@@ -309,7 +360,7 @@ class Checker {
     cf.fit = *f;
     cf.plane = grid_plane_to_true(f->plane, c.grid.value_or(in_.grid));
     cf.verdict = f->verdict;
-    const auto outliers = leave_one_out(c.points);
+    const auto& outliers = work.outliers;
     for (size_t k = 0; k < outliers.size() && k < 5; ++k) cf.worst_points.push_back(outliers[k].index);
     // Residuals far above the points' precision say the contact is not one plane
     // (folded, faulted or a point mis-located); that explains a poor geometry too,
@@ -706,19 +757,33 @@ class Checker {
   // beds are upright, below it when they are overturned. A contact whose cone
   // includes the vertical has no known "above" and is not judged either way.
   void facing() {
+    // Stations by position (a cell the size of the search radius) and the facing
+    // marks by contact and by unit, built once: each contact then looks only at
+    // the stations near its own points, so the step grows with the data, not
+    // with contacts times stations.
+    NearIndex stations_near(o_.facing_radius);
+    for (size_t i = 0; i < in_.stations.size(); ++i)
+      if (in_.stations[i].z) stations_near.add(in_.stations[i].e, in_.stations[i].n, i);
+    count_facing_marks();
+    std::vector<char> picked(in_.stations.size(), 0);
+    std::vector<size_t> near_ids;
     for (const auto& c : in_.contacts) {
       if (c.type != "depositional" || c.lower_unit.empty() || c.upper_unit.empty()) continue;
       const ContactFit& cf = rep_.fits[fit_of_[c.uuid]];
       if (!cf.usable) continue;
       const bool expect_overturned = marked_overturned(c);
-      NearIndex near_contact(o_.facing_radius);
-      for (size_t k = 0; k < c.points.size(); ++k) near_contact.add(c.points[k].e, c.points[k].n, k);
+      // Stations within facing_radius of one of the contact's points, in the stations' order.
+      near_ids.clear();
+      for (const auto& pt : c.points)
+        stations_near.within(pt.e, pt.n, o_.facing_radius, [&](size_t id, double) {
+          if (!picked[id]) picked[id] = 1, near_ids.push_back(id);
+        });
+      std::sort(near_ids.begin(), near_ids.end());
       std::vector<const CheckStation*> voters;
-      for (const auto& s : in_.stations) {
-        if (!s.z || (s.unit != c.upper_unit && s.unit != c.lower_unit)) continue;
-        bool near = false;
-        near_contact.within(s.e, s.n, o_.facing_radius, [&](size_t, double) { near = true; });
-        if (near) voters.push_back(&s);
+      for (size_t id : near_ids) {
+        picked[id] = 0;
+        const CheckStation& s = in_.stations[id];
+        if (s.unit == c.upper_unit || s.unit == c.lower_unit) voters.push_back(&s);
       }
       if (voters.size() < 2) continue;
       if (cf.fit->plane.dip + *cf.fit->cone95 >= 90.0) {
@@ -729,15 +794,43 @@ class Checker {
     }
   }
 
-  bool marked_overturned(const CheckContact& c) const {
+  // Bedding and contact readings marked overturned or upright, counted by the
+  // contact they name, by their station's unit, and by both (a reading that
+  // names the contact and stands in one of its units counts once).
+  struct FacingMarks {
     int overturned = 0, upright = 0;
+    void add(CheckFacing f) {
+      if (f == CheckFacing::Overturned) ++overturned;
+      if (f == CheckFacing::Upright) ++upright;
+    }
+  };
+  void count_facing_marks() {
     for (const auto& r : in_.planes) {
       if (r.kind != "bedding" && r.kind != "contact") continue;
+      if (r.facing == CheckFacing::Unknown) continue;
       const CheckStation* st = station(r.station);
-      const bool on_contact = r.contact == c.uuid || (st && (st->unit == c.upper_unit || st->unit == c.lower_unit));
-      if (!on_contact) continue;
-      if (r.facing == CheckFacing::Overturned) ++overturned;
-      if (r.facing == CheckFacing::Upright) ++upright;
+      if (!r.contact.empty()) marks_by_contact_[r.contact].add(r.facing);
+      if (st && !st->unit.empty()) {
+        marks_by_unit_[st->unit].add(r.facing);
+        if (!r.contact.empty()) marks_by_both_[{r.contact, st->unit}].add(r.facing);
+      }
+    }
+  }
+
+  bool marked_overturned(const CheckContact& c) const {
+    int overturned = 0, upright = 0;
+    auto take = [&](const FacingMarks* m, int sign) {
+      if (m) overturned += sign * m->overturned, upright += sign * m->upright;
+    };
+    auto find = [](const auto& map, const auto& key) -> const FacingMarks* {
+      auto it = map.find(key);
+      return it == map.end() ? nullptr : &it->second;
+    };
+    take(find(marks_by_contact_, c.uuid), +1);
+    for (const std::string* u : {&c.upper_unit, &c.lower_unit}) {
+      if (u == &c.lower_unit && c.lower_unit == c.upper_unit) break;  // one unit counts once
+      take(find(marks_by_unit_, *u), +1);
+      take(find(marks_by_both_, std::make_pair(c.uuid, *u)), -1);
     }
     return overturned > upright;
   }
@@ -876,6 +969,8 @@ class Checker {
   std::unordered_map<std::string, size_t> fit_of_;  // contact id -> index in rep_.fits
   NearIndex station_index_;
   std::unordered_map<std::string, std::vector<const CheckPlane*>> slopes_at_;
+  std::unordered_map<std::string, FacingMarks> marks_by_contact_, marks_by_unit_;
+  std::map<std::pair<std::string, std::string>, FacingMarks> marks_by_both_;
   std::unique_ptr<NearIndex> point_index_;
   std::vector<std::pair<size_t, size_t>> point_owner_;  // (contact index, point index)
   std::vector<Compared> compared_;

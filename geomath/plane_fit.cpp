@@ -5,6 +5,9 @@
 #include <algorithm>
 #include <cmath>
 #include <cstdio>
+#include <map>
+#include <mutex>
+#include <optional>
 
 #include "geomath/angles.h"
 #include "geomath/distributions.h"
@@ -342,6 +345,32 @@ void monte_carlo_cone(PlaneFit& f, const std::vector<FitPoint>& pts, const std::
 //   accuracies is 95-97% for 4 to 30 points (tests/geomath/test_plane_fit.cpp).
 // - Three points with accuracies leave no residual to test them: the stated
 //   accuracies are used as they are.
+// The quantiles small_sample_scaling needs depend on the degrees of freedom
+// only; each is computed once per value (the inverse incomplete beta and gamma
+// functions otherwise take a sixth of a season's check: issue 16). The same
+// functions give the same values, so the fits are unchanged.
+struct DofQuantiles {
+  std::optional<double> chi2_05;  // chi2_quantile(0.05, nu)
+  double f95 = 0;                 // f_quantile(0.95, 2, nu)
+  double t975 = 0;                // t_quantile(0.975, nu)
+};
+const DofQuantiles& dof_quantiles(int dof) {
+  static std::mutex mutex;
+  static std::map<int, DofQuantiles> cache;  // references to its values stay valid
+  std::lock_guard<std::mutex> lock(mutex);
+  auto it = cache.find(dof);
+  if (it == cache.end()) {
+    const double nu = dof;
+    DofQuantiles q;
+    if (const auto c05 = chi2_quantile(0.05, nu)) q.chi2_05 = *c05;
+    // nu >= 1 is a valid argument: neither quantile can fail here.
+    q.f95 = *f_quantile(0.95, 2.0, nu);
+    q.t975 = *t_quantile(0.975, nu);
+    it = cache.emplace(dof, q).first;
+  }
+  return it->second;
+}
+
 void small_sample_scaling(PlaneFit& f) {
   constexpr double kZ975 = 1.959963984540054;  // two-sided 95% normal quantile
   f.variance_factor = 1.0;
@@ -349,15 +378,14 @@ void small_sample_scaling(PlaneFit& f) {
   f.interval_k95 = kZ975;
   if (f.dof < 1 || f.cone_source == ConeSource::None) return;
   const double nu = f.dof;
+  const DofQuantiles& q = dof_quantiles(f.dof);
   double s = 1.0;
   if (f.cone_source == ConeSource::Accuracies && f.misfit_ratio) {
-    const auto c05 = chi2_quantile(0.05, nu);
-    const double floor = c05 ? std::sqrt(*c05 / nu) : 0.0;
+    const double floor = q.chi2_05 ? std::sqrt(*q.chi2_05 / nu) : 0.0;
     s = std::max(*f.misfit_ratio, floor);
   }
-  // nu >= 1 is a valid argument: neither quantile can fail here.
-  const double F = *f_quantile(0.95, 2.0, nu);
-  const double t = *t_quantile(0.975, nu);
+  const double F = q.f95;
+  const double t = q.t975;
   f.variance_factor = s;
   f.cone_scale = s * std::sqrt(2.0 * F / chi2_2_quantile(0.95));
   f.interval_k95 = s * t;

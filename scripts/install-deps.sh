@@ -12,11 +12,12 @@ if [ "${1:-}" = "--test" ]; then
   # PostgreSQL + PostGIS for a throwaway survey store (tests/survey/pg_cluster.sh),
   # xmllint for GPX output (and the GPX 1.1 schema check), the sqlite3 shell to count what a
   # project file holds, clang with its libFuzzer and sanitizer runtimes for
-  # scripts/ci-sanitize.sh, exiftool for the photos' EXIF and Pillow to make test photos.
+  # scripts/ci-sanitize.sh, exiftool for the photos' EXIF and Pillow to make test photos,
+  # /usr/bin/time for bench/run (peak memory).
   want+=(xvfb xauth python3 python3-numpy python3-pyproj gdal-bin python3-gdal chromium
          mesa-utils libgl1-mesa-dri gpsd gpsd-clients dpkg-dev git clang-format
          postgresql-15 postgresql-15-postgis-3 libxml2-utils sqlite3 clang libclang-rt-14-dev ccache
-         libimage-exiftool-perl python3-pil)
+         libimage-exiftool-perl python3-pil time)
 fi
 missing=()
 for p in "${want[@]}"; do

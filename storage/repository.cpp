@@ -186,9 +186,14 @@ void apply_declination(Project& p, const Station& st, const std::string& time, N
     fail("declination", "declination-range", "declination " + format_number(decl) + " is outside -180..180 degrees");
 }
 
+template <class T>
+std::optional<T> get_one(Project& p, const std::string& where, const std::vector<std::string>& args);
+
+// The live station a reading belongs to, read in one query.
 Station live_station(Project& p, const std::string& uuid) {
-  require_live(p.db(), "station", "stations", uuid, "station");
-  return *get_station(p, uuid);
+  auto st = get_one<Station>(p, "uuid = ? AND deleted IS NULL", {uuid});
+  if (!st) fail("station", "unknown-station", "no station with UUID '" + uuid + "' in the project");
+  return *st;
 }
 
 template <>
@@ -526,9 +531,11 @@ template <class T>
 std::string add_impl(Project& p, T& r) {
   const std::string table = Traits<T>::table;
   p.write([&] {
-    if (r.meta.uuid.empty()) r.meta.uuid = new_uuid();
+    // A UUID made here is new (random, 122 bits); one given by the caller is checked.
+    const bool fresh = r.meta.uuid.empty();
+    if (fresh) r.meta.uuid = new_uuid();
     if (!is_uuid(r.meta.uuid)) fail("uuid", "uuid", "'" + r.meta.uuid + "' is not a UUID");
-    {
+    if (!fresh) {
       Stmt s(p.db(), "SELECT 1 FROM " + table + " WHERE uuid = ?");
       s.bind(1, r.meta.uuid);
       if (s.step()) fail("uuid", "duplicate", "a record with UUID " + r.meta.uuid + " already exists");

@@ -3,6 +3,9 @@
 #include <sqlite3.h>
 
 #include <cctype>
+#include <mutex>
+#include <string>
+#include <unordered_map>
 
 namespace cairn::store {
 
@@ -13,6 +16,52 @@ namespace {
   throw SqlError(context.empty() ? msg : context + ": " + msg, code);
 }
 }  // namespace
+
+// At most this many idle statements are kept; past it the cache is emptied
+// (statements built from varying text, such as a LIMIT, do not pile up).
+constexpr size_t kMaxCachedStatements = 128;
+
+struct Db::Cache {
+  std::mutex mutex;  // a connection may be shared with a background thread
+  std::unordered_map<std::string, sqlite3_stmt*> idle;
+  void clear() {
+    for (auto& [sql, st] : idle) sqlite3_finalize(st);
+    idle.clear();
+  }
+};
+
+sqlite3_stmt* Db::take(std::string_view sql) {
+  if (cache_) {
+    std::lock_guard<std::mutex> lock(cache_->mutex);
+    auto it = cache_->idle.find(std::string(sql));
+    if (it != cache_->idle.end()) {
+      sqlite3_stmt* st = it->second;
+      cache_->idle.erase(it);
+      return st;
+    }
+  }
+  sqlite3_stmt* st = nullptr;
+  int rc = sqlite3_prepare_v2(db_, sql.data(), static_cast<int>(sql.size()), &st, nullptr);
+  if (rc != SQLITE_OK) {
+    sqlite3_finalize(st);
+    fail(db_, rc, "preparing SQL");
+  }
+  return st;
+}
+
+void Db::give_back(std::string_view sql, sqlite3_stmt* st) {
+  if (!st) return;
+  sqlite3_reset(st);
+  sqlite3_clear_bindings(st);
+  if (!cache_ || !db_) {
+    sqlite3_finalize(st);
+    return;
+  }
+  std::lock_guard<std::mutex> lock(cache_->mutex);
+  if (cache_->idle.size() >= kMaxCachedStatements) cache_->clear();
+  auto [it, inserted] = cache_->idle.emplace(std::string(sql), st);
+  if (!inserted) sqlite3_finalize(st);  // the same text in use twice at once: keep one
+}
 
 std::string immutable_uri(const std::string& path) {
   // Percent-encode everything but unreserved characters and '/' (RFC 3986, section 2.3).
@@ -38,6 +87,7 @@ Db::Db(const std::string& path, int flags, Trust trust) {
     db_ = nullptr;
     throw SqlError("cannot open " + path + ": " + msg, rc);
   }
+  cache_ = std::make_unique<Cache>();
   sqlite3_extended_result_codes(db_, 1);
   int ok = 1;
   sqlite3_db_config(db_, SQLITE_DBCONFIG_DEFENSIVE, 1, &ok);
@@ -52,6 +102,7 @@ Db::Db(const std::string& path, int flags, Trust trust) {
   }
 }
 
+Db::Db() = default;
 Db::~Db() { close(); }
 
 void Db::set_defensive(bool on) {
@@ -60,18 +111,24 @@ void Db::set_defensive(bool on) {
     throw SqlError("cannot set defensive mode", SQLITE_ERROR);
 }
 
-Db::Db(Db&& o) noexcept : db_(o.db_) { o.db_ = nullptr; }
+Db::Db(Db&& o) noexcept : db_(o.db_), cache_(std::move(o.cache_)) { o.db_ = nullptr; }
 
 Db& Db::operator=(Db&& o) noexcept {
   if (this != &o) {
     close();
     db_ = o.db_;
+    cache_ = std::move(o.cache_);
     o.db_ = nullptr;
   }
   return *this;
 }
 
 void Db::close() {
+  if (cache_) {
+    std::lock_guard<std::mutex> lock(cache_->mutex);
+    cache_->clear();
+  }
+  cache_.reset();
   if (db_) sqlite3_close_v2(db_);
   db_ = nullptr;
 }
@@ -102,14 +159,13 @@ int64_t Db::changes() const { return sqlite3_changes64(db_); }
 
 std::string Db::errmsg() const { return db_ ? sqlite3_errmsg(db_) : ""; }
 
-Stmt::Stmt(Db& db, std::string_view sql) : db_(&db) {
-  int rc = sqlite3_prepare_v2(db.handle(), sql.data(), static_cast<int>(sql.size()), &st_, nullptr);
-  if (rc != SQLITE_OK) fail(db.handle(), rc, "preparing SQL");
+Stmt::Stmt(Db& db, std::string_view sql) : db_(&db), st_(db.take(sql)), sql_(sql) {}
+
+Stmt::~Stmt() {
+  if (st_) db_->give_back(sql_, st_);
 }
 
-Stmt::~Stmt() { sqlite3_finalize(st_); }
-
-Stmt::Stmt(Stmt&& o) noexcept : db_(o.db_), st_(o.st_) { o.st_ = nullptr; }
+Stmt::Stmt(Stmt&& o) noexcept : db_(o.db_), st_(o.st_), sql_(std::move(o.sql_)) { o.st_ = nullptr; }
 
 #define CAIRN_BIND(call)                                  \
   do {                                                    \

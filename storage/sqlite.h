@@ -4,6 +4,7 @@
 // it is written (SQLite documentation, "Binding Values To Prepared Statements").
 #pragma once
 #include <cstdint>
+#include <memory>
 #include <optional>
 #include <stdexcept>
 #include <string>
@@ -43,7 +44,7 @@ std::string immutable_uri(const std::string& path);
 // One database connection.
 class Db {
  public:
-  Db() = default;
+  Db();
   // Opens PATH with sqlite3_open_v2 flags (SQLITE_OPEN_*). Throws SqlError.
   Db(const std::string& path, int flags, Trust trust = Trust::Own);
   ~Db();
@@ -69,7 +70,18 @@ class Db {
   std::string errmsg() const;
 
  private:
+  friend class Stmt;
+  // Prepared statements kept for reuse, by SQL text: preparing is most of the
+  // cost of a small statement (SQLite documentation, "Prepared Statement
+  // Object": "prepare once, bind, step, reset, repeat"), and the record API
+  // runs the same few statements for every row of an import or a merge. A
+  // statement is taken out while a Stmt uses it and put back reset with its
+  // bindings cleared, so a cached statement never holds a read transaction.
+  struct Cache;
+  sqlite3_stmt* take(std::string_view sql);
+  void give_back(std::string_view sql, sqlite3_stmt* st);
   sqlite3* db_ = nullptr;
+  std::unique_ptr<Cache> cache_;
 };
 
 // A prepared statement. Parameters are numbered from 1, columns from 0.
@@ -119,6 +131,7 @@ class Stmt {
  private:
   Db* db_;
   sqlite3_stmt* st_ = nullptr;
+  std::string sql_;  // the text it was prepared from: the key it goes back to the cache under
 };
 
 }  // namespace cairn::store

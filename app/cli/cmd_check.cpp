@@ -1,8 +1,12 @@
 // cairn check FILE: contact fits, then the flags grouped by station.
+#include <algorithm>
+#include <cmath>
 #include <cstdio>
 #include <iomanip>
 #include <iostream>
 #include <map>
+#include <set>
+#include <unordered_map>
 #include <sstream>
 
 #include "app/cli/check_terrain.h"
@@ -68,6 +72,71 @@ void write_ground_json(JsonWriter& j, const GroundReport& gr) {
   j.end_array();
 }
 
+// `check --json` lists where next for the usable contacts nearest each station
+// only: a prediction far from a contact's points says little, and every contact
+// at every station grows as their product (issue 16).
+constexpr size_t kWhereNextContacts = 5;
+
+// For each fit, the stations (indices, in order) that have it among their
+// kWhereNextContacts nearest usable fits, by horizontal distance from the
+// station to the fit's centroid (ties: the earlier fit). A uniform grid over the
+// centroids searched in growing rings keeps it near linear in stations + fits.
+std::vector<std::vector<size_t>> nearest_fits(const std::vector<geo::CheckStation>& stations,
+                                              const std::vector<geo::ContactFit>& fits) {
+  std::vector<std::vector<size_t>> out(fits.size());
+  std::vector<size_t> usable;
+  for (size_t i = 0; i < fits.size(); ++i)
+    if (fits[i].usable && fits[i].fit) usable.push_back(i);
+  if (usable.empty()) return out;
+  double e0 = 1e300, e1 = -1e300, n0 = 1e300, n1 = -1e300;
+  for (size_t i : usable) {
+    const auto& c = fits[i].fit->centroid;
+    e0 = std::min(e0, c.x()), e1 = std::max(e1, c.x()), n0 = std::min(n0, c.y()), n1 = std::max(n1, c.y());
+  }
+  const double span = std::max({e1 - e0, n1 - n0, 1.0});
+  const long side = std::max(1L, static_cast<long>(std::sqrt(static_cast<double>(usable.size()))));
+  const double cell = span / static_cast<double>(side) * 1.0000001;
+  std::vector<std::vector<size_t>> grid(static_cast<size_t>(side * side));
+  auto cell_of = [&](double v, double lo) {
+    return std::clamp(static_cast<long>(std::floor((v - lo) / cell)), 0L, side - 1);
+  };
+  for (size_t i : usable) {
+    const auto& c = fits[i].fit->centroid;
+    grid[static_cast<size_t>(cell_of(c.y(), n0) * side + cell_of(c.x(), e0))].push_back(i);
+  }
+  std::vector<std::pair<double, size_t>> best;
+  for (size_t si = 0; si < stations.size(); ++si) {
+    const auto& s = stations[si];
+    best.clear();
+    const long ce = cell_of(s.e, e0), cn = cell_of(s.n, n0);
+    const double out_e = std::max(0.0, std::max(e0 - s.e, s.e - (e0 + cell * static_cast<double>(side))));
+    const double out_n = std::max(0.0, std::max(n0 - s.n, s.n - (n0 + cell * static_cast<double>(side))));
+    const double outside = std::hypot(out_e, out_n);
+    for (long r = 0; r < side; ++r) {
+      for (long i = ce - r; i <= ce + r; ++i)
+        for (long k = cn - r; k <= cn + r; ++k) {
+          if (i < 0 || k < 0 || i >= side || k >= side) continue;
+          if (std::max(std::abs(i - ce), std::abs(k - cn)) != r) continue;  // the ring only
+          for (size_t fi : grid[static_cast<size_t>(k * side + i)]) {
+            const auto& c = fits[fi].fit->centroid;
+            best.push_back({std::hypot(c.x() - s.e, c.y() - s.n), fi});
+          }
+        }
+      if (best.size() >= kWhereNextContacts) {
+        std::sort(best.begin(), best.end());
+        best.resize(kWhereNextContacts);
+        // A fit beyond ring r lies at least r cells from the station, and no
+        // nearer than the grid's edge when the station is outside it.
+        if (best.back().first <= std::max(outside, cell * static_cast<double>(r))) break;
+      }
+    }
+    std::sort(best.begin(), best.end());
+    if (best.size() > kWhereNextContacts) best.resize(kWhereNextContacts);
+    for (const auto& b : best) out[b.second].push_back(si);
+  }
+  return out;
+}
+
 void write_json(std::ostream& out, const core::CheckData& data, const geo::CheckReport& rep, geo::Severity min,
                 const GroundReport& gr) {
   JsonWriter j(out);
@@ -131,11 +200,15 @@ void write_json(std::ostream& out, const core::CheckData& data, const geo::Check
     j.end_object();
   }
   j.end_array();
-  // Where next: every usable contact's predicted elevation (95% half-width) at every station.
+  // Where next: the predicted elevation (95% half-width) of the kWhereNextContacts
+  // usable contacts nearest each station (bounded per station, so the output
+  // grows with the data), by contact in the fits' order, then by station.
+  const auto near = nearest_fits(data.input.stations, rep.fits);
   j.key("where_next").begin_array();
-  for (const auto& f : rep.fits) {
-    if (!f.usable) continue;
-    for (const auto& s : data.input.stations) {
+  for (size_t fi = 0; fi < rep.fits.size(); ++fi) {
+    const auto& f = rep.fits[fi];
+    for (size_t si : near[fi]) {
+      const auto& s = data.input.stations[si];
       auto e = geo::elevation_at(*f.fit, s.e, s.n);
       if (!e) continue;
       j.begin_object();
@@ -205,17 +278,24 @@ void write_text(std::ostream& out, const core::CheckData& data, const geo::Check
   }
   if (shown == 0) out << "  none\n";
 
-  // Where next: the contact's predicted elevation at stations that name it.
+  // Where next: the contact's predicted elevation at stations that name it
+  // (each contact's stations gathered in one pass over the readings, in their order).
   std::map<std::string, std::vector<std::string>> lines;
-  std::map<std::string, const geo::CheckStation*> st;
-  for (const auto& s : data.input.stations) st[s.uuid] = &s;
+  std::unordered_map<std::string, const geo::CheckStation*> st;
+  for (const auto& s : data.input.stations) st.emplace(s.uuid, &s);
+  std::unordered_map<std::string, std::vector<const geo::CheckStation*>> recorded_at;
+  std::set<std::pair<std::string, std::string>> seen;  // (contact, station)
+  for (const auto& r : data.input.planes) {
+    if (r.contact.empty()) continue;
+    auto s = st.find(r.station);
+    if (s == st.end() || !seen.insert({r.contact, r.station}).second) continue;
+    recorded_at[r.contact].push_back(s->second);
+  }
   for (const auto& f : rep.fits) {
     if (!f.usable) continue;
-    std::map<std::string, bool> seen;
-    for (const auto& r : data.input.planes) {
-      if (r.contact != f.contact_id || seen[r.station] || !st.count(r.station)) continue;
-      seen[r.station] = true;
-      const auto* s = st[r.station];
+    auto at = recorded_at.find(f.contact_id);
+    if (at == recorded_at.end()) continue;
+    for (const geo::CheckStation* s : at->second) {
       auto e = geo::elevation_at(*f.fit, s->e, s->n);
       if (!e) continue;
       std::string l = "    " + s->code + ": contact at " + num(e->elevation, "%.0f") + " m";
@@ -318,7 +398,8 @@ int run_check(const CheckArgs& a, std::ostream& out, std::ostream& err) {
 Runner define(CLI::App& app) {
   auto a = std::make_shared<CheckArgs>();
   positional(app, "FILE", a->file, "the project file");
-  flag(app, "--json", a->json, "print the fits and flags as JSON");
+  flag(app, "--json", a->json,
+       "print the fits and flags as JSON (streamed; where_next: the 5 usable contacts nearest each station)");
   choice(app, "--min-severity", a->min_severity, {"note", "query", "conflict", "hazard"},
          "show flags of this severity and worse (default: note)");
   number(app, "--nearby", a->nearby, 0, 100000,
