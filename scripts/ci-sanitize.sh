@@ -21,8 +21,9 @@ cmake -S "$here" -B "$here/build-asan" -DCMAKE_BUILD_TYPE=RelWithDebInfo -DCAIRN
 replays=(fuzz_attitude_replay fuzz_gpx_replay fuzz_merge_replay fuzz_exif_replay fuzz_raster_replay)
 for k in units contacts stations planes lines points; do replays+=("fuzz_csv_${k}_replay"); done
 cmake --build "$here/build-asan" -j"$jobs" --target test_geomath test_formats test_storage "${replays[@]}"
-# test_app and the reference checks need the `cairn` binary with its UI: not part of this run.
-(cd "$here/build-asan" && ctest --output-on-failure -j"$jobs" --timeout 900 -E '(^reference\.|_NOT_BUILT)')
+# test_app, the reference checks and the benchmarks' smoke run (bench.quick) need the
+# `cairn` binary with its UI: not part of this run (the Release suite runs them).
+(cd "$here/build-asan" && ctest --output-on-failure -j"$jobs" --timeout 900 -E '(^reference\.|^bench\.|_NOT_BUILT)')
 
 echo "== libFuzzer targets, ${secs} s each (build-fuzz)"
 CC=clang CXX=clang++ cmake -S "$here" -B "$here/build-fuzz" -DCMAKE_BUILD_TYPE=RelWithDebInfo -DCAIRN_FUZZ=ON \

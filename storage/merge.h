@@ -155,6 +155,12 @@ struct MergeReport {
 // target itself; and rethrows any failure part-way after rolling back.
 MergeReport merge_files(Project& target, const std::vector<std::string>& sources, const MergeOptions& options = {});
 
+// The query a merge uses to find every record of TABLE holding a natural code
+// (KEY = ?1, within SCOPE = ?2 when SCOPE is not empty), live or deleted, with
+// its key_clashes row: uuid, stored code, created, deleted, original, stored;
+// oldest first. Exposed so that a test can ask SQLite how it answers it.
+std::string code_holders_sql(const std::string& table, const std::string& key, const std::string& scope);
+
 // The conflicts listed in a project, oldest first (open ones only unless asked).
 std::vector<MergeConflict> list_conflicts(Project& p, bool include_resolved = false);
 // Marks a conflict as settled by a person (the version kept aside stays in the

@@ -361,6 +361,18 @@ CREATE TABLE track_points (
 CREATE INDEX track_points_time ON track_points(person, time);
 )SQL";
 
+// Version 7 -> 8: full indexes on the natural keys (the unique ones above cover
+// live records only) and on key_clashes.original, so that a merge finds every
+// record holding a code, live or deleted, by index lookups instead of a scan of
+// the whole table per merged record (bench/RESULTS.md, season scale).
+const char* const kMigrateKeyIndexes = R"SQL(
+CREATE INDEX people_initials_any ON people(initials);
+CREATE INDEX units_code_any ON units(code);
+CREATE INDEX contacts_name_any ON contacts(name);
+CREATE INDEX stations_code_any ON stations(code);
+CREATE INDEX key_clashes_original ON key_clashes(original);
+)SQL";
+
 const char* const kRecordTables[] = {"devices", "people", "units",  "contacts", "stations",
                                      "planes",  "lines",  "points", "photos",   nullptr};
 
@@ -384,7 +396,8 @@ void migrate(Db& db, int from) {
                                       kMigrate3to4,
                                       kMigrateTrust,
                                       kMigrateTerrain,
-                                      kMigratePickListsAndTrack};  // steps[v]: v -> v+1
+                                      kMigratePickListsAndTrack,
+                                      kMigrateKeyIndexes};  // steps[v]: v -> v+1
   for (int v = from; v < kSchemaVersion; ++v) {
     // The terrain step widens a CHECK constraint through writable_schema (the
     // procedure SQLite's documentation gives), which defensive mode forbids; the

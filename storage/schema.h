@@ -15,7 +15,7 @@ namespace cairn::store {
 class Db;
 
 // The schema version this build writes and reads.
-constexpr int kSchemaVersion = 7;
+constexpr int kSchemaVersion = 8;
 // "CARN" in ASCII, the value of PRAGMA application_id in every project file.
 constexpr int32_t kApplicationId = 0x4341524E;
 

@@ -514,8 +514,11 @@ TEST(Merge, AnOlderTabletFileIsMergedAndLeftUntouched) {
   {
     Db db(a, SQLITE_OPEN_READWRITE);
     // Back to version 2: without the v3 tables, the v4 project setting, the
-    // v5 screening settings and repeat_of, the v6 terrain and the v7 pick-lists and track.
+    // v5 screening settings and repeat_of, the v6 terrain, the v7 pick-lists and track
+    // and the v8 key indexes.
     db.exec(
+        "DROP INDEX people_initials_any; DROP INDEX units_code_any; DROP INDEX contacts_name_any; "
+        "DROP INDEX stations_code_any; "
         "DROP TABLE pick_lists; DROP TABLE track_points; DROP TABLE terrain_tiles; DROP TABLE terrain; "
         "DROP TABLE conflict_values; DROP TABLE conflicts; DROP TABLE key_clashes; "
         "ALTER TABLE project DROP COLUMN nearby_radius; ALTER TABLE project DROP COLUMN friction_angle; "
