@@ -5,7 +5,7 @@
 set -euo pipefail
 here=$(cd "$(dirname "$0")/.." && pwd)
 cd "$here"
-mapfile -t files < <(git ls-files '*.cpp' '*.h' 2>/dev/null || find app formats geomath storage tests bench -name '*.cpp' -o -name '*.h')
+mapfile -t files < <(git ls-files --cached --others --exclude-standard '*.cpp' '*.h' 2>/dev/null || find app formats geomath storage tests bench -name '*.cpp' -o -name '*.h')
 if [ "${1:-}" = "--check" ]; then
   bad=()
   for f in "${files[@]}"; do

@@ -42,8 +42,8 @@ TEST(MergePlan, EveryKeyedTableIsSearchedByIndexNeverScanned) {
     const char* scope;
   };
   // The natural keys of storage/SCHEMA.md ("Codes and clashes").
-  const Keyed keyed[] = {{"people", "initials", ""},  {"units", "code", ""},         {"contacts", "name", ""},
-                         {"stations", "code", ""},    {"planes", "ref", "station"}, {"lines", "ref", "station"}};
+  const Keyed keyed[] = {{"people", "initials", ""}, {"units", "code", ""},        {"contacts", "name", ""},
+                         {"stations", "code", ""},   {"planes", "ref", "station"}, {"lines", "ref", "station"}};
   for (const auto& k : keyed) {
     const auto plan = plan_of(p.db(), code_holders_sql(k.table, k.key, k.scope));
     ASSERT_FALSE(plan.empty()) << k.table;
@@ -54,7 +54,7 @@ TEST(MergePlan, EveryKeyedTableIsSearchedByIndexNeverScanned) {
       searches_of_r += line.rfind("SEARCH r ", 0) == 0;
       searches_of_kc += line.rfind("SEARCH kc ", 0) == 0;
     }
-    EXPECT_EQ(searches_of_r, 2) << k.table << joined(plan);  // by code, and by uuid from a clash row
+    EXPECT_EQ(searches_of_r, 2) << k.table << joined(plan);   // by code, and by uuid from a clash row
     EXPECT_EQ(searches_of_kc, 2) << k.table << joined(plan);  // by record, and by original
   }
 }
@@ -70,13 +70,20 @@ TEST(MergePlan, TheLookupFindsLiveDeletedAndRenamedHoldersOldestFirst) {
     db.exec(
         "INSERT INTO stations(uuid, code, lat, lon, source, created, updated, device, deleted) VALUES "
         "('u-live', 'S7', 46.5, 14.9, 'manual', '2026-07-06T10:00:00.000Z', '2026-07-06T10:00:00.000Z', "
-        "'" + std::string(kCampDevice) + "', NULL), "
+        "'" +
+        std::string(kCampDevice) +
+        "', NULL), "
         "('u-gone', 'S7', 46.5, 14.9, 'manual', '2026-07-06T09:00:00.000Z', '2026-07-06T09:00:00.000Z', "
-        "'" + std::string(kCampDevice) + "', '2026-07-06T09:30:00.000Z'), "
+        "'" +
+        std::string(kCampDevice) +
+        "', '2026-07-06T09:30:00.000Z'), "
         "('u-renamed', 'S7~abc', 46.5, 14.9, 'manual', '2026-07-06T11:00:00.000Z', '2026-07-06T11:00:00.000Z', "
-        "'" + std::string(kCampDevice) + "', NULL), "
+        "'" +
+        std::string(kCampDevice) +
+        "', NULL), "
         "('u-other', 'S8', 46.5, 14.9, 'manual', '2026-07-06T08:00:00.000Z', '2026-07-06T08:00:00.000Z', "
-        "'" + std::string(kCampDevice) + "', NULL)");
+        "'" +
+        std::string(kCampDevice) + "', NULL)");
     db.exec("INSERT INTO key_clashes(record, tbl, original, stored) VALUES ('u-renamed', 'stations', 'S7', 'S7~abc')");
   });
   Stmt s(db, code_holders_sql("stations", "code", ""));
