@@ -7,6 +7,7 @@
 // its files lose their write permission (chmod a-w). When neither can be done
 // (root without CAP_SYS_ADMIN), why_not() says so and the test skips.
 // It holds no checks of its own.
+// Source: the Linux manual pages access(2), mount(2) and unshare(2).
 #pragma once
 #include <sched.h>
 #include <sys/mount.h>
