@@ -6,6 +6,7 @@
 #include <cmath>
 #include <filesystem>
 #include <set>
+#include <unordered_map>
 #include <stdexcept>
 
 #include "geomath/geodesy.h"
@@ -155,16 +156,14 @@ struct Table {
   std::vector<Column> cols;
   int uuid = -1, created = -1, updated = -1, device = -1, deleted = -1;
   int key = -1, scope = -1;  // natural key, unique among live records (within scope)
+  // Statement texts, made once (table_info): a merge runs them for every record.
+  std::string columns, select_by_uuid, insert;
   int col(const std::string& n) const {
     for (size_t i = 0; i < cols.size(); ++i)
       if (cols[i].name == n) return static_cast<int>(i);
     return -1;
   }
-  std::string list() const {
-    std::string l;
-    for (const auto& c : cols) l += (l.empty() ? "" : ", ") + quoted(c.name);
-    return l;
-  }
+  const std::string& list() const { return columns; }
 };
 
 // Natural keys, as the partial unique indexes of storage/schema.cpp define them.
@@ -193,18 +192,29 @@ Table table_info(Db& db, const std::string& name) {
       t.key = t.col(k.key);
       t.scope = k.scope ? t.col(k.scope) : -1;
     }
+  std::string marks;
+  for (const auto& c : t.cols) {
+    t.columns += (t.columns.empty() ? "" : ", ") + quoted(c.name);
+    marks += marks.empty() ? "?" : ",?";
+  }
+  t.select_by_uuid = "SELECT " + t.columns + " FROM " + quoted(name) + " WHERE uuid = ?";
+  t.insert = "INSERT INTO " + quoted(name) + "(" + t.columns + ") VALUES (" + marks + ")";
   return t;
 }
 
 // The source's row of `uuid` must be read with the target's column list; a
 // source migrated to the same schema version has the same columns.
-std::optional<Row> read_row(Db& db, const Table& t, const std::string& uuid) {
-  Stmt s(db, "SELECT " + t.list() + " FROM " + quoted(t.name) + " WHERE uuid = ?");
-  s.bind(1, uuid);
-  if (!s.step()) return std::nullopt;
+Row read_columns(const Stmt& s, const Table& t) {
   Row r(t.cols.size());
   for (size_t i = 0; i < t.cols.size(); ++i) r[i] = read_value(s, static_cast<int>(i), t.cols[i].affinity);
   return r;
+}
+
+std::optional<Row> read_row(Db& db, const Table& t, const std::string& uuid) {
+  Stmt s(db, t.select_by_uuid);
+  s.bind(1, uuid);
+  if (!s.step()) return std::nullopt;
+  return read_columns(s, t);
 }
 
 // The code a record was written with: a record stored under CODE~xxxxxx after a
@@ -385,6 +395,9 @@ struct Source {
   ProjectInfo info;
   std::vector<std::string> notes;    // for the report's warnings
   std::vector<std::string> ignored;  // "table x", "trigger y", "view z"
+  // The file's key_clashes rows (record -> original, stored), read once: every
+  // incoming record asks for its natural code. A few rows per clash reported.
+  std::unordered_map<std::string, std::pair<std::string, std::string>> clashes;
 
   Source(const std::string& path, const std::string& camp) : copy_file(camp), backups(camp) {
     std::error_code ec;
@@ -407,8 +420,20 @@ struct Source {
       throw std::runtime_error(path + " failed its integrity check; restore it from one of its backups before merging");
     validate_source(db(), path);
     info = project->info();
+    // Read record by record in creation order, not page order: a page cache
+    // of its own (32 MiB) keeps the reads out of the kernel (as in merge_files).
+    db().exec("PRAGMA cache_size = -32768");
+    Stmt k(db(), "SELECT record, original, stored FROM key_clashes");
+    while (k.step()) clashes.emplace(k.text(0), std::make_pair(k.text(1), k.text(2)));
   }
   Db& db() { return project->db(); }
+
+  // natural_key() of an incoming record, from the rows read above.
+  void natural_key(const Table& t, Row& r) const {
+    if (t.key < 0 || r[t.key].null()) return;
+    const auto it = clashes.find(r[t.uuid].s);
+    if (it != clashes.end() && it->second.second == r[t.key].s) r[t.key] = Value::of(it->second.first);
+  }
 };
 
 // ---- the merge of one source -----------------------------------------------------------
@@ -595,11 +620,12 @@ class Merger {
     int photos_added = 0;
     for (const char* name : kRecordOrder) {
       const Table& t = tables_.at(name);
-      Stmt s(src.db(), std::string("SELECT uuid FROM ") + name + " ORDER BY created, uuid");
+      // Every column in the one pass: the file is a private copy nothing else writes.
+      Stmt s(src.db(), "SELECT " + t.list() + " FROM " + quoted(name) + " ORDER BY created, uuid");
       while (s.step()) {
         tick(name);
-        Row in = *read_row(src.db(), t, s.text(0));
-        natural_key(src.db(), t, in);
+        Row in = read_columns(s, t);
+        src.natural_key(t, in);
         const Outcome o = merge_record(src, t, in);
         if (o == Outcome::Added && t.name == "photos") ++photos_added;
         const std::string device = in[t.device].s;
@@ -901,6 +927,13 @@ class Merger {
 
   // Writes ROW (natural code) as the current version; OLD is the version it replaces.
   void write(const Table& t, const Row& row, const Row* old) {
+    // A new record whose code nobody holds (the common case): settle() after
+    // the insert would find it alone, keeping its code and no clash row.
+    if (!old && t.key >= 0 && !row[t.key].null() && holders(t, row[t.key].s, row).empty()) {
+      insert_row(t, row);
+      set_code(t, row[t.uuid].s, row[t.key].s, row[t.key].s, row[t.key].s, false);
+      return;
+    }
     Row r = row;
     const bool keyed = t.key >= 0 && !r[t.key].null() && r[t.deleted].null();
     // A code held by another live record: written first under a code of its
@@ -944,26 +977,30 @@ class Merger {
   // Gives every record whose natural code is REF's its stored code: the live
   // one created first keeps the code, the other live ones get CODE~xxxxxx,
   // deleted ones keep their own code. A function of the records alone.
+  // The records whose natural code is CODE, in the scope of REF (oldest first).
+  struct Member {
+    std::string uuid, stored, created;
+    bool deleted, clash_row;
+  };
+  std::vector<Member> holders(const Table& t, const std::string& code, const Row& ref) {
+    std::string& sql = holders_sql_[t.name];
+    if (sql.empty())
+      sql = code_holders_sql(t.name, t.cols[t.key].name, t.scope >= 0 ? t.cols[t.scope].name : std::string());
+    std::vector<Member> members;
+    Stmt s(db_, sql);
+    s.bind(1, code);
+    if (t.scope >= 0) bind_value(s, 2, ref[t.scope]);
+    // clash_row: already reported (a provisional code is not a report yet).
+    while (s.step())
+      members.push_back({s.text(0), s.text(1), s.text(2), s.int64(3) != 0,
+                         !s.is_null(4) && s.text(5) != provisional(code, s.text(0))});
+    return members;
+  }
+
   void settle(const Table& t, const Row& ref) {
     if (ref[t.key].null()) return;
     const std::string code = ref[t.key].s;
-    const std::string k = quoted(t.cols[t.key].name);
-    const std::string sql =
-        code_holders_sql(t.name, t.cols[t.key].name, t.scope >= 0 ? t.cols[t.scope].name : std::string());
-    struct Member {
-      std::string uuid, stored, created;
-      bool deleted, clash_row;
-    };
-    std::vector<Member> members;
-    {
-      Stmt s(db_, sql);
-      s.bind(1, code);
-      if (t.scope >= 0) bind_value(s, 2, ref[t.scope]);
-      // clash_row: already reported (a provisional code is not a report yet).
-      while (s.step())
-        members.push_back({s.text(0), s.text(1), s.text(2), s.int64(3) != 0,
-                           !s.is_null(4) && s.text(5) != provisional(code, s.text(0))});
-    }
+    const std::vector<Member> members = holders(t, code, ref);
     const Member* keeper = nullptr;
     for (const auto& m : members)
       if (!m.deleted) {
@@ -1043,7 +1080,7 @@ class Merger {
   }
 
   void insert_row(const Table& t, const Row& r) {
-    Stmt s(db_, "INSERT INTO " + quoted(t.name) + "(" + t.list() + ") VALUES (" + marks(t.cols.size()) + ")");
+    Stmt s(db_, t.insert);
     for (size_t i = 0; i < r.size(); ++i) bind_value(s, static_cast<int>(i) + 1, r[i]);
     run(s, t, r);
   }
@@ -1210,6 +1247,7 @@ class Merger {
   const MergeOptions& o_;
   MergeReport& rep_;
   std::map<std::string, Table> tables_;
+  std::unordered_map<std::string, std::string> holders_sql_;  // by table
   long writes_ = 0;
 };
 
@@ -1257,6 +1295,21 @@ MergeReport merge_files(Project& target, const std::vector<std::string>& sources
   for (const auto& s : sources) copies.push_back(std::make_unique<Source>(s, target.path()));
 
   MergeReport rep;
+  // A larger page cache while the merge's one transaction runs: with SQLite's
+  // default (about 2 MB) the pages of a season's indexes are written to the
+  // -wal and read back several times before the commit ("cache spill",
+  // SQLite documentation, PRAGMA cache_size). 32 MiB, given back afterwards.
+  const int64_t cache_pages = target.db().query_int("PRAGMA cache_size");
+  target.db().exec("PRAGMA cache_size = -32768");
+  struct RestoreCache {
+    Db& db;
+    int64_t pages;
+    ~RestoreCache() {
+      try {
+        db.exec("PRAGMA cache_size = " + std::to_string(pages));
+      } catch (...) {}
+    }
+  } restore{target.db(), cache_pages};
   target.write([&] {
     rep = MergeReport{};
     Merger m(target, options, rep);
