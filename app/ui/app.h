@@ -6,6 +6,7 @@
 // and nothing needs a keyboard. Events can also come from an event script
 // (script.h), pushed through SDL's own queue.
 #pragma once
+#include <chrono>
 #include <cstdint>
 #include <map>
 #include <memory>
@@ -84,6 +85,10 @@ struct NetState {
   std::string kind, unit, contact, day, person;  // filters, "" = all
   int display = 0;                               // 0 poles, 1 great circles, 2 both
   bool contours = false, statistics = false, equal_angle = false;
+  // The kinds and field days present, gathered once per revision of the
+  // records (a season has a few hundred thousand readings: not every frame).
+  std::uint64_t values_revision = 0;
+  std::vector<std::pair<std::string, std::string>> kinds, days;
   // Cache: the drawing recorded for this key.
   std::string key;
   plot::RecordingCanvas drawing;
@@ -245,8 +250,14 @@ class App {
   std::string pending_screenshot_;
   std::optional<geo::TrackFix> track_last_;  // the last fix kept in the day track (this project)
   long track_logged_ = 0;
-  // Time to build each frame (events to ImGui::Render, no GPU work), for --frame-stats.
+  // CPU time of the UI thread to build each frame (events to ImGui::Render, no
+  // GPU work; the check's worker thread not counted), for --frame-stats.
   std::vector<double> build_ms_;
+  // Wall-clock milliseconds from the App's making (the file is opened after
+  // it) to the end of the first frame, and to the first frame that shows a
+  // check result; for --frame-stats.
+  std::chrono::steady_clock::time_point made_ = std::chrono::steady_clock::now();
+  double first_frame_ms_ = -1, first_check_ms_ = -1;
 };
 
 }  // namespace cairn::ui

@@ -64,22 +64,24 @@ void draw_net_screen(App& a) {
     ImGui::PopID();
     if (p >= 0) ns.equal_angle = p == 1;
 
-    std::set<std::string> kinds_present;
-    for (const auto& r : m.planes()) kinds_present.insert(std::string(store::to_string(r.kind)));
-    std::vector<std::pair<std::string, std::string>> kinds;
-    for (const auto& k : kinds_present) kinds.push_back({k, k});
-    filter_row("kind", "Kind", kinds, ns.kind);
+    if (ns.values_revision != m.revision()) {
+      ns.values_revision = m.revision();
+      std::set<std::string> kinds_present, days_present;
+      for (const auto& r : m.planes()) kinds_present.insert(std::string(store::to_string(r.kind)));
+      for (const auto& s : m.stations()) days_present.insert(Model::day_of(s));
+      ns.kinds.clear();
+      ns.days.clear();
+      for (const auto& k : kinds_present) ns.kinds.push_back({k, k});
+      for (const auto& d2 : days_present) ns.days.push_back({d2, d2});
+    }
+    filter_row("kind", "Kind", ns.kinds, ns.kind);
     std::vector<std::pair<std::string, std::string>> units;
     for (const auto& u : m.units()) units.push_back({u.meta.uuid, u.code});
     filter_row("unit", "Unit", units, ns.unit);
     std::vector<std::pair<std::string, std::string>> contacts;
     for (const auto& c : m.contacts()) contacts.push_back({c.meta.uuid, c.name});
     filter_row("contact", "Contact", contacts, ns.contact);
-    std::set<std::string> days_present;
-    for (const auto& s : m.stations()) days_present.insert(Model::day_of(s));
-    std::vector<std::pair<std::string, std::string>> days;
-    for (const auto& d2 : days_present) days.push_back({d2, d2});
-    filter_row("day", "Day", days, ns.day);
+    filter_row("day", "Day", ns.days, ns.day);
     std::vector<std::pair<std::string, std::string>> people;
     for (const auto& pp : m.people()) people.push_back({pp.meta.uuid, pp.initials});
     filter_row("person", "Person", people, ns.person);
