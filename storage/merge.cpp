@@ -327,10 +327,15 @@ Db open_source(const std::string& path, std::vector<std::string>& notes) {
   }
 }
 
-// Checks PATH (application id, schema version, integrity, the kinds of its
-// tables) and copies its pages into DEST with SQLite's online backup API, which
-// runs none of the file's SQL. Tables Cairn does not know, triggers and views
-// are named in NOTES and never run or adopted.
+// Checks PATH (application id, schema version), copies its pages into DEST
+// with SQLite's online backup API, which runs none of the file's SQL, and
+// checks the copy (integrity, the kinds of its tables): the pages checked are
+// the pages merged, and the check runs on a connection that can write, where
+// PRAGMA integrity_check also verifies the CHECK constraints (on a read-only
+// connection SQLite 3.40 leaves them out). Project::open of the copy then
+// leaves its own quick check out (OpenOptions::integrity_checked). Tables
+// Cairn does not know, triggers and views are named in NOTES and never run or
+// adopted.
 void snapshot(const std::string& path, const std::string& dest, std::vector<std::string>& notes,
               std::vector<std::string>& ignored) {
   Db src;
@@ -346,15 +351,27 @@ void snapshot(const std::string& path, const std::string& dest, std::vector<std:
   if (version > kSchemaVersion)
     throw std::runtime_error(path + " was written by a newer version of Cairn (schema version " +
                              std::to_string(version) + "); merge it with a newer Cairn");
+  Db out;
   try {
-    Stmt ic(src, "PRAGMA integrity_check(20)");
+    out = Db(dest, SQLITE_OPEN_READWRITE | SQLITE_OPEN_CREATE, Trust::Untrusted);
+    sqlite3_backup* b = sqlite3_backup_init(out.handle(), "main", src.handle(), "main");
+    if (!b) throw SqlError(out.errmsg(), 0);
+    const int rc = sqlite3_backup_step(b, -1);
+    sqlite3_backup_finish(b);
+    if (rc != SQLITE_DONE) throw SqlError(sqlite3_errstr(rc), rc);
+  } catch (const SqlError& e) {
+    throw std::runtime_error(path + " cannot be read (" + std::string(e.what()) +
+                             "); restore it from one of its backups before merging");
+  }
+  try {
+    Stmt ic(out, "PRAGMA integrity_check(20)");
     std::string first;
     while (ic.step())
       if (first.empty()) first = ic.text(0);
     if (first != "ok")
       throw std::runtime_error(path + " failed its integrity check (" + terminal_safe(first) +
                                "); restore it from one of its backups before merging");
-    Stmt m(src, "SELECT type, name FROM sqlite_master WHERE name NOT LIKE 'sqlite\\_%' ESCAPE '\\' ORDER BY name");
+    Stmt m(out, "SELECT type, name FROM sqlite_master WHERE name NOT LIKE 'sqlite\\_%' ESCAPE '\\' ORDER BY name");
     while (m.step()) {
       const std::string type = m.text(0), name = m.text(1);
       const bool own = kOwnTables.count(name) > 0 || is_side_table(name);
@@ -372,16 +389,6 @@ void snapshot(const std::string& path, const std::string& dest, std::vector<std:
   } catch (const SqlError& e) {
     throw std::runtime_error(path + " cannot be read (" + std::string(e.what()) +
                              "); restore it from one of its backups before merging");
-  }
-  try {
-    Db out(dest, SQLITE_OPEN_READWRITE | SQLITE_OPEN_CREATE, Trust::Untrusted);
-    sqlite3_backup* b = sqlite3_backup_init(out.handle(), "main", src.handle(), "main");
-    if (!b) throw SqlError(out.errmsg(), 0);
-    const int rc = sqlite3_backup_step(b, -1);
-    sqlite3_backup_finish(b);
-    if (rc != SQLITE_DONE) throw SqlError(sqlite3_errstr(rc), rc);
-  } catch (const SqlError& e) {
-    throw std::runtime_error("copying " + path + ": " + e.what());
   }
 }
 
@@ -407,6 +414,7 @@ struct Source {
     OpenOptions o;
     o.backups = false;
     o.untrusted = true;
+    o.integrity_checked = true;     // snapshot() checked these very pages
     o.backup_dir = backups.path();  // only a migration of an older file writes one
     try {
       project.emplace(Project::open(copy, o));  // migrates the copy when it is older

@@ -55,6 +55,10 @@ struct OpenOptions {
   // A copy of a file from another device (merge): its triggers and views are
   // disabled for the connection (storage/sqlite.h, Trust::Untrusted).
   bool untrusted = false;
+  // The caller has just run SQLite's full integrity_check on these very pages
+  // (a merge's backup-API copy of a source): the quick check on opening, a
+  // second read of the whole file, is left out.
+  bool integrity_checked = false;
   bool backups = true;
   int backup_keep = 10;         // how many rolling backups to keep (>= 1)
   int backup_interval_s = 300;  // seconds between backups while editing
