@@ -47,7 +47,9 @@ void ProgressLine::update(size_t done, size_t total) {
   if (shown_ && s - last_ < (terminal_ ? 0.2 : 1.0)) return;
   last_ = s;
   shown_ = true;
-  err_ << (terminal_ ? "\r" : "") << what_ << ": " << rate_.line(done, total) << (terminal_ ? "" : "\n") << std::flush;
+  // On a terminal: back to the start of the line, and clear what a longer line left (ECMA-48 EL, CSI K).
+  err_ << (terminal_ ? "\r" : "") << what_ << ": " << rate_.line(done, total) << (terminal_ ? "\x1b[K" : "\n")
+       << std::flush;
 }
 
 void ProgressLine::finish(size_t done, size_t total) {
