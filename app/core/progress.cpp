@@ -7,6 +7,7 @@
 #include <iostream>
 #include <stdexcept>
 
+#include "formats/utf8.h"
 #include "geomath/decimal.h"
 
 namespace cairn::core {
@@ -27,8 +28,8 @@ double progress_after() {
   if (!v || !*v) return 2.0;
   const auto d = geo::parse_decimal(v);
   if (!d || *d < 0)
-    throw std::invalid_argument(std::string("CAIRN_PROGRESS_AFTER must be a number of seconds (0 or more), not '") + v +
-                                "'");
+    throw std::runtime_error("CAIRN_PROGRESS_AFTER must be a number of seconds (0 or more), not '" +
+                                formats::terminal_safe(v) + "': set it so, or unset it for the 2 s default");
   return *d;
 }
 

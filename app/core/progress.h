@@ -26,7 +26,7 @@ class RowRate {
 
 // Seconds of work before a progress line appears: 2, or the environment
 // variable CAIRN_PROGRESS_AFTER (a number of seconds, 0 for at once; tests set
-// it). Throws std::invalid_argument for a value that is not a number >= 0.
+// it). Throws std::runtime_error for a value that is not a number >= 0.
 double progress_after();
 
 // The one progress line on stderr of `cairn list`, `cairn export` and `cairn
