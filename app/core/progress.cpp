@@ -29,7 +29,7 @@ double progress_after() {
   const auto d = geo::parse_decimal(v);
   if (!d || *d < 0)
     throw std::runtime_error("CAIRN_PROGRESS_AFTER must be a number of seconds (0 or more), not '" +
-                                formats::terminal_safe(v) + "': set it so, or unset it for the 2 s default");
+                             formats::terminal_safe(v) + "': set it so, or unset it for the 2 s default");
   return *d;
 }
 
