@@ -24,3 +24,22 @@ std::string utm_wkt(const geo::UtmZone& z) {
 }
 
 }  // namespace cairn::formats
+
+namespace cairn::formats {
+
+void LayerCollector::begin_layer(const Layer& l) {
+  Layer header = l;
+  header.features.clear();
+  set.layers.push_back(std::move(header));
+}
+
+void send_layers(const LayerSet& set, LayerSink& sink) {
+  sink.begin(set.zone);
+  for (const Layer& l : set.layers) {
+    sink.begin_layer(l);
+    for (const Feature& f : l.features) sink.feature(Feature(f));
+    sink.end_layer();
+  }
+}
+
+}  // namespace cairn::formats

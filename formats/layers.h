@@ -56,6 +56,33 @@ struct LayerSet {
   std::vector<Layer> layers;
 };
 
+// Where layers go one feature at a time (the GeoPackage and GeoJSON writers,
+// or a LayerSet), so that an export need not hold a season's features at once.
+// Calls come as begin(zone), then for each layer begin_layer, feature..., end_layer.
+class LayerSink {
+ public:
+  virtual ~LayerSink() = default;
+  virtual void begin(const geo::UtmZone& zone) = 0;
+  // L's name, title, description, fields and geometry type (its features are not used).
+  virtual void begin_layer(const Layer& l) = 0;
+  // One feature of the current layer: a value per field.
+  virtual void feature(Feature&& f) = 0;
+  virtual void end_layer() = 0;
+};
+
+// Collects the layers into a LayerSet.
+class LayerCollector final : public LayerSink {
+ public:
+  void begin(const geo::UtmZone& zone) override { set.zone = zone; }
+  void begin_layer(const Layer& l) override;
+  void feature(Feature&& f) override { set.layers.back().features.push_back(std::move(f)); }
+  void end_layer() override {}
+  LayerSet set;
+};
+
+// Sends SET through SINK.
+void send_layers(const LayerSet& set, LayerSink& sink);
+
 // EPSG code of a WGS84 / UTM zone: 32600 + zone (north), 32700 + zone (south).
 int utm_epsg(const geo::UtmZone& zone);
 // OGC WKT (version 1, as in the EPSG registry's export) of a WGS84 / UTM zone.

@@ -202,8 +202,23 @@ std::string quoted(const std::string& s) { return "\"" + s + "\""; }
 
 }  // namespace
 
-void write_geopackage(const std::string& path, const LayerSet& set, int epsg) {
-  Db db(path, SQLITE_OPEN_READWRITE | SQLITE_OPEN_CREATE);
+struct GeoPackageWriter::Impl {
+  Impl(const std::string& path, int e) : db(path, SQLITE_OPEN_READWRITE | SQLITE_OPEN_CREATE), epsg(e) {}
+  Db db;
+  int epsg;
+  std::string now;
+  Layer layer;  // the current layer's header
+  std::unique_ptr<RawStmt> ins;
+  double min_x = 0, min_y = 0, max_x = 0, max_y = 0;
+};
+
+GeoPackageWriter::GeoPackageWriter(const std::string& path, int epsg) : impl_(std::make_unique<Impl>(path, epsg)) {}
+GeoPackageWriter::~GeoPackageWriter() = default;
+
+void GeoPackageWriter::begin(const geo::UtmZone& zone) {
+  Db& db = impl_->db;
+  if (impl_->epsg == 0) impl_->epsg = utm_epsg(zone);
+  const int epsg = impl_->epsg;
   db.exec("PRAGMA application_id = " + std::to_string(kGpkgApplicationId));
   db.exec("PRAGMA user_version = " + std::to_string(kGpkgUserVersion));
   db.exec("PRAGMA foreign_keys = ON");
@@ -225,63 +240,82 @@ void write_geopackage(const std::string& path, const LayerSet& set, int epsg) {
     row("Undefined geographic SRS", 0, "NONE", 0, "undefined", "undefined geographic coordinate reference system");
     row("WGS 84 geodetic", 4326, "EPSG", 4326, kWgs84Wkt,
         "longitude/latitude coordinates in decimal degrees on the WGS 84 spheroid");
-    const std::string zone_name = "WGS 84 / UTM zone " + std::to_string(set.zone.zone) + (set.zone.northp ? "N" : "S");
-    row(zone_name, epsg, "EPSG", epsg, utm_wkt(set.zone), "the project's working UTM zone");
+    const std::string zone_name = "WGS 84 / UTM zone " + std::to_string(zone.zone) + (zone.northp ? "N" : "S");
+    row(zone_name, epsg, "EPSG", epsg, utm_wkt(zone), "the project's working UTM zone");
   }
   db.exec(kContentsTable);
   db.exec(kGeometryColumnsTable);
-  const std::string now = utc_now();  // Requirement 15: ISO 8601 "YYYY-MM-DDTHH:MM:SS.SSSZ"
-  for (const Layer& l : set.layers) {
-    // Requirement 29: an INTEGER PRIMARY KEY AUTOINCREMENT column; clause 2.1.6:
-    // the geometry column declared with its geometry type name.
-    std::string ddl =
-        "CREATE TABLE " + quoted(l.name) + " (fid INTEGER PRIMARY KEY AUTOINCREMENT NOT NULL, geom " + l.geometry;
-    std::string cols = "geom", marks = "?";
-    for (const auto& f : l.fields) {
-      ddl += ", " + quoted(f.name) + " " + sql_type(f.type);
-      cols += ", " + quoted(f.name);
-      marks += ",?";
-    }
-    db.exec(ddl + ")");
-    RawStmt ins(db, "INSERT INTO " + quoted(l.name) + "(" + cols + ") VALUES (" + marks + ")");
-    double min_x = std::numeric_limits<double>::infinity(), min_y = min_x, max_x = -min_x, max_y = -min_x;
-    for (const Feature& f : l.features) {
-      if (!f.grid_parts.empty()) {
-        double env[4];
-        ins.bind_blob(1, gpkg_multi(epsg, l.geometry, f.grid_parts, env));
-        min_x = std::min(min_x, env[0]);
-        max_x = std::max(max_x, env[1]);
-        min_y = std::min(min_y, env[2]);
-        max_y = std::max(max_y, env[3]);
-      } else if (f.grid) {
-        ins.bind_blob(1, gpkg_point(epsg, f.grid->easting, f.grid->northing));
-        min_x = std::min(min_x, f.grid->easting);
-        max_x = std::max(max_x, f.grid->easting);
-        min_y = std::min(min_y, f.grid->northing);
-        max_y = std::max(max_y, f.grid->northing);
-      } else {
-        ins.bind_null(1);
-      }
-      for (size_t i = 0; i < f.values.size(); ++i) ins.bind(static_cast<int>(i) + 2, f.values[i]);
-      ins.run();
-    }
-    Stmt c(db,
-           "INSERT INTO gpkg_contents(table_name, data_type, identifier, description, last_change, min_x, min_y, "
-           "max_x, max_y, srs_id) VALUES (?, 'features', ?, ?, ?, ?, ?, ?, ?, ?)");
-    c.bind(1, l.name).bind(2, l.title).bind(3, l.description).bind(4, now);
-    if (std::isfinite(min_x))
-      c.bind(5, min_x).bind(6, min_y).bind(7, max_x).bind(8, max_y);
-    else
-      c.bind(5, nullptr).bind(6, nullptr).bind(7, nullptr).bind(8, nullptr);
-    c.bind(9, epsg);
-    c.run();
-    Stmt g(db,
-           "INSERT INTO gpkg_geometry_columns(table_name, column_name, geometry_type_name, srs_id, z, m) "
-           "VALUES (?, 'geom', ?, ?, 0, 0)");
-    g.bind(1, l.name).bind(2, l.geometry).bind(3, epsg);
-    g.run();
+  impl_->now = utc_now();  // Requirement 15: ISO 8601 "YYYY-MM-DDTHH:MM:SS.SSSZ"
+}
+
+void GeoPackageWriter::begin_layer(const Layer& l) {
+  Impl& m = *impl_;
+  m.layer = Layer{l.name, l.title, l.description, l.fields, {}, l.geometry};
+  // Requirement 29: an INTEGER PRIMARY KEY AUTOINCREMENT column; clause 2.1.6:
+  // the geometry column declared with its geometry type name.
+  std::string ddl =
+      "CREATE TABLE " + quoted(l.name) + " (fid INTEGER PRIMARY KEY AUTOINCREMENT NOT NULL, geom " + l.geometry;
+  std::string cols = "geom", marks = "?";
+  for (const auto& f : l.fields) {
+    ddl += ", " + quoted(f.name) + " " + sql_type(f.type);
+    cols += ", " + quoted(f.name);
+    marks += ",?";
   }
-  db.exec("COMMIT");
+  m.db.exec(ddl + ")");
+  m.ins = std::make_unique<RawStmt>(m.db, "INSERT INTO " + quoted(l.name) + "(" + cols + ") VALUES (" + marks + ")");
+  m.min_x = std::numeric_limits<double>::infinity(), m.min_y = m.min_x, m.max_x = -m.min_x, m.max_y = -m.min_x;
+}
+
+void GeoPackageWriter::feature(Feature&& f) {
+  Impl& m = *impl_;
+  RawStmt& ins = *m.ins;
+  if (!f.grid_parts.empty()) {
+    double env[4];
+    ins.bind_blob(1, gpkg_multi(m.epsg, m.layer.geometry, f.grid_parts, env));
+    m.min_x = std::min(m.min_x, env[0]);
+    m.max_x = std::max(m.max_x, env[1]);
+    m.min_y = std::min(m.min_y, env[2]);
+    m.max_y = std::max(m.max_y, env[3]);
+  } else if (f.grid) {
+    ins.bind_blob(1, gpkg_point(m.epsg, f.grid->easting, f.grid->northing));
+    m.min_x = std::min(m.min_x, f.grid->easting);
+    m.max_x = std::max(m.max_x, f.grid->easting);
+    m.min_y = std::min(m.min_y, f.grid->northing);
+    m.max_y = std::max(m.max_y, f.grid->northing);
+  } else {
+    ins.bind_null(1);
+  }
+  for (size_t i = 0; i < f.values.size(); ++i) ins.bind(static_cast<int>(i) + 2, f.values[i]);
+  ins.run();
+}
+
+void GeoPackageWriter::end_layer() {
+  Impl& m = *impl_;
+  m.ins.reset();
+  const Layer& l = m.layer;
+  Stmt c(m.db,
+         "INSERT INTO gpkg_contents(table_name, data_type, identifier, description, last_change, min_x, min_y, "
+         "max_x, max_y, srs_id) VALUES (?, 'features', ?, ?, ?, ?, ?, ?, ?, ?)");
+  c.bind(1, l.name).bind(2, l.title).bind(3, l.description).bind(4, m.now);
+  if (std::isfinite(m.min_x))
+    c.bind(5, m.min_x).bind(6, m.min_y).bind(7, m.max_x).bind(8, m.max_y);
+  else
+    c.bind(5, nullptr).bind(6, nullptr).bind(7, nullptr).bind(8, nullptr);
+  c.bind(9, m.epsg);
+  c.run();
+  Stmt g(m.db,
+         "INSERT INTO gpkg_geometry_columns(table_name, column_name, geometry_type_name, srs_id, z, m) "
+         "VALUES (?, 'geom', ?, ?, 0, 0)");
+  g.bind(1, l.name).bind(2, l.geometry).bind(3, m.epsg);
+  g.run();
+}
+
+void GeoPackageWriter::finish() { impl_->db.exec("COMMIT"); }
+
+void write_geopackage(const std::string& path, const LayerSet& set, int epsg) {
+  GeoPackageWriter w(path, epsg);
+  send_layers(set, w);
+  w.finish();
 }
 
 }  // namespace cairn::store

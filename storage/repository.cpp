@@ -10,6 +10,7 @@
 #include "geomath/orientation.h"
 #include "formats/ids.h"
 #include "formats/validate.h"
+#include "storage/each.h"
 #include "storage/terrain.h"
 
 namespace cairn::store {
@@ -475,13 +476,20 @@ T read_row(const Stmt& s) {
   return r;
 }
 
+// Each record that matches, one at a time, stepped from one prepared statement.
+template <class T, class F>
+void each_row(Project& p, const std::string& where, const std::vector<std::string>& args, const std::string& order,
+              F&& f) {
+  Stmt s(p.db(), select_sql<T>() + (where.empty() ? "" : " WHERE " + where) + " ORDER BY " + order);
+  for (size_t i = 0; i < args.size(); ++i) s.bind(static_cast<int>(i) + 1, args[i]);
+  while (s.step()) f(read_row<T>(s));
+}
+
 template <class T>
 std::vector<T> query(Project& p, const std::string& where, const std::vector<std::string>& args,
                      const std::string& order = "created, rowid") {
-  Stmt s(p.db(), select_sql<T>() + (where.empty() ? "" : " WHERE " + where) + " ORDER BY " + order);
-  for (size_t i = 0; i < args.size(); ++i) s.bind(static_cast<int>(i) + 1, args[i]);
   std::vector<T> out;
-  while (s.step()) out.push_back(read_row<T>(s));
+  each_row<T>(p, where, args, order, [&](T&& r) { out.push_back(std::move(r)); });
   return out;
 }
 
@@ -817,6 +825,45 @@ std::vector<ContactPoint> list_points(Project& p, const ListOptions& o) {
 std::vector<Photo> list_photos(Project& p, const ListOptions& o) {
   return list_kind<Photo>(p, o, "station", o.station);
 }
+
+// ---- one at a time (storage/each.h) ----------------------------------------
+
+template <class T>
+void each_kind(Project& p, const ListOptions& o, const char* filter_col, const std::string& filter,
+               const std::function<void(const T&)>& f, const std::string& order = "created, rowid") {
+  std::vector<std::string> args;
+  const std::string w = live_clause(o, args, filter_col, filter);
+  each_row<T>(p, w, args, order, [&](const T& r) { f(r); });
+}
+
+template <class T>
+size_t count_kind(Project& p, const ListOptions& o, const char* filter_col = nullptr, const std::string& filter = "") {
+  std::vector<std::string> args;
+  const std::string w = live_clause(o, args, filter_col, filter);
+  Stmt s(p.db(), std::string("SELECT count(*) FROM ") + Traits<T>::table + (w.empty() ? "" : " WHERE " + w));
+  for (size_t i = 0; i < args.size(); ++i) s.bind(static_cast<int>(i) + 1, args[i]);
+  return s.step() ? static_cast<size_t>(s.int64(0)) : 0;
+}
+
+void for_each_station(Project& p, const ListOptions& o, const std::function<void(const Station&)>& f, Ties ties) {
+  each_kind<Station>(p, o, nullptr, "", f, ties == Ties::Uuid ? "created, uuid" : "created, rowid");
+}
+void for_each_plane(Project& p, const ListOptions& o, const std::function<void(const PlanarReading&)>& f) {
+  each_kind<PlanarReading>(p, o, "station", o.station, f);
+}
+void for_each_line(Project& p, const ListOptions& o, const std::function<void(const LinearReading&)>& f) {
+  each_kind<LinearReading>(p, o, "station", o.station, f);
+}
+void for_each_point(Project& p, const ListOptions& o, const std::function<void(const ContactPoint&)>& f) {
+  each_kind<ContactPoint>(p, o, "contact", o.contact, f);
+}
+void for_each_photo(Project& p, const ListOptions& o, const std::function<void(const Photo&)>& f) {
+  each_kind<Photo>(p, o, "station", o.station, f);
+}
+size_t count_stations(Project& p, const ListOptions& o) { return count_kind<Station>(p, o); }
+size_t count_planes(Project& p, const ListOptions& o) { return count_kind<PlanarReading>(p, o, "station", o.station); }
+size_t count_lines(Project& p, const ListOptions& o) { return count_kind<LinearReading>(p, o, "station", o.station); }
+size_t count_points(Project& p, const ListOptions& o) { return count_kind<ContactPoint>(p, o, "contact", o.contact); }
 
 std::optional<Person> get_person(Project& p, const std::string& u) { return get_one<Person>(p, "uuid = ?", {u}); }
 std::optional<Unit> get_unit(Project& p, const std::string& u) { return get_one<Unit>(p, "uuid = ?", {u}); }

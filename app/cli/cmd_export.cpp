@@ -2,6 +2,8 @@
 // (OUT.geojson) or a folder of CSV files in `cairn import`'s columns
 // (app/core/export.h). The fitted contacts and flags come from the same
 // cross-check as `cairn check`, with the World Magnetic Model's declination.
+// A long export of a GeoPackage or GeoJSON shows a progress line on stderr
+// (app/core/progress.h: features written, past 2 s, on a terminal or with --progress).
 #include <filesystem>
 #include <ostream>
 #include <stdexcept>
@@ -11,6 +13,7 @@
 #include "app/cli/magnetic_source.h"
 #include "app/cli/project_access.h"
 #include "app/core/export.h"
+#include "app/core/progress.h"
 
 namespace cairn::cli {
 
@@ -39,7 +42,7 @@ void refuse_to_overwrite(const std::string& file, const std::string& target, boo
 
 struct ExportArgs {
   std::string file, target;
-  bool json = false, overwrite = false;
+  bool json = false, overwrite = false, show_progress = false;
 };
 
 int run(const ExportArgs& a, std::ostream& out, std::ostream& err) {
@@ -55,7 +58,14 @@ int run(const ExportArgs& a, std::ostream& out, std::ostream& err) {
   core::ExportOptions o;
   if (*format != core::ExportFormat::CsvFolder && *format != core::ExportFormat::Gpx)
     o.local_declination = wmm_declination_or_warn(err);
+  core::ProgressLine line(err, "exporting", a.show_progress);
+  size_t done = 0, total = 0;
+  o.progress = [&](size_t d, size_t t) {
+    done = d, total = t;
+    line.update(d, t);
+  };
   const core::ExportSummary s = core::export_project(project, target, o);
+  line.finish(done, total);
   const char* what = s.format == core::ExportFormat::GeoPackage ? "GeoPackage"
                      : s.format == core::ExportFormat::GeoJson  ? "GeoJSON"
                      : s.format == core::ExportFormat::Gpx      ? "GPX"
@@ -93,6 +103,9 @@ Runner define(CLI::App& app) {
   flag(app, "--overwrite", a->overwrite,
        "replace an existing OUT file, or the CSV files in a folder that is not empty (never a project file)");
   flag(app, "--json", a->json, "print a JSON summary of what was written");
+  flag(app, "--progress", a->show_progress,
+       "a progress line on stderr past 2 s even when stderr is not a terminal (CAIRN_PROGRESS_AFTER=SECONDS "
+       "changes the 2 s)");
   return [a](std::ostream& out, std::ostream& err) { return run(*a, out, err); };
 }
 

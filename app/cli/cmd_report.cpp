@@ -1,5 +1,8 @@
 // cairn report FILE -o report.html: the evening report, one self-contained HTML
-// file (see report_html.h).
+// file (see report_html.h). The report holds what it draws (every live record,
+// the cross-check and the thumbnails) until the page is written; past 2 s a
+// progress line on stderr counts the records read (app/core/progress.h: on a
+// terminal or with --progress).
 #include <cerrno>
 #include <cstdio>
 #include <cstring>
@@ -18,6 +21,8 @@
 #include "geomath/crosscheck.h"
 #include "app/core/check_input.h"
 #include "app/core/export.h"
+#include "app/core/progress.h"
+#include "storage/each.h"
 #include "formats/layers.h"
 #include "storage/terrain.h"
 #include "storage/project.h"
@@ -80,6 +85,7 @@ DeclinationSummary summarise_declination(const geo::MagneticModel& m, const Repo
 struct ReportArgs {
   std::string file;
   std::optional<std::string> output, net;
+  bool show_progress = false;
 };
 
 int run_report(const ReportArgs& a, std::ostream& out, std::ostream& err) {
@@ -100,6 +106,13 @@ int run_report(const ReportArgs& a, std::ostream& out, std::ostream& err) {
   store::Project p = store::Project::open(args[0], oo);
   if (!p.problem().empty()) err << "warning: " << p.problem() << "\n";
 
+  // Rows: the records read, then one for the check and one for the page.
+  core::ProgressLine line(err, "report", a.show_progress);
+  const size_t total =
+      store::count_stations(p) + store::count_planes(p) + store::count_lines(p) + store::count_points(p) + 2;
+  size_t done = 0;
+  auto step = [&](size_t rows) { line.update(done += rows, total); };
+
   ReportData d;
   d.file = fs::path(args[0]).filename().string();
   d.generated = utc_now("%Y-%m-%d %H:%M UTC");
@@ -109,9 +122,13 @@ int run_report(const ReportArgs& a, std::ostream& out, std::ostream& err) {
   d.units = store::list_units(p);
   d.contacts = store::list_contacts(p);
   d.stations = store::list_stations(p);
+  step(d.stations.size());
   d.planes = store::list_planes(p);
+  step(d.planes.size());
   d.lines = store::list_lines(p);
+  step(d.lines.size());
   d.points = store::list_points(p);
+  step(d.points.size());
 
   const geo::MagneticModel* model = nullptr;
   try {
@@ -131,6 +148,7 @@ int run_report(const ReportArgs& a, std::ostream& out, std::ostream& err) {
   }
   d.check = core::load_check_input(p, decl);
   d.result = geo::run_crosscheck(d.check.input);
+  step(1);
   if (const auto t = store::terrain_info(p); t && t->epsg == formats::utm_epsg(d.check.zone)) {
     d.terrain = store::load_terrain(p);
     d.terrain_sigma = t->vertical_accuracy;
@@ -150,6 +168,7 @@ int run_report(const ReportArgs& a, std::ostream& out, std::ostream& err) {
   d.tracks = plot::day_track_paths(p, d.check.zone, d.track_day);
 
   formats::write_file_atomically(*output, render_report_html(d));
+  line.finish(done + 1, total);
   out << "wrote " << *output << ": " << d.stations.size() << " stations, " << d.result.fits.size() << " contacts, "
       << d.result.flags.size() << " flags\n";
   return 0;
@@ -159,6 +178,9 @@ Runner define(CLI::App& app) {
   auto a = std::make_shared<ReportArgs>();
   positional(app, "FILE", a->file, "the project file");
   option(app, "-o,--output", a->output, "the HTML file to write (required)")->required();
+  flag(app, "--progress", a->show_progress,
+       "a progress line on stderr past 2 s even when stderr is not a terminal (CAIRN_PROGRESS_AFTER=SECONDS "
+       "changes the 2 s)");
   choice(app, "--net", a->net, {"equal-area", "equal-angle"}, "the stereonet projection (default: equal-area)");
   return [a](std::ostream& out, std::ostream& err) { return run_report(*a, out, err); };
 }

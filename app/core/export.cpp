@@ -92,15 +92,30 @@ ExportSummary export_project(Project& p, const std::string& out, const ExportOpt
   throw std::logic_error("unknown export format");
 }
 
+void CountingSink::begin(const geo::UtmZone& zone) {
+  summary_.epsg = formats::utm_epsg(zone);
+  to_.begin(zone);
+}
+void CountingSink::begin_layer(const Layer& l) {
+  summary_.layers.push_back({l.name, 0});
+  to_.begin_layer(l);
+}
+void CountingSink::feature(Feature&& f) {
+  ++summary_.layers.back().count;
+  to_.feature(std::move(f));
+}
+
 ExportSummary export_geopackage(Project& p, const std::string& path, const ExportOptions& o) {
-  const LayerSet set = build_layers(p, o, RotationFrame::Grid);
-  const int epsg = formats::utm_epsg(set.zone);
-  formats::replace_file_atomically(path, [&](const std::string& tmp) { store::write_geopackage(tmp, set, epsg); });
   ExportSummary s;
   s.format = ExportFormat::GeoPackage;
   s.path = path;
-  s.epsg = epsg;
-  for (const auto& l : set.layers) s.layers.push_back({l.name, l.features.size()});
+  formats::replace_file_atomically(path, [&](const std::string& tmp) {
+    s.layers.clear();
+    store::GeoPackageWriter w(tmp);
+    CountingSink c(w, s);
+    stream_layers(p, o, RotationFrame::Grid, c);
+    w.finish();
+  });
   return s;
 }
 

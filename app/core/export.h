@@ -36,8 +36,11 @@
 // and latitude) it is the true strike.
 //
 // Every output is written under a temporary name and renamed into place, so a
-// failure leaves no half-written file.
+// failure leaves no half-written file. The GeoPackage and GeoJSON are written
+// feature by feature as the records are read (app/core/export_layers.h), so
+// memory holds the cross-check and not the season's features.
 #pragma once
+#include <functional>
 #include <string>
 #include <vector>
 
@@ -60,6 +63,8 @@ struct ExportOptions {
   // rule); empty: that rule is not checked.
   LocalDeclination local_declination;
   geo::CheckOptions check;
+  // Called as features are written (done, in all), for a progress line; at the end with done == in all.
+  std::function<void(size_t done, size_t total)> progress;
 };
 
 struct ExportedLayer {

@@ -1,5 +1,9 @@
-// `cairn export FILE out.geojson`: the layers written as GeoJSON (formats/geojson.h).
-#include <sstream>
+// `cairn export FILE out.geojson`: the layers written as GeoJSON (formats/geojson.h),
+// feature by feature into the temporary file as the records are read.
+#include <cerrno>
+#include <cstring>
+#include <fstream>
+#include <stdexcept>
 
 #include "app/core/export.h"
 #include "app/core/export_layers.h"
@@ -11,15 +15,21 @@ namespace cairn::core {
 using namespace cairn::store;  // the project file and its records (storage/)
 
 ExportSummary export_geojson(Project& p, const std::string& path, const ExportOptions& o) {
-  const LayerSet set = build_layers(p, o, RotationFrame::TrueNorth);
   ExportSummary sum;
   sum.format = ExportFormat::GeoJson;
   sum.path = path;
+  formats::replace_file_atomically(path, [&](const std::string& tmp) {
+    sum.layers.clear();
+    std::ofstream out(tmp, std::ios::binary | std::ios::trunc);
+    if (!out) throw std::runtime_error(std::strerror(errno));
+    formats::GeoJsonWriter w(out);
+    CountingSink c(w, sum);
+    stream_layers(p, o, RotationFrame::TrueNorth, c);
+    w.finish();
+    out.close();
+    if (!out) throw std::runtime_error("the file could not be written in full (disk full?)");
+  });
   sum.epsg = 4326;
-  for (const Layer& l : set.layers) sum.layers.push_back({l.name, l.features.size()});
-  std::ostringstream out;
-  formats::write_geojson(out, set);
-  formats::write_file_atomically(path, out.str());
   return sum;
 }
 

@@ -12,6 +12,7 @@
 #include "geomath/angles.h"
 #include "formats/ids.h"
 #include "geomath/terrain.h"
+#include "storage/each.h"
 #include "storage/repository.h"
 #include "storage/terrain.h"
 
@@ -58,18 +59,24 @@ FlagText flag_text(std::vector<const geo::Flag*> flags) {
 
 class Builder {
  public:
-  Builder(Project& p, const ExportOptions& o, RotationFrame frame) : p_(p), frame_(frame) {
+  Builder(Project& p, const ExportOptions& o, RotationFrame frame, LayerSink& sink)
+      : p_(p), frame_(frame), sink_(sink), progress_(o.progress) {
     data_ = load_check_input(p, o.local_declination);
     report_ = geo::run_crosscheck(data_.input, o.check);
-    out_.zone = data_.zone;
+    zone_ = data_.zone;
     for (const auto& d : list_devices(p)) device_[d.meta.uuid] = d.name;
     for (const auto& x : list_people(p, with_deleted())) initials_[x.meta.uuid] = x.initials;
     for (const auto& u : list_units(p, with_deleted())) unit_[u.meta.uuid] = u.code;
     for (const auto& c : list_contacts(p, with_deleted())) contact_[c.meta.uuid] = c.name;
-    for (const auto& s : list_stations(p)) station_[s.meta.uuid] = s;
+    if (progress_)
+      total_ = count_stations(p) + count_planes(p) + count_lines(p) + count_points(p) + list_photos(p).size() +
+               report_.fits.size() + report_.flags.size();
   }
 
-  LayerSet build() {
+  // The layers in their order, each feature sent as soon as it is made.
+  void build() {
+    sink_.begin(zone_);
+    if (progress_) progress_(0, total_);
     stations();
     planes();
     lines();
@@ -78,22 +85,22 @@ class Builder {
     fitted_contacts();
     flags();
     terrain_layers();
-    out_.layers.push_back(day_track_layer(p_, out_.zone));
-    return std::move(out_);
+    whole(day_track_layer(p_, zone_));
+    if (progress_) progress_(done_, std::max(done_, total_));
   }
 
  private:
   Feature at(double lat, double lon, const std::string& what) {
     Feature f;
     f.where = geo::LatLon{lat, lon};
-    auto u = geo::to_utm(*f.where, out_.zone);
+    auto u = geo::to_utm(*f.where, zone_);
     if (!u) throw std::runtime_error(what + ": " + u.error());
     f.grid = *u;
     return f;
   }
   Feature at_grid(double e, double n) {
     Feature f;
-    const geo::UtmPoint u{out_.zone.zone, out_.zone.northp, e, n};
+    const geo::UtmPoint u{zone_.zone, zone_.northp, e, n};
     auto ll = geo::from_utm(u);
     if (!ll) return f;  // no geometry rather than a wrong one
     f.where = *ll;
@@ -104,7 +111,7 @@ class Builder {
   // Clockwise from the layer grid's north to a true azimuth (see export.h).
   double rotation(double azimuth, const Feature& f) const {
     if (frame_ == RotationFrame::TrueNorth || !f.where) return geo::wrap360(azimuth);
-    auto g = geo::utm_grid_factors(*f.where, out_.zone);
+    auto g = geo::utm_grid_factors(*f.where, zone_);
     // Convergence: the azimuth of grid north measured clockwise from true north,
     // so a true azimuth A is A - convergence from grid north.
     return geo::wrap360(azimuth - (g ? g->convergence : 0.0));
@@ -119,6 +126,19 @@ class Builder {
     for (const char* n : {"device", "created", "updated"}) l.fields.push_back({n, FieldType::Text});
   }
 
+  // One feature of the current layer, to the sink.
+  void emit(Feature&& f) {
+    sink_.feature(std::move(f));
+    ++done_;
+    if (progress_ && done_ % 1000 == 0) progress_(std::min(done_, total_), total_);
+  }
+  // A layer built whole (a few features per contact or day).
+  void whole(Layer&& l) {
+    sink_.begin_layer(l);
+    for (auto& f : l.features) emit(std::move(f));
+    sink_.end_layer();
+  }
+
   void stations() {
     Layer l{"stations", "Stations", "Where readings were taken (WGS84 positions as recorded).", {}, {}};
     using T = FieldType;
@@ -126,33 +146,31 @@ class Builder {
                 {"elevation", T::Real}, {"h_accuracy", T::Real}, {"v_accuracy", T::Real}, {"source", T::Text},
                 {"unit", T::Text},      {"observer", T::Text},   {"time", T::Text},       {"notes", T::Text}};
     meta_fields(l);
-    for (const auto& [id, s] : ordered_stations()) {
-      Feature f = at(s->lat, s->lon, "station " + s->code);
-      f.values = {s->meta.uuid,
-                  s->code,
-                  s->lat,
-                  s->lon,
-                  real(s->elevation),
-                  real(s->h_accuracy),
-                  real(s->v_accuracy),
-                  std::string(to_string(s->source)),
-                  text(lookup(unit_, s->unit)),
-                  text(lookup(initials_, s->observer)),
-                  text(s->time),
-                  text(s->notes)};
-      meta_values(f, s->meta);
-      l.features.push_back(std::move(f));
-    }
-    out_.layers.push_back(std::move(l));
-  }
-
-  std::vector<std::pair<std::string, const Station*>> ordered_stations() const {
-    std::vector<std::pair<std::string, const Station*>> v;
-    for (const auto& [id, s] : station_) v.emplace_back(id, &s);
-    std::sort(v.begin(), v.end(), [](const auto& a, const auto& b) {
-      return std::tie(a.second->meta.created, a.first) < std::tie(b.second->meta.created, b.first);
-    });
-    return v;
+    sink_.begin_layer(l);
+    // Live stations by creation time, then UUID; their places are kept for the
+    // readings and photos that follow.
+    for_each_station(
+        p_, {},
+        [&](const Station& s) {
+          station_[s.meta.uuid] = StationPlace{s.lat, s.lon, s.code};
+          Feature f = at(s.lat, s.lon, "station " + s.code);
+          f.values = {s.meta.uuid,
+                      s.code,
+                      s.lat,
+                      s.lon,
+                      real(s.elevation),
+                      real(s.h_accuracy),
+                      real(s.v_accuracy),
+                      std::string(to_string(s.source)),
+                      text(lookup(unit_, s.unit)),
+                      text(lookup(initials_, s.observer)),
+                      text(s.time),
+                      text(s.notes)};
+          meta_values(f, s.meta);
+          emit(std::move(f));
+        },
+        Ties::Uuid);
+    sink_.end_layer();
   }
 
   Feature at_station(const std::string& station_uuid) {
@@ -176,13 +194,14 @@ class Builder {
     l.fields = {{"uuid", T::Text},    {"station", T::Text}, {"path", T::Text},
                 {"caption", T::Text}, {"sha256", T::Text},  {"time", T::Text}};
     meta_fields(l);
-    for (const auto& ph : list_photos(p_)) {
+    sink_.begin_layer(l);
+    for_each_photo(p_, {}, [&](const Photo& ph) {
       Feature f = at_station(ph.station);
       f.values = {ph.meta.uuid, text(station_code(ph.station)), ph.path, text(ph.caption), ph.sha256, text(ph.time)};
       meta_values(f, ph.meta);
-      l.features.push_back(std::move(f));
-    }
-    out_.layers.push_back(std::move(l));
+      emit(std::move(f));
+    });
+    sink_.end_layer();
   }
 
   void planes() {
@@ -216,10 +235,11 @@ class Builder {
                 {"flags", T::Text},
                 {"worst_flag", T::Text}};
     meta_fields(l);
+    sink_.begin_layer(l);
     std::unordered_map<std::string, std::vector<const geo::Flag*>> by_reading;
     for (const auto& f : report_.flags)
       if (!f.reading.empty()) by_reading[f.reading].push_back(&f);
-    for (const auto& r : list_planes(p_)) {
+    for_each_plane(p_, {}, [&](const PlanarReading& r) {
       Feature f = at_station(r.station);
       const geo::Plane pl{r.strike, r.dip};
       const FlagText ft = flag_text(by_reading[r.meta.uuid]);
@@ -246,9 +266,9 @@ class Builder {
                   text(ft.list),
                   text(ft.worst)};
       meta_values(f, r.meta);
-      l.features.push_back(std::move(f));
-    }
-    out_.layers.push_back(std::move(l));
+      emit(std::move(f));
+    });
+    sink_.end_layer();
   }
 
   void lines() {
@@ -277,9 +297,13 @@ class Builder {
                 {"observer", T::Text},
                 {"notes", T::Text}};
     meta_fields(l);
+    sink_.begin_layer(l);
+    // Only the planes with a ref (the ones a line can name by it).
     std::unordered_map<std::string, std::string> plane_ref;
-    for (const auto& pl : list_planes(p_, with_deleted())) plane_ref[pl.meta.uuid] = pl.ref;
-    for (const auto& r : list_lines(p_)) {
+    for_each_plane(p_, with_deleted(), [&](const PlanarReading& pl) {
+      if (!pl.ref.empty()) plane_ref[pl.meta.uuid] = pl.ref;
+    });
+    for_each_line(p_, {}, [&](const LinearReading& r) {
       Feature f = at_station(r.station);
       f.values = {r.meta.uuid,
                   station_code(r.station),
@@ -300,9 +324,9 @@ class Builder {
                   text(lookup(initials_, r.observer)),
                   text(r.notes)};
       meta_values(f, r.meta);
-      l.features.push_back(std::move(f));
-    }
-    out_.layers.push_back(std::move(l));
+      emit(std::move(f));
+    });
+    sink_.end_layer();
   }
 
   void points() {
@@ -312,7 +336,8 @@ class Builder {
                 {"elevation", T::Real}, {"h_accuracy", T::Real}, {"v_accuracy", T::Real}, {"source", T::Text},
                 {"time", T::Text},      {"observer", T::Text},   {"notes", T::Text}};
     meta_fields(l);
-    for (const auto& q : list_points(p_)) {
+    sink_.begin_layer(l);
+    for_each_point(p_, {}, [&](const ContactPoint& q) {
       Feature f = at(q.lat, q.lon, "contact point " + q.meta.uuid);
       f.values = {q.meta.uuid,
                   text(lookup(contact_, q.contact)),
@@ -326,9 +351,9 @@ class Builder {
                   text(lookup(initials_, q.observer)),
                   text(q.notes)};
       meta_values(f, q.meta);
-      l.features.push_back(std::move(f));
-    }
-    out_.layers.push_back(std::move(l));
+      emit(std::move(f));
+    });
+    sink_.end_layer();
   }
 
   // Where a contact's feature goes: the centroid its plane was fitted through,
@@ -349,7 +374,7 @@ class Builder {
   // terrain in the export's zone: each fitted contact's trace and 95% band.
   void terrain_layers() {
     const auto info = terrain_info(p_);
-    if (!info || info->epsg != utm_epsg(out_.zone)) return;
+    if (!info || info->epsg != utm_epsg(zone_)) return;
     const auto grid = load_terrain(p_);
     Layer traces{"predicted_traces",
                  "Predicted outcrop traces",
@@ -380,8 +405,8 @@ class Builder {
       b.values = {fit.contact, 0.95};
       bands.features.push_back(std::move(b));
     }
-    out_.layers.push_back(std::move(traces));
-    out_.layers.push_back(std::move(bands));
+    whole(std::move(traces));
+    whole(std::move(bands));
   }
 
   Parts lonlat(const Parts& grid) const {
@@ -389,7 +414,7 @@ class Builder {
     for (const auto& part : grid) {
       out.emplace_back();
       for (const auto& q : part) {
-        const auto ll = geo::from_utm({out_.zone.zone, out_.zone.northp, q[0], q[1]});
+        const auto ll = geo::from_utm({zone_.zone, zone_.northp, q[0], q[1]});
         if (!ll) throw std::runtime_error("a predicted trace leaves UTM: " + ll.error());
         out.back().push_back({ll->lon, ll->lat});
       }
@@ -411,6 +436,7 @@ class Builder {
         {"dip_direction", T::Real},   {"symbol_rotation", T::Real}, {"cone95", T::Real}, {"rms", T::Real},
         {"verdict", T::Text},         {"usable", T::Boolean},       {"flags", T::Text},  {"worst_flag", T::Text},
         {"reading_flags", T::Integer}};
+    sink_.begin_layer(l);
     for (const auto& fit : report_.fits) {
       Feature f = contact_place(fit.contact);
       const geo::CheckContact* cc = nullptr;
@@ -452,9 +478,9 @@ class Builder {
                   text(ft.list),
                   text(ft.worst),
                   at_stations};
-      l.features.push_back(std::move(f));
+      emit(std::move(f));
     }
-    out_.layers.push_back(std::move(l));
+    sink_.end_layer();
   }
 
   void flags() {
@@ -467,6 +493,7 @@ class Builder {
     l.fields = {{"rule", T::Text},    {"severity", T::Text}, {"station", T::Text}, {"ref", T::Text},
                 {"reading", T::Text}, {"contact", T::Text},  {"misfit", T::Real},  {"misfit_corrected", T::Real},
                 {"message", T::Text}, {"action", T::Text},   {"caution", T::Text}};
+    sink_.begin_layer(l);
     for (const auto& fl : report_.flags) {
       Feature f = fl.station_id.empty() ? contact_place(fl.contact) : at_station(fl.station_id);
       f.values = {fl.rule,          std::string(geo::severity_name(fl.severity)),
@@ -475,22 +502,39 @@ class Builder {
                   real(fl.misfit),  real(fl.misfit_corrected),
                   fl.message,       fl.action,
                   text(fl.caution)};
-      l.features.push_back(std::move(f));
+      emit(std::move(f));
     }
-    out_.layers.push_back(std::move(l));
+    sink_.end_layer();
   }
+
+  // What the readings and photos need of their station.
+  struct StationPlace {
+    double lat, lon;
+    std::string code;
+  };
 
   Project& p_;
   RotationFrame frame_;
   CheckData data_;
   geo::CheckReport report_;
-  LayerSet out_;
+  LayerSink& sink_;
+  std::function<void(size_t, size_t)> progress_;
+  geo::UtmZone zone_;
+  size_t done_ = 0, total_ = 0;
   std::unordered_map<std::string, std::string> device_, initials_, unit_, contact_;
-  std::map<std::string, Station> station_;
+  std::unordered_map<std::string, StationPlace> station_;
 };
 
 }  // namespace
 
-LayerSet build_layers(Project& p, const ExportOptions& o, RotationFrame frame) { return Builder(p, o, frame).build(); }
+void stream_layers(Project& p, const ExportOptions& o, RotationFrame frame, LayerSink& sink) {
+  Builder(p, o, frame, sink).build();
+}
+
+LayerSet build_layers(Project& p, const ExportOptions& o, RotationFrame frame) {
+  LayerCollector c;
+  stream_layers(p, o, frame, c);
+  return std::move(c.set);
+}
 
 }  // namespace cairn::core

@@ -1,0 +1,147 @@
+// `cairn list` and `cairn export` written as the records are read, and the one
+// progress line on stderr (issue 16), run as a user runs them.
+// Source: the sqlite3 shell's count(*) and GDAL's ogrinfo ("Feature Count") for
+// the GeoPackage (OGC 12-128r18), Python's json module for the GeoJSON (RFC
+// 7946) and the csv module for `cairn list` (RFC 4180); the in-memory listing
+// that `cairn list` printed before (storage/import.h list_csv) for its bytes.
+#include "tests/app/cli_test_support.h"
+
+#include <algorithm>
+#include <cstdio>
+#include <filesystem>
+#include <fstream>
+#include <string>
+
+#include "storage/import.h"
+#include "storage/project.h"
+
+using cairn::cli_test::CliTest;
+using cairn::cli_test::Outcome;
+namespace fs = std::filesystem;
+
+namespace {
+
+class Streamed : public CliTest {
+ protected:
+  // A project of N stations with a planar reading each (more than the 1000
+  // rows between two progress figures), along a line in UTM zone 8N.
+  void season(int n) {
+    ASSERT_EQ(cairn("new s.cairn --name Streamed --utm 8N").status, 0);
+    std::string st = "station,easting,northing,elevation\n", pl = "station,kind,strike,dip\n";
+    for (int i = 0; i < n; ++i) {
+      const std::string code = "S" + std::to_string(i);
+      st += code + "," + std::to_string(400000 + 7 * i) + "," + std::to_string(6500000 + 3 * i) + ",100\n";
+      pl += code + ",joint," + std::to_string(i % 360) + "," + std::to_string(10 + i % 80) + "\n";
+    }
+    write("st.csv", st);
+    write("pl.csv", pl);
+    Outcome r = cairn("import s.cairn stations st.csv");
+    ASSERT_EQ(r.status, 0) << r.err;
+    r = cairn("import s.cairn planes pl.csv");
+    ASSERT_EQ(r.status, 0) << r.err;
+  }
+  // What a shell command prints (stdout), run in the test's folder.
+  std::string shell(const std::string& cmd) const {
+    const std::string full = "cd '" + dir_.string() + "' && " + cmd + " >shell.txt 2>/dev/null";
+    EXPECT_EQ(std::system(full.c_str()), 0) << cmd;
+    return slurp(file("shell.txt"));
+  }
+};
+
+const char* const kKinds[] = {"units", "contacts", "stations", "planes", "lines", "points"};
+
+}  // namespace
+
+// The demo camp file (with deleted records, lines on named planes, contacts and
+// units): every kind streamed is byte for byte what the in-memory listing gave.
+TEST_F(Streamed, ListOfTheDemoIsTheOldListing) {
+  fs::copy_file(fs::path(CAIRN_SOURCE_DIR) / "demo_project" / "camp.cairn", file("camp.cairn"));
+  cairn::store::OpenOptions ro;
+  ro.read_only = true;
+  ro.backups = false;
+  auto p = cairn::store::Project::open(file("camp.cairn"), ro);
+  for (const char* kind : kKinds) {
+    const Outcome r = cairn(std::string("list camp.cairn ") + kind);
+    ASSERT_EQ(r.status, 0) << r.err;
+    EXPECT_EQ(r.out, cairn::store::list_csv(p, *cairn::store::parse_import_kind(kind))) << kind;
+    EXPECT_EQ(r.err, "") << kind;  // stderr is no terminal here: no progress line unasked
+  }
+  // and the rows parse as CSV with the header's width (Python's csv module)
+  const std::string planes = cairn("list camp.cairn planes").out;
+  write("planes.csv", planes);
+  EXPECT_EQ(shell("/usr/bin/python3 -c \"import csv; r = list(csv.reader(open('planes.csv', newline=''))); "
+                  "print(len(r) - 1, set(len(x) for x in r))\""),
+            std::to_string(std::count(planes.begin(), planes.end(), '\n') - 1) + " {12}\n");
+}
+
+// Forced (CAIRN_PROGRESS_AFTER=0 and --progress), the progress line goes to
+// stderr with the RowRate wording and stdout is byte for byte the same.
+TEST_F(Streamed, ListProgressWhenAskedNeverOnStdout) {
+  season(2500);
+  const Outcome plain = cairn("list s.cairn planes");
+  ASSERT_EQ(plain.status, 0) << plain.err;
+  EXPECT_EQ(plain.err, "");
+  const Outcome forced = cairn("list s.cairn planes --progress", "CAIRN_PROGRESS_AFTER=0");
+  ASSERT_EQ(forced.status, 0) << forced.err;
+  EXPECT_EQ(forced.out, plain.out);
+  EXPECT_EQ(forced.err.rfind("listing planes: 1000 of 2500 rows", 0), 0u) << forced.err;
+  EXPECT_NE(forced.err.find("listing planes: 2500 of 2500 rows"), std::string::npos) << forced.err;
+  EXPECT_EQ(forced.err.back(), '\n');
+  // Asked, but not yet 2 s (the default): nothing; not asked and no terminal: nothing.
+  EXPECT_EQ(cairn("list s.cairn planes --progress", "CAIRN_PROGRESS_AFTER=3600").err, "");
+  EXPECT_EQ(cairn("list s.cairn planes", "CAIRN_PROGRESS_AFTER=0").err, "");
+  // 2500 rows and a header: Python's csv module counts them.
+  write("out.csv", forced.out);
+  EXPECT_EQ(shell("/usr/bin/python3 -c \"import csv; print(len(list(csv.reader(open('out.csv', newline='')))))\""),
+            "2501\n");
+  const Outcome bad = cairn("list s.cairn planes --progress", "CAIRN_PROGRESS_AFTER=soon");
+  EXPECT_NE(bad.status, 0);
+  EXPECT_NE(bad.err.find("CAIRN_PROGRESS_AFTER"), std::string::npos) << bad.err;
+}
+
+// A project larger than the 1000 features between two progress figures,
+// exported feature by feature: the counts in each file are what the sqlite3
+// shell, ogrinfo and Python's json module count, and the progress line stays
+// on stderr.
+TEST_F(Streamed, ExportOfManyFeaturesCountsAsOutsideToolsCount) {
+  season(2500);
+  const Outcome g = cairn("export s.cairn s.gpkg --progress", "CAIRN_PROGRESS_AFTER=0");
+  ASSERT_EQ(g.status, 0) << g.err;
+  EXPECT_NE(g.out.find("  stations: 2500\n  planar_readings: 2500\n"), std::string::npos) << g.out;
+  EXPECT_EQ(g.out.find("rows"), std::string::npos) << g.out;
+  // the first line at the start, the last with every feature written
+  EXPECT_EQ(g.err.rfind("exporting: 0 of ", 0), 0u) << g.err;
+  const std::string last = g.err.substr(g.err.rfind("exporting: "));
+  unsigned long done = 0, total = 0;
+  ASSERT_EQ(std::sscanf(last.c_str(), "exporting: %lu of %lu rows", &done, &total), 2) << g.err;
+  EXPECT_EQ(done, total);
+  EXPECT_GE(done, 5000u);
+  EXPECT_EQ(shell("sqlite3 s.gpkg 'SELECT count(*) FROM stations; SELECT count(*) FROM planar_readings; "
+                  "SELECT count(DISTINCT uuid) FROM planar_readings'"),
+            "2500\n2500\n2500\n");
+  const std::string ogr = shell("ogrinfo -ro -so -al s.gpkg");
+  EXPECT_NE(ogr.find("Layer name: stations\n"), std::string::npos);
+  EXPECT_NE(ogr.find("Feature Count: 2500\n"), std::string::npos) << ogr;
+
+  const Outcome j = cairn("export s.cairn s.geojson");
+  ASSERT_EQ(j.status, 0) << j.err;
+  EXPECT_EQ(j.err, "");
+  EXPECT_EQ(shell("/usr/bin/python3 -c \"import json, collections; d = json.load(open('s.geojson')); "
+                  "c = collections.Counter(f['properties']['layer'] for f in d['features']); "
+                  "print(c['stations'], c['planar_readings'], len(set(f['id'] for f in d['features'] "
+                  "if f['properties']['layer'] == 'planar_readings')), len(d['features']))\""),
+            "2500 2500 2500 " + std::to_string(done) + "\n");
+  // ogrinfo reads the whole collection as one layer
+  EXPECT_NE(shell("ogrinfo -ro -so -al s.geojson").find("Feature Count: " + std::to_string(done) + "\n"),
+            std::string::npos);
+}
+
+// `cairn report` shows its progress line when asked; stdout keeps its one line.
+TEST_F(Streamed, ReportProgressWhenAsked) {
+  season(1200);
+  const Outcome r = cairn("report s.cairn -o r.html --progress", "CAIRN_PROGRESS_AFTER=0");
+  ASSERT_EQ(r.status, 0) << r.err;
+  EXPECT_EQ(r.out.rfind("wrote r.html: 1200 stations, ", 0), 0u) << r.out;
+  EXPECT_NE(r.err.find("report: 2402 of 2402 rows"), std::string::npos) << r.err;
+  EXPECT_EQ(cairn("report s.cairn -o r2.html").err.find("rows"), std::string::npos);
+}
