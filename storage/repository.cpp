@@ -475,13 +475,19 @@ T read_row(const Stmt& s) {
   return r;
 }
 
+template <class T, class F>
+void query_each(Project& p, const std::string& where, const std::vector<std::string>& args, const std::string& order,
+                F&& each) {
+  Stmt s(p.db(), select_sql<T>() + (where.empty() ? "" : " WHERE " + where) + " ORDER BY " + order);
+  for (size_t i = 0; i < args.size(); ++i) s.bind(static_cast<int>(i) + 1, args[i]);
+  while (s.step()) each(read_row<T>(s));
+}
+
 template <class T>
 std::vector<T> query(Project& p, const std::string& where, const std::vector<std::string>& args,
                      const std::string& order = "created, rowid") {
-  Stmt s(p.db(), select_sql<T>() + (where.empty() ? "" : " WHERE " + where) + " ORDER BY " + order);
-  for (size_t i = 0; i < args.size(); ++i) s.bind(static_cast<int>(i) + 1, args[i]);
   std::vector<T> out;
-  while (s.step()) out.push_back(read_row<T>(s));
+  query_each<T>(p, where, args, order, [&](T&& r) { out.push_back(std::move(r)); });
   return out;
 }
 
@@ -816,6 +822,20 @@ std::vector<ContactPoint> list_points(Project& p, const ListOptions& o) {
 }
 std::vector<Photo> list_photos(Project& p, const ListOptions& o) {
   return list_kind<Photo>(p, o, "station", o.station);
+}
+
+void for_each_station(Project& p, const std::function<void(const Station&)>& each) {
+  query_each<Station>(p, "deleted IS NULL", {}, "created, rowid", [&](const Station& r) { each(r); });
+}
+void for_each_plane(Project& p, const std::function<void(const PlanarReading&)>& each) {
+  query_each<PlanarReading>(p, "deleted IS NULL", {}, "created, rowid", [&](const PlanarReading& r) { each(r); });
+}
+void for_each_point(Project& p, const std::function<void(const ContactPoint&)>& each) {
+  query_each<ContactPoint>(p, "deleted IS NULL", {}, "created, rowid", [&](const ContactPoint& r) { each(r); });
+}
+size_t count_live(Project& p, Kind kind) {
+  Stmt s(p.db(), "SELECT count(*) FROM " + table_of(kind) + " WHERE deleted IS NULL");
+  return s.step() ? static_cast<size_t>(s.int64(0)) : 0;
 }
 
 std::optional<Person> get_person(Project& p, const std::string& u) { return get_one<Person>(p, "uuid = ?", {u}); }

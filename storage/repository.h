@@ -21,6 +21,7 @@
 // time); strike/dip are then measured + declination, against true north.
 // A linear reading with host_plane and rake gets trend/plunge from the plane.
 #pragma once
+#include <functional>
 #include <optional>
 #include <string>
 #include <vector>
@@ -72,6 +73,15 @@ std::vector<LinearReading> list_lines(Project& p, const ListOptions& o = {});
 std::vector<ContactPoint> list_points(Project& p, const ListOptions& o = {});
 std::vector<Photo> list_photos(Project& p, const ListOptions& o = {});
 // Lists come in creation order (created, then insertion order) unless said otherwise.
+
+// The same live records one at a time, in list order, for readers that keep a
+// compact form of their own (the check): memory stays flat in the row count.
+// `each` sees a record that is reused for the next row (copy what you keep).
+void for_each_station(Project& p, const std::function<void(const Station&)>& each);
+void for_each_plane(Project& p, const std::function<void(const PlanarReading&)>& each);
+void for_each_point(Project& p, const std::function<void(const ContactPoint&)>& each);
+// How many live records of a kind there are (to reserve room before for_each_*).
+size_t count_live(Project& p, Kind kind);
 
 // One record by UUID, deleted or not.
 std::optional<Person> get_person(Project& p, const std::string& uuid);

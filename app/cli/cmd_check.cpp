@@ -375,8 +375,7 @@ int run_check(const CheckArgs& a, std::ostream& out, std::ostream& err) {
   const geo::CheckReport rep = geo::run_crosscheck(data.input, o);
   GroundReport gr;
   gr.ground = &ground;
-  for (const auto& pt : store::list_points(p))
-    ++gr.elevation_sources[pt.contact][pt.elevation ? std::string(store::to_string(pt.source)) : std::string("none")];
+  gr.elevation_sources = std::move(data.elevation_sources);
   if (at) {
     const auto comma = at->find(',');
     const auto lat_ = geo::parse_decimal(at->substr(0, comma));
