@@ -332,10 +332,11 @@ class Checker {
     for (size_t i = 0; i < in_.contacts.size(); ++i) {
       fit_of_[in_.contacts[i].uuid] = rep_.fits.size();
       rep_.fits.push_back(fit_contact(in_.contacts[i], work[i]));
+      work[i] = FitWork{};  // moved into the report: each fit's draws are held once
     }
   }
 
-  ContactFit fit_contact(const CheckContact& c, const FitWork& work) {
+  ContactFit fit_contact(const CheckContact& c, FitWork& work) {
     ContactFit cf;
     cf.contact = c.name;
     cf.contact_id = c.uuid;
@@ -344,7 +345,7 @@ class Checker {
       cf.verdict = c.points.empty() ? "no points mapped" : "fewer than 3 points: no plane";
       return cf;
     }
-    const Result<PlaneFit>& f = *work.fit;
+    Result<PlaneFit>& f = *work.fit;
     Flag flag;
     flag.contact = c.name;
     flag.rule = "weak-geometry";
@@ -357,7 +358,10 @@ class Checker {
       rep_.flags.push_back(flag);
       return cf;
     }
+    // The Monte Carlo draws move into the report (held once, not copied).
+    std::vector<PlaneDraw> draws = std::move(f.value().draws);
     cf.fit = *f;
+    cf.fit->draws = std::move(draws);
     cf.plane = grid_plane_to_true(f->plane, c.grid.value_or(in_.grid));
     cf.verdict = f->verdict;
     const auto& outliers = work.outliers;
