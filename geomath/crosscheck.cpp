@@ -10,6 +10,7 @@
 #include <map>
 #include <memory>
 #include <set>
+#include <string_view>
 #include <tuple>
 #include <unordered_map>
 
@@ -928,7 +929,9 @@ class Checker {
 
   // 7. Duplicates: the same reading entered twice.
   void duplicates() {
-    std::map<std::pair<std::string, std::string>, std::vector<const CheckPlane*>> groups;
+    // Keyed by views of the readings' own strings (the input outlives the map):
+    // the same order as the strings, without a copy of both per reading.
+    std::map<std::pair<std::string_view, std::string_view>, std::vector<const CheckPlane*>> groups;
     for (const auto& r : in_.planes)
       if (r.time_minutes) groups[{r.station, r.kind}].push_back(&r);
     for (auto& [key, list] : groups) {
@@ -946,12 +949,12 @@ class Checker {
           Flag f;
           f.rule = "duplicate";
           f.severity = Severity::Note;
-          f.station = station_code(key.first);
-          f.station_id = key.first;
+          f.station_id = std::string(key.first);
+          f.station = station_code(f.station_id);
           f.ref = list[i]->ref;
           f.reading = list[i]->uuid;
           f.misfit = ang;
-          f.message = key.second + " " + plane_text(list[i]->plane) + " repeats " +
+          f.message = std::string(key.second) + " " + plane_text(list[i]->plane) + " repeats " +
                       (list[j]->ref.empty() ? "an earlier reading" : "reading " + list[j]->ref) + " (" +
                       format_decimal("%.1f", ang) + " degrees apart, " + format_decimal("%.0f", dt) +
                       " min earlier): entered twice?";
