@@ -929,14 +929,28 @@ class Checker {
 
   // 7. Duplicates: the same reading entered twice.
   void duplicates() {
-    // Keyed by views of the readings' own strings (the input outlives the map):
-    // the same order as the strings, without a copy of both per reading.
-    std::map<std::pair<std::string_view, std::string_view>, std::vector<const CheckPlane*>> groups;
+    // The timed readings grouped by station and kind (groups in the order of
+    // those strings, readings in their input order within a group: a stable
+    // sort of pointers, no map of copied keys), then each group by time.
+    std::vector<const CheckPlane*> timed;
     for (const auto& r : in_.planes)
-      if (r.time_minutes) groups[{r.station, r.kind}].push_back(&r);
-    for (auto& [key, list] : groups) {
-      std::sort(list.begin(), list.end(), [](auto* a, auto* b) { return *a->time_minutes < *b->time_minutes; });
-      for (size_t i = 1; i < list.size(); ++i) {
+      if (r.time_minutes) timed.push_back(&r);
+    auto same_group = [](const CheckPlane* a, const CheckPlane* b) {
+      return a->station == b->station && a->kind == b->kind;
+    };
+    std::stable_sort(timed.begin(), timed.end(), [](const CheckPlane* a, const CheckPlane* b) {
+      const int c = a->station.compare(b->station);
+      return c < 0 || (c == 0 && a->kind < b->kind);
+    });
+    for (size_t g = 0, end = 0; g < timed.size(); g = end) {
+      end = g + 1;
+      while (end < timed.size() && same_group(timed[g], timed[end])) ++end;
+      std::sort(timed.begin() + static_cast<std::ptrdiff_t>(g), timed.begin() + static_cast<std::ptrdiff_t>(end),
+                [](auto* a, auto* b) { return *a->time_minutes < *b->time_minutes; });
+      const CheckPlane* const* list = timed.data() + g;
+      const size_t count = end - g;
+      const std::pair<std::string_view, std::string_view> key{list[0]->station, list[0]->kind};
+      for (size_t i = 1; i < count; ++i) {
         for (size_t j = i; j-- > 0;) {
           const double dt = *list[i]->time_minutes - *list[j]->time_minutes;
           if (dt > o_.duplicate_minutes) break;
