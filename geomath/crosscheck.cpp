@@ -986,8 +986,9 @@ class Checker {
   const CheckInput& in_;
   const CheckOptions& o_;
   CheckReport rep_;
-  std::unordered_map<std::string, size_t> station_of_;
-  std::unordered_map<std::string, size_t> fit_of_;  // contact id -> index in rep_.fits
+  // Keyed by views of the input's ids (the input outlives the checker): no copy per station.
+  std::unordered_map<std::string_view, size_t> station_of_;
+  std::unordered_map<std::string_view, size_t> fit_of_;  // contact id -> index in rep_.fits
   NearIndex station_index_;
   std::unordered_map<std::string, std::vector<const CheckPlane*>> slopes_at_;
   std::unordered_map<std::string, FacingMarks> marks_by_contact_, marks_by_unit_;
