@@ -520,9 +520,10 @@ class Checker {
 
   // Readings keyed by the first reading of their surface: a reading marked as a
   // repeat of another bedding or contact reading joins that one's set (a repeat
-  // of a repeat joins the first). Only first readings are keys.
-  std::unordered_map<std::string, std::vector<const CheckPlane*>> repeat_sets() const {
-    std::unordered_map<std::string, const CheckPlane*> by_id;
+  // of a repeat joins the first). Only first readings are keys (views of the
+  // input's ids: no copy per reading).
+  std::unordered_map<std::string_view, std::vector<const CheckPlane*>> repeat_sets() const {
+    std::unordered_map<std::string_view, const CheckPlane*> by_id;
     for (const auto& r : in_.planes) by_id[r.uuid] = &r;
     auto root_of = [&](const CheckPlane& r) {
       const CheckPlane* at = &r;
@@ -531,9 +532,9 @@ class Checker {
         if (it == by_id.end() || it->second->kind != r.kind || it->second->station != r.station) break;
         at = it->second;
       }
-      return at->uuid;
+      return std::string_view(at->uuid);
     };
-    std::unordered_map<std::string, std::vector<const CheckPlane*>> sets;
+    std::unordered_map<std::string_view, std::vector<const CheckPlane*>> sets;
     for (const auto& r : in_.planes)
       if (r.kind == "bedding" || r.kind == "contact") sets[root_of(r)].push_back(&r);
     return sets;
