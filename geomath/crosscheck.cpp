@@ -10,6 +10,7 @@
 #include <map>
 #include <memory>
 #include <set>
+#include <string_view>
 #include <tuple>
 #include <unordered_map>
 
@@ -332,10 +333,11 @@ class Checker {
     for (size_t i = 0; i < in_.contacts.size(); ++i) {
       fit_of_[in_.contacts[i].uuid] = rep_.fits.size();
       rep_.fits.push_back(fit_contact(in_.contacts[i], work[i]));
+      work[i] = FitWork{};  // moved into the report: each fit's draws are held once
     }
   }
 
-  ContactFit fit_contact(const CheckContact& c, const FitWork& work) {
+  ContactFit fit_contact(const CheckContact& c, FitWork& work) {
     ContactFit cf;
     cf.contact = c.name;
     cf.contact_id = c.uuid;
@@ -344,7 +346,7 @@ class Checker {
       cf.verdict = c.points.empty() ? "no points mapped" : "fewer than 3 points: no plane";
       return cf;
     }
-    const Result<PlaneFit>& f = *work.fit;
+    Result<PlaneFit>& f = *work.fit;
     Flag flag;
     flag.contact = c.name;
     flag.rule = "weak-geometry";
@@ -357,7 +359,10 @@ class Checker {
       rep_.flags.push_back(flag);
       return cf;
     }
+    // The Monte Carlo draws move into the report (held once, not copied).
+    std::vector<PlaneDraw> draws = std::move(f.value().draws);
     cf.fit = *f;
+    cf.fit->draws = std::move(draws);
     cf.plane = grid_plane_to_true(f->plane, c.grid.value_or(in_.grid));
     cf.verdict = f->verdict;
     const auto& outliers = work.outliers;
@@ -515,9 +520,10 @@ class Checker {
 
   // Readings keyed by the first reading of their surface: a reading marked as a
   // repeat of another bedding or contact reading joins that one's set (a repeat
-  // of a repeat joins the first). Only first readings are keys.
-  std::unordered_map<std::string, std::vector<const CheckPlane*>> repeat_sets() const {
-    std::unordered_map<std::string, const CheckPlane*> by_id;
+  // of a repeat joins the first). Only first readings are keys (views of the
+  // input's ids: no copy per reading).
+  std::unordered_map<std::string_view, std::vector<const CheckPlane*>> repeat_sets() const {
+    std::unordered_map<std::string_view, const CheckPlane*> by_id;
     for (const auto& r : in_.planes) by_id[r.uuid] = &r;
     auto root_of = [&](const CheckPlane& r) {
       const CheckPlane* at = &r;
@@ -526,9 +532,9 @@ class Checker {
         if (it == by_id.end() || it->second->kind != r.kind || it->second->station != r.station) break;
         at = it->second;
       }
-      return at->uuid;
+      return std::string_view(at->uuid);
     };
-    std::unordered_map<std::string, std::vector<const CheckPlane*>> sets;
+    std::unordered_map<std::string_view, std::vector<const CheckPlane*>> sets;
     for (const auto& r : in_.planes)
       if (r.kind == "bedding" || r.kind == "contact") sets[root_of(r)].push_back(&r);
     return sets;
@@ -924,12 +930,28 @@ class Checker {
 
   // 7. Duplicates: the same reading entered twice.
   void duplicates() {
-    std::map<std::pair<std::string, std::string>, std::vector<const CheckPlane*>> groups;
+    // The timed readings grouped by station and kind (groups in the order of
+    // those strings, readings in their input order within a group: a stable
+    // sort of pointers, no map of copied keys), then each group by time.
+    std::vector<const CheckPlane*> timed;
     for (const auto& r : in_.planes)
-      if (r.time_minutes) groups[{r.station, r.kind}].push_back(&r);
-    for (auto& [key, list] : groups) {
-      std::sort(list.begin(), list.end(), [](auto* a, auto* b) { return *a->time_minutes < *b->time_minutes; });
-      for (size_t i = 1; i < list.size(); ++i) {
+      if (r.time_minutes) timed.push_back(&r);
+    auto same_group = [](const CheckPlane* a, const CheckPlane* b) {
+      return a->station == b->station && a->kind == b->kind;
+    };
+    std::stable_sort(timed.begin(), timed.end(), [](const CheckPlane* a, const CheckPlane* b) {
+      const int c = a->station.compare(b->station);
+      return c < 0 || (c == 0 && a->kind < b->kind);
+    });
+    for (size_t g = 0, end = 0; g < timed.size(); g = end) {
+      end = g + 1;
+      while (end < timed.size() && same_group(timed[g], timed[end])) ++end;
+      std::sort(timed.begin() + static_cast<std::ptrdiff_t>(g), timed.begin() + static_cast<std::ptrdiff_t>(end),
+                [](auto* a, auto* b) { return *a->time_minutes < *b->time_minutes; });
+      const CheckPlane* const* list = timed.data() + g;
+      const size_t count = end - g;
+      const std::pair<std::string_view, std::string_view> key{list[0]->station, list[0]->kind};
+      for (size_t i = 1; i < count; ++i) {
         for (size_t j = i; j-- > 0;) {
           const double dt = *list[i]->time_minutes - *list[j]->time_minutes;
           if (dt > o_.duplicate_minutes) break;
@@ -942,12 +964,12 @@ class Checker {
           Flag f;
           f.rule = "duplicate";
           f.severity = Severity::Note;
-          f.station = station_code(key.first);
-          f.station_id = key.first;
+          f.station_id = std::string(key.first);
+          f.station = station_code(f.station_id);
           f.ref = list[i]->ref;
           f.reading = list[i]->uuid;
           f.misfit = ang;
-          f.message = key.second + " " + plane_text(list[i]->plane) + " repeats " +
+          f.message = std::string(key.second) + " " + plane_text(list[i]->plane) + " repeats " +
                       (list[j]->ref.empty() ? "an earlier reading" : "reading " + list[j]->ref) + " (" +
                       format_decimal("%.1f", ang) + " degrees apart, " + format_decimal("%.0f", dt) +
                       " min earlier): entered twice?";
@@ -965,8 +987,9 @@ class Checker {
   const CheckInput& in_;
   const CheckOptions& o_;
   CheckReport rep_;
-  std::unordered_map<std::string, size_t> station_of_;
-  std::unordered_map<std::string, size_t> fit_of_;  // contact id -> index in rep_.fits
+  // Keyed by views of the input's ids (the input outlives the checker): no copy per station.
+  std::unordered_map<std::string_view, size_t> station_of_;
+  std::unordered_map<std::string_view, size_t> fit_of_;  // contact id -> index in rep_.fits
   NearIndex station_index_;
   std::unordered_map<std::string, std::vector<const CheckPlane*>> slopes_at_;
   std::unordered_map<std::string, FacingMarks> marks_by_contact_, marks_by_unit_;

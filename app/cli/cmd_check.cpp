@@ -8,6 +8,7 @@
 #include <set>
 #include <unordered_map>
 #include <sstream>
+#include <string_view>
 
 #include "app/cli/check_terrain.h"
 #include "app/cli/command.h"
@@ -281,10 +282,11 @@ void write_text(std::ostream& out, const core::CheckData& data, const geo::Check
   // Where next: the contact's predicted elevation at stations that name it
   // (each contact's stations gathered in one pass over the readings, in their order).
   std::map<std::string, std::vector<std::string>> lines;
-  std::unordered_map<std::string, const geo::CheckStation*> st;
+  // Keyed by views of the input's ids (alive until the end): no copy per station or reading.
+  std::unordered_map<std::string_view, const geo::CheckStation*> st;
   for (const auto& s : data.input.stations) st.emplace(s.uuid, &s);
-  std::unordered_map<std::string, std::vector<const geo::CheckStation*>> recorded_at;
-  std::set<std::pair<std::string, std::string>> seen;  // (contact, station)
+  std::unordered_map<std::string_view, std::vector<const geo::CheckStation*>> recorded_at;
+  std::set<std::pair<std::string_view, std::string_view>> seen;  // (contact, station)
   for (const auto& r : data.input.planes) {
     if (r.contact.empty()) continue;
     auto s = st.find(r.station);
@@ -375,8 +377,7 @@ int run_check(const CheckArgs& a, std::ostream& out, std::ostream& err) {
   const geo::CheckReport rep = geo::run_crosscheck(data.input, o);
   GroundReport gr;
   gr.ground = &ground;
-  for (const auto& pt : store::list_points(p))
-    ++gr.elevation_sources[pt.contact][pt.elevation ? std::string(store::to_string(pt.source)) : std::string("none")];
+  gr.elevation_sources = std::move(data.elevation_sources);
   if (at) {
     const auto comma = at->find(',');
     const auto lat_ = geo::parse_decimal(at->substr(0, comma));

@@ -4,6 +4,7 @@
 // each reading's station and date (for the declination-suspect rule).
 #pragma once
 #include <functional>
+#include <map>
 #include <optional>
 #include <string>
 #include <unordered_map>
@@ -23,6 +24,10 @@ struct CheckData {
   geo::CheckInput input;
   geo::UtmZone zone;                                       // the zone the positions are in
   std::unordered_map<std::string, std::string> unit_code;  // unit UUID -> code
+  // Where the contact points' elevations came from: contact UUID -> source
+  // ("gps", "map", "dem", ... or "none" without an elevation) -> points; every
+  // live point, fitted or not.
+  std::map<std::string, std::map<std::string, int>> elevation_sources;
 };
 
 // Throws std::runtime_error naming the record when a position cannot be projected.

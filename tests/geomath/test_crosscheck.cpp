@@ -16,6 +16,7 @@
 
 #include "geomath/angles.h"
 #include "geomath/crosscheck.h"
+#include "geomath/strike_lines.h"
 
 using namespace cairn::geo;
 
@@ -681,4 +682,29 @@ TEST(Crosscheck, WithoutAFitACrewMembersDayIsComparedWithTheCrew) {
   // Near misses: no one within reach, or a reference day never checked against a fit.
   EXPECT_TRUE(groups(run_crosscheck(build(500, true))).empty());
   EXPECT_TRUE(groups(run_crosscheck(build(50, false))).empty());
+}
+
+// The report keeps each contact's fit as fit_plane made it, Monte Carlo draws
+// included (they move into the report, once, instead of being copied): the
+// same draws, cone and intervals as fitting the same points directly. Source:
+// fit_plane on the same points (a fixed seed gives the same draws).
+TEST(Crosscheck, ReportKeepsTheFitsDrawsUnchanged) {
+  const CheckInput in = one_contact(Plane{40, 35});
+  const CheckReport rep = run_crosscheck(in);
+  ASSERT_EQ(rep.fits.size(), 1u);
+  ASSERT_TRUE(rep.fits[0].fit);
+  const PlaneFit& kept = *rep.fits[0].fit;
+  const auto direct = fit_plane(in.contacts[0].points);
+  ASSERT_TRUE(direct);
+  ASSERT_EQ(direct->draws.size(), 1000u);
+  ASSERT_EQ(kept.draws.size(), direct->draws.size());
+  for (size_t i = 0; i < kept.draws.size(); ++i) {
+    EXPECT_EQ(kept.draws[i].point, direct->draws[i].point) << "draw " << i;
+    EXPECT_EQ(kept.draws[i].normal, direct->draws[i].normal) << "draw " << i;
+  }
+  EXPECT_EQ(*kept.cone95, *direct->cone95);
+  const auto a = elevation_at(kept, 300, -250), b = elevation_at(*direct, 300, -250);
+  ASSERT_TRUE(a && b && a->half_width95 && b->half_width95);
+  EXPECT_EQ(*a->half_width95, *b->half_width95);
+  EXPECT_GT(*a->half_width95, 0.0);
 }

@@ -15,6 +15,7 @@
 
 #include "formats/ids.h"
 #include "storage/project.h"
+#include "storage/each.h"
 #include "storage/repository.h"
 #include "storage_test_util.h"
 
@@ -423,4 +424,46 @@ TEST(Records, ApiRejectsBadValuesAndWritesNothing) {
   EXPECT_THROW(add(f.p, r), ValidationError);
   EXPECT_EQ(f.p.db().query_int("SELECT count(*) FROM planes"), 0);
   EXPECT_EQ(f.p.db().query_int("SELECT count(*) FROM audit WHERE tbl = 'planes'"), 0);
+}
+
+// for_each_station/plane/point visit the live records one at a time, in the
+// order the lists give, and count_* counts them. Checked against SQLite's
+// own count(*) and soft-delete column read directly (SQLite documentation,
+// "Aggregate Functions"), and against the lists.
+TEST(Records, ForEachVisitsTheLiveRecordsInListOrder) {
+  Fixture f;
+  std::vector<std::string> planes;
+  for (int i = 0; i < 4; ++i) {
+    PlanarReading r;
+    r.station = f.station;
+    r.ref = "R" + std::to_string(i);
+    r.typed = std::to_string(100 + 10 * i) + "/" + std::to_string(20 + i);
+    r.notation = PlaneNotation::DipDirectionDip;
+    planes.push_back(add(f.p, r));
+  }
+  for (int i = 0; i < 3; ++i) {
+    ContactPoint q;
+    q.contact = f.contact;
+    q.lat = 46.5 + 0.001 * i;
+    q.lon = 14.25;
+    q.elevation = 1200 + i;
+    add(f.p, q);
+  }
+  soft_delete(f.p, Kind::Plane, planes[1]);
+  EXPECT_EQ(f.p.db().query_int("SELECT count(*) FROM planes WHERE deleted IS NULL"), 3);
+  EXPECT_EQ(count_planes(f.p), 3u);
+  EXPECT_EQ(count_points(f.p), 3u);
+  EXPECT_EQ(count_stations(f.p), 1u);
+  std::vector<std::string> seen;
+  for_each_plane(f.p, {}, [&](const PlanarReading& r) { seen.push_back(r.meta.uuid + " " + r.ref); });
+  std::vector<std::string> listed;
+  for (const auto& r : list_planes(f.p)) listed.push_back(r.meta.uuid + " " + r.ref);
+  EXPECT_EQ(seen, listed);
+  EXPECT_EQ(seen, (std::vector<std::string>{planes[0] + " R0", planes[2] + " R2", planes[3] + " R3"}));
+  std::vector<double> elevations;
+  for_each_point(f.p, {}, [&](const ContactPoint& q) { elevations.push_back(*q.elevation); });
+  EXPECT_EQ(elevations, (std::vector<double>{1200, 1201, 1202}));
+  std::vector<std::string> codes;
+  for_each_station(f.p, {}, [&](const Station& s) { codes.push_back(s.code + " " + s.notes); });
+  EXPECT_EQ(codes, (std::vector<std::string>{"S1 knob above the stream"}));
 }
