@@ -167,12 +167,32 @@ std::string format_attitude(double azimuth, double angle) {
   return fmt::format("{:03d}/{:02d}", az, an);
 }
 
-NetStatistics net_statistics(const NetData& d, const NetOptions& o) {
+namespace {
+
+// The counts and, when asked for, the density grid and its contour levels.
+NetStatistics counts_and_density(const std::vector<geo::Line>& poles, const std::vector<geo::Line>& lines,
+                                 const NetOptions& o) {
   NetStatistics s;
-  const auto poles = counted_poles(d);
-  const auto lines = counted_lines(d);
   s.poles = static_cast<int>(poles.size());
   s.lines = static_cast<int>(lines.size());
+  if (o.contours && static_cast<int>(poles.size()) >= std::max(1, o.contour_min_data)) {
+    geo::DensityOptions dopt;
+    dopt.method = o.counting;
+    dopt.grid_nodes = o.grid_nodes > 0 ? o.grid_nodes : poles.size() < 200 ? 121 : 61;
+    if (auto g = geo::density_grid(o.kind, poles, dopt)) {
+      s.density = *g;
+      s.contour_levels = geo::contour_levels(*g, o.counting == geo::CountingMethod::Kamb ? 2.0 : 1.0);
+    }
+  }
+  return s;
+}
+
+}  // namespace
+
+NetStatistics net_statistics(const NetData& d, const NetOptions& o) {
+  const auto poles = counted_poles(d);
+  const auto lines = counted_lines(d);
+  NetStatistics s = counts_and_density(poles, lines, o);
   if (poles.size() >= 2) {
     if (auto m = geo::fisher_mean(poles)) s.pole_mean = *m;
     if (auto t = geo::orientation_tensor(poles)) {
@@ -188,15 +208,6 @@ NetStatistics net_statistics(const NetData& d, const NetOptions& o) {
   }
   if (lines.size() >= 2) {
     if (auto m = geo::fisher_mean(lines)) s.line_mean = *m;
-  }
-  if (o.contours && static_cast<int>(poles.size()) >= std::max(1, o.contour_min_data)) {
-    geo::DensityOptions dopt;
-    dopt.method = o.counting;
-    dopt.grid_nodes = o.grid_nodes > 0 ? o.grid_nodes : poles.size() < 200 ? 121 : 61;
-    if (auto g = geo::density_grid(o.kind, poles, dopt)) {
-      s.density = *g;
-      s.contour_levels = geo::contour_levels(*g, o.counting == geo::CountingMethod::Kamb ? 2.0 : 1.0);
-    }
   }
   return s;
 }
@@ -262,7 +273,9 @@ double net_height_for_width(double width, bool has_title, int legend_lines, cons
 // order they must overlap (contours, great circles, fits, poles, legend), each
 // marked by its comment.
 NetStatistics draw_net(Canvas& c, const Rect& r, const NetData& d, const NetOptions& o) {
-  NetStatistics s = net_statistics(d, o);
+  // The means, tensor and girdle (with its resampled cone) only when they are
+  // shown: on a season's poles they take seconds.
+  NetStatistics s = o.statistics ? net_statistics(d, o) : counts_and_density(counted_poles(d), counted_lines(d), o);
   const auto entries = legend_entries(d, s, o);
   // The legend's widest line, by a mean glyph width of half an em (DejaVu Sans
   // in mixed-case text; value from memory), the marker or stroke indent included.
@@ -312,7 +325,10 @@ NetStatistics draw_net(Canvas& c, const Rect& r, const NetData& d, const NetOpti
   }
 
   if (o.planes != PlaneDisplay::GreatCircles)
-    for (const auto& p : d.planes) {
+    for (size_t i =
+             o.max_pole_markers > 0 && d.planes.size() > o.max_pole_markers ? d.planes.size() - o.max_pole_markers : 0;
+         i < d.planes.size(); ++i) {
+      const NetPlane& p = d.planes[i];
       const Pt at = f.to_canvas(geo::project(o.kind, geo::pole(p.plane)));
       c.marker(at, p.shape, ms, p.colour, true);
       // A thin dark rim keeps light colours (yellow, sky blue) visible on white.

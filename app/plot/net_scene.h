@@ -92,6 +92,10 @@ struct NetOptions {
   bool legend = true;
   double text_size = 0;    // 0: from the rect
   double marker_size = 0;  // 0: from the net's size
+  // At most this many pole markers, the last ones of NetData::planes (0: all).
+  // Every plane still counts in the statistics and contours; the caller says
+  // in its own text that some poles are not drawn.
+  size_t max_pole_markers = 0;
 };
 
 struct NetStatistics {
