@@ -2,6 +2,9 @@
 // ends, embedded line breaks inside quotes), with the file line of every row
 // kept so that errors can name file, line and column.
 #pragma once
+#include <cstddef>
+#include <functional>
+#include <optional>
 #include <string>
 #include <string_view>
 #include <vector>
@@ -28,6 +31,66 @@ struct CsvTable {
 // or carries control characters other than tab and line breaks. A UTF-8
 // byte-order mark is ignored.
 Result<CsvTable> parse_csv(std::string_view text, const std::string& filename);
+
+// The same reading one row at a time, so that a large file is never held
+// whole (an import reads a file twice: once to check it, once to store it).
+// Rules, limits and error messages are those of parse_csv, which is built on it.
+class CsvReader {
+ public:
+  // Gives up to N bytes of the text into BUF; 0 at the end.
+  using Source = std::function<size_t(char* buf, size_t n)>;
+  // Reads text that has passed the checks of `check_csv_text` (or
+  // `check_csv_file`), its byte-order mark already dropped.
+  CsvReader(Source source, std::string filename);
+  // A reader of the file PATH (after `check_csv_file`); the byte-order mark is skipped.
+  // Fails with "cannot read PATH: why" when it cannot be opened.
+  static Result<CsvReader> open(const std::string& path, const std::string& filename);
+
+  // Reads the header row: false, with error(), when it is bad or the file has none.
+  bool read_header();
+  // Reads the next data row into row(): false at the end of the text, or on
+  // an error (error() is then set, "FILE:LINE:COLUMN: csv: message").
+  bool next();
+
+  const std::vector<std::string>& header() const { return header_; }
+  int header_line() const { return header_line_; }
+  // Index of a column by header name, or -1.
+  int column(std::string_view name) const;
+  std::vector<std::string>& row() { return record_; }
+  const std::vector<std::string>& row() const { return record_; }
+  int line() const { return row_line_; }  // 1-based line where the current row starts
+  size_t rows() const { return rows_; }   // data rows read so far
+  const std::string& error() const { return error_; }
+
+ private:
+  enum class Got { Record, End, Error };
+  Got read_record();
+  bool more(size_t n);  // true when at least N bytes past pos_ are buffered (reading more if need be)
+  bool next_is(char c);
+  void end_field();
+  bool fail(int line, const std::string& why);
+
+  Source source_;
+  std::string filename_;
+  std::string buf_;
+  size_t pos_ = 0;
+  bool at_end_ = false;
+  std::vector<std::string> header_, record_;
+  std::string field_;
+  bool in_quotes_ = false, field_was_quoted_ = false, after_quote_ = false, any_content_ = false;
+  int line_ = 1, record_line_ = 1, row_line_ = 1, header_line_ = 1;
+  size_t rows_ = 0;
+  std::string error_;
+};
+
+// The checks parse_csv makes on the whole text before reading rows, in its
+// order: "encoding", "too-large", then "utf8" and "control" with line and
+// column. Nothing when the text passes.
+std::optional<std::string> check_csv_text(std::string_view text, const std::string& filename);
+// The same checks on the file PATH, read in pieces of at most a few lines
+// (nothing is held whole), named FILENAME in messages; "cannot read PATH: why"
+// when it cannot be read.
+std::optional<std::string> check_csv_file(const std::string& path, const std::string& filename);
 
 // One field quoted when it needs to be (comma, quote, CR/LF, leading/trailing space).
 std::string csv_field(std::string_view value);

@@ -60,6 +60,10 @@ struct ImportReport {
 using ImportProgress = std::function<void(size_t done, size_t total)>;
 ImportReport import_csv(Project& p, ImportKind kind, std::string_view text, const std::string& filename,
                         const ImportProgress& progress = {});
+// The same from the file PATH (named so in errors), read twice in pieces and
+// never held whole: memory does not grow with the file. "cannot read PATH: why"
+// when it cannot be read.
+ImportReport import_csv_file(Project& p, ImportKind kind, const std::string& path, const ImportProgress& progress = {});
 
 // Imports the waypoints of a GPX 1.1 file: as stations (the waypoint name is
 // the station code, `desc` or `cmt` its notes), or, when `contact` names a

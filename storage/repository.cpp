@@ -500,9 +500,25 @@ std::optional<T> get_one(Project& p, const std::string& where, const std::vector
   return v.front();
 }
 
-// The JSON object of a whole row (every column), made by SQLite's json_object
-// (SQLite documentation, "JSON Functions"). Column names come from the schema.
-std::string row_json(Db& db, const std::string& table, const std::string& uuid) {
+// The arguments of json_object for every column of TABLE ('name', "name", ...),
+// read from the schema once per connection and schema version: an import
+// writes an audit row per record, and reading pragma_table_info each time was
+// a tenth of its time. SQLite bumps PRAGMA schema_version on every change of
+// the schema, so a changed table is read again.
+std::string json_columns(Db& db, const std::string& table) {
+  static std::mutex lock;
+  static std::map<std::pair<const sqlite3*, std::string>, std::pair<int64_t, std::string>> known;
+  int64_t version = 0;
+  {
+    Stmt v(db, "PRAGMA schema_version");
+    if (v.step()) version = v.int64(0);
+  }
+  const auto key = std::make_pair(static_cast<const sqlite3*>(db.handle()), table);
+  {
+    std::lock_guard<std::mutex> hold(lock);
+    auto it = known.find(key);
+    if (it != known.end() && it->second.first == version) return it->second.second;
+  }
   std::string expr;
   {
     Stmt info(db, "SELECT name FROM pragma_table_info(?)");
@@ -512,7 +528,15 @@ std::string row_json(Db& db, const std::string& table, const std::string& uuid) 
       expr += (expr.empty() ? "" : ", ") + std::string("'") + c + "', \"" + c + "\"";
     }
   }
-  Stmt s(db, "SELECT json_object(" + expr + ") FROM " + table + " WHERE uuid = ?");
+  std::lock_guard<std::mutex> hold(lock);
+  known[key] = {version, expr};
+  return expr;
+}
+
+// The JSON object of a whole row (every column), made by SQLite's json_object
+// (SQLite documentation, "JSON Functions"). Column names come from the schema.
+std::string row_json(Db& db, const std::string& table, const std::string& uuid) {
+  Stmt s(db, "SELECT json_object(" + json_columns(db, table) + ") FROM " + table + " WHERE uuid = ?");
   s.bind(1, uuid);
   return s.step() ? s.text(0) : std::string();
 }

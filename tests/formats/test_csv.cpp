@@ -4,6 +4,11 @@
 // source), and the writer's formula neutralisation from OWASP's "CSV
 // Injection" guidance (cells beginning with = + - @ tab CR).
 #include <gtest/gtest.h>
+#include <unistd.h>
+
+#include <cstdio>
+#include <filesystem>
+#include <fstream>
 
 #include "formats/csv.h"
 
@@ -94,4 +99,80 @@ TEST(Csv, FormulaPrefixesAreNeutralisedOnWritingAndUndoneOnReading) {
             "\"'=HYPERLINK(\"\"x\"\")\",'+1+2,'@SUM(A1),-12.5,12,'-,''=x\n");
   for (const char* cell : {"=1+2", "+1", "-12.5", "-x", "@a", "'=x", "''+y", "plain", "'quoted", ""})
     EXPECT_EQ(from_formula_safe(formula_safe(cell)), cell);
+}
+
+namespace {
+// Writes TEXT to a new file in the temporary folder and gives its path.
+std::string write_temp(const std::string& name, const std::string& text) {
+  const std::string path =
+      (std::filesystem::temp_directory_path() / (name + "-" + std::to_string(::getpid()) + "-" +
+                                                 ::testing::UnitTest::GetInstance()->current_test_info()->name()))
+          .string();
+  std::ofstream(path, std::ios::binary) << text;
+  return path;
+}
+}  // namespace
+
+TEST(Csv, AFileIsCheckedInPiecesWithTheLineAndColumnOfTheWholeText) {
+  // The file is read in 64 KiB pieces; a fault far past the first piece keeps
+  // the line and column counted from the top (LF, CRLF and lone-CR line ends,
+  // RFC 4180 and common practice; 0xE9 alone is not UTF-8, RFC 3629).
+  for (const std::string end : {"\n", "\r\n", "\r"}) {
+    std::string text = "a,b" + end;
+    for (int i = 0; i < 20000; ++i) text += "S" + std::to_string(i) + ",x" + end;  // lines 2..20001
+    text += "x,caf\xE9" + end;                                                     // line 20002, column 6
+    const std::string path = write_temp("fault", text);
+    EXPECT_EQ(check_csv_file(path, "t.csv"), "t.csv:20002:6: utf8: invalid UTF-8 (byte 0xE9); save the file as UTF-8");
+    EXPECT_EQ(check_csv_text(text, "t.csv"), check_csv_file(path, "t.csv"));
+    std::remove(path.c_str());
+  }
+  // ECMA-48: ESC is a control character; the byte-order mark is not counted as a column.
+  const std::string path = write_temp("esc", "\xEF\xBB\xBF" + std::string("a,b\nx,y\n\x1B,z\n"));
+  EXPECT_EQ(check_csv_file(path, "t.csv"), "t.csv:3:1: control: control character U+001B is not allowed in text");
+  std::remove(path.c_str());
+  const std::string clean = write_temp("clean", "a,b\n1,2\n");
+  EXPECT_EQ(check_csv_file(clean, "t.csv"), std::nullopt);
+  std::remove(clean.c_str());
+  EXPECT_EQ(check_csv_file("/nonexistent/x.csv", "x.csv").value_or("").rfind("cannot read /nonexistent/x.csv: ", 0),
+            0u);
+}
+
+TEST(Csv, TheReaderGivesRowsOneByOneAcrossPieces) {
+  // RFC 4180 rules 6 and 7: a quoted field holds line breaks and doubled
+  // quotes; here one longer than a 64 KiB piece, so it is cut between pieces.
+  std::string big;
+  for (int i = 0; i < 30000; ++i) big += i % 1000 == 999 ? "\"\"\n" : "ab";
+  const std::string expected_big = [&] {
+    std::string s;
+    for (int i = 0; i < 30000; ++i) s += i % 1000 == 999 ? "\"\n" : "ab";
+    return s;
+  }();
+  const std::string text = "\xEF\xBB\xBF" + std::string("name,notes\r\nS1,\"") + big + "\"\r\n\r\nS2,plain\r\n";
+  const std::string path = write_temp("rows", text);
+  auto r = CsvReader::open(path, "t.csv");
+  ASSERT_TRUE(r.ok()) << r.error();
+  CsvReader& in = r.value();
+  ASSERT_TRUE(in.read_header()) << in.error();
+  EXPECT_EQ(in.header(), (std::vector<std::string>{"name", "notes"}));
+  EXPECT_EQ(in.header_line(), 1);
+  ASSERT_TRUE(in.next()) << in.error();
+  EXPECT_EQ(in.line(), 2);
+  EXPECT_EQ(in.row()[0], "S1");
+  EXPECT_EQ(in.row()[1], expected_big);
+  ASSERT_TRUE(in.next()) << in.error();
+  EXPECT_EQ(in.line(), 2 + 30 + 2);  // the 30 line breaks inside the field, then a blank line
+  EXPECT_EQ(in.row(), (std::vector<std::string>{"S2", "plain"}));
+  EXPECT_FALSE(in.next());
+  EXPECT_EQ(in.error(), "");
+  EXPECT_EQ(in.rows(), 2u);
+  std::remove(path.c_str());
+  // A malformed row stops the reader with parse_csv's message.
+  const std::string bad = write_temp("bad", "a,b\n1,2\n3\n");
+  auto b = CsvReader::open(bad, "t.csv");
+  ASSERT_TRUE(b.ok());
+  ASSERT_TRUE(b.value().read_header());
+  EXPECT_TRUE(b.value().next());
+  EXPECT_FALSE(b.value().next());
+  EXPECT_EQ(b.value().error(), "t.csv:3:1: csv: 1 fields, but the header has 2");
+  std::remove(bad.c_str());
 }

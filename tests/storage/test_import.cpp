@@ -11,6 +11,7 @@
 #include <gtest/gtest.h>
 
 #include <cmath>
+#include <fstream>
 
 #include "storage/import.h"
 #include "storage/repository.h"
@@ -406,4 +407,49 @@ TEST(Import, ListImportsBackUnchanged) {
   // "S10W 80W": strike line S10W = 190; dipping W lies to the right of 190, so RHR strike 190.
   EXPECT_NEAR(pl[2].strike, 190, 1e-9);
   EXPECT_NEAR(pl[2].dip, 80, 1e-9);
+}
+
+TEST(Import, AFileIsReadRowByRowWithTheSameRulesAsText) {
+  // import_csv_file reads the file twice in pieces (issue 16); what it
+  // stores, skips and refuses is what import_csv does with the same text.
+  Field f;
+  auto write = [&](const std::string& name, const std::string& text) {
+    const std::string path = f.dir.file(name);
+    std::ofstream(path, std::ios::binary) << text;
+    return path;
+  };
+  // A station code twice in one file (the rule of the bad-input table), far
+  // apart so that the first is in an earlier piece of the file.
+  std::string twice = "station,lat,lon\n";
+  for (int i = 0; i < 5000; ++i) twice += "T" + std::to_string(i) + ",46.5,14.25\n";
+  twice += "T7,46.5,14.25\n";  // line 5002; T7 was on line 9
+  const int64_t before = f.total();
+  const std::string path = write("twice.csv", twice);
+  ImportReport r = import_csv_file(f.p, ImportKind::Stations, path);
+  ASSERT_EQ(r.errors.size(), 1u);
+  EXPECT_EQ(r.errors[0], path + ":5002:1: duplicate: station 'T7' appears twice in this file (first on line 9)");
+  EXPECT_EQ(r.errors, import_csv(f.p, ImportKind::Stations, twice, path).errors);
+  EXPECT_EQ(f.total(), before) << "a refused file writes nothing";
+  // RFC 4180: a malformed last line refuses the whole file before anything is written.
+  r = import_csv_file(f.p, ImportKind::Stations, write("short.csv", "station,lat,lon\nT1,46.5,14.25\nT2,46.5\n"));
+  ASSERT_EQ(r.errors.size(), 1u);
+  EXPECT_NE(r.errors[0].find("short.csv:3:1: csv: 2 fields, but the header has 3"), std::string::npos) << r.errors[0];
+  EXPECT_EQ(f.total(), before);
+  // Two identical readings in one file stay two; imported again, both are skipped.
+  const std::string planes =
+      write("p.csv", "station,kind,strike,dip\nS1,joint,120,85\nS1,joint,120,85\nS1,joint,121,85\n");
+  r = import_csv_file(f.p, ImportKind::Planes, planes);
+  ASSERT_TRUE(r.ok()) << r.errors.front();
+  EXPECT_EQ(r.added, 3);
+  r = import_csv_file(f.p, ImportKind::Planes, planes);
+  ASSERT_TRUE(r.ok()) << r.errors.front();
+  EXPECT_EQ(r.added, 0);
+  EXPECT_EQ(r.skipped, 3);
+  // The same rows given as text are the same import: skipped too.
+  r = import_csv(f.p, ImportKind::Planes, "station,kind,strike,dip\nS1,joint,120,85\nS1,joint,120,85\n", "p.csv");
+  EXPECT_EQ(r.skipped, 2);
+  EXPECT_EQ(list_planes(f.p).size(), 4u);  // f1 + three
+  r = import_csv_file(f.p, ImportKind::Planes, f.dir.file("missing.csv"));
+  ASSERT_EQ(r.errors.size(), 1u);
+  EXPECT_EQ(r.errors[0].rfind("cannot read " + f.dir.file("missing.csv") + ": ", 0), 0u);
 }
