@@ -115,6 +115,39 @@ INSTANTIATE_TEST_SUITE_P(BothNets, NetPoles,
                            return std::string(i.param == cairn::geo::NetKind::EqualArea ? "EqualArea" : "EqualAngle");
                          });
 
+// A season's poles: at most max_pole_markers markers are drawn, the last (newest)
+// ones, and every pole still counts in the statistics (a display limit, common
+// practice with no published source; the mean itself is checked against
+// Fisher (1953) in tests/geomath).
+TEST(NetScene, MarkerLimitDrawsTheNewestPolesAndCountsThemAll) {
+  NetData d;
+  for (int i = 0; i < 5; ++i)
+    d.planes.push_back({cairn::geo::Plane{10.0 * i, 30.0 + 5 * i}, Rgba{static_cast<unsigned char>(10 + i), 0, 0, 255},
+                        Shape::Circle});
+  NetOptions o;
+  o.legend = false;
+  o.statistics = true;
+  RecordingCanvas all, limited;
+  const NetStatistics s_all = draw_net(all, Rect{0, 0, 300, 300}, d, o);
+  o.max_pole_markers = 2;
+  const NetStatistics s_lim = draw_net(limited, Rect{0, 0, 300, 300}, d, o);
+  for (int i = 0; i < 5; ++i) {
+    const Rgba ink{static_cast<unsigned char>(10 + i), 0, 0, 255};
+    EXPECT_TRUE(marker_in(all, ink)) << "pole " << i << " without a limit";
+    EXPECT_EQ(marker_in(limited, ink) != nullptr, i >= 3) << "pole " << i << " with a limit of 2";
+  }
+  EXPECT_EQ(s_lim.poles, 5);
+  ASSERT_TRUE(s_all.pole_mean && s_lim.pole_mean);
+  EXPECT_EQ(s_lim.pole_mean->mean.trend, s_all.pole_mean->mean.trend);
+  EXPECT_EQ(s_lim.pole_mean->mean.plunge, s_all.pole_mean->mean.plunge);
+  // Without statistics shown the means are not computed; the count still is.
+  o.statistics = false;
+  RecordingCanvas plain;
+  const NetStatistics s_plain = draw_net(plain, Rect{0, 0, 300, 300}, d, o);
+  EXPECT_EQ(s_plain.poles, 5);
+  EXPECT_FALSE(s_plain.pole_mean);
+}
+
 TEST(NetScene, FitIsDrawnWithItsConeAroundThePole) {
   // A fitted plane 000/60 with a 10 degree cone: the cone is the small circle of
   // 10 degrees about the pole 270/30, so every point of it is 10 degrees from the
