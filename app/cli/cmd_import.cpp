@@ -24,6 +24,7 @@ const char* kKinds = "units, contacts, stations, planes, lines, points, waypoint
 struct ImportArgs {
   std::string file, kind, path;
   std::optional<std::string> contact;
+  bool show_progress = false;
 };
 
 int run(const ImportArgs& a, std::ostream& out, std::ostream& err) {
@@ -59,19 +60,17 @@ int run(const ImportArgs& a, std::ostream& out, std::ostream& err) {
   mallopt(M_TRIM_THRESHOLD, 32 << 20);
 #endif
   auto project = open_project(file, false, err);
-  // A progress line on stderr once an import has run for 2 s: rows checked
-  // and rows per second (a terminal sees it rewritten in place).
-  // (app/core/progress.h: the same figures as the UI's job bar).
-  const core::RowRate rate;
-  bool shown = false;
-  auto progress = [&](size_t done, size_t total) {
-    if (rate.seconds() < 2.0) return;
-    shown = true;
-    err << "\rimporting " << formats::terminal_safe(path) << ": " << rate.line(done, total) << std::flush;
+  // The one progress line of app/core/progress.h (as list, export and report
+  // show it): past 2 s, on a terminal or with --progress.
+  core::ProgressLine line(err, "importing " + formats::terminal_safe(path), a.show_progress);
+  size_t done = 0, total = 0;
+  auto progress = [&](size_t d, size_t t) {
+    done = d, total = t;
+    line.update(d, t);
   };
   const store::ImportReport rep = waypoints ? store::import_gpx(project, text, path, contact.value_or(""))
                                             : store::import_csv_file(project, *kind, path, progress);
-  if (shown) err << "\n";
+  line.finish(done, total);
   if (!rep.ok()) {
     for (const auto& e : rep.errors) err << formats::terminal_safe(e) << "\n";
     err << "nothing imported: " << rep.errors.size() << (rep.errors.size() == 1 ? " problem" : " problems") << " in "
@@ -92,6 +91,9 @@ Runner define(CLI::App& app) {
   positional(app, "KIND", a->kind, std::string("what the file holds: ") + kKinds);
   positional(app, "PATH", a->path, "the CSV file (or GPX file for waypoints)");
   option(app, "--contact", a->contact, "with KIND waypoints: the contact the points lie on");
+  flag(app, "--progress", a->show_progress,
+       "a progress line on stderr past 2 s even when stderr is not a terminal (CAIRN_PROGRESS_AFTER=SECONDS "
+       "changes the 2 s)");
   return [a](std::ostream& out, std::ostream& err) { return run(*a, out, err); };
 }
 

@@ -74,6 +74,27 @@ TEST_F(Streamed, ListOfTheDemoIsTheOldListing) {
             std::to_string(std::count(planes.begin(), planes.end(), '\n') - 1) + " {12}\n");
 }
 
+// `cairn import` shows the same progress line: asked and forced, on stderr with
+// the row counts; not asked and not a terminal, nothing; stdout unchanged.
+TEST_F(Streamed, ImportProgressWhenAskedNeverOnStdout) {
+  ASSERT_EQ(cairn("new s.cairn --name Streamed --utm 8N").status, 0);
+  std::string st = "station,easting,northing,elevation\n";
+  for (int i = 0; i < 2500; ++i)
+    st += "S" + std::to_string(i) + "," + std::to_string(400000 + 7 * i) + "," + std::to_string(6500000 + 3 * i) +
+          ",100\n";
+  write("st.csv", st);
+  const Outcome forced = cairn("import s.cairn stations st.csv --progress", "CAIRN_PROGRESS_AFTER=0");
+  ASSERT_EQ(forced.status, 0) << forced.err;
+  EXPECT_EQ(forced.out, "imported 2500 stations from st.csv\n");
+  EXPECT_NE(forced.err.find("importing st.csv: "), std::string::npos) << forced.err;
+  EXPECT_NE(forced.err.find("2500 of 2500 rows"), std::string::npos) << forced.err;
+  EXPECT_EQ(forced.err.back(), '\n');
+  const Outcome again = cairn("import s.cairn stations st.csv", "CAIRN_PROGRESS_AFTER=0");
+  ASSERT_EQ(again.status, 0) << again.err;
+  EXPECT_EQ(again.err, "");
+  EXPECT_EQ(again.out, "imported 0 stations from st.csv (2500 already in the project)\n");
+}
+
 // Forced (CAIRN_PROGRESS_AFTER=0 and --progress), the progress line goes to
 // stderr with the RowRate wording and stdout is byte for byte the same.
 TEST_F(Streamed, ListProgressWhenAskedNeverOnStdout) {
