@@ -251,10 +251,15 @@ void draw_camp(App& a) {
     CampState* camp = &cs;
     a.jobs.start("Import", [project, file, kind, contact, is_gpx, model, camp](JobProgress& pr) {
       pr.set(-1.0f, "reading " + fs::path(file).filename().string());
-      // At most kMaxImportBytes, as `cairn import` reads (formats/limits.h).
-      auto read = formats::read_file_limited(file);
-      if (!read) throw std::runtime_error(read.error());
-      const std::string& text = read.value();
+      // A GPX file is read whole, at most kMaxImportBytes (formats/limits.h); a
+      // CSV row by row, twice, never held whole (store::import_csv_file), as
+      // `cairn import` reads them.
+      std::string text;
+      if (is_gpx) {
+        auto read = formats::read_file_limited(file);
+        if (!read) throw std::runtime_error(read.error());
+        text = std::move(read.value());
+      }
       store::Project p = store::Project::open(project, cli::cli_open_options(false));
       pr.set(-1.0f, "checking and writing every row");
       // The figures of `cairn import`'s progress line (app/core/progress.h).
@@ -264,9 +269,9 @@ void draw_camp(App& a) {
                "checking and writing: " + rate.line(done, total));
       };
       const store::ImportReport r =
-          is_gpx ? store::import_gpx(p, text, file, contact)
-                 : store::import_csv(p, *store::parse_import_kind(kKinds[static_cast<size_t>(kind)]), text, file,
-                                     progress);
+          is_gpx
+              ? store::import_gpx(p, text, file, contact)
+              : store::import_csv_file(p, *store::parse_import_kind(kKinds[static_cast<size_t>(kind)]), file, progress);
       std::vector<std::string> log;
       const std::string name = fs::path(file).filename().string();
       if (r.ok())
