@@ -18,6 +18,7 @@
 #include <cmath>
 #include <limits>
 
+#include "formats/limits.h"
 #include "formats/raster.h"
 #include "geomath/geodesy.h"
 #include "app/core/export.h"
@@ -151,6 +152,25 @@ TEST(Terrain, AsciiGridReadAsWrittenAndClipped) {
   EXPECT_DOUBLE_EQ(part->grid.east(), f.x0_ + 300);
   EXPECT_DOUBLE_EQ(part->grid.south(), f.y0_ + 200);
   EXPECT_DOUBLE_EQ(part->grid.north, f.y0_ + 400);
+}
+
+// A grid cut short (its header promises 150 rows, the file holds 5: an ESRI
+// ASCII grid as GDAL's AAIGrid driver documents it) is refused, naming the
+// first missing row, also when the area asked for lies far below it (the read
+// that once ran for minutes, tests/fuzz/regressions/raster).
+TEST(Terrain, AsciiGridCutShortIsRefusedNamingTheRow) {
+  Fixture f;
+  const std::string asc = f.plane_grid(true);
+  std::string text = cairn::formats::read_file_limited(asc).value();
+  size_t at = 0;
+  for (int line = 0; line < 6 + 5; ++line) at = text.find('\n', at) + 1;  // header (6 lines) and 5 rows
+  text.resize(at);
+  write_file(asc, text);
+  cairn::formats::DemArea a{f.x0_ + 101, f.y0_ + 202, f.x0_ + 299, f.y0_ + 395};
+  const auto part = cairn::formats::read_dem(asc, {32608, a});
+  ASSERT_FALSE(part.ok());
+  EXPECT_NE(part.error().find("plane.asc"), std::string::npos) << part.error();
+  EXPECT_NE(part.error().find("row 6"), std::string::npos) << part.error();
 }
 
 TEST(Terrain, StoredTilesComeBackExactly) {
