@@ -5,12 +5,14 @@
 #include <cstdint>
 #include <map>
 #include <set>
+#include <sstream>
 #include <unordered_map>
 
 #include "geomath/geodesy.h"
 #include "geomath/notation.h"
 #include "formats/csv.h"
 #include "formats/gpx.h"
+#include "storage/listing.h"
 #include "storage/pick_lists.h"
 #include "storage/repository.h"
 #include "formats/sha256.h"
@@ -42,21 +44,6 @@ const std::map<ImportKind, std::vector<std::string>>& columns() {
         "notes"}},
   };
   return c;
-}
-
-// The columns `list_csv` writes (the import's, less the alternatives it does not use).
-std::vector<std::string> list_columns(ImportKind k) {
-  switch (k) {
-    case ImportKind::Stations:
-      return {"station", "lat",  "lon",      "elevation", "h_accuracy", "v_accuracy",
-              "source",  "unit", "observer", "time",      "notes"};
-    case ImportKind::Planes:
-      return {"station", "kind",    "strike", "dip", "north", "declination",
-              "contact", "quality", "facing", "ref", "time",  "notes"};
-    case ImportKind::Points:
-      return {"contact", "lat", "lon", "elevation", "h_accuracy", "v_accuracy", "source", "time", "notes"};
-    default: return columns().at(k);
-  }
 }
 
 // One CSV row with its location, collecting errors.
@@ -927,55 +914,9 @@ ImportReport import_gpx(Project& p, std::string_view text, const std::string& fi
 }
 
 std::string list_csv(Project& p, ImportKind kind) {
-  std::string out = csv_record(list_columns(kind));
-  ListOptions all;
-  all.include_deleted = true;
-  std::map<std::string, std::string> unit_code, station_code, contact_name, initials, plane_ref;
-  for (const auto& u : list_units(p, all)) unit_code[u.meta.uuid] = u.code;
-  for (const auto& s : list_stations(p, all)) station_code[s.meta.uuid] = s.code;
-  for (const auto& c : list_contacts(p, all)) contact_name[c.meta.uuid] = c.name;
-  for (const auto& x : list_people(p, all)) initials[x.meta.uuid] = x.initials;
-  auto decl = [](North n, double d) { return n == North::Magnetic ? format_number(d) : std::string(); };
-  switch (kind) {
-    case ImportKind::Units:
-      for (const auto& u : list_units(p)) out += csv_record({u.code, u.name, std::to_string(u.age_rank), u.colour});
-      break;
-    case ImportKind::Contacts:
-      for (const auto& c : list_contacts(p))
-        out += csv_record({c.name, unit_code[c.lower_unit], unit_code[c.upper_unit], std::string(to_string(c.type))});
-      break;
-    case ImportKind::Stations:
-      for (const auto& s : list_stations(p))
-        out += csv_record({s.code, format_number(s.lat), format_number(s.lon), opt(s.elevation), opt(s.h_accuracy),
-                           opt(s.v_accuracy), std::string(to_string(s.source)), unit_code[s.unit], initials[s.observer],
-                           s.time, s.notes});
-      break;
-    case ImportKind::Planes:
-      for (const auto& r : list_planes(p))
-        out += csv_record({station_code[r.station], std::string(to_string(r.kind)), format_number(r.measured_strike),
-                           format_number(r.measured_dip), std::string(to_string(r.north)), decl(r.north, r.declination),
-                           contact_name[r.contact], r.quality ? std::to_string(*r.quality) : "",
-                           std::string(to_string(r.facing)), r.ref, r.time, r.notes});
-      break;
-    case ImportKind::Lines: {
-      for (const auto& pl : list_planes(p, all)) plane_ref[pl.meta.uuid] = pl.ref;
-      for (const auto& r : list_lines(p)) {
-        const bool rake = r.rake.has_value();
-        out += csv_record({station_code[r.station], std::string(to_string(r.kind)),
-                           rake ? "" : format_number(r.measured_trend), rake ? "" : format_number(r.measured_plunge),
-                           rake ? format_number(*r.rake) : "", plane_ref[r.host_plane], std::string(to_string(r.north)),
-                           decl(r.north, r.declination), r.ref, r.time, r.notes});
-      }
-      break;
-    }
-    case ImportKind::Points:
-      for (const auto& pt : list_points(p))
-        out +=
-            csv_record({contact_name[pt.contact], format_number(pt.lat), format_number(pt.lon), opt(pt.elevation),
-                        opt(pt.h_accuracy), opt(pt.v_accuracy), std::string(to_string(pt.source)), pt.time, pt.notes});
-      break;
-  }
-  return out;
+  std::ostringstream out;  // the streamed listing (storage/listing.h), held whole
+  write_list_csv(p, kind, out);
+  return out.str();
 }
 
 }  // namespace cairn::store
