@@ -50,8 +50,16 @@ double dip_of(long i) { return static_cast<double>((i * 7) % 91); }
 std::string notes_of(long i) { return "soak " + std::to_string(i); }
 
 // The writer: N readings at stations of ten each, one transaction per save,
-// each UUID printed to OUT once its COMMIT has returned. At each tenth it waits
-// for a byte on GO that arrived after it got there (a check that finished).
+// each UUID printed to OUT once its COMMIT has returned. At each tenth, and
+// once more after the last, it waits for a byte on GO that arrived after it got
+// there (a check that finished): ten checks overlap the writes at least.
+void await_a_check(int go) {
+  char c;
+  while (read(go, &c, 1) == 1) {}  // drain (GO is non-blocking): earlier checks do not count
+  pollfd pf{go, POLLIN, 0};
+  poll(&pf, 1, -1);
+}
+
 [[noreturn]] void writer(const std::string& path, long n, int out, int go) {
   try {
     OpenOptions o;
@@ -59,12 +67,7 @@ std::string notes_of(long i) { return "soak " + std::to_string(i); }
     Project p = Project::open(path, o);
     std::string station;
     for (long i = 0; i < n; ++i) {
-      if (i % (n / 10) == 0 && i > 0) {
-        char c;
-        while (read(go, &c, 1) == 1) {}  // drain (GO is non-blocking): earlier checks do not count
-        pollfd pf{go, POLLIN, 0};
-        poll(&pf, 1, -1);
-      }
+      if (i % (n / 10) == 0 && i > 0) await_a_check(go);
       if (i % 10 == 0) {
         Station s;
         s.code = "K" + std::to_string(i / 10);
@@ -81,6 +84,7 @@ std::string notes_of(long i) { return "soak " + std::to_string(i); }
       const std::string line = r.meta.uuid + " " + std::to_string(i) + "\n";
       if (write(out, line.data(), line.size()) != static_cast<ssize_t>(line.size())) _exit(4);
     }
+    await_a_check(go);
     _exit(0);
   } catch (...) {
     _exit(3);
