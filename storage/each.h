@@ -5,6 +5,8 @@
 #pragma once
 #include <cstddef>
 #include <functional>
+#include <string>
+#include <unordered_map>
 
 #include "storage/repository.h"
 
@@ -28,5 +30,9 @@ size_t count_stations(Project& p, const ListOptions& o = {});
 size_t count_planes(Project& p, const ListOptions& o = {});
 size_t count_lines(Project& p, const ListOptions& o = {});
 size_t count_points(Project& p, const ListOptions& o = {});
+// How many live planar and linear readings each station has, by station UUID
+// (stations without any are left out): what counting list_planes and
+// list_lines by station gives, without reading the readings.
+std::unordered_map<std::string, size_t> readings_per_station(Project& p);
 
 }  // namespace cairn::store

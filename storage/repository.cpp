@@ -889,6 +889,15 @@ size_t count_planes(Project& p, const ListOptions& o) { return count_kind<Planar
 size_t count_lines(Project& p, const ListOptions& o) { return count_kind<LinearReading>(p, o, "station", o.station); }
 size_t count_points(Project& p, const ListOptions& o) { return count_kind<ContactPoint>(p, o, "contact", o.contact); }
 
+std::unordered_map<std::string, size_t> readings_per_station(Project& p) {
+  std::unordered_map<std::string, size_t> n;
+  for (const char* table : {Traits<PlanarReading>::table, Traits<LinearReading>::table}) {
+    Stmt s(p.db(), std::string("SELECT station, count(*) FROM ") + table + " WHERE deleted IS NULL GROUP BY station");
+    while (s.step()) n[s.text(0)] += static_cast<size_t>(s.int64(1));
+  }
+  return n;
+}
+
 std::optional<Person> get_person(Project& p, const std::string& u) { return get_one<Person>(p, "uuid = ?", {u}); }
 std::optional<Unit> get_unit(Project& p, const std::string& u) { return get_one<Unit>(p, "uuid = ?", {u}); }
 std::optional<Contact> get_contact(Project& p, const std::string& u) { return get_one<Contact>(p, "uuid = ?", {u}); }

@@ -5,6 +5,7 @@
 // created and then insertion order (rowid), or by UUID in byte order.
 #include <gtest/gtest.h>
 
+#include <algorithm>
 #include <cstdio>
 #include <string>
 #include <vector>
@@ -97,4 +98,18 @@ TEST(Each, CursorsGiveWhatTheSqlite3ShellSelects) {
                             "'")[0]);
   EXPECT_EQ(count_lines(p), 0u);
   EXPECT_EQ(count_points(p), 0u);
+
+  // Readings per station, planar and linear together, deleted ones left out.
+  LinearReading l;
+  l.station = uuids[0];
+  l.kind = LineKind::Lineation;
+  l.typed = "045/10";
+  add(p, l);
+  std::vector<std::string> per;
+  for (const auto& [station, n] : readings_per_station(p)) per.push_back(station + "|" + std::to_string(n));
+  std::sort(per.begin(), per.end());
+  EXPECT_EQ(per, shell(path,
+                       "SELECT station, count(*) FROM (SELECT station FROM planes WHERE deleted IS NULL UNION ALL "
+                       "SELECT station FROM lines WHERE deleted IS NULL) GROUP BY station ORDER BY station"));
+  EXPECT_EQ(per.size(), 2u);  // the third station has no reading
 }
