@@ -19,11 +19,13 @@
 
 #include "app/plot/plan_scene.h"
 #include "app/plot/recording_canvas.h"
+#include "app/ui/background.h"
 #include "app/ui/gl_picture.h"
 #include "app/ui/gps.h"
 #include "app/ui/jobs.h"
 #include "app/ui/model.h"
 #include "app/ui/photos_ui.h"
+#include "app/ui/soft_raster.h"
 #include "app/ui/theme.h"
 #include "geomath/track.h"
 #include "storage/merge.h"
@@ -81,45 +83,78 @@ struct StationEdit {
   std::string error;
 };
 
+// What the Net screen draws for one set of records, check, filters and size:
+// built on a worker for a large project (background.h).
+struct NetPicture {
+  plot::RecordingCanvas drawing;
+  std::optional<RgbaImage> pixels;  // the drawing in pixels, when drawn on the worker (soft_raster.h)
+  std::vector<std::string> legend;  // summary lines under the net
+  int shown = 0;
+  // The kinds and field days present in the records (the filters' values).
+  std::vector<std::pair<std::string, std::string>> kinds, days;
+};
+
 struct NetState {
   std::string kind, unit, contact, day, person;  // filters, "" = all
   int display = 0;                               // 0 poles, 1 great circles, 2 both
   bool contours = false, statistics = false, equal_angle = false;
-  // The kinds and field days present, gathered once per revision of the
-  // records (a season has a few hundred thousand readings: not every frame).
-  std::uint64_t values_revision = 0;
-  std::vector<std::pair<std::string, std::string>> kinds, days;
-  // Cache: the drawing recorded for this key.
-  std::string key;
+  Background<NetPicture> build;
+  std::shared_ptr<const NetPicture> rendered;  // the build the texture shows
+  std::unique_ptr<GlPicture> picture;          // the drawing as a texture (when this OpenGL can)
+};
+
+// What the Plan draws for one check result, interval, selected station and
+// day track (positions in UTM metres): built on a worker for a large project.
+struct PlanLayers {
+  plot::PlanData data;
+  double convergence = 0;
+  std::vector<std::string> notes;       // per contact: the interval drawn
+  double spacing = 0;                   // median distance from a station to its nearest neighbour, metres
+  std::vector<std::string> track_days;  // the days that have fixes
+  std::string track_day;                // the day drawn ("" none)
+};
+
+// The Plan as recorded for one view and size.
+struct PlanPicture {
   plot::RecordingCanvas drawing;
-  std::unique_ptr<GlPicture> picture;  // the drawing as a texture (when this OpenGL can)
-  std::vector<std::string> legend;     // summary lines under the net
-  int shown = 0;
+  std::optional<RgbaImage> pixels;  // the drawing in pixels, when drawn on the worker (soft_raster.h)
+  plot::PlanView view;
+  float w = 0, h = 0;
 };
 
 struct PlanState {
   bool have_view = false;
   plot::PlanView view;
   double interval = 0;                             // strike-line interval, metres (0: chosen per contact)
-  std::vector<std::string> notes;                  // per contact: the interval drawn
-  double spacing = 0;                              // median distance from a station to its nearest neighbour, metres
   std::optional<std::pair<double, double>> probe;  // map point tapped
-  std::string key;
-  plot::PlanData data;  // cached for `key`
-  double convergence = 0;
+  Background<PlanLayers> layers;
+  Background<PlanPicture> drawing;
+  std::shared_ptr<const PlanPicture> rendered;  // what the texture shows
   bool dragging = false;
   float pinch_distance = 0;
-  std::string picture_key;             // what the picture below shows
   std::unique_ptr<GlPicture> picture;  // the plan as a texture
   // The day track shown (app/plot/plan_track.h): "" none; the newest day until
-  // the Track button chooses another; the days that have fixes.
+  // the Track button chooses another.
   std::string track_day;
   bool track_chosen = false;
-  std::vector<std::string> track_days;
+};
+
+// The Crosscheck's list: a station heading (flag < 0) or a flag of the check
+// result it was built from, with its review key and the line shown.
+struct FlagRow {
+  std::string text, key;
+  long flag = -1;
+};
+struct FlagList {
+  std::shared_ptr<const CheckResult> check;  // what `flag` indexes
+  std::vector<FlagRow> rows;
+  std::string summary;
+  int hazards = 0;
 };
 
 struct CrosscheckState {
   int min_severity = 0;
+  Background<FlagList> list;  // built once per check, project change or filter
   std::string open_key;       // review key of the open flag ("" = none)
   bool acknowledged = false;  // the open hazard flag's caution has been acknowledged
   std::string message;
@@ -160,8 +195,7 @@ struct LogbookState {
   std::string person, unit;  // filters, "" = all
   int flags = 0;             // 0 all, 1 with flags, 2 with hazard flags
   // The rows, built once per change of the project, the check or the filters.
-  std::string rows_key;
-  std::vector<LogbookRow> rows;
+  Background<std::vector<LogbookRow>> rows;
 };
 
 // One finger on the screen (pixels).
@@ -181,6 +215,7 @@ class App {
   std::unique_ptr<Model> model;
   Jobs jobs;     // user's long work
   Jobs checker;  // the automatic cross-check
+  Jobs loader;   // the second part of an opening: the readings and contact points
   GpsClient gps;
   GpsFix fix;  // this frame's
   Screen screen = Screen::Logbook;
@@ -202,7 +237,12 @@ class App {
 
   void go(Screen s);
   void notify(const std::string& message);  // a short message in the top bar
+  // Starts opening a project on the job worker (the records are read there
+  // too); false, with the reason, when a job is running. A failure to open
+  // shows on the Open screen, or ends `cairn gui FILE` with status 1.
   bool open_project(const std::string& path, std::string* error);
+  // The file being opened ("" = none), until its readings are read too.
+  const std::string& opening() const { return opening_; }
   void select_station(const std::string& uuid);
   // Runs a confirmed change (Model::act) and shows its error, if any, in the top bar.
   bool act(const std::string& label, const std::function<void(store::Project&)>& f, std::string* error = nullptr);
@@ -211,7 +251,10 @@ class App {
   // The UUID of the person at the tablet ("" = none chosen).
   std::string person() const { return person_; }
   void set_person(const std::string& uuid);
-  bool idle() const;  // no job running and the check is current
+  bool idle() const;  // no job running, the check current and what the screens derive from it built
+  // Takes what the screens' builds on a worker finished (background.h), once a frame.
+  void poll_derived();
+  bool derived_current() const;
 
   // Writes a PNG of the next frame drawn.
   void request_screenshot(const std::string& path) { pending_screenshot_ = path; }
@@ -236,7 +279,12 @@ class App {
   // rule (geomath/track.h) says so.
   void log_track();
 
+  void opened(store::Project p, std::shared_ptr<const Records> rec);  // the opening job's end
+  void read_the_rest();
+
   SDL_Window* window_ = nullptr;
+  std::string opening_;
+  int exit_code_ = 0;
   void* gl_ = nullptr;
   bool quit_ = false;
   std::string person_;
@@ -254,10 +302,10 @@ class App {
   // GPU work; the check's worker thread not counted), for --frame-stats.
   std::vector<double> build_ms_;
   // Wall-clock milliseconds from the App's making (the file is opened after
-  // it) to the end of the first frame, and to the first frame that shows a
-  // check result; for --frame-stats.
+  // it) to the end of the first frame, to the records read, and to the first
+  // frame that shows a check result; for --frame-stats.
   std::chrono::steady_clock::time_point made_ = std::chrono::steady_clock::now();
-  double first_frame_ms_ = -1, first_check_ms_ = -1;
+  double first_frame_ms_ = -1, first_records_ms_ = -1, first_check_ms_ = -1;
 };
 
 }  // namespace cairn::ui

@@ -63,17 +63,13 @@ bool GlPicture::render(const plot::RecordingCanvas& drawing, int w, int h, Theme
     if (op.kind == plot::DrawOp::Text) texts_.push_back(op.text);
 
   if (!texture_ || w != w_ || h != h_) {
-    if (!texture_) glGenTextures(1, &texture_);
-    glBindTexture(GL_TEXTURE_2D, texture_);
-    glTexParameteri(GL_TEXTURE_2D, GL_TEXTURE_MIN_FILTER, GL_LINEAR);
-    glTexParameteri(GL_TEXTURE_2D, GL_TEXTURE_MAG_FILTER, GL_LINEAR);
-    glTexParameteri(GL_TEXTURE_2D, GL_TEXTURE_WRAP_S, GL_CLAMP_TO_EDGE);
-    glTexParameteri(GL_TEXTURE_2D, GL_TEXTURE_WRAP_T, GL_CLAMP_TO_EDGE);
+    bind_texture();
     glTexImage2D(GL_TEXTURE_2D, 0, GL_RGBA, pw, ph, 0, GL_RGBA, GL_UNSIGNED_BYTE, nullptr);
     if (!framebuffer_) f.gen(1, &framebuffer_);
-    w_ = w;
-    h_ = h;
   }
+  w_ = w;
+  h_ = h;
+  rows_up_ = true;
   GLint previous = 0;
   glGetIntegerv(GL_FRAMEBUFFER_BINDING, &previous);
   f.bind(GL_FRAMEBUFFER, framebuffer_);
@@ -106,10 +102,44 @@ bool GlPicture::render(const plot::RecordingCanvas& drawing, int w, int h, Theme
 }
 
 void GlPicture::show(ImDrawList* list, ImVec2 pos) const {
+  show(list, pos, ImVec2(pos.x + static_cast<float>(w_), pos.y + static_cast<float>(h_)));
+}
+
+void GlPicture::show(ImDrawList* list, ImVec2 min, ImVec2 max) const {
   if (!texture_) return;
-  // The texture's rows run bottom to top (OpenGL), so its v is flipped.
-  list->AddImage(reinterpret_cast<ImTextureID>(static_cast<std::intptr_t>(texture_)), pos,
-                 ImVec2(pos.x + static_cast<float>(w_), pos.y + static_cast<float>(h_)), ImVec2(0, 1), ImVec2(1, 0));
+  // A rendered texture's rows run bottom to top (OpenGL), so its v is flipped.
+  list->AddImage(reinterpret_cast<ImTextureID>(static_cast<std::intptr_t>(texture_)), min, max,
+                 ImVec2(0, rows_up_ ? 1.0f : 0.0f), ImVec2(1, rows_up_ ? 0.0f : 1.0f));
+}
+
+bool GlPicture::show_drawing(const plot::RecordingCanvas& drawing, const std::optional<RgbaImage>& pixels, int w, int h,
+                             ThemeKind theme, ImFont* font, ImU32 background) {
+  if (!pixels) return render(drawing, w, h, theme, font, background);
+  std::vector<std::string> texts;
+  for (const auto& op : drawing.ops())
+    if (op.kind == plot::DrawOp::Text) texts.push_back(op.text);
+  upload(*pixels, w, h, std::move(texts));
+  return true;
+}
+
+void GlPicture::bind_texture() {
+  if (!texture_) glGenTextures(1, &texture_);
+  glBindTexture(GL_TEXTURE_2D, texture_);
+  glTexParameteri(GL_TEXTURE_2D, GL_TEXTURE_MIN_FILTER, GL_LINEAR);
+  glTexParameteri(GL_TEXTURE_2D, GL_TEXTURE_MAG_FILTER, GL_LINEAR);
+  glTexParameteri(GL_TEXTURE_2D, GL_TEXTURE_WRAP_S, GL_CLAMP_TO_EDGE);
+  glTexParameteri(GL_TEXTURE_2D, GL_TEXTURE_WRAP_T, GL_CLAMP_TO_EDGE);
+}
+
+void GlPicture::upload(const RgbaImage& image, int w, int h, std::vector<std::string> texts) {
+  bind_texture();
+  glPixelStorei(GL_UNPACK_ALIGNMENT, 1);
+  glPixelStorei(GL_UNPACK_ROW_LENGTH, 0);
+  glTexImage2D(GL_TEXTURE_2D, 0, GL_RGBA, image.w, image.h, 0, GL_RGBA, GL_UNSIGNED_BYTE, image.px.data());
+  w_ = w;
+  h_ = h;
+  rows_up_ = false;
+  texts_ = std::move(texts);
 }
 
 }  // namespace cairn::ui

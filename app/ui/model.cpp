@@ -9,16 +9,12 @@
 
 #include "app/cli/magnetic_source.h"
 #include "formats/ids.h"
+#include "storage/each.h"
 #include "storage/repository.h"
 
 namespace cairn::ui {
 
 using namespace cairn::formats;  // file formats and value rules (formats/)
-
-Model::Model(store::Project p) : project_(std::move(p)) {
-  path_ = project_.path();
-  reload();
-}
 
 namespace {
 template <class T>
@@ -29,9 +25,26 @@ void index_by_uuid(const std::vector<T>& v, std::unordered_map<std::string, size
 }
 
 template <class T>
+void index_by_station(const std::vector<T>& v, std::unordered_map<std::string, std::vector<size_t>>& ix) {
+  ix.clear();
+  for (size_t i = 0; i < v.size(); ++i) ix[v[i].station].push_back(i);
+}
+
+template <class T>
 const T* lookup(const std::vector<T>& v, const std::unordered_map<std::string, size_t>& ix, const std::string& k) {
   auto it = ix.find(k);
   return it == ix.end() ? nullptr : &v[it->second];
+}
+
+template <class T>
+std::vector<const T*> at_station(const std::vector<T>& v,
+                                 const std::unordered_map<std::string, std::vector<size_t>>& ix,
+                                 const std::string& station) {
+  std::vector<const T*> out;
+  auto it = ix.find(station);
+  if (it != ix.end())
+    for (size_t i : it->second) out.push_back(&v[i]);
+  return out;
 }
 
 // Number at the end of a code ("S12" -> 12), or -1.
@@ -43,61 +56,120 @@ long trailing_number(const std::string& s) {
 }
 }  // namespace
 
-void Model::reload() {
-  info_ = project_.info();
-  stations_ = store::list_stations(project_);
-  planes_ = store::list_planes(project_);
-  lines_ = store::list_lines(project_);
-  units_ = store::list_units(project_);
-  contacts_ = store::list_contacts(project_);
-  people_ = store::list_people(project_);
-  points_ = store::list_points(project_);
-  photos_ = store::list_photos(project_);
-  reviews_ = store::list_flag_reviews(project_);
-  signoffs_ = store::list_signoffs(project_);
+void Records::read_small(store::Project& p) {
+  info = p.info();
+  units = store::list_units(p);
+  contacts = store::list_contacts(p);
+  people = store::list_people(p);
+  photos = store::list_photos(p);
+  reviews = store::list_flag_reviews(p);
+  signoffs = store::list_signoffs(p);
   try {
-    structures_ = store::pick_list(project_, store::PickList::Structure);
-    lithologies_ = store::pick_list(project_, store::PickList::Lithology);
+    structures = store::pick_list(p, store::PickList::Structure);
+    lithologies = store::pick_list(p, store::PickList::Lithology);
   } catch (const std::exception&) {
-    structures_.clear();  // a file from before pick-lists, opened read-only
-    lithologies_.clear();
+    structures.clear();  // a file from before pick-lists, opened read-only
+    lithologies.clear();
   }
-  index_by_uuid(stations_, station_ix_);
-  index_by_uuid(units_, unit_ix_);
-  index_by_uuid(contacts_, contact_ix_);
-  index_by_uuid(people_, person_ix_);
-  index_by_uuid(planes_, plane_ix_);
+}
+
+std::shared_ptr<const Records> Records::read(store::Project& p,
+                                             const std::function<void(float, const std::string&)>& progress) {
+  auto tell = [&](float f, const char* what) {
+    if (progress) progress(f, what);
+  };
+  auto r = std::make_shared<Records>();
+  r->read_small(p);
+  tell(0.05f, "reading stations");
+  r->stations = store::list_stations(p);
+  tell(0.15f, "reading planar readings");
+  r->planes = store::list_planes(p);
+  tell(0.6f, "reading linear readings");
+  r->lines = store::list_lines(p);
+  tell(0.65f, "reading contact points");
+  r->points = store::list_points(p);
+  tell(0.9f, "indexing");
+  r->index();
+  return r;
+}
+
+std::shared_ptr<const Records> Records::read_first(store::Project& p) {
+  auto r = std::make_shared<Records>();
+  r->read_small(p);
+  r->stations = store::list_stations(p);
+  r->counted_ = store::readings_per_station(p);
+  r->complete = false;
+  r->index();
+  return r;
+}
+
+void Records::index() {
+  index_by_uuid(stations, station_ix_);
+  index_by_uuid(units, unit_ix_);
+  index_by_uuid(contacts, contact_ix_);
+  index_by_uuid(people, person_ix_);
+  index_by_uuid(planes, plane_ix_);
+  index_by_station(planes, planes_at_);
+  index_by_station(lines, lines_at_);
+  index_by_station(photos, photos_at_);
+}
+
+const store::Station* Records::station(const std::string& u) const { return lookup(stations, station_ix_, u); }
+const store::Unit* Records::unit(const std::string& u) const { return lookup(units, unit_ix_, u); }
+const store::Contact* Records::contact(const std::string& u) const { return lookup(contacts, contact_ix_, u); }
+const store::Person* Records::person(const std::string& u) const { return lookup(people, person_ix_, u); }
+const store::PlanarReading* Records::plane(const std::string& u) const { return lookup(planes, plane_ix_, u); }
+
+std::vector<const store::PlanarReading*> Records::planes_of(const std::string& s) const {
+  return at_station(planes, planes_at_, s);
+}
+std::vector<const store::LinearReading*> Records::lines_of(const std::string& s) const {
+  return at_station(lines, lines_at_, s);
+}
+std::vector<const store::Photo*> Records::photos_of(const std::string& s) const {
+  return at_station(photos, photos_at_, s);
+}
+
+size_t Records::readings_at(const std::string& s) const {
+  if (!complete) {
+    auto c = counted_.find(s);
+    return c == counted_.end() ? 0 : c->second;
+  }
+  auto p = planes_at_.find(s);
+  auto l = lines_at_.find(s);
+  return (p == planes_at_.end() ? 0 : p->second.size()) + (l == lines_at_.end() ? 0 : l->second.size());
+}
+
+bool build_in_frame() {
+  static const bool in_frame = [] {
+    const char* v = std::getenv("CAIRN_BUILD_IN_FRAME");
+    return v && std::string(v) == "1";
+  }();
+  return in_frame;
+}
+
+Model::Model(store::Project p) : project_(std::move(p)) {
+  path_ = project_.path();
+  reload();
+}
+
+Model::Model(store::Project p, std::shared_ptr<const Records> r) : project_(std::move(p)) {
+  path_ = project_.path();
+  took(std::move(r));
+}
+
+void Model::reload() { took(Records::read(project_)); }
+
+void Model::completed(std::shared_ptr<const Records> r, std::uint64_t rev) {
+  if (rev == revision_ && !rec_->complete) rec_ = std::move(r);
+}
+
+void Model::took(std::shared_ptr<const Records> r) {
+  rec_ = std::move(r);
   // Revisions are unique across every project opened in this session, so that
   // caches keyed by a revision never mistake one project for another.
   static std::uint64_t last = 0;
   revision_ = ++last;
-}
-
-const store::Station* Model::station(const std::string& u) const { return lookup(stations_, station_ix_, u); }
-const store::Unit* Model::unit(const std::string& u) const { return lookup(units_, unit_ix_, u); }
-const store::Contact* Model::contact(const std::string& u) const { return lookup(contacts_, contact_ix_, u); }
-const store::Person* Model::person(const std::string& u) const { return lookup(people_, person_ix_, u); }
-const store::PlanarReading* Model::plane(const std::string& u) const { return lookup(planes_, plane_ix_, u); }
-
-std::vector<const store::PlanarReading*> Model::planes_of(const std::string& station) const {
-  std::vector<const store::PlanarReading*> v;
-  for (const auto& p : planes_)
-    if (p.station == station) v.push_back(&p);
-  return v;
-}
-
-std::vector<const store::LinearReading*> Model::lines_of(const std::string& station) const {
-  std::vector<const store::LinearReading*> v;
-  for (const auto& l : lines_)
-    if (l.station == station) v.push_back(&l);
-  return v;
-}
-
-std::vector<const store::Photo*> Model::photos_of(const std::string& station) const {
-  std::vector<const store::Photo*> v;
-  for (const auto& p : photos_)
-    if (p.station == station) v.push_back(&p);
-  return v;
 }
 
 std::string Model::day_of(const store::Station& s) {
@@ -108,9 +180,9 @@ std::string Model::day_of(const store::Station& s) {
 std::string Model::next_station_code(const std::string& person) const {
   // Continue the newest code of this person (else of anyone): "BK-22" -> "BK-23".
   const store::Station* last = nullptr;
-  for (const auto& s : stations_)
+  for (const auto& s : rec_->stations)
     if (person.empty() || s.observer == person) last = &s;
-  if (!last && !stations_.empty()) last = &stations_.back();
+  if (!last && !rec_->stations.empty()) last = &rec_->stations.back();
   std::string prefix = "S";
   size_t width = 1;
   if (last) {
@@ -122,13 +194,14 @@ std::string Model::next_station_code(const std::string& person) const {
     }
   }
   long best = 0;
-  for (const auto& s : stations_)
+  for (const auto& s : rec_->stations)
     if (s.code.compare(0, prefix.size(), prefix) == 0) best = std::max(best, trailing_number(s.code));
   for (long n = best + 1;; ++n) {
     std::string num = std::to_string(n);
     if (num.size() < width) num.insert(0, width - num.size(), '0');
     const std::string c = prefix + num;
-    if (std::none_of(stations_.begin(), stations_.end(), [&](const store::Station& s) { return s.code == c; }))
+    if (std::none_of(rec_->stations.begin(), rec_->stations.end(),
+                     [&](const store::Station& s) { return s.code == c; }))
       return c;
   }
 }
@@ -136,11 +209,9 @@ std::string Model::next_station_code(const std::string& person) const {
 std::string Model::next_ref(const std::string& station, bool linear) const {
   long best = 0;
   if (linear) {
-    for (const auto& l : lines_)
-      if (l.station == station) best = std::max(best, trailing_number(l.ref));
+    for (const auto* l : rec_->lines_of(station)) best = std::max(best, trailing_number(l->ref));
   } else {
-    for (const auto& p : planes_)
-      if (p.station == station) best = std::max(best, trailing_number(p.ref));
+    for (const auto* p : rec_->planes_of(station)) best = std::max(best, trailing_number(p->ref));
   }
   return std::string(linear ? "L" : "P") + std::to_string(best + 1);
 }
@@ -210,6 +281,10 @@ CheckResult run_check_on_file(const std::string& path, std::uint64_t revision,
     store::OpenOptions oo;
     oo.read_only = true;
     oo.backups = false;
+    // The UI checked the file's integrity when it opened it (on a writable
+    // connection, which also checks every row's CHECK constraints) and has
+    // written it since through its own connection only.
+    oo.integrity_checked = true;
     store::Project p = store::Project::open(path, oo);
     progress(0.2f, "loading records");
     int outside = 0;

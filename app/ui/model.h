@@ -39,39 +39,110 @@ struct LastAction {
   std::function<void(store::Project&)> custom;  // for changes outside the audit trail (reviews)
 };
 
-class Model {
- public:
-  explicit Model(store::Project p);
-
-  store::Project& project() { return project_; }
-  const std::string& path() const { return path_; }
-  const std::string& name() const { return info_.name; }
-  const store::ProjectInfo& info() const { return info_; }
-  std::uint64_t revision() const { return revision_; }
-
-  // Live records, in storage's order (stations sorted by time, then code).
-  const std::vector<store::Station>& stations() const { return stations_; }
-  const std::vector<store::PlanarReading>& planes() const { return planes_; }
-  const std::vector<store::LinearReading>& lines() const { return lines_; }
-  const std::vector<store::Unit>& units() const { return units_; }
-  const std::vector<store::Contact>& contacts() const { return contacts_; }
-  const std::vector<store::Person>& people() const { return people_; }
-  const std::vector<store::ContactPoint>& points() const { return points_; }
-  const std::vector<store::Photo>& photos() const { return photos_; }
-  const std::vector<store::FlagReview>& reviews() const { return reviews_; }
-  const std::vector<store::DaySignoff>& signoffs() const { return signoffs_; }
+// The live records of one revision of the project, read at once and never
+// changed after: screens that build on a worker thread (background.h) hold a
+// shared pointer to it while the UI goes on, and a change makes a new one.
+struct Records {
+  store::ProjectInfo info;
+  // In storage's order (stations sorted by time, then code).
+  std::vector<store::Station> stations;
+  std::vector<store::PlanarReading> planes;
+  std::vector<store::LinearReading> lines;
+  std::vector<store::Unit> units;
+  std::vector<store::Contact> contacts;
+  std::vector<store::Person> people;
+  std::vector<store::ContactPoint> points;
+  std::vector<store::Photo> photos;
+  std::vector<store::FlagReview> reviews;
+  std::vector<store::DaySignoff> signoffs;
   // The project's structure-kind and lithology pick-lists (storage/pick_lists.h; empty: not restricted).
-  const std::vector<std::string>& structures() const { return structures_; }
-  const std::vector<std::string>& lithologies() const { return lithologies_; }
+  std::vector<std::string> structures, lithologies;
+
+  // False while only the first part is read (read_first): the readings and
+  // contact points are still to come; stations know how many readings they have.
+  bool complete = true;
+
+  // Reads every live record of `p`; `progress(fraction, what)` is told as it goes.
+  static std::shared_ptr<const Records> read(store::Project& p,
+                                             const std::function<void(float, const std::string&)>& progress = {});
+  // The first part, for the first screen: everything but the planar and linear
+  // readings and the contact points, which are counted per station instead (a
+  // season's 500 000 of them take seconds to read).
+  static std::shared_ptr<const Records> read_first(store::Project& p);
 
   const store::Station* station(const std::string& uuid) const;
   const store::Unit* unit(const std::string& uuid) const;
   const store::Contact* contact(const std::string& uuid) const;
   const store::Person* person(const std::string& uuid) const;
   const store::PlanarReading* plane(const std::string& uuid) const;
+  // A station's readings and photos, in storage's order.
   std::vector<const store::PlanarReading*> planes_of(const std::string& station) const;
   std::vector<const store::LinearReading*> lines_of(const std::string& station) const;
   std::vector<const store::Photo*> photos_of(const std::string& station) const;
+  // How many planar and linear readings a station has.
+  size_t readings_at(const std::string& station) const;
+
+ private:
+  void read_small(store::Project& p);  // the tables of a few rows
+  void index();
+  std::unordered_map<std::string, size_t> counted_;  // readings per station, while not complete
+  std::unordered_map<std::string, size_t> station_ix_, unit_ix_, contact_ix_, person_ix_, plane_ix_;
+  std::unordered_map<std::string, std::vector<size_t>> planes_at_, lines_at_, photos_at_;
+};
+
+// Whether the screens build what they derive in the frame that needs it, with
+// their pictures through OpenGL, rather than on a worker with pictures drawn
+// in pixels there (background.h, soft_raster.h). Only when the environment
+// variable CAIRN_BUILD_IN_FRAME is 1: the tests use it for the reference
+// rendering. Otherwise no frame waits for a build: a season's 600 000 records
+// took seconds per build on the UI thread, and even the demo's Plan with its
+// terrain took 70 ms.
+bool build_in_frame();
+
+class Model {
+ public:
+  explicit Model(store::Project p);
+  // A project whose records were read already (on the opening worker).
+  Model(store::Project p, std::shared_ptr<const Records> r);
+
+  store::Project& project() { return project_; }
+  const std::string& path() const { return path_; }
+  const std::string& name() const { return rec_->info.name; }
+  const store::ProjectInfo& info() const { return rec_->info; }
+  std::uint64_t revision() const { return revision_; }
+
+  // The records of this revision, shared with builds that run on a worker.
+  std::shared_ptr<const Records> records() const { return rec_; }
+  // Whether the readings and contact points are there (Records::complete).
+  bool complete() const { return rec_->complete; }
+  // The whole records of an opening whose first part this model was made with
+  // (Records::read_first), read on a worker while revision `rev` was current:
+  // taken when nothing changed since (the revision stays: it is the same
+  // project state, and the check already running belongs to it).
+  void completed(std::shared_ptr<const Records> r, std::uint64_t rev);
+
+  // Live records, in storage's order (stations sorted by time, then code).
+  const std::vector<store::Station>& stations() const { return rec_->stations; }
+  const std::vector<store::PlanarReading>& planes() const { return rec_->planes; }
+  const std::vector<store::LinearReading>& lines() const { return rec_->lines; }
+  const std::vector<store::Unit>& units() const { return rec_->units; }
+  const std::vector<store::Contact>& contacts() const { return rec_->contacts; }
+  const std::vector<store::Person>& people() const { return rec_->people; }
+  const std::vector<store::ContactPoint>& points() const { return rec_->points; }
+  const std::vector<store::Photo>& photos() const { return rec_->photos; }
+  const std::vector<store::FlagReview>& reviews() const { return rec_->reviews; }
+  const std::vector<store::DaySignoff>& signoffs() const { return rec_->signoffs; }
+  const std::vector<std::string>& structures() const { return rec_->structures; }
+  const std::vector<std::string>& lithologies() const { return rec_->lithologies; }
+
+  const store::Station* station(const std::string& uuid) const { return rec_->station(uuid); }
+  const store::Unit* unit(const std::string& uuid) const { return rec_->unit(uuid); }
+  const store::Contact* contact(const std::string& uuid) const { return rec_->contact(uuid); }
+  const store::Person* person(const std::string& uuid) const { return rec_->person(uuid); }
+  const store::PlanarReading* plane(const std::string& uuid) const { return rec_->plane(uuid); }
+  std::vector<const store::PlanarReading*> planes_of(const std::string& s) const { return rec_->planes_of(s); }
+  std::vector<const store::LinearReading*> lines_of(const std::string& s) const { return rec_->lines_of(s); }
+  std::vector<const store::Photo*> photos_of(const std::string& s) const { return rec_->photos_of(s); }
 
   // The field day of a station: the date its time was written with, else the
   // UTC date it was created.
@@ -106,22 +177,11 @@ class Model {
   const geo::ContactFit* fit_of(const std::string& contact_uuid) const;
 
  private:
+  void took(std::shared_ptr<const Records> r);  // the records of a new revision
   store::Project project_;
   std::string path_;
-  store::ProjectInfo info_;
   std::uint64_t revision_ = 1;
-  std::vector<store::Station> stations_;
-  std::vector<store::PlanarReading> planes_;
-  std::vector<store::LinearReading> lines_;
-  std::vector<store::Unit> units_;
-  std::vector<store::Contact> contacts_;
-  std::vector<store::Person> people_;
-  std::vector<store::ContactPoint> points_;
-  std::vector<store::Photo> photos_;
-  std::vector<store::FlagReview> reviews_;
-  std::vector<store::DaySignoff> signoffs_;
-  std::vector<std::string> structures_, lithologies_;
-  std::unordered_map<std::string, size_t> station_ix_, unit_ix_, contact_ix_, person_ix_, plane_ix_;
+  std::shared_ptr<const Records> rec_;
   std::optional<LastAction> last_;
   std::shared_ptr<const CheckResult> check_;
 };

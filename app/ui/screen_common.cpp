@@ -83,6 +83,25 @@ void new_station(App& a) {
   a.go(Screen::Station);
 }
 
+void draw_opening(App& a, const std::string& path) {
+  heading("Opening " + fs::path(path).filename().string());
+  text_dim(fs::path(path).parent_path().string());
+  progress(a.jobs.progress().fraction(), a.jobs.progress().message());
+  text_wrapped(
+      "The file's integrity is checked and its records are read before the Logbook shows; "
+      "the cross-check then runs in the background.");
+}
+
+bool readings_ready(App& a) {
+  if (a.model->complete()) return true;
+  heading("Reading the readings");
+  progress(a.loader.progress().fraction(), a.loader.progress().message());
+  text_wrapped(
+      "This screen shows once the project's readings are read; the Logbook, the Plan and the Crosscheck work "
+      "meanwhile.");
+  return false;
+}
+
 void draw_open(App& a) {
   Look& lk = look();
   heading("Open a project");

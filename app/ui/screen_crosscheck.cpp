@@ -6,6 +6,7 @@
 #include <algorithm>
 #include <map>
 #include <memory>
+#include <unordered_map>
 
 #include "app/ui/screens.h"
 #include "app/ui/text_util.h"
@@ -23,11 +24,39 @@ bool acknowledged(const Model& m, const std::string& key) {
   return false;
 }
 
-std::string review_note(const Model& m, const std::string& key) {
-  std::string s;
-  for (const auto& r : m.reviews())
-    if (r.flag_key == key) s = store::to_string(r.status);  // newest wins
-  return s;
+// The list of flags at or above `min_severity`, grouped under their stations,
+// each with its newest review's status.
+FlagList build_list(const Records& m, std::shared_ptr<const CheckResult> c, int min_severity) {
+  FlagList out;
+  std::unordered_map<std::string, std::string> note;
+  for (const auto& r : m.reviews) note[r.flag_key] = store::to_string(r.status);  // newest wins
+  std::map<geo::Severity, int> counts;
+  for (const auto& f : c->report.flags) ++counts[f.severity];
+  out.hazards = counts[geo::Severity::Hazard];
+  out.summary = std::to_string(c->report.flags.size()) + " flag" + (c->report.flags.size() == 1 ? "" : "s");
+  for (auto s : {geo::Severity::Hazard, geo::Severity::Conflict, geo::Severity::Query, geo::Severity::Note})
+    if (counts[s]) out.summary += ",  " + std::to_string(counts[s]) + " " + geo::severity_name(s);
+  out.summary += "   (" + std::to_string(c->report.fits.size()) + " contacts fitted)";
+  std::string last_station = "\x01";
+  for (size_t i = 0; i < c->report.flags.size(); ++i) {
+    const auto& f = c->report.flags[i];
+    if (static_cast<int>(f.severity) < min_severity) continue;
+    if (f.station != last_station) {
+      out.rows.push_back({f.station.empty() ? "Contacts and crew" : "Station " + f.station, "", -1});
+      last_station = f.station;
+    }
+    FlagRow r;
+    r.flag = static_cast<long>(i);
+    r.key = review_key(f);
+    r.text = severity_label(f.severity) + "  " + f.rule;
+    if (!f.ref.empty()) r.text += "  " + f.ref;
+    r.text += "   " + f.message;
+    auto it = note.find(r.key);
+    if (it != note.end() && !it->second.empty()) r.text += "   [" + it->second + "]";
+    out.rows.push_back(std::move(r));
+  }
+  out.check = std::move(c);
+  return out;
 }
 
 // The open flag, as a modal window: it cannot be closed by tapping beside it.
@@ -183,15 +212,20 @@ void draw_crosscheck(App& a) {
     return;
   }
   if (!c->warning.empty()) caution_box("Magnetic model", c->warning);
-  std::map<geo::Severity, int> counts;
-  for (const auto& f : c->report.flags) ++counts[f.severity];
-  std::string summary = std::to_string(c->report.flags.size()) + " flag" + (c->report.flags.size() == 1 ? "" : "s");
-  for (auto s : {geo::Severity::Hazard, geo::Severity::Conflict, geo::Severity::Query, geo::Severity::Note})
-    if (counts[s]) summary += ",  " + std::to_string(counts[s]) + " " + geo::severity_name(s);
-  summary += "   (" + std::to_string(c->report.fits.size()) + " contacts fitted)";
+  // The list is built once per check, change of reviews or filter; on a worker
+  // on a worker (background.h), the last list staying meanwhile.
+  cs.list.want(
+      std::to_string(c->revision) + "|" + std::to_string(m.revision()) + "|" + std::to_string(cs.min_severity),
+      [rec = m.records(), c, min = cs.min_severity] { return build_list(*rec, c, min); }, build_in_frame());
+  if (!cs.list.value()) {
+    text("Listing the flags...");
+    return;
+  }
+  const FlagList& list = *cs.list.value();
+  const auto& flags = list.check->report.flags;
   // The summary and the severity filter share a line when they fit (more rows for the list).
   ImGui::AlignTextToFramePadding();
-  heading(summary);
+  heading(list.summary);
   {
     ImGui::SameLine();
     wrap_if_past_edge(ImGui::CalcTextSize("Show from").x + label_width("\xE2\x9C\x93 note") * 2);
@@ -203,14 +237,15 @@ void draw_crosscheck(App& a) {
     ImGui::PopID();
     if (hit >= 0) cs.min_severity = hit;
   }
-  if (counts[geo::Severity::Hazard] > 0)
-    caution_box(std::to_string(counts[geo::Severity::Hazard]) + " hazard flag" +
-                    (counts[geo::Severity::Hazard] == 1 ? "" : "s"),
+  if (list.hazards > 0)
+    caution_box(std::to_string(list.hazards) + " hazard flag" + (list.hazards == 1 ? "" : "s"),
                 "Open each one and read its caution before working near the face.");
+  if (!cs.list.current()) text_dim("Listing the flags...");
+  if (!cs.list.error().empty()) error_box("The flags could not be listed: " + cs.list.error());
 
   // Opened from the command line (--flag RULE): the first flag of that rule.
   if (!a.opts.flag.empty()) {
-    for (const auto& f : c->report.flags)
+    for (const auto& f : flags)
       if (f.rule == a.opts.flag) {
         cs.open_key = review_key(f);
         break;
@@ -219,47 +254,51 @@ void draw_crosscheck(App& a) {
   }
 
   ImGui::BeginChild("flags", ImVec2(0, fill_height()), true);
-  std::string last_station = "\x01";
-  for (size_t i = 0; i < c->report.flags.size(); ++i) {
-    const auto& f = c->report.flags[i];
-    const std::string key = review_key(f);
-    if (static_cast<int>(f.severity) < cs.min_severity) continue;
-    if (f.station != last_station) {
-      heading(f.station.empty() ? "Contacts and crew" : "Station " + f.station);
-      last_station = f.station;
+  // A list clipper: a frame costs only the rows on screen.
+  ImGuiListClipper clip;
+  clip.Begin(static_cast<int>(list.rows.size()), lk.m.tap + ImGui::GetStyle().ItemSpacing.y);
+  while (clip.Step()) {
+    for (int i = clip.DisplayStart; i < clip.DisplayEnd; ++i) {
+      const FlagRow& r = list.rows[static_cast<size_t>(i)];
+      if (r.flag < 0) {
+        ImGui::AlignTextToFramePadding();  // a heading row is one tap high, like a flag row
+        heading(r.text);
+        continue;
+      }
+      const auto& f = flags[static_cast<size_t>(r.flag)];
+      ImGui::PushID(static_cast<int>(r.flag));
+      ImGui::PushStyleVar(ImGuiStyleVar_ButtonTextAlign, ImVec2(0.0f, 0.5f));
+      if (f.severity == geo::Severity::Hazard) {
+        ImGui::PushStyleColor(ImGuiCol_Button, ImGui::ColorConvertU32ToFloat4(lk.pal.caution_bg));
+        ImGui::PushStyleColor(ImGuiCol_ButtonHovered, ImGui::ColorConvertU32ToFloat4(lk.pal.caution_bg));
+        ImGui::PushStyleColor(ImGuiCol_Text, ImGui::ColorConvertU32ToFloat4(lk.pal.caution_text));
+      }
+      // Long messages are cut to the row; the whole text is in the flag's window.
+      const std::string shown =
+          fit_to_width(r.text, ImGui::GetContentRegionAvail().x - ImGui::GetStyle().FramePadding.x * 2);
+      if (button(shown + "##flag", -1)) {
+        cs.open_key = r.key;
+        cs.acknowledged = false;
+      }
+      also_label(f.rule + (f.ref.empty() ? std::string() : " " + f.ref));
+      if (f.severity == geo::Severity::Hazard) ImGui::PopStyleColor(3);
+      ImGui::PopStyleVar();
+      ImGui::PopID();
     }
-    std::string line = severity_label(f.severity) + "  " + f.rule;
-    if (!f.ref.empty()) line += "  " + f.ref;
-    line += "   " + f.message;
-    const std::string note = review_note(m, key);
-    if (!note.empty()) line += "   [" + note + "]";
-    ImGui::PushID(static_cast<int>(i));
-    ImGui::PushStyleVar(ImGuiStyleVar_ButtonTextAlign, ImVec2(0.0f, 0.5f));
-    if (f.severity == geo::Severity::Hazard) {
-      ImGui::PushStyleColor(ImGuiCol_Button, ImGui::ColorConvertU32ToFloat4(lk.pal.caution_bg));
-      ImGui::PushStyleColor(ImGuiCol_ButtonHovered, ImGui::ColorConvertU32ToFloat4(lk.pal.caution_bg));
-      ImGui::PushStyleColor(ImGuiCol_Text, ImGui::ColorConvertU32ToFloat4(lk.pal.caution_text));
-    }
-    // Long messages are cut to the row; the whole text is in the flag's window.
-    const std::string shown =
-        fit_to_width(line, ImGui::GetContentRegionAvail().x - ImGui::GetStyle().FramePadding.x * 2);
-    if (button(shown + "##flag", -1)) {
-      cs.open_key = key;
-      cs.acknowledged = false;
-    }
-    also_label(f.rule + (f.ref.empty() ? std::string() : " " + f.ref));
-    if (f.severity == geo::Severity::Hazard) ImGui::PopStyleColor(3);
-    ImGui::PopStyleVar();
-    ImGui::PopID();
   }
-  if (c->report.flags.empty()) text("No flags: every compared reading agrees with its contact's fit.");
+  if (flags.empty()) text("No flags: every compared reading agrees with its contact's fit.");
   touch_scroll();
   ImGui::EndChild();
   // The open flag (it may have been tapped just now); a flag that went away with
   // a new check closes.
   const geo::Flag* open = nullptr;
-  for (const auto& f : c->report.flags)
-    if (!cs.open_key.empty() && review_key(f) == cs.open_key) open = &f;
+  if (!cs.open_key.empty())
+    for (const auto& r : list.rows)
+      if (r.flag >= 0 && r.key == cs.open_key) open = &flags[static_cast<size_t>(r.flag)];
+  // A flag filtered out of the list but still in the result stays open.
+  if (!cs.open_key.empty() && !open)
+    for (const auto& f : flags)
+      if (review_key(f) == cs.open_key) open = &f;
   if (open)
     flag_window(a, *open);
   else

@@ -2,6 +2,7 @@
 // unit and flag; "New station" is one tap.
 #include <algorithm>
 #include <map>
+#include <unordered_map>
 
 #include "app/ui/screens.h"
 #include "app/ui/text_util.h"
@@ -18,33 +19,35 @@ struct StationFlags {
 
 using Row = LogbookRow;
 
-std::vector<Row> build_rows(const App& a) {
-  const Model& m = *a.model;
+// The Logbook's filters, copied for a build that may run on a worker.
+struct Filters {
+  std::string person, unit;
+  int flags = 0;
+};
+
+std::vector<Row> build_rows(const Records& m, const CheckResult* check, const Filters& fl) {
   // Flags per station from the newest check.
-  std::map<std::string, StationFlags> flags;
-  if (auto c = m.check())
-    for (const auto& f : c->report.flags) {
+  std::unordered_map<std::string, StationFlags> flags;
+  if (check)
+    for (const auto& f : check->report.flags) {
       if (f.station_id.empty()) continue;
       auto& sf = flags[f.station_id];
       ++sf.count;
       sf.worst = std::max(sf.worst, f.severity);
     }
-  std::map<std::string, int> readings;
-  for (const auto& p : m.planes()) ++readings[p.station];
-  for (const auto& l : m.lines()) ++readings[l.station];
   std::map<std::string, std::string> signed_off;
-  for (const auto& s : m.signoffs()) {
+  for (const auto& s : m.signoffs) {
     const store::Person* p = m.person(s.person);
     signed_off[s.day] = p ? p->initials : "?";
   }
   // Days, newest first; stations within a day by time.
   std::map<std::string, std::vector<const store::Station*>, std::greater<>> days;
-  for (const auto& s : m.stations()) {
-    if (!a.logbook.person.empty() && s.observer != a.logbook.person) continue;
-    if (!a.logbook.unit.empty() && s.unit != a.logbook.unit) continue;
+  for (const auto& s : m.stations) {
+    if (!fl.person.empty() && s.observer != fl.person) continue;
+    if (!fl.unit.empty() && s.unit != fl.unit) continue;
     auto it = flags.find(s.meta.uuid);
-    if (a.logbook.flags == 1 && it == flags.end()) continue;
-    if (a.logbook.flags == 2 && (it == flags.end() || it->second.worst != geo::Severity::Hazard)) continue;
+    if (fl.flags == 1 && it == flags.end()) continue;
+    if (fl.flags == 2 && (it == flags.end() || it->second.worst != geo::Severity::Hazard)) continue;
     days[Model::day_of(s)].push_back(&s);
   }
   std::vector<Row> rows;
@@ -59,7 +62,7 @@ std::vector<Row> build_rows(const App& a) {
       std::string line = s->code;
       if (s->time.size() >= 16) line += "   " + s->time.substr(11, 5);
       if (const store::Unit* u = m.unit(s->unit)) line += "   " + u->code;
-      const int n = readings[s->meta.uuid];
+      const size_t n = m.readings_at(s->meta.uuid);
       line += "   " + std::to_string(n) + " reading" + (n == 1 ? "" : "s");
       auto it = flags.find(s->meta.uuid);
       if (it != flags.end())
@@ -127,17 +130,24 @@ void draw_logbook(App& a) {
   // The rows (day headings and stations) are built once per change of the
   // project, the check or the filters, and drawn with a list clipper, so a
   // frame costs only the rows on screen.
+  // On a worker (background.h): the last rows stay
+  // on screen meanwhile.
   auto check = m.check();
   const std::string key = std::to_string(m.revision()) + "|" + std::to_string(check ? check->revision : 0) + "|" +
                           a.logbook.person + "|" + a.logbook.unit + "|" + std::to_string(a.logbook.flags);
-  if (key != a.logbook.rows_key) {
-    a.logbook.rows_key = key;
-    a.logbook.rows = build_rows(a);
-  }
-  const std::vector<Row>& rows = a.logbook.rows;
+  a.logbook.rows.want(
+      key,
+      [rec = m.records(), check, fl = Filters{a.logbook.person, a.logbook.unit, a.logbook.flags}] {
+        return build_rows(*rec, check.get(), fl);
+      },
+      build_in_frame());
+  static const std::vector<Row> none;
+  const std::vector<Row>& rows = a.logbook.rows.value() ? *a.logbook.rows.value() : none;
 
+  if (!a.logbook.rows.current()) text_dim("Sorting the stations...");
+  if (!a.logbook.rows.error().empty()) error_box("The Logbook could not be sorted: " + a.logbook.rows.error());
   ImGui::BeginChild("days", ImVec2(0, fill_height()), true);
-  if (rows.empty())
+  if (rows.empty() && a.logbook.rows.current())
     text_dim(m.stations().empty() ? "No stations yet. Tap \"+ New station\" at the first outcrop."
                                   : "No station matches these filters.");
   ImGuiListClipper clip;

@@ -43,11 +43,82 @@ constexpr size_t kMaxGreatCircles = 1500;
 // statistics.
 constexpr size_t kMaxPoleMarkers = 20000;
 
+// The net's filters and display, copied for a build that may run on a worker.
+struct NetChoice {
+  std::string kind, unit, contact, day, person;
+  int display = 0;
+  bool contours = false, statistics = false, equal_angle = false;
+  float width = 0, height = 0, text_size = 0;
+};
+
+NetPicture build_net(const Records& m, const CheckResult* check, const NetChoice& ns) {
+  NetPicture out;
+  std::set<std::string> kinds_present, days_present;
+  for (const auto& r : m.planes) kinds_present.insert(std::string(store::to_string(r.kind)));
+  for (const auto& s : m.stations) days_present.insert(Model::day_of(s));
+  for (const auto& k : kinds_present) out.kinds.push_back({k, k});
+  for (const auto& d2 : days_present) out.days.push_back({d2, d2});
+
+  plot::NetData d;
+  // Colour by the station's unit (Okabe-Ito, by age rank), shape by kind.
+  std::map<std::string, size_t> unit_index;
+  for (size_t i = 0; i < m.units.size(); ++i) unit_index[m.units[i].meta.uuid] = i;
+  std::set<std::string> units_used;
+  int shown = 0;
+  for (const auto& r : m.planes) {
+    const store::Station* s = m.station(r.station);
+    if (!s) continue;
+    if (r.kind == store::PlaneKind::Slope) continue;  // slope faces are not structure
+    if (!ns.kind.empty() && store::to_string(r.kind) != ns.kind) continue;
+    if (!ns.unit.empty() && s->unit != ns.unit) continue;
+    if (!ns.contact.empty() && r.contact != ns.contact) continue;
+    if (!ns.day.empty() && Model::day_of(*s) != ns.day) continue;
+    if (!ns.person.empty() && s->observer != ns.person && r.observer != ns.person) continue;
+    const store::Unit* u = m.unit(s->unit);
+    const plot::Rgba col = u ? plot::unit_colour(u->colour, unit_index[u->meta.uuid]) : plot::kInk;
+    if (u) units_used.insert(u->meta.uuid);
+    d.planes.push_back({geo::Plane{r.strike, r.dip}, col, plot::pole_shape(store::to_string(r.kind)), true});
+    ++shown;
+  }
+  out.shown = shown;
+  for (const auto& uid : units_used) {
+    const store::Unit* u = m.unit(uid);
+    d.key.push_back({plot::Shape::Circle, plot::unit_colour(u->colour, unit_index[uid]), true, "unit " + u->code});
+  }
+  d.pole_set = ns.kind.empty() ? "poles" : "poles to " + ns.kind;
+  if (check)
+    for (const auto& f : check->report.fits) {
+      if (!f.usable || !f.plane || !f.fit) continue;
+      if (!ns.contact.empty() && f.contact_id != ns.contact) continue;
+      d.fits.push_back({*f.plane, f.fit->cone95, plot::kOkabeIto[6], f.contact});
+    }
+  plot::NetOptions o;
+  o.kind = ns.equal_angle ? geo::NetKind::EqualAngle : geo::NetKind::EqualArea;
+  o.planes = ns.display == 0   ? plot::PlaneDisplay::Poles
+             : ns.display == 1 ? plot::PlaneDisplay::GreatCircles
+                               : plot::PlaneDisplay::Both;
+  if (o.planes != plot::PlaneDisplay::Poles && d.planes.size() > kMaxGreatCircles) o.planes = plot::PlaneDisplay::Poles;
+  o.contours = ns.contours;
+  o.statistics = ns.statistics;
+  o.max_pole_markers = kMaxPoleMarkers;
+  o.legend = true;
+  o.text_size = ns.text_size;
+  plot::draw_net(out.drawing, plot::Rect{0, 0, ns.width, ns.height}, d, o);
+  out.legend.push_back(std::to_string(shown) + " planar reading" + (shown == 1 ? "" : "s") + " shown");
+  if (ns.display != 0 && d.planes.size() > kMaxGreatCircles)
+    out.legend.push_back("great circles hidden above " + std::to_string(kMaxGreatCircles) + " readings: poles shown");
+  if (d.planes.size() > kMaxPoleMarkers)
+    out.legend.push_back("poles of the newest " + std::to_string(kMaxPoleMarkers) +
+                         " drawn, all counted in contours and statistics; a filter shows others");
+  return out;
+}
+
 }  // namespace
 
 // Immediate mode: the screen is laid out top to bottom as it appears (filters,
 // summary, the net), which is why it is one function longer than a screen.
 void draw_net_screen(App& a) {
+  if (!readings_ready(a)) return;
   Model& m = *a.model;
   Look& lk = look();
   NetState& ns = a.net;
@@ -69,24 +140,18 @@ void draw_net_screen(App& a) {
     ImGui::PopID();
     if (p >= 0) ns.equal_angle = p == 1;
 
-    if (ns.values_revision != m.revision()) {
-      ns.values_revision = m.revision();
-      std::set<std::string> kinds_present, days_present;
-      for (const auto& r : m.planes()) kinds_present.insert(std::string(store::to_string(r.kind)));
-      for (const auto& s : m.stations()) days_present.insert(Model::day_of(s));
-      ns.kinds.clear();
-      ns.days.clear();
-      for (const auto& k : kinds_present) ns.kinds.push_back({k, k});
-      for (const auto& d2 : days_present) ns.days.push_back({d2, d2});
-    }
-    filter_row("kind", "Kind", ns.kinds, ns.kind);
+    // The kinds and days present come with the last net built (a season has a
+    // few hundred thousand readings: gathered off the UI thread).
+    static const std::vector<std::pair<std::string, std::string>> none;
+    const NetPicture* built = ns.build.value();
+    filter_row("kind", "Kind", built ? built->kinds : none, ns.kind);
     std::vector<std::pair<std::string, std::string>> units;
     for (const auto& u : m.units()) units.push_back({u.meta.uuid, u.code});
     filter_row("unit", "Unit", units, ns.unit);
     std::vector<std::pair<std::string, std::string>> contacts;
     for (const auto& c : m.contacts()) contacts.push_back({c.meta.uuid, c.name});
     filter_row("contact", "Contact", contacts, ns.contact);
-    filter_row("day", "Day", ns.days, ns.day);
+    filter_row("day", "Day", built ? built->days : none, ns.day);
     std::vector<std::pair<std::string, std::string>> people;
     for (const auto& pp : m.people()) people.push_back({pp.meta.uuid, pp.initials});
     filter_row("person", "Person", people, ns.person);
@@ -96,84 +161,53 @@ void draw_net_screen(App& a) {
   if (two) ImGui::SameLine();
 
   ImGui::BeginChild("netview", ImVec2(0, 0), false, ImGuiWindowFlags_NoScrollbar | ImGuiWindowFlags_NoScrollWithMouse);
-  // One line of summary above the net.
-  text_dim(ns.legend.empty() ? std::string(" ")
-                             : ns.legend.front() + (ns.legend.size() > 1 ? "; " + ns.legend[1] : ""));
-  const ImVec2 origin = ImGui::GetCursorScreenPos();
   const ImVec2 size = ImGui::GetContentRegionAvail();
+  const float line = ImGui::GetTextLineHeightWithSpacing();
   auto check = m.check();
+  const NetChoice choice{ns.kind,     ns.unit,       ns.contact,     ns.day, ns.person,     ns.display,
+                         ns.contours, ns.statistics, ns.equal_angle, size.x, size.y - line, lk.m.font * 0.8f};
   const std::string key = std::to_string(m.revision()) + "|" + std::to_string(check ? check->revision : 0) + "|" +
                           ns.kind + "|" + ns.unit + "|" + ns.contact + "|" + ns.day + "|" + ns.person + "|" +
                           std::to_string(ns.display) + std::to_string(ns.contours) + std::to_string(ns.statistics) +
-                          std::to_string(ns.equal_angle) + "|" + std::to_string(static_cast<int>(size.x)) + "x" +
-                          std::to_string(static_cast<int>(size.y));
-  if (key != ns.key) {
-    ns.key = key;
-    plot::NetData d;
-    // Colour by the station's unit (Okabe-Ito, by age rank), shape by kind.
-    std::map<std::string, size_t> unit_index;
-    for (size_t i = 0; i < m.units().size(); ++i) unit_index[m.units()[i].meta.uuid] = i;
-    std::set<std::string> units_used;
-    int shown = 0;
-    for (const auto& r : m.planes()) {
-      const store::Station* s = m.station(r.station);
-      if (!s) continue;
-      if (r.kind == store::PlaneKind::Slope) continue;  // slope faces are not structure
-      if (!ns.kind.empty() && store::to_string(r.kind) != ns.kind) continue;
-      if (!ns.unit.empty() && s->unit != ns.unit) continue;
-      if (!ns.contact.empty() && r.contact != ns.contact) continue;
-      if (!ns.day.empty() && Model::day_of(*s) != ns.day) continue;
-      if (!ns.person.empty() && s->observer != ns.person && r.observer != ns.person) continue;
-      const store::Unit* u = m.unit(s->unit);
-      const plot::Rgba col = u ? plot::unit_colour(u->colour, unit_index[u->meta.uuid]) : plot::kInk;
-      if (u) units_used.insert(u->meta.uuid);
-      d.planes.push_back({geo::Plane{r.strike, r.dip}, col, plot::pole_shape(store::to_string(r.kind)), true});
-      ++shown;
-    }
-    ns.shown = shown;
-    for (const auto& uid : units_used) {
-      const store::Unit* u = m.unit(uid);
-      d.key.push_back({plot::Shape::Circle, plot::unit_colour(u->colour, unit_index[uid]), true, "unit " + u->code});
-    }
-    d.pole_set = ns.kind.empty() ? "poles" : "poles to " + ns.kind;
-    if (check)
-      for (const auto& f : check->report.fits) {
-        if (!f.usable || !f.plane || !f.fit) continue;
-        if (!ns.contact.empty() && f.contact_id != ns.contact) continue;
-        d.fits.push_back({*f.plane, f.fit->cone95, plot::kOkabeIto[6], f.contact});
-      }
-    plot::NetOptions o;
-    o.kind = ns.equal_angle ? geo::NetKind::EqualAngle : geo::NetKind::EqualArea;
-    o.planes = ns.display == 0   ? plot::PlaneDisplay::Poles
-               : ns.display == 1 ? plot::PlaneDisplay::GreatCircles
-                                 : plot::PlaneDisplay::Both;
-    if (o.planes != plot::PlaneDisplay::Poles && d.planes.size() > kMaxGreatCircles)
-      o.planes = plot::PlaneDisplay::Poles;
-    o.contours = ns.contours;
-    o.statistics = ns.statistics;
-    o.max_pole_markers = kMaxPoleMarkers;
-    o.legend = true;
-    o.text_size = lk.m.font * 0.8;
-    ns.drawing.clear();
-    plot::draw_net(ns.drawing, plot::Rect{0, 0, size.x, size.y}, d, o);
+                          std::to_string(ns.equal_angle) + "|" + std::to_string(static_cast<int>(choice.width)) + "x" +
+                          std::to_string(static_cast<int>(choice.height));
+  // On a worker (background.h), drawn into pixels there (soft_raster.h): the
+  // last net stays meanwhile.
+  std::optional<RasterSetup> raster;
+  if (!build_in_frame()) raster = RasterSetup::from_context(lk.fonts.small, lk.theme, lk.pal.background);
+  ns.build.want(
+      key,
+      [rec = m.records(), check, choice, raster] {
+        NetPicture p = build_net(*rec, check.get(), choice);
+        if (raster)
+          p.pixels =
+              draw_in_pixels(p.drawing, static_cast<int>(choice.width), static_cast<int>(choice.height), *raster);
+        return p;
+      },
+      build_in_frame());
+  const NetPicture* built = ns.build.value();
+  // One line of summary above the net.
+  std::string summary = !built || built->legend.empty()
+                            ? std::string(" ")
+                            : built->legend.front() + (built->legend.size() > 1 ? "; " + built->legend[1] : "");
+  if (!ns.build.current()) summary = "Drawing the net...  " + summary;
+  if (!ns.build.error().empty()) summary = "The net could not be drawn: " + ns.build.error();
+  text_dim(summary);
+  const ImVec2 origin = ImGui::GetCursorScreenPos();
+  if (built && built != ns.rendered.get()) {
+    // A new drawing: into the texture once, here on the UI thread (OpenGL).
+    ns.rendered = ns.build.shared();
     if (!ns.picture) ns.picture = std::make_unique<GlPicture>();
-    if (!ns.picture->render(ns.drawing, static_cast<int>(size.x), static_cast<int>(size.y), lk.theme, lk.fonts.small,
-                            lk.pal.background))
+    if (!ns.picture->show_drawing(built->drawing, built->pixels, static_cast<int>(choice.width),
+                                  static_cast<int>(choice.height), lk.theme, lk.fonts.small, lk.pal.background))
       ns.picture.reset();
-    ns.legend.clear();
-    ns.legend.push_back(std::to_string(shown) + " planar reading" + (shown == 1 ? "" : "s") + " shown");
-    if (ns.display != 0 && d.planes.size() > kMaxGreatCircles)
-      ns.legend.push_back("great circles hidden above " + std::to_string(kMaxGreatCircles) + " readings: poles shown");
-    if (d.planes.size() > kMaxPoleMarkers)
-      ns.legend.push_back("poles of the newest " + std::to_string(kMaxPoleMarkers) +
-                          " drawn, all counted in contours and statistics; a filter shows others");
   }
   if (ns.picture && ns.picture->ready()) {
     ns.picture->show(ImGui::GetWindowDrawList(), origin);
     for (const auto& t : ns.picture->texts()) this_frame().texts.push_back(t);
-  } else {
+  } else if (built) {
     ImGuiCanvas canvas(ImGui::GetWindowDrawList(), lk.fonts.small, lk.theme);
-    ns.drawing.replay(canvas, origin.x, origin.y);
+    built->drawing.replay(canvas, origin.x, origin.y);
   }
   ImGui::EndChild();
 }

@@ -392,6 +392,7 @@ void pad_live_check(App& a, const Parsed& parsed, double declination) {
 }  // namespace
 
 void draw_pad(App& a) {
+  if (!readings_ready(a)) return;
   Model& m = *a.model;
   Look& lk = look();
   const store::Station* st = m.station(a.station);

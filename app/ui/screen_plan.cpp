@@ -29,14 +29,29 @@ namespace cairn::ui {
 
 namespace {
 
-// Rebuilds the plan's data from the newest check (positions in UTM metres).
-void build(App& a, const CheckResult& c) {
-  Model& m = *a.model;
-  PlanState& ps = a.plan;
-  plot::PlanData d;
-  ps.convergence = c.data.input.grid.convergence;
+// What a build of the plan's layers needs besides the records and the check,
+// copied for a build that may run on a worker.
+struct PlanChoice {
+  std::string path;     // the project file: a worker reads the terrain and the track through its own connection
+  double interval = 0;  // strike-line interval (0: auto)
+  std::string station;  // the selected station, marked
+  std::optional<std::string> track_day;  // nothing: the newest day with fixes
+};
+
+// The plan's layers from a check result (positions in UTM metres).
+PlanLayers build_layers(const Records& m, const CheckResult& c, const PlanChoice& ch) {
+  PlanLayers out;
+  plot::PlanData& d = out.data;
+  out.convergence = c.data.input.grid.convergence;
+  store::OpenOptions oo;
+  oo.read_only = true;
+  oo.backups = false;
+  oo.integrity_checked = true;  // checked when the UI opened it
+  store::Project pr = store::Project::open(ch.path, oo);
+  out.track_days = store::track_days(pr);
+  out.track_day = ch.track_day ? *ch.track_day : out.track_days.empty() ? std::string() : out.track_days.back();
   std::map<std::string, size_t> unit_index;
-  for (size_t i = 0; i < m.units().size(); ++i) unit_index[m.units()[i].meta.uuid] = i;
+  for (size_t i = 0; i < m.units.size(); ++i) unit_index[m.units[i].meta.uuid] = i;
   auto unit_col = [&](const std::string& uuid) {
     const store::Unit* u = m.unit(uuid);
     return u ? plot::unit_colour(u->colour, unit_index[uuid]) : plot::kInk;
@@ -44,7 +59,7 @@ void build(App& a, const CheckResult& c) {
   std::map<std::string, const geo::CheckStation*> st;
   for (const auto& s : c.data.input.stations) {
     st[s.uuid] = &s;
-    d.stations.push_back({s.code, s.e, s.n, unit_col(s.unit), s.uuid == a.station});
+    d.stations.push_back({s.code, s.e, s.n, unit_col(s.unit), s.uuid == ch.station});
   }
   std::map<std::string, plot::Rgba> contact_col;
   for (const auto& k : c.data.input.contacts) {
@@ -55,13 +70,12 @@ void build(App& a, const CheckResult& c) {
   for (const auto& p : c.data.input.planes) {
     auto it = st.find(p.station);
     if (it == st.end()) continue;
-    d.attitudes.push_back({it->second->e, it->second->n, plot::grid_azimuth(p.plane.strike, ps.convergence),
+    d.attitudes.push_back({it->second->e, it->second->n, plot::grid_azimuth(p.plane.strike, out.convergence),
                            p.plane.dip, plot::attitude_symbol(p.kind, p.facing == geo::CheckFacing::Overturned),
                            unit_col(it->second->unit)});
   }
   // Strike lines of each fitted contact near its own points, where the fit is
   // known: every `interval` metres, or (auto) about eight across that area.
-  ps.notes.clear();
   for (const auto& f : c.report.fits) {
     if (!f.usable || !f.fit) continue;
     const geo::CheckContact* k = nullptr;
@@ -79,16 +93,16 @@ void build(App& a, const CheckResult& c) {
     if (dip < 0.5 || dip > 89.5) continue;
     const double across = std::max(b.e_max - b.e_min, b.n_max - b.n_min);
     const double tan_dip = std::tan(dip * 3.14159265358979323846 / 180.0);
-    double interval = ps.interval;
+    double interval = ch.interval;
     if (interval <= 0) interval = std::max(1.0, plot::nice_length(across * tan_dip / 8));
     if (across * tan_dip / interval > 60) {
-      ps.notes.push_back(f.contact + ": strike lines every " + geo::format_decimal("%g m", interval) +
-                         " would be too dense here");
+      out.notes.push_back(f.contact + ": strike lines every " + geo::format_decimal("%g m", interval) +
+                          " would be too dense here");
       continue;
     }
     auto lines = geo::structure_contours(*f.fit, b, interval, 80);
     if (!lines) continue;
-    ps.notes.push_back(f.contact + ": strike lines every " + geo::format_decimal("%g m", interval));
+    out.notes.push_back(f.contact + ": strike lines every " + geo::format_decimal("%g m", interval));
     for (const auto& l : *lines)
       d.strike_lines.push_back({l.e0, l.n0, l.e1, l.n1, l.elevation,
                                 contact_col.count(f.contact_id) ? contact_col[f.contact_id] : plot::kInk});
@@ -97,7 +111,6 @@ void build(App& a, const CheckResult& c) {
   // predicted traces and their 95% bands, computed here once per change of the
   // data; frames show the cached picture.
   try {
-    store::Project& pr = m.project();
     if (const auto t = store::terrain_info(pr); t && t->epsg == formats::utm_epsg(c.data.zone)) {
       std::vector<plot::TracedContact> traced;
       for (const auto& f : c.report.fits)
@@ -105,19 +118,18 @@ void build(App& a, const CheckResult& c) {
           traced.push_back(
               {f.contact, &*f.fit, contact_col.count(f.contact_id) ? contact_col[f.contact_id] : plot::kInk});
       for (auto& note : plot::add_terrain(d, *store::load_terrain(pr), traced, t->vertical_accuracy.value_or(0)))
-        ps.notes.push_back(note);
+        out.notes.push_back(note);
     }
   } catch (const std::exception& e) {
-    ps.notes.push_back(std::string("terrain not drawn: ") + e.what());
+    out.notes.push_back(std::string("terrain not drawn: ") + e.what());
   }
   // The day track of the chosen day (app/plot/plan_track.h).
   try {
-    d.tracks = plot::day_track_paths(m.project(), c.data.zone, ps.track_day);
+    d.tracks = plot::day_track_paths(pr, c.data.zone, out.track_day);
   } catch (const std::exception& e) {
-    ps.notes.push_back(std::string("day track not drawn: ") + e.what());
+    out.notes.push_back(std::string("day track not drawn: ") + e.what());
   }
   // Typical distance between neighbouring stations, for deciding when labels fit.
-  ps.spacing = 0;
   if (d.stations.size() >= 2 && d.stations.size() <= 3000) {
     std::vector<double> nn;
     for (size_t i = 0; i < d.stations.size(); ++i) {
@@ -128,9 +140,9 @@ void build(App& a, const CheckResult& c) {
       nn.push_back(best);
     }
     std::nth_element(nn.begin(), nn.begin() + static_cast<long>(nn.size() / 2), nn.end());
-    ps.spacing = nn[nn.size() / 2];
+    out.spacing = nn[nn.size() / 2];
   }
-  ps.data = std::move(d);
+  return out;
 }
 
 }  // namespace
@@ -148,14 +160,20 @@ void draw_plan_screen(App& a) {
     error_box("The plan needs the project's positions in UTM: " + c->error);
     return;
   }
+  // The layers, once per check, interval, selection or track, on a worker
+  // (background.h), the last ones staying meanwhile.
   const std::string key = std::to_string(c->revision) + "|" + geo::format_decimal("%g", ps.interval) + "|" + a.station +
                           "|" + std::to_string(a.track_logged()) + "|" + (ps.track_chosen ? ps.track_day : "newest");
-  if (key != ps.key) {
-    ps.key = key;
-    ps.track_days = store::track_days(m.project());
-    if (!ps.track_chosen) ps.track_day = ps.track_days.empty() ? std::string() : ps.track_days.back();
-    build(a, *c);
+  PlanChoice choice{m.path(), ps.interval, a.station, std::nullopt};
+  if (ps.track_chosen) choice.track_day = ps.track_day;
+  ps.layers.want(
+      key, [rec = m.records(), c, choice] { return build_layers(*rec, *c, choice); }, build_in_frame());
+  const auto layers = ps.layers.shared();
+  if (!layers) {
+    text(ps.layers.error().empty() ? "Drawing the plan..." : "The plan could not be drawn: " + ps.layers.error());
+    return;
   }
+  if (!ps.track_chosen) ps.track_day = layers->track_day;
 
   // Controls.
   ImGuiIO& io = ImGui::GetIO();
@@ -165,10 +183,10 @@ void draw_plan_screen(App& a) {
   ImGui::SameLine();
   const bool fit_all = button("Show all");
   // The day track: a tap steps to the day before, then to none, then to the newest again.
-  if (!ps.track_days.empty()) {
+  if (!layers->track_days.empty()) {
     ImGui::SameLine();
     if (button(ps.track_day.empty() ? std::string("No track") : "Track " + ps.track_day)) {
-      const auto& days = ps.track_days;
+      const auto& days = layers->track_days;
       const auto at = std::find(days.begin(), days.end(), ps.track_day);
       ps.track_day = ps.track_day.empty() ? days.back() : at == days.begin() || at == days.end() ? "" : *(at - 1);
       ps.track_chosen = true;
@@ -196,7 +214,7 @@ void draw_plan_screen(App& a) {
   size.y = std::max(size.y, lk.m.tap * 3);
   const plot::Rect r{origin.x, origin.y, size.x, size.y};
   if (!ps.have_view || fit_all) {
-    ps.view = plot::fit_view(plot::plan_bounds(ps.data), r, lk.m.tap);
+    ps.view = plot::fit_view(plot::plan_bounds(layers->data), r, lk.m.tap);
     ps.have_view = true;
   }
   const plot::Pt centre{r.x + r.w / 2, r.y + r.h / 2};
@@ -232,7 +250,7 @@ void draw_plan_screen(App& a) {
     ps.view = plot::zoom_about(ps.view, r, {io.MousePos.x, io.MousePos.y}, std::pow(1.2, io.MouseWheel));
 
   // The tapped point: each fitted contact's predicted elevation there.
-  ps.data.probe.reset();
+  std::optional<plot::PlanProbe> probe;
   if (ps.probe) {
     plot::PlanProbe pr;
     pr.e = ps.probe->first;
@@ -247,7 +265,7 @@ void draw_plan_screen(App& a) {
     }
     // Where next on the ground: the nearest stretch of each predicted trace.
     std::map<std::string, std::tuple<double, double, double>> nearest;  // contact -> distance, e, n
-    for (const auto& t : ps.data.traces) {
+    for (const auto& t : layers->data.traces) {
       for (size_t k = 0; k + 1 < t.pts.size(); ++k) {
         const double ax = t.pts[k].first, ay = t.pts[k].second;
         const double dx = t.pts[k + 1].first - ax, dy = t.pts[k + 1].second - ay, l2 = dx * dx + dy * dy;
@@ -259,19 +277,19 @@ void draw_plan_screen(App& a) {
     }
     for (const auto& [name, v] : nearest) {
       const auto [d, qx, qy] = v;
-      const double bearing =
-          std::fmod(std::atan2(qx - pr.e, qy - pr.n) * 180 / 3.14159265358979323846 + ps.convergence + 720.0, 360.0);
+      const double bearing = std::fmod(
+          std::atan2(qx - pr.e, qy - pr.n) * 180 / 3.14159265358979323846 + layers->convergence + 720.0, 360.0);
       pr.lines.push_back(name + " trace: " + geo::format_decimal("%.0f m", d) + " at " +
                          geo::format_decimal("%03.0f", bearing));
     }
     if (pr.lines.empty()) pr.lines.push_back("no fitted contact");
-    ps.data.probe = pr;
+    probe = pr;
   }
 
   // Level of detail: very many symbols on screen are drawn as bare strike lines.
   const geo::MapRect vis = plot::visible_map(ps.view, r);
   size_t visible = 0;
-  for (const auto& at : ps.data.attitudes)
+  for (const auto& at : layers->data.attitudes)
     if (at.e >= vis.e_min && at.e <= vis.e_max && at.n >= vis.n_min && at.n <= vis.n_max) ++visible;
   plot::PlanOptions o;
   o.text_size = lk.m.font * 0.75;
@@ -279,52 +297,87 @@ void draw_plan_screen(App& a) {
   o.mark_size = lk.m.px_per_mm() * 2.5f;
   o.line_width = std::max(1.5f, lk.m.px_per_mm() * 0.35f);
   // Labels only where neighbours are far enough apart on screen for them to be read.
-  const double spacing_px = ps.spacing * ps.view.scale;
-  o.dip_values = visible < 1500 && (ps.spacing <= 0 || spacing_px > o.symbol_length * 1.3);
+  const double spacing_px = layers->spacing * ps.view.scale;
+  o.dip_values = visible < 1500 && (layers->spacing <= 0 || spacing_px > o.symbol_length * 1.3);
   o.strike_only = visible > 6000;
-  o.station_labels = ps.spacing > 0 ? spacing_px > o.text_size * 4 : ps.data.stations.size() < 2;
-  // The picture is drawn into a texture when data, view, size or theme change
-  // (every frame of a drag or a pinch, once while the map stands still).
+  o.station_labels = layers->spacing > 0 ? spacing_px > o.text_size * 4 : layers->data.stations.size() < 2;
+  // The picture is recorded when layers, view, size or theme change (every
+  // frame of a drag or a pinch, once while the map stands still), on a worker
+  // and drawn into pixels there (soft_raster.h); they go into a texture here. Meanwhile
+  // the last texture is shown moved and scaled to the view.
   ImDrawList* dl = ImGui::GetWindowDrawList();
   const std::string view_key =
       fmt::sprintf("|%.6f|%.6f|%.9g|%.0fx%.0f|%d|%d%d%d%d", ps.view.centre_e, ps.view.centre_n, ps.view.scale, r.w, r.h,
                    static_cast<int>(lk.theme), o.dip_values, o.strike_only, o.station_labels, ps.probe.has_value());
   const std::string picture_key =
-      ps.key + view_key +
+      key + view_key +
       (ps.probe ? geo::format_decimal("%.3f", ps.probe->first) + geo::format_decimal("%.3f", ps.probe->second) : "");
-  if (picture_key != ps.picture_key || !ps.picture || !ps.picture->ready()) {
-    ps.picture_key = picture_key;
-    plot::RecordingCanvas rec;
-    plot::draw_plan(rec, plot::Rect{0, 0, r.w, r.h}, ps.data, ps.view, o);
+  std::optional<RasterSetup> raster;
+  if (!build_in_frame()) raster = RasterSetup::from_context(lk.fonts.small, lk.theme, lk.pal.background);
+  ps.drawing.want(
+      picture_key + "|" + ps.layers.value_key(),  // the layers drawn may be older than `key`
+      [layers, probe, view = ps.view, w = r.w, h = r.h, o, raster] {
+        PlanPicture pic;
+        pic.view = view;
+        pic.w = static_cast<float>(w);
+        pic.h = static_cast<float>(h);
+        if (probe) {
+          plot::PlanData d = layers->data;  // a copy only for the tapped point's note
+          d.probe = probe;
+          plot::draw_plan(pic.drawing, plot::Rect{0, 0, w, h}, d, view, o);
+        } else {
+          plot::draw_plan(pic.drawing, plot::Rect{0, 0, w, h}, layers->data, view, o);
+        }
+        if (raster) pic.pixels = draw_in_pixels(pic.drawing, static_cast<int>(w), static_cast<int>(h), *raster);
+        return pic;
+      },
+      build_in_frame());
+  const auto pic = ps.drawing.shared();
+  if (pic && pic != ps.rendered) {
+    ps.rendered = pic;
     if (!ps.picture) ps.picture = std::make_unique<GlPicture>();
-    if (!ps.picture->render(rec, static_cast<int>(r.w), static_cast<int>(r.h), lk.theme, lk.fonts.small,
-                            lk.pal.background)) {
+    if (!ps.picture->show_drawing(pic->drawing, pic->pixels, static_cast<int>(pic->w), static_cast<int>(pic->h),
+                                  lk.theme, lk.fonts.small, lk.pal.background))
       ps.picture.reset();
-      dl->PushClipRect(ImVec2(r.x, r.y), ImVec2(r.x + r.w, r.y + r.h), true);
-      ImGuiCanvas canvas(dl, lk.fonts.small, lk.theme);
-      rec.replay(canvas, r.x, r.y);
-      dl->PopClipRect();
-    }
   }
-  if (ps.picture && ps.picture->ready()) {
-    ps.picture->show(dl, origin);
-    for (const auto& t : ps.picture->texts()) this_frame().texts.push_back(t);
+  if (pic) {
+    // Where the picture's corners are in this frame's view (the same unless a
+    // newer picture is being recorded).
+    const plot::Rect was{r.x, r.y, pic->w, pic->h};
+    const auto [e0, n0] = plot::canvas_to_plan(pic->view, was, {r.x, r.y});
+    const auto [e1, n1] = plot::canvas_to_plan(pic->view, was, {r.x + pic->w, r.y + pic->h});
+    const plot::Pt p0 = plot::plan_to_canvas(ps.view, r, e0, n0), p1 = plot::plan_to_canvas(ps.view, r, e1, n1);
+    const ImVec2 a0(static_cast<float>(p0.x), static_cast<float>(p0.y)),
+        a1(static_cast<float>(p1.x), static_cast<float>(p1.y));
+    dl->PushClipRect(ImVec2(r.x, r.y), ImVec2(r.x + r.w, r.y + r.h), true);
+    if (ps.picture && ps.picture->ready()) {
+      ps.picture->show(dl, a0, a1);
+      for (const auto& t : ps.picture->texts()) this_frame().texts.push_back(t);
+    } else {
+      ImGuiCanvas canvas(dl, lk.fonts.small, lk.theme);
+      pic->drawing.replay(canvas, a0.x, a0.y);
+    }
+    dl->PopClipRect();
   }
   ImGui::SetCursorScreenPos(ImVec2(origin.x + lk.m.gap, origin.y + lk.m.gap));
-  text_dim("grid north; UTM " + std::to_string(c->data.zone.zone) + (c->data.zone.northp ? "N" : "S") + ", " +
-           std::to_string(ps.data.stations.size()) + " stations" +
+  // Over the map, not below it (a line below would make the screen scroll).
+  const bool drawing = !ps.layers.current() || !ps.drawing.current();
+  text_dim(std::string(drawing ? "Drawing the plan...  " : "") + "grid north; UTM " +
+           std::to_string(c->data.zone.zone) + (c->data.zone.northp ? "N" : "S") + ", " +
+           std::to_string(layers->data.stations.size()) + " stations" +
            (ps.track_day.empty() ? std::string() : "; day track " + ps.track_day + " dashed") +
            (o.station_labels ? std::string() : "; zoom in for station codes"));
   // The notes over the map, as many as fit above its bottom edge.
   const float line_h = ImGui::GetTextLineHeightWithSpacing();
-  for (size_t i = 0; i < ps.notes.size(); ++i) {
+  const auto& notes = layers->notes;
+  for (size_t i = 0; i < notes.size(); ++i) {
     const bool last_that_fits = ImGui::GetCursorScreenPos().y + 2 * line_h > r.y + r.h;
-    if (last_that_fits && i + 1 < ps.notes.size()) {
-      text_dim("+" + std::to_string(ps.notes.size() - i) + " more contacts");
+    if (last_that_fits && i + 1 < notes.size()) {
+      text_dim("+" + std::to_string(notes.size() - i) + " more contacts");
       break;
     }
     if (ImGui::GetCursorScreenPos().y + line_h > r.y + r.h) break;
-    text_dim(ps.notes[i]);
+    text_dim(notes[i]);
   }
 }
 

@@ -259,6 +259,7 @@ void audit_tab(App& a) {
 }  // namespace
 
 void draw_review(App& a) {
+  if (!readings_ready(a)) return;
   Model& m = *a.model;
   Look& lk = look();
   ReviewState& rs = a.review;

@@ -414,6 +414,7 @@ void station_readings(App& a, const store::Station& s) {
 }  // namespace
 
 void draw_station(App& a) {
+  if (!readings_ready(a)) return;
   Model& m = *a.model;
   Look& lk = look();
   const store::Station* s = m.station(a.station);

@@ -8,7 +8,11 @@
 
 namespace cairn::ui {
 
-void draw_open(App& a);         // choose or create a project file
+void draw_open(App& a);                              // choose or create a project file
+void draw_opening(App& a, const std::string& path);  // while a project file is opened and read
+// Whether the project's readings are read (Records::complete); if not, says so
+// with the reading's progress in place of a screen that needs them.
+bool readings_ready(App& a);
 void draw_logbook(App& a);      // Logbook: stations by day
 void draw_station(App& a);      // Station sheet
 void draw_pad(App& a);          // Reading pad

@@ -67,6 +67,7 @@ class Script {
   std::string wait_text_;          // wait-for: the text awaited
   Uint32 wait_text_deadline_ = 0;  // SDL_GetTicks() time
   int wait_text_line_ = 0;
+  Uint32 settle_deadline_ = 0;  // SDL_GetTicks() time: until then a command waits for the screens' builds
   std::vector<Delayed> delayed_;
   std::string failure_;
   bool done_ = false;

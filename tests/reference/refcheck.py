@@ -9,6 +9,9 @@ the common arguments and a pass/fail tally. Imported, never run by ctest
     sys.exit(t.finish())
 """
 import argparse
+import os
+import shutil
+import subprocess
 
 
 def parse_args(required=("cairn",)):
@@ -38,3 +41,16 @@ class Tally:
         """Prints the closing 'N passed, N failed' line; returns the exit code."""
         print("%s: %d passed, %d failed" % (self.name, self.passed, self.failed))
         return 1 if self.failed else 0
+
+
+def demo_under_xvfb(t, cairn, tmp):
+    """The demo's camp.cairn, built by `cairn demo` in TMP, for checks that run
+    the UI on a virtual display; None (with the failure tallied) when Xvfb is
+    missing or the demo cannot be built."""
+    if not t.check(shutil.which("Xvfb") is not None, "Xvfb is installed (scripts/install-deps.sh --test)"):
+        return None
+    demo = os.path.join(tmp, "demo")
+    r = subprocess.run([cairn, "demo", demo], capture_output=True, text=True)
+    if not t.check(r.returncode == 0, "cairn demo builds the demo area: " + r.stderr):
+        return None
+    return os.path.join(demo, "camp.cairn")

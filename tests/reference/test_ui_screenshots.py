@@ -19,7 +19,7 @@ import tempfile
 
 sys.path.insert(0, os.path.dirname(os.path.abspath(__file__)))
 XVFB_DO = os.path.join(os.path.dirname(os.path.abspath(__file__)), "..", "tools", "xvfb-do")
-from refcheck import parse_args, Tally  # noqa: E402
+from refcheck import demo_under_xvfb, parse_args, Tally  # noqa: E402
 from png_read import read_png  # noqa: E402
 
 W, H = 1024, 700
@@ -42,15 +42,11 @@ def stats(rows):
 def main():
     args = parse_args(required=("cairn",))
     t = Tally("test_ui_screenshots")
-    if not t.check(shutil.which("Xvfb") is not None, "Xvfb is installed (scripts/install-deps.sh --test)"):
-        return t.finish()
     tmp = tempfile.mkdtemp(prefix="cairn-shots-")
     try:
-        demo = os.path.join(tmp, "demo")
-        r = subprocess.run([args.cairn, "demo", demo], capture_output=True, text=True)
-        if not t.check(r.returncode == 0, "cairn demo builds the demo area: " + r.stderr):
+        camp = demo_under_xvfb(t, args.cairn, tmp)
+        if camp is None:
             return t.finish()
-        camp = os.path.join(demo, "camp.cairn")
         for night in (False, True):
             for view in VIEWS:
                 out = os.path.join(tmp, "%s%s.png" % (view, "-night" if night else ""))
