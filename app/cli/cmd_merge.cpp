@@ -4,8 +4,8 @@
 // `cairn merge TARGET --conflicts` lists the conflicts still open in TARGET.
 // A TARGET that does not exist yet is made with the first source's settings.
 //
-// Progress goes to stderr (with --progress, or by itself for a source of more
-// than kLongMerge rows), so stdout stays the report (or the JSON).
+// Progress goes to stderr (past two seconds, on a terminal or with --progress:
+// app/core/progress.h), so stdout stays the report (or the JSON).
 // Test hook: the environment variable CAIRN_MERGE_FAIL_AFTER=N makes the merge
 // fail after N writes, to show that the target is left as it was.
 #include <cstdlib>
@@ -31,8 +31,6 @@ namespace cairn::cli {
 
 using formats::JsonWriter;
 namespace {
-
-constexpr size_t kLongMerge = 2000;
 
 std::string plural(int n, const std::string& one, const std::string& many) {
   return std::to_string(n) + " " + (n == 1 ? one : many);
@@ -260,22 +258,24 @@ int run(const MergeArgs& a, std::ostream& out, std::ostream& err) {
     if (end == n || *end || v < 0) throw std::invalid_argument("CAIRN_MERGE_FAIL_AFTER must be a whole number");
     o.fail_after = v;
   }
-  int last_step = -1;
-  std::string last_source;
-  std::optional<core::RowRate> rate;  // per source (app/core/progress.h: the UI shows the same figures)
-  std::string rate_source;
+  // One progress line per source (app/core/progress.h, as import, list, export
+  // and report show theirs): past two seconds on a terminal or with --progress.
+  std::optional<core::ProgressLine> line;
+  std::string line_source;
+  size_t line_done = 0, line_total = 0;
   o.progress = [&](const store::MergeProgress& m) {
-    if (!rate || m.source != rate_source) {
-      rate.emplace();
-      rate_source = m.source;
+    if (quiet) return;
+    if (!line || m.source != line_source) {
+      if (line) line->finish(line_done, line_total);
+      line.emplace(err,
+                   "merging " + std::filesystem::path(m.source).filename().string() + " (" +
+                       std::to_string(m.source_index + 1) + "/" + std::to_string(m.sources) + ")",
+                   show_progress);
+      line_source = m.source;
     }
-    if (quiet || !(show_progress || m.total > kLongMerge) || m.total == 0) return;
-    const int step = static_cast<int>(10 * m.done / m.total);
-    if (m.source == last_source && step == last_step) return;
-    last_source = m.source;
-    last_step = step;
-    err << "merging " << std::filesystem::path(m.source).filename().string() << " (" << m.source_index + 1 << "/"
-        << m.sources << "): " << 10 * step << "% (" << m.table << "), " << rate->line(m.done, m.total) << "\n";
+    line_done = m.done;
+    line_total = m.total;
+    line->update(m.done, m.total);
   };
   // The first evening there is no camp file yet: make one with the first
   // tablet's settings (a file of its own, with its own identity). It is built
@@ -312,6 +312,7 @@ int run(const MergeArgs& a, std::ostream& out, std::ostream& err) {
     oo.backups = false;
     auto project = fresh ? store::Project::open(into, oo) : open_project(target, false, err);
     rep = store::merge_files(project, sources, o);
+    if (line) line->finish(line_done, line_total);
   }  // closed: its -wal is checkpointed into the file
   if (fresh) {
     fs::rename(into, target, ec);

@@ -167,7 +167,14 @@ int run_report(const ReportArgs& a, std::ostream& out, std::ostream& err) {
   d.track_day = plot::newest_track_day(p);
   d.tracks = plot::day_track_paths(p, d.check.zone, d.track_day);
 
-  formats::write_file_atomically(*output, render_report_html(d));
+  // Written into the temporary file as it is made, then moved into place.
+  formats::replace_file_atomically(*output, [&](const std::string& tmp) {
+    std::ofstream f(tmp, std::ios::binary | std::ios::trunc);
+    if (!f) throw std::runtime_error("cannot open it for writing");
+    write_report_html(f, d);
+    f.close();
+    if (!f) throw std::runtime_error("the write failed (is the disk full?)");
+  });
   line.finish(done + 1, total);
   out << "wrote " << *output << ": " << d.stations.size() << " stations, " << d.result.fits.size() << " contacts, "
       << d.result.flags.size() << " flags\n";

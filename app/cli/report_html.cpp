@@ -736,9 +736,8 @@ footer { margin-top: 8mm; font-size: 8pt; color: #555; border-top: 0.6pt solid #
 
 }  // namespace
 
-std::string render_report_html(const ReportData& d) {
+void write_report_html(std::ostream& o, const ReportData& d) {
   const Index ix(d);
-  std::ostringstream o;
   const std::string name = d.info.name.empty() ? std::string("Cairn project") : d.info.name;
   o << "<!DOCTYPE html>\n<html lang=\"en\">\n<head>\n<meta charset=\"utf-8\">\n"
     << "<meta name=\"viewport\" content=\"width=device-width, initial-scale=1\">\n"
@@ -760,7 +759,6 @@ std::string render_report_html(const ReportData& d) {
        "Fisher (1953) mean with α95 and κ for clusters, π-girdle and β with a bootstrap 95% cone when Woodcock's "
        "(1977) K is below 1.</footer>\n";
   o << "</body>\n</html>\n";
-  return o.str();
 }
 
 }  // namespace cairn::cli

@@ -9,6 +9,7 @@
 // cross-check; this file only turns the result into HTML.
 #pragma once
 #include <optional>
+#include <ostream>
 #include <string>
 #include <vector>
 
@@ -65,6 +66,8 @@ struct ReportData {
   std::vector<plot::PlanPath> tracks;
 };
 
-std::string render_report_html(const ReportData& d);
+// Writes the report to `o` as it goes (a season's page is hundreds of
+// megabytes: it is never held whole).
+void write_report_html(std::ostream& o, const ReportData& d);
 
 }  // namespace cairn::cli
