@@ -89,7 +89,6 @@ struct NetPicture {
   plot::RecordingCanvas drawing;
   std::optional<RgbaImage> pixels;  // the drawing in pixels, when drawn on the worker (soft_raster.h)
   std::vector<std::string> legend;  // summary lines under the net
-  int shown = 0;
   // The kinds and field days present in the records (the filters' values).
   std::vector<std::pair<std::string, std::string>> kinds, days;
 };

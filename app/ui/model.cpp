@@ -148,11 +148,6 @@ bool build_in_frame() {
   return in_frame;
 }
 
-Model::Model(store::Project p) : project_(std::move(p)) {
-  path_ = project_.path();
-  reload();
-}
-
 Model::Model(store::Project p, std::shared_ptr<const Records> r) : project_(std::move(p)) {
   path_ = project_.path();
   took(std::move(r));

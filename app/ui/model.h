@@ -101,8 +101,7 @@ bool build_in_frame();
 
 class Model {
  public:
-  explicit Model(store::Project p);
-  // A project whose records were read already (on the opening worker).
+  // A project and its records, read on the opening worker (App::open_project).
   Model(store::Project p, std::shared_ptr<const Records> r);
 
   store::Project& project() { return project_; }

@@ -80,7 +80,6 @@ NetPicture build_net(const Records& m, const CheckResult* check, const NetChoice
     d.planes.push_back({geo::Plane{r.strike, r.dip}, col, plot::pole_shape(store::to_string(r.kind)), true});
     ++shown;
   }
-  out.shown = shown;
   for (const auto& uid : units_used) {
     const store::Unit* u = m.unit(uid);
     d.key.push_back({plot::Shape::Circle, plot::unit_colour(u->colour, unit_index[uid]), true, "unit " + u->code});

@@ -309,13 +309,14 @@ void draw_plan_screen(App& a) {
   const std::string view_key =
       fmt::sprintf("|%.6f|%.6f|%.9g|%.0fx%.0f|%d|%d%d%d%d", ps.view.centre_e, ps.view.centre_n, ps.view.scale, r.w, r.h,
                    static_cast<int>(lk.theme), o.dip_values, o.strike_only, o.station_labels, ps.probe.has_value());
+  // Keyed by the layers it is drawn from (which may be older than `key` while newer ones are built).
   const std::string picture_key =
-      key + view_key +
+      ps.layers.value_key() + view_key +
       (ps.probe ? geo::format_decimal("%.3f", ps.probe->first) + geo::format_decimal("%.3f", ps.probe->second) : "");
   std::optional<RasterSetup> raster;
   if (!build_in_frame()) raster = RasterSetup::from_context(lk.fonts.small, lk.theme, lk.pal.background);
   ps.drawing.want(
-      picture_key + "|" + ps.layers.value_key(),  // the layers drawn may be older than `key`
+      picture_key,
       [layers, probe, view = ps.view, w = r.w, h = r.h, o, raster] {
         PlanPicture pic;
         pic.view = view;
