@@ -708,6 +708,7 @@ int App::run() {
   const bool shot_only = !opts.screenshot.empty() && !script;
   const bool interactive = !script && !shot_only;
   int frame = 0;
+  const Uint32 started = SDL_GetTicks();
   unsigned long gps_seen = 0;
   while (!quit_) {
     if (script) {
@@ -745,7 +746,11 @@ int App::run() {
     request_check();
     draw_frame();
     ++frame;
-    if (shot_only && ((frame >= opts.frames && idle()) || frame > 2000)) {
+    // A screenshot waits for the screen to settle (the opening, the check, the
+    // builds on workers), for two minutes at most; meanwhile the loop leaves
+    // the workers the processor instead of drawing frames as fast as it can.
+    if (shot_only && !idle() && frame >= opts.frames) SDL_Delay(2);
+    if (shot_only && ((frame >= opts.frames && idle()) || SDL_GetTicks() - started > 120000)) {
       pending_screenshot_ = opts.screenshot;
       draw_frame();
       break;

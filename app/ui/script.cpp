@@ -121,7 +121,7 @@ Script::Step Script::step(App& app) {
     return Step::Continue;
   }
   if (wait_idle_) {
-    if (!app.idle() && --idle_budget_ > 0) return Step::Continue;
+    if (!app.idle() && SDL_GetTicks() < idle_deadline_) return Step::Continue;
     wait_idle_ = false;
   }
   if (!wait_text_.empty()) {
@@ -302,7 +302,9 @@ bool Script::run(App& app, const Command& c) {
   }
   if (cmd == "wait-idle") {
     wait_idle_ = true;
-    idle_budget_ = 3000;  // frames; a script that never settles still ends
+    // A time, not a count of frames: frames that build nothing are quick, and
+    // a loaded machine's workers slow. A script that never settles still ends.
+    idle_deadline_ = SDL_GetTicks() + 120000;
     wait_frames_ = 1;
     return true;
   }

@@ -63,7 +63,7 @@ class Script {
   size_t next_ = 0;
   int wait_frames_ = 0;
   bool wait_idle_ = false;
-  int idle_budget_ = 0;
+  Uint32 idle_deadline_ = 0;       // SDL_GetTicks() time: wait-idle gives up then
   std::string wait_text_;          // wait-for: the text awaited
   Uint32 wait_text_deadline_ = 0;  // SDL_GetTicks() time
   int wait_text_line_ = 0;

@@ -32,8 +32,10 @@ W, H = 1024, 700
 
 
 def shot(cairn, camp, view, out, night, in_frame):
+    # No GPS: its state (searching, a fix from whatever listens on the port)
+    # depends on the moment and is not what is compared.
     cmd = [XVFB_DO, "1280x900x24", cairn, "gui", camp, "--view", view, "--screenshot", out,
-           "--size", "%dx%d" % (W, H)]
+           "--size", "%dx%d" % (W, H), "--no-gps"]
     if night:
         cmd.append("--night")
     env = dict(os.environ)
@@ -72,7 +74,9 @@ def main():
                 mean = float(np.abs(pa - pb).mean())
                 # The screenshots must hold a picture at all (not two blank screens that agree).
                 t.check(len(np.unique(pb.reshape(-1, 3), axis=0)) > 50, what + ": the picture drawn in pixels is not blank")
-                t.check(share < 0.005, "%s: %.3f%% of pixels differ by more than 48" % (what, 100 * share))
+                ys, xs = np.nonzero(d > 48)
+                where = "" if len(xs) == 0 else " (within x %d-%d, y %d-%d)" % (xs.min(), xs.max(), ys.min(), ys.max())
+                t.check(share < 0.005, "%s: %.3f%% of pixels differ by more than 48%s" % (what, 100 * share, where))
                 t.check(mean < 1.0, "%s: mean absolute difference %.3f" % (what, mean))
     finally:
         shutil.rmtree(tmp, ignore_errors=True)
