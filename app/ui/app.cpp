@@ -185,7 +185,7 @@ void App::read_the_rest() {
   }
   const std::string path = model->path();
   const std::uint64_t rev = model->revision();
-  loader.start("Reading the readings", [this, path, rev](JobProgress& pr) -> std::function<void()> {
+  loader.start("Loading the readings", [this, path, rev](JobProgress& pr) -> std::function<void()> {
     try {
       store::OpenOptions oo;
       oo.read_only = true;
@@ -199,9 +199,9 @@ void App::read_the_rest() {
       };
     } catch (const std::exception& e) {
       const std::string why = e.what();
-      return [this, why] {
+      return [this, why, path] {
         opening_.clear();
-        notify("The readings could not be read: " + why);
+        notify("The readings of " + path + " could not be loaded: " + why);
       };
     }
   });

@@ -94,10 +94,16 @@ void draw_opening(App& a, const std::string& path) {
 
 bool readings_ready(App& a) {
   if (a.model->complete()) return true;
-  heading("Reading the readings");
+  if (!a.loader.busy()) {  // the loader failed and said why in the top bar
+    error_box(
+        "The project's readings could not be loaded: this screen needs them. Close Cairn and open the "
+        "project again; the Logbook, the Plan and the Crosscheck still work.");
+    return false;
+  }
+  heading("Loading the readings");
   progress(a.loader.progress().fraction(), a.loader.progress().message());
   text_wrapped(
-      "This screen shows once the project's readings are read; the Logbook, the Plan and the Crosscheck work "
+      "This screen shows once the project's readings are loaded; the Logbook, the Plan and the Crosscheck work "
       "meanwhile.");
   return false;
 }

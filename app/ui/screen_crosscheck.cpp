@@ -212,8 +212,8 @@ void draw_crosscheck(App& a) {
     return;
   }
   if (!c->warning.empty()) caution_box("Magnetic model", c->warning);
-  // The list is built once per check, change of reviews or filter; on a worker
-  // on a worker (background.h), the last list staying meanwhile.
+  // The list is built once per check, change of reviews or filter, on a worker
+  // (background.h), the last list staying meanwhile.
   cs.list.want(
       std::to_string(c->revision) + "|" + std::to_string(m.revision()) + "|" + std::to_string(cs.min_severity),
       [rec = m.records(), c, min = cs.min_severity] { return build_list(*rec, c, min); }, build_in_frame());
