@@ -1,7 +1,10 @@
 #include "geomath/distributions.h"
 
 #include <cmath>
+#include <algorithm>
 #include <limits>
+#include <map>
+#include <mutex>
 #include <string>
 
 #include "geomath/angles.h"
@@ -152,6 +155,35 @@ double NormalDeviates::operator()() {
   spare_ = r * std::sin(a);
   have_spare_ = true;
   return r * std::cos(a);
+}
+
+std::shared_ptr<const std::vector<double>> shared_normal_deviates(std::uint64_t seed, std::size_t n) {
+  if (n > kSharedDeviatesMax) return nullptr;
+  struct Stream {
+    explicit Stream(std::uint64_t s) : gen(s), values(std::make_shared<std::vector<double>>()) {}
+    NormalDeviates gen;  // positioned after the last value drawn
+    std::shared_ptr<const std::vector<double>> values;
+  };
+  static std::mutex mutex;
+  static std::map<std::uint64_t, Stream> streams;
+  std::lock_guard<std::mutex> lock(mutex);
+  auto it = streams.find(seed);
+  if (it == streams.end()) {
+    if (streams.size() >= 8) streams.clear();  // callers keep the values they hold
+    it = streams.emplace(seed, Stream(seed)).first;
+  }
+  Stream& s = it->second;
+  if (s.values->size() < n) {
+    // A longer prefix is a new vector (the old one may be read on other
+    // threads), grown geometrically so that a season draws a few times at most.
+    const std::size_t size = std::min(kSharedDeviatesMax, std::max({n, 2 * s.values->size(), std::size_t{1} << 16}));
+    auto longer = std::make_shared<std::vector<double>>();
+    longer->reserve(size);
+    longer->assign(s.values->begin(), s.values->end());
+    while (longer->size() < size) longer->push_back(s.gen());
+    s.values = std::move(longer);
+  }
+  return s.values;
 }
 
 }  // namespace cairn::geo

@@ -11,7 +11,10 @@
 //    normal deviates. Ann. Math. Statist. 29, 610-611.
 #pragma once
 #include <cstdint>
+#include <cstddef>
+#include <memory>
 #include <random>
+#include <vector>
 
 #include "geomath/result.h"
 
@@ -57,5 +60,14 @@ class NormalDeviates {
   bool have_spare_ = false;
   double spare_ = 0;
 };
+
+// The first n values of NormalDeviates(seed), drawn once in the process and
+// shared (read-only) by every caller and thread. Every plane fit's Monte Carlo
+// cone starts the same fixed seed, so each fit would otherwise draw the same
+// values again: over half of a season's cross-check (issue 16). The values are
+// the generator's own, so results stay bit for bit what they were. Returns
+// nullptr when n is above kSharedDeviatesMax (the caller then draws its own).
+constexpr std::size_t kSharedDeviatesMax = std::size_t{1} << 22;  // 32 MiB of doubles
+std::shared_ptr<const std::vector<double>> shared_normal_deviates(std::uint64_t seed, std::size_t n);
 
 }  // namespace cairn::geo

@@ -289,7 +289,14 @@ void measure_residuals(PlaneFit& f, const std::vector<FitPoint>& pts, const std:
 void monte_carlo_cone(PlaneFit& f, const std::vector<FitPoint>& pts, const std::vector<Vec3>& P,
                       const std::vector<double>& w, const FitOptions& opt) {
   const size_t N = P.size();
-  NormalDeviates gauss(opt.seed);
+  // The same seed gives every fit the same deviates: they are drawn once in the
+  // process and read here (shared_normal_deviates), else drawn for this fit.
+  const size_t needed =
+      static_cast<size_t>(std::max(opt.draws, 0)) * N * (f.cone_source == ConeSource::Accuracies ? 3 : 1);
+  const auto shared = shared_normal_deviates(opt.seed, needed);
+  const double* next_shared = shared ? shared->data() : nullptr;
+  NormalDeviates own(opt.seed);
+  auto gauss = [&] { return next_shared ? *next_shared++ : own(); };
   std::vector<Vec3> Q(N), base(N);
   for (size_t i = 0; i < N; ++i) base[i] = P[i] - f.residuals[i] * f.normal;
   std::vector<double> angles;

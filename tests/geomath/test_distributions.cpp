@@ -10,10 +10,13 @@
 //    freedom is Cauchy, t_p = tan(pi (p - 1/2)); with 2, t_p = (2p-1)/sqrt(2p(1-p));
 //    chi-square with 2 is exponential, -2 ln(1-p) (A&S 26.7.4, 26.4 and 26.6);
 //  - I_x(a, 1) = x^a, I_x(1, b) = 1 - (1-x)^b, I_(1/2)(a, a) = 1/2 (A&S 26.5);
-//    P(1, x) = 1 - exp(-x) (A&S 6.5.13 with a = 1).
+//    P(1, x) = 1 - exp(-x) (A&S 6.5.13 with a = 1);
+//  - the shared deviates are checked against NormalDeviates itself, whose
+//    moments are checked above (a standard normal's, A&S 26.2).
 #include <gtest/gtest.h>
 
 #include <cmath>
+#include <thread>
 #include <vector>
 
 #include "geomath/angles.h"
@@ -98,4 +101,29 @@ TEST(Distributions, NormalDeviatesHaveUnitVarianceAndRepeat) {
   EXPECT_NEAR(s2 / n, 1.0, 0.01);
   EXPECT_NEAR(s4 / n, 3.0, 0.05);
   EXPECT_NEAR(within / double(n), 0.95, 0.002);  // two-sided 95% normal quantile 1.96
+}
+
+TEST(Distributions, SharedDeviatesAreTheGeneratorsOwn) {
+  // The shared prefix is the generator's sequence value for value, however it
+  // grows and from whichever thread it is asked for; past the cap there is none.
+  const std::uint64_t seed = 0x5eed5eedULL;
+  const std::size_t sizes[] = {10, 1, 70000, 300001, 65536};
+  std::vector<std::thread> askers;
+  std::vector<std::shared_ptr<const std::vector<double>>> got(std::size(sizes));
+  for (std::size_t k = 0; k < std::size(sizes); ++k)
+    askers.emplace_back([&, k] { got[k] = shared_normal_deviates(seed, sizes[k]); });
+  for (auto& t : askers) t.join();
+  NormalDeviates g(seed);
+  std::vector<double> expected(300001);
+  for (double& x : expected) x = g();
+  for (std::size_t k = 0; k < std::size(sizes); ++k) {
+    ASSERT_TRUE(got[k]) << sizes[k];
+    ASSERT_GE(got[k]->size(), sizes[k]);
+    for (std::size_t i = 0; i < sizes[k]; ++i) ASSERT_EQ((*got[k])[i], expected[i]) << sizes[k] << " at " << i;
+  }
+  // Another seed is another sequence.
+  const auto other = shared_normal_deviates(seed + 1, 4);
+  ASSERT_TRUE(other);
+  EXPECT_NE((*other)[0], expected[0]);
+  EXPECT_EQ(shared_normal_deviates(seed, kSharedDeviatesMax + 1), nullptr);
 }

@@ -22,6 +22,7 @@
 #include <random>
 
 #include "geomath/angles.h"
+#include "geomath/distributions.h"
 #include "geomath/plane_fit.h"
 #include "geomath/strike_lines.h"
 
@@ -309,6 +310,28 @@ TEST(FitPlane, ConeAndElevationFromAccuracies) {
   EXPECT_LT(*fit->cone95, 1.0);
   EXPECT_FALSE(fit->weak_geometry);
   EXPECT_EQ(fit->verdict.rfind("well constrained", 0), 0u) << fit->verdict;
+}
+
+TEST(FitPlane, ConeOfAContactTooLongForTheSharedDeviates) {
+  // A contact of 1 521 points with accuracies needs 3 x 1 521 x 1 000 deviates,
+  // more than the shared prefix holds (kSharedDeviatesMax): the fit draws its
+  // own from the same generator. The cone still matches the regression result
+  // of ConeAndElevationFromAccuracies: tilt standard deviation sigma / sqrt(sum
+  // x^2), Rayleigh 95% quantile s sqrt(-2 ln 0.05) (standard error of a
+  // least-squares slope, any regression text, e.g. Draper & Smith 1998, 3.1).
+  std::vector<FitPoint> pts;
+  double sum_x2 = 0;
+  for (auto [e, n] : grid(19, 10.0)) {  // 39 x 39
+    pts.push_back(P(300000 + e, 4000000 + n, 50, 0.0, 0.5));
+    sum_x2 += e * e;
+  }
+  ASSERT_GT(3 * pts.size() * 1000, kSharedDeviatesMax);
+  auto fit = fit_plane(pts);
+  ASSERT_TRUE(fit.ok()) << fit.error();
+  ASSERT_EQ(fit->cone_source, ConeSource::Accuracies);
+  const double expected = rad2deg(0.5 / std::sqrt(sum_x2) * std::sqrt(-2 * std::log(0.05)));
+  ASSERT_TRUE(fit->cone95_known);
+  EXPECT_NEAR(*fit->cone95_known, expected, 0.08 * expected);
 }
 
 TEST(FitPlane, StatedAccuraciesWidenWhenOptimistic) {
