@@ -357,7 +357,13 @@ Project Project::open(const std::string& path, OpenOptions options) {
     // no backup for it (the session's backup comes with its first real write).
     const bool backups = p.impl_->options.backups;
     p.impl_->options.backups = false;
-    p.write([&] { register_device(p.db(), p.impl_->device, options.device_name); });
+    try {
+      p.write([&] { register_device(p.db(), p.impl_->device, options.device_name); });
+    } catch (const SqlError& e) {
+      if ((e.code() & 0xff) == SQLITE_BUSY)
+        throw std::runtime_error(path + " is locked by another program: " + e.what());
+      throw;
+    }
     p.impl_->options.backups = backups;
   }
   return p;

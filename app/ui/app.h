@@ -278,11 +278,20 @@ class App {
   // rule (geomath/track.h) says so.
   void log_track();
 
-  void opened(store::Project p, std::shared_ptr<const Records> rec);  // the opening job's end
+  // The opening's steps (open_project).
+  void first_part_read(const std::string& path, store::Project p, std::shared_ptr<const Records> rec);
+  void opened(const std::string& path, store::Project p, std::shared_ptr<const Records> rec);
+  void showing();
+  void file_checked();
+  void end_opening();
   void read_the_rest();
+  double ms_since_start() const;
 
   SDL_Window* window_ = nullptr;
   std::string opening_;
+  bool rest_read_ = false;                       // the opening's readings read (or failed)
+  bool rest_wanted_ = false;                     // read_the_rest found the loader busy
+  std::optional<store::Project> checked_early_;  // the checked connection, come before the first part's model
   int exit_code_ = 0;
   void* gl_ = nullptr;
   bool quit_ = false;
@@ -304,7 +313,7 @@ class App {
   // it) to the end of the first frame, to the records read, and to the first
   // frame that shows a check result; for --frame-stats.
   std::chrono::steady_clock::time_point made_ = std::chrono::steady_clock::now();
-  double first_frame_ms_ = -1, first_records_ms_ = -1, first_check_ms_ = -1;
+  double first_frame_ms_ = -1, first_records_ms_ = -1, file_checked_ms_ = -1, first_check_ms_ = -1;
 };
 
 }  // namespace cairn::ui

@@ -148,9 +148,15 @@ bool build_in_frame() {
   return in_frame;
 }
 
-Model::Model(store::Project p, std::shared_ptr<const Records> r) : project_(std::move(p)) {
+Model::Model(store::Project p, std::shared_ptr<const Records> r, bool checking)
+    : project_(std::move(p)), checking_(checking) {
   path_ = project_.path();
   took(std::move(r));
+}
+
+void Model::checked(store::Project p) {
+  project_ = std::move(p);
+  checking_ = false;
 }
 
 void Model::reload() { took(Records::read(project_)); }
@@ -217,6 +223,10 @@ bool Model::act(const std::string& label, const std::function<void(store::Projec
 
 bool Model::act_custom(const std::string& label, const std::function<void(store::Project&)>& f,
                        std::function<void(store::Project&)> undo, std::string* error) {
+  if (checking_) {  // the buttons that write are off meanwhile (read_only())
+    if (error) *error = path_ + " is still being checked; it can be changed in a moment";
+    return false;
+  }
   const std::string since = formats::utc_now();
   try {
     f(project_);

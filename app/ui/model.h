@@ -102,7 +102,17 @@ bool build_in_frame();
 class Model {
  public:
   // A project and its records, read on the opening worker (App::open_project).
-  Model(store::Project p, std::shared_ptr<const Records> r);
+  // `checking`: `p` is a read-only connection that showed the records while
+  // the file's integrity check runs on another; nothing can be written until
+  // checked() hands over the checked connection.
+  Model(store::Project p, std::shared_ptr<const Records> r, bool checking = false);
+
+  // Whether the file's integrity check is still running (see the constructor).
+  bool checking() const { return checking_; }
+  // The connection the opening's check gave (writable, or read-only with its
+  // problem() when the file failed the check): the same project state, so the
+  // revision stays.
+  void checked(store::Project p);
 
   store::Project& project() { return project_; }
   const std::string& path() const { return path_; }
@@ -180,6 +190,7 @@ class Model {
   store::Project project_;
   std::string path_;
   std::uint64_t revision_ = 1;
+  bool checking_ = false;
   std::shared_ptr<const Records> rec_;
   std::optional<LastAction> last_;
   std::shared_ptr<const CheckResult> check_;

@@ -4,11 +4,14 @@
 // in the frame, through OpenGL. Both ways the screens show the same content.
 // And the file is opened on the job worker: a file that is not a project
 // still ends `cairn gui FILE` with status 1 and the reason, as it did before
-// the window opened.
+// the window opened. The stations show before the file's integrity check
+// ends, and nothing is written until it has.
 // Source: the expected texts are the screens' own (the demo's station codes,
 // the Net's and Plan's summary lines); no published source.
 #include <cstdlib>
 #include <fstream>
+
+#include <sqlite3.h>
 
 #include "tests/app/ui_test_support.h"
 
@@ -22,6 +25,31 @@ struct ScopedEnv {
   ScopedEnv(const char* n, const char* v) : name(n) { setenv(n, v, 1); }
   ~ScopedEnv() { unsetenv(name.c_str()); }
 };
+
+// The first column of the first row of SQL on the file at PATH, read through
+// SQLite itself; -1 when it cannot be read.
+long long count(const std::string& path, const std::string& sql) {
+  sqlite3* db = nullptr;
+  sqlite3_open_v2(path.c_str(), &db, SQLITE_OPEN_READONLY, nullptr);
+  sqlite3_stmt* st = nullptr;
+  long long n = -1;
+  if (sqlite3_prepare_v2(db, sql.c_str(), -1, &st, nullptr) == SQLITE_OK && sqlite3_step(st) == SQLITE_ROW)
+    n = sqlite3_column_int64(st, 0);
+  sqlite3_finalize(st);
+  sqlite3_close(db);
+  return n;
+}
+
+// Runs SQL on the file at PATH (the tests' own changes, made outside Cairn).
+void run_sql(const std::string& path, const std::string& sql) {
+  sqlite3* db = nullptr;
+  ASSERT_EQ(sqlite3_open(path.c_str(), &db), SQLITE_OK);
+  char* err = nullptr;
+  const int rc = sqlite3_exec(db, sql.c_str(), nullptr, nullptr, &err);
+  EXPECT_EQ(rc, SQLITE_OK) << (err ? err : "") << " in " << sql;
+  sqlite3_free(err);
+  sqlite3_close(db);
+}
 
 }  // namespace
 
@@ -56,4 +84,62 @@ TEST_F(UiTest, AFileThatIsNotAProjectEndsTheUiWithItsReason) {
   const auto r = gui(path, "wait 3\nexpect \"Logbook\"\n");
   EXPECT_EQ(r.status, 1) << r.err;
   EXPECT_NE(r.err.find("notes.cairn cannot be read (file is not a database)"), std::string::npos) << r.err;
+}
+
+// The opening reads the stations through a read-only connection while the
+// writable opening checks the file: the Logbook shows them before the check
+// ends, and nothing is written until it has. Here another program holds the
+// file's write lock for longer than Cairn waits (busy_timeout 5 s): the stations
+// were shown, the writable opening fails saying so, and the file is unchanged
+// (this tablet was not even registered as a device).
+// Source: SQLite documentation, "Write-Ahead Logging" (readers do not block on
+// a writer) and "sqlite3_busy_timeout"; no published source for the rest.
+TEST_F(UiTest, StationsShowBeforeTheCheckAndNothingIsWrittenWithoutIt) {
+  const std::string project = file("camp.cairn");
+  std::filesystem::copy_file(std::string(CAIRN_SOURCE_DIR) + "/demo_project/camp.cairn", project);
+  auto devices = [&] { return count(project, "SELECT count(*) FROM devices"); };
+  const long long before = devices();
+  ASSERT_GT(before, 0);
+  sqlite3* holder = nullptr;
+  ASSERT_EQ(sqlite3_open(project.c_str(), &holder), SQLITE_OK);
+  ASSERT_EQ(sqlite3_exec(holder, "BEGIN IMMEDIATE", nullptr, nullptr, nullptr), SQLITE_OK);
+  const auto r = gui(project, "expect \"Logbook\"\n", "--frame-stats");
+  sqlite3_exec(holder, "ROLLBACK", nullptr, nullptr, nullptr);
+  sqlite3_close(holder);
+  EXPECT_EQ(r.status, 1) << r.err;
+  EXPECT_NE(r.err.find("is locked by another program"), std::string::npos) << r.err;
+  // --frame-stats: "the records after R ms, the file checked after K ms"; R is
+  // -1 when the records were never shown, K when the check never ended.
+  const auto records_at = r.err.find("the records after ");
+  ASSERT_NE(records_at, std::string::npos) << r.err;
+  EXPECT_NE(r.err.compare(records_at, 21, "the records after -1 "), 0) << r.err;
+  EXPECT_NE(r.err.find("the file checked after -1 ms"), std::string::npos) << r.err;
+  EXPECT_EQ(devices(), before);
+}
+
+// A file that fails its integrity check is shown as before the stations were
+// read beside the check: read-only, its problem said, nothing written. The
+// damage: an audit row whose action breaks the table's CHECK constraint, made
+// by editing the schema (SQLite documentation, "PRAGMA writable_schema"), which
+// PRAGMA quick_check reports (SQLite documentation, "PRAGMA quick_check": CHECK
+// constraints are verified on a writable connection).
+TEST_F(UiTest, AFileThatFailsItsCheckIsShownReadOnly) {
+  const std::string project = file("camp.cairn");
+  std::filesystem::copy_file(std::string(CAIRN_SOURCE_DIR) + "/demo_project/camp.cairn", project);
+  const std::string edit = "PRAGMA writable_schema=ON; UPDATE sqlite_schema SET sql = replace(sql, ";
+  run_sql(project, edit + "'''restore'')', '''restore'',''tampered'')') WHERE name = 'audit';");
+  run_sql(project, "UPDATE audit SET action = 'tampered' WHERE rowid = (SELECT min(rowid) FROM audit);");
+  run_sql(project, edit + "'''restore'',''tampered'')', '''restore'')') WHERE name = 'audit';");
+  const long long stations = count(project, "SELECT count(*) FROM stations");
+  const long long devices = count(project, "SELECT count(*) FROM devices");
+  ASSERT_GT(stations, 0);
+  std::string s = "expect \"failed its integrity check (CHECK constraint failed in audit)\"\n";
+  s += "expect \"22 stations\"\n";         // the newest day's heading: the stations are shown
+  s += "tap \"+ New station\"\nwait 1\n";  // off: nothing to create
+  s += "expect-not \"Create station\"\n";
+  const auto r = gui(project, s);
+  EXPECT_EQ(r.status, 0) << r.err;
+  EXPECT_EQ(count(project, "SELECT count(*) FROM stations"), stations);
+  EXPECT_EQ(count(project, "SELECT count(*) FROM devices"), devices);
+  EXPECT_EQ(count(project, "SELECT count(*) FROM audit WHERE action = 'tampered'"), 1);
 }
