@@ -11,8 +11,8 @@
 #include <filesystem>
 #include <memory>
 #include <set>
-#include <sstream>
 #include <fstream>
+#include <vector>
 #include <thread>
 
 #include "geomath/geodesy.h"
@@ -20,7 +20,6 @@
 #include "formats/atomic_file.h"
 #include "formats/ids.h"
 #include "formats/iso8601.h"
-#include "formats/sha256.h"
 #include "formats/temp_files.h"
 #include "storage/file_state.h"
 #include "storage/schema.h"
@@ -106,11 +105,20 @@ void copy_database(Db& src, const std::string& path, const std::string& tmp) {
   dest.exec("PRAGMA journal_mode = DELETE");
 }
 
-std::string file_digest(const std::string& path) {
-  std::ifstream f(path, std::ios::binary);
-  std::stringstream ss;
-  ss << f.rdbuf();
-  return sha256_hex(ss.str());
+// Whether two files hold the same bytes, read side by side in 1 MiB pieces (a
+// season's file is close to a gigabyte: reading both whole to digest them took
+// four times that in memory).
+bool same_bytes(const std::string& a, const std::string& b) {
+  std::ifstream fa(a, std::ios::binary), fb(b, std::ios::binary);
+  if (!fa || !fb) return false;
+  std::vector<char> pa(1 << 20), pb(1 << 20);
+  while (true) {
+    fa.read(pa.data(), static_cast<std::streamsize>(pa.size()));
+    fb.read(pb.data(), static_cast<std::streamsize>(pb.size()));
+    const std::streamsize na = fa.gcount(), nb = fb.gcount();
+    if (na != nb || !std::equal(pa.begin(), pa.begin() + na, pb.begin())) return false;
+    if (na == 0 || !fa || !fb) return !fa.bad() && !fb.bad() && fa.eof() == fb.eof();
+  }
 }
 
 // The day of a backup from its name (NAME-YYYYMMDDThhmmss...): "YYYYMMDD".
@@ -141,7 +149,7 @@ std::string publish_backup(TempPath& tmp, const std::string& path, const std::st
   const fs::path folder = backup_folder(path, dir);
   const auto existing = list_backups(path, dir);
   if (!existing.empty() && fs::file_size(existing.back()) == fs::file_size(tmp.path()) &&
-      file_digest(existing.back()) == file_digest(tmp.path()))
+      same_bytes(existing.back(), tmp.path()))
     return existing.back();       // the same state: no second copy (tmp is removed with its TempPath)
   std::string stamp = utc_now();  // 2025-06-14T09:32:10.123Z -> 20250614T093210123Z
   stamp.erase(std::remove_if(stamp.begin(), stamp.end(), [](char c) { return c == '-' || c == ':' || c == '.'; }),
@@ -511,23 +519,30 @@ void Project::write(const std::function<void()>& f) {
     }
   }
   // A rolling backup once the edits have gone on long enough since the last one.
-  if (impl_->options.backups) {
-    const auto now = std::chrono::steady_clock::now();
-    if (!impl_->have_backup || now - impl_->last_backup >= std::chrono::seconds(impl_->options.backup_interval_s)) {
-      try {
-        backup_now();
-      } catch (const std::exception& e) {
-        impl_->backup_error = e.what();
-      }
+  if (impl_->options.rolling_backups && backup_due()) {
+    try {
+      backup_now();
+    } catch (const std::exception& e) {
+      impl_->backup_error = e.what();
     }
   }
 }
 
-std::string Project::backup_now() {
-  std::string b = make_backup(impl_->db, impl_->path, impl_->options.backup_dir, impl_->options.backup_keep);
+bool Project::backup_due() const {
+  if (!impl_->options.backups) return false;
+  return !impl_->have_backup || std::chrono::steady_clock::now() - impl_->last_backup >=
+                                    std::chrono::seconds(impl_->options.backup_interval_s);
+}
+
+void Project::backup_made() {
   impl_->last_backup = std::chrono::steady_clock::now();
   impl_->have_backup = true;
   impl_->backup_error.clear();
+}
+
+std::string Project::backup_now() {
+  std::string b = make_backup(impl_->db, impl_->path, impl_->options.backup_dir, impl_->options.backup_keep);
+  backup_made();
   return b;
 }
 

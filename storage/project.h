@@ -62,7 +62,11 @@ struct OpenOptions {
   bool backups = true;
   int backup_keep = 10;         // how many rolling backups to keep (>= 1)
   int backup_interval_s = 300;  // seconds between backups while editing
-  std::string backup_dir;       // "" = PATH + ".backups" beside the file
+  // false: no rolling backups after writes (the session's backup is still
+  // made); the caller makes them itself with backup_of (the touch UI, on a
+  // worker, so that no frame waits for a copy of the file).
+  bool rolling_backups = true;
+  std::string backup_dir;  // "" = PATH + ".backups" beside the file
   int busy_timeout_ms = 5000;
   DeclinationProvider declination;  // empty: the project's declination setting
 };
@@ -123,6 +127,11 @@ class Project {
 
   // A backup now; returns its path. Throws on failure.
   std::string backup_now();
+  // Whether the rolling backup is due: backups are on and backup_interval_s
+  // have passed since the last one (or none was made this session).
+  bool backup_due() const;
+  // The last backup was made now (by backup_of, on another connection).
+  void backup_made();
   // Existing backups of this file, oldest first.
   std::vector<std::string> backups() const;
   std::string backup_dir() const;

@@ -100,6 +100,28 @@ bool App::act(const std::string& label, const std::function<void(store::Project&
   return false;
 }
 
+bool App::reading_back() const {
+  return model && ((model->stale() && read_again_failed_.empty()) || !notes_to_save_.empty());
+}
+
+void App::save_notes(const std::string& station_uuid, const std::string& notes) {
+  notes_to_save_[station_uuid] = notes;
+  save_waiting_notes();
+}
+
+// One station's waiting notes a frame, each on the station as it is now.
+void App::save_waiting_notes() {
+  if (notes_to_save_.empty() || !model || !model->writable()) return;
+  const auto it = notes_to_save_.begin();
+  const std::string uuid = it->first, notes = it->second;
+  notes_to_save_.erase(it);
+  const store::Station* s = model->station(uuid);
+  if (!s || s->notes == notes) return;
+  store::Station u = *s;
+  u.notes = notes;
+  act("notes of " + s->code, [&](store::Project& p) { store::update(p, u); });
+}
+
 void App::select_station(const std::string& uuid) {
   station = uuid;
   reading.clear();
@@ -143,10 +165,16 @@ bool App::open_project(const std::string& path, std::string* error) {
     if (error) *error = "wait for " + jobs.name() + " to end";
     return false;
   }
+  if (reading_back()) {  // notes waiting for it would be lost
+    if (error) *error = "the last change is still being read back; open the project in a moment";
+    return false;
+  }
   track_last_.reset();
   opening_ = path;
   rest_read_ = false;
   checked_early_.reset();
+  stale_since_ms_ = -1;
+  read_again_failed_.clear();
   screen = Screen::Logbook;
   const bool from_command_line = path == opts.file && !model;
   // 0: the loader is reading the first part; 1: it has (its completion makes
@@ -178,7 +206,19 @@ bool App::open_project(const std::string& path, std::string* error) {
       while (first->load() == 0) std::this_thread::sleep_for(std::chrono::milliseconds(5));
       pr.set(0.02f, "checking the file before it can be changed");
       store::OpenOptions oo = cli::cli_open_options(false);
+      oo.rolling_backups = false;  // made on the job worker (keep_backup)
       auto p = std::make_shared<store::Project>(store::Project::open(path, oo));
+      // The session's backup, of the file as it is before anything can be
+      // changed, made here on the worker: on the first change it would have
+      // held that frame for as long as copying the file takes (1.4 s for a
+      // season's). Identical to the newest backup, it is not kept twice. If it
+      // fails, the first change tries again, as without this.
+      if (!p->read_only() && oo.backups) {
+        pr.set(0.5f, "keeping a backup before the first change");
+        try {
+          p->backup_now();
+        } catch (const std::exception&) {}
+      }
       std::shared_ptr<const Records> rec;
       if (first->load() == 2) {
         pr.set(0.6f, "reading stations");
@@ -303,6 +343,74 @@ void App::read_the_rest() {
   rest_wanted_ = !started;
 }
 
+// After a change: the records read again on the loader, through a read-only
+// connection of its own, while the screens show the last ones (no frame waits
+// for a season's records); Model::refreshed takes them if no change came since.
+void App::read_again() {
+  const std::string path = model->path();
+  const std::uint64_t changes = model->changes();
+  if (stale_since_ms_ < 0) stale_since_ms_ = ms_since_start();
+  loader.start("Reading the records again", [this, path, changes](JobProgress& pr) -> std::function<void()> {
+    try {
+      store::OpenOptions oo;
+      oo.read_only = true;
+      oo.backups = false;
+      oo.integrity_checked = true;  // the model's own connection checked it and wrote the change
+      store::Project p = store::Project::open(path, oo);
+      auto rec = Records::read(p, [&](float f, const std::string& what) { pr.set(f, what); });
+      return [this, rec, changes, path] {
+        if (!model || model->path() != path) return;
+        model->refreshed(rec, changes);
+        if (!model->stale()) stale_since_ms_ = -1;
+      };
+    } catch (const std::exception& e) {
+      const std::string why = e.what();
+      return [this, why, path] {
+        // The change is in the file; only reading it back failed. The screens
+        // keep the last records, and nothing more can be written this session.
+        if (model && model->path() == path) read_again_failed_ = why;
+        notify("The records of " + path + " could not be read again after the change: " + why);
+      };
+    }
+  });
+}
+
+// The rolling backup (storage/project.h): after a change that comes
+// backup_interval_s or more after the last backup, a copy of the file as
+// committed, made on the job worker through a read-only connection of its own
+// (SQLite's backup API copies one consistent state), not in the frame that
+// saved the change (a season's file takes over a second to copy).
+void App::keep_backup() {
+  if (!model) return;
+  if (model->changes() != backup_seen_changes_) {
+    backup_seen_changes_ = model->changes();
+    if (!model->project().read_only() && model->project().backup_due()) backup_wanted_ = true;
+  }
+  if (!backup_wanted_ || jobs.busy()) return;
+  backup_wanted_ = false;
+  const std::string path = model->path();
+  jobs.start("Keeping a backup of " + std::filesystem::path(path).filename().string(),
+             [this, path](JobProgress& pr) -> std::function<void()> {
+               std::string error;
+               try {
+                 pr.set(0.1f, "copying the file");
+                 store::OpenOptions oo;
+                 oo.read_only = true;
+                 oo.backups = false;
+                 oo.integrity_checked = true;  // checked when it was opened; written by this session only
+                 store::Project p = store::Project::open(path, oo);
+                 p.backup_now();
+               } catch (const std::exception& e) {
+                 error = e.what();
+               }
+               return [this, path, error] {
+                 if (!model || model->path() != path) return;
+                 model->project().backup_made();  // failed or not: tried again after the interval
+                 if (!error.empty()) notify("The backup of " + path + " failed: " + error);
+               };
+             });
+}
+
 void App::request_check() {
   if (!model || model->checking() || checker.busy() || model->check_is_current()) return;
   if (model->check() && !model->check()->error.empty() && model->check()->revision == model->revision()) return;
@@ -331,6 +439,7 @@ bool App::derived_current() const {
 
 bool App::idle() const {
   if (jobs.busy() || loader.busy() || checker.busy() || !derived_current()) return false;
+  if (reading_back()) return false;
   return !model || model->check_is_current() || (model->check() && !model->check()->error.empty());
 }
 
@@ -609,7 +718,7 @@ void App::draw_top_bar() {
   // At the right end of the line, or of a line of their own when there is no room.
   same_line_if_fits(right_w);
   ImGui::SetCursorPosX(std::max(ImGui::GetCursorPosX(), ImGui::GetWindowContentRegionMax().x - right_w));
-  if (button(undo_label + "##undo", undo_w, model && model->can_undo())) {
+  if (button(undo_label + "##undo", undo_w, model && model->can_undo() && model->writable())) {
     std::string err;
     const std::string what = model->undo_label();
     if (model->undo(&err))
@@ -625,6 +734,11 @@ void App::draw_top_bar() {
     plan.drawing.invalidate();
   }
   if (!toast_.empty() && ImGui::GetTime() < toast_until_) text_colour(lk.pal.text, toast_);
+  // A change is read back on the loader (read_again): said when it takes long
+  // enough to see (a season's records take seconds), while the controls that
+  // write are off.
+  if (model && model->stale() && loader.busy() && stale_since_ms_ >= 0 && ms_since_start() - stale_since_ms_ > 300)
+    progress(loader.progress().fraction(), "Saved; reading the records again before the next change");
   if (jobs.busy() && (opening_.empty() || model))  // the opening screen shows its own
     progress(jobs.progress().fraction(), jobs.name() + ": " + jobs.progress().message());
 }
@@ -837,6 +951,9 @@ int App::run() {
     checker.poll();
     loader.poll();
     if (rest_wanted_ && model && !loader.busy()) read_the_rest();
+    if (model && model->stale() && !loader.busy() && read_again_failed_.empty()) read_again();
+    save_waiting_notes();
+    keep_backup();
     poll_derived();
     fix = gps.fix();
     log_track();

@@ -245,6 +245,12 @@ class App {
   void select_station(const std::string& uuid);
   // Runs a confirmed change (Model::act) and shows its error, if any, in the top bar.
   bool act(const std::string& label, const std::function<void(store::Project&)>& f, std::string* error = nullptr);
+  // Saves a station's notes: at once when the model is writable(), else as
+  // soon as it is (the last change still being read back), so that text typed
+  // meanwhile is not lost.
+  void save_notes(const std::string& station_uuid, const std::string& notes);
+  // Whether a change is being read back (Model::stale) or notes wait to be saved.
+  bool reading_back() const;
   // Starts the cross-check on the worker when the project changed since the last one.
   void request_check();
   // The UUID of the person at the tablet ("" = none chosen).
@@ -285,12 +291,20 @@ class App {
   void file_checked();
   void end_opening();
   void read_the_rest();
+  void read_again();   // the records after a change (Model::stale)
+  void keep_backup();  // the rolling backup, on the job worker
   double ms_since_start() const;
 
   SDL_Window* window_ = nullptr;
   std::string opening_;
-  bool rest_read_ = false;                       // the opening's readings read (or failed)
-  bool rest_wanted_ = false;                     // read_the_rest found the loader busy
+  bool rest_read_ = false;                            // the opening's readings read (or failed)
+  bool rest_wanted_ = false;                          // read_the_rest found the loader busy
+  double stale_since_ms_ = -1;                        // when the records became stale (read_again)
+  std::string read_again_failed_;                     // why reading them again failed
+  std::uint64_t backup_seen_changes_ = 0;             // Model::changes() when keep_backup last looked
+  bool backup_wanted_ = false;                        // a change came when the rolling backup was due
+  std::map<std::string, std::string> notes_to_save_;  // station UUID -> notes (save_notes)
+  void save_waiting_notes();
   std::optional<store::Project> checked_early_;  // the checked connection, come before the first part's model
   int exit_code_ = 0;
   void* gl_ = nullptr;

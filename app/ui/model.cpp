@@ -159,7 +159,16 @@ void Model::checked(store::Project p) {
   checking_ = false;
 }
 
-void Model::reload() { took(Records::read(project_)); }
+void Model::changed() {
+  stale_ = true;
+  ++changes_;
+}
+
+void Model::refreshed(std::shared_ptr<const Records> r, std::uint64_t changes) {
+  if (changes != changes_) return;  // read before the last change: the loader reads again
+  took(std::move(r));
+  stale_ = false;
+}
 
 void Model::completed(std::shared_ptr<const Records> r, std::uint64_t rev) {
   if (rev == revision_ && !rec_->complete) rec_ = std::move(r);
@@ -179,6 +188,15 @@ std::string Model::day_of(const store::Station& s) {
 }
 
 std::string Model::next_station_code(const std::string& person) const {
+  if (codes_revision_ != revision_) {
+    next_codes_.clear();
+    codes_revision_ = revision_;
+  }
+  if (auto it = next_codes_.find(person); it != next_codes_.end()) return it->second;
+  return next_codes_[person] = first_free_code(person);
+}
+
+std::string Model::first_free_code(const std::string& person) const {
   // Continue the newest code of this person (else of anyone): "BK-22" -> "BK-23".
   const store::Station* last = nullptr;
   for (const auto& s : rec_->stations)
@@ -223,8 +241,11 @@ bool Model::act(const std::string& label, const std::function<void(store::Projec
 
 bool Model::act_custom(const std::string& label, const std::function<void(store::Project&)>& f,
                        std::function<void(store::Project&)> undo, std::string* error) {
-  if (checking_) {  // the buttons that write are off meanwhile (read_only())
-    if (error) *error = path_ + " is still being checked; it can be changed in a moment";
+  // The controls that write are off meanwhile (writable()).
+  if (checking_ || stale_) {
+    if (error)
+      *error = checking_ ? path_ + " is still being checked; it can be changed in a moment"
+                         : "The last change is still being read back; try again in a moment";
     return false;
   }
   const std::string since = formats::utc_now();
@@ -243,12 +264,16 @@ bool Model::act_custom(const std::string& label, const std::function<void(store:
   q.device = project_.device();
   a.audited = store::audit_log(project_, q);
   last_ = std::move(a);
-  reload();
+  changed();
   return true;
 }
 
 bool Model::undo(std::string* error) {
   if (!last_) return false;
+  if (stale_ || checking_) {
+    if (error) *error = "The last change is still being read back; undo in a moment";
+    return false;
+  }
   try {
     project_.write([&] {
       if (last_->custom) last_->custom(project_);
@@ -259,7 +284,7 @@ bool Model::undo(std::string* error) {
     return false;
   }
   last_.reset();
-  reload();
+  changed();
   return true;
 }
 

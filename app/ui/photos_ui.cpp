@@ -144,7 +144,7 @@ void camp_photos(App& a) {
   Look& lk = look();
   PhotosUi& ps = a.photos;
   const bool busy = a.jobs.busy();
-  const bool writable = !m.project().read_only();
+  const bool writable = m.writable();
   heading("Photos");
   text_wrapped("Match a folder of photos (beside the project) to their stations by EXIF time and GPS position.");
   if (ps.person.empty())

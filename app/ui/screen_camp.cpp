@@ -90,7 +90,7 @@ void pick_lists(App& a) {
   Model& m = *a.model;
   Look& lk = look();
   CampState& cs = a.camp;
-  const bool writable = !m.project().read_only();
+  const bool writable = m.writable();
   auto change = [&](const std::string& label, const std::function<void(store::Project&)>& f,
                     const std::function<void(store::Project&)>& undo) {
     cs.list_error.clear();
@@ -206,7 +206,7 @@ void draw_camp(App& a) {
   Look& lk = look();
   CampState& cs = a.camp;
   const bool busy = a.jobs.busy();
-  const bool writable = !m.project().read_only();
+  const bool writable = m.writable();
   const std::string project = m.path();
 
   if (busy) progress(a.jobs.progress().fraction(), a.jobs.name() + ": " + a.jobs.progress().message());

@@ -118,7 +118,9 @@ void flag_window(App& a, const geo::Flag& f) {
       text_colour(lk.pal.ok, "\xE2\x9C\x93 Caution acknowledged");
     } else {
       text_colour(lk.pal.error, "Acknowledge the caution to close this flag.");
-      if (button("I have read this caution", -1, true, true)) {
+      // Off for the moment a change is read back (it is saved after); a
+      // read-only file keeps it for the session only.
+      if (button("I have read this caution", -1, !m.stale(), true)) {
         store::FlagReview r;
         r.flag_key = key;
         r.rule = f.rule;

@@ -79,7 +79,7 @@ std::vector<Row> build_rows(const Records& m, const CheckResult* check, const Fi
 void draw_logbook(App& a) {
   Model& m = *a.model;
   Look& lk = look();
-  const bool writable = !m.project().read_only();
+  const bool writable = m.writable();
 
   if (button("+ New station", lk.m.tap * 5, writable, true)) new_station(a);
   ImGui::SameLine();

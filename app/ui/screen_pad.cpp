@@ -228,7 +228,7 @@ void record_linear(App& a, const store::Station& st, store::North north) {
 void pad_record(App& a, const store::Station& st, const Parsed& parsed, store::North north) {
   Look& lk = look();
   PadState& pad = a.pad;
-  if (button("Record reading", -1, !a.model->project().read_only(), true)) {
+  if (button("Record reading", -1, a.model->writable(), true)) {
     pad.status.clear();
     pad.error.clear();
     if (pad.text.empty())

@@ -103,9 +103,9 @@ void flags_tab(App& a) {
           rs.message = err;
         }
       };
-      if (button("Mark accepted", 0, true, true)) mark(store::ReviewStatus::Accepted);
+      if (button("Mark accepted", 0, m.writable(), true)) mark(store::ReviewStatus::Accepted);
       ImGui::SameLine();
-      if (button("Mark resolved", 0, true, true)) mark(store::ReviewStatus::Resolved);
+      if (button("Mark resolved", 0, m.writable(), true)) mark(store::ReviewStatus::Resolved);
     }
     if (!rs.message.empty()) {
       if (rs.message.rfind("Saved", 0) == 0)
@@ -147,7 +147,7 @@ void days_tab(App& a) {
            so->meta.created.substr(0, 16));
     } else if (rs.unlocked) {
       ImGui::PushID(day.c_str());
-      if (button("Sign off " + day, 0, true, true)) {
+      if (button("Sign off " + day, 0, m.writable(), true)) {
         store::DaySignoff d;
         d.day = day;
         d.person = a.person();
@@ -267,7 +267,7 @@ void draw_review(App& a) {
   if (!rs.unlocked) {
     text_colour(lk.pal.text_dim, "Read-only. Unlock to mark flags and sign off days.");
     ImGui::SameLine();
-    if (button("Unlock reviewing", 0, !m.project().read_only() && !a.person().empty())) rs.unlocked = true;
+    if (button("Unlock reviewing", 0, m.writable() && !a.person().empty())) rs.unlocked = true;
     if (a.person().empty()) {
       ImGui::SameLine();
       ImGui::AlignTextToFramePadding();

@@ -90,7 +90,7 @@ bool position_form(App& a, const store::Station* existing) {
 
   const bool creating = existing == nullptr;
   const std::string code = creating ? m.next_station_code(a.person()) : existing->code;
-  if (button(creating ? "Create station " + code : "Save typed position", 0, !m.project().read_only(), true)) {
+  if (button(creating ? "Create station " + code : "Save typed position", 0, m.writable(), true)) {
     e.error.clear();
     double va = 0, vb = 0, ve = 0;
     if (!read_number(e.a, e.utm ? "easting" : "latitude", &va, &e.error)) return false;
@@ -243,7 +243,7 @@ void station_header(App& a, const store::Station& s) {
   if (s.time.size() >= 16) when += " " + s.time.substr(11, 5);
   text_dim(when + (obs ? "   " + obs->initials + " (" + obs->name + ")" : std::string()));
   ImGui::SameLine();
-  if (button("+ New reading", 0, !m.project().read_only(), true)) {
+  if (button("+ New reading", 0, m.writable(), true)) {
     a.pad = PadState{};
     a.go(Screen::Pad);
   }
@@ -253,7 +253,7 @@ void station_header(App& a, const store::Station& s) {
 // typed). Returns false when the station went away (an undo in the form).
 bool station_position(App& a, const store::Station*& s) {
   Model& m = *a.model;
-  const bool writable = !m.project().read_only();
+  const bool writable = m.writable();
   heading("Position");
   std::string pos = lat_lon_text(s->lat, s->lon);
   if (s->elevation) pos += ",  " + geo::format_decimal("%.0f m", *s->elevation);
@@ -290,7 +290,7 @@ void station_unit(App& a, const store::Station*& s) {
     if (m.units()[i].meta.uuid == s->unit) sel = static_cast<int>(i) + 1;
   }
   ImGui::PushID("unit");
-  const int hit = chip_row(units, sel, !m.project().read_only());
+  const int hit = chip_row(units, sel, m.writable());
   ImGui::PopID();
   if (hit >= 0 && hit != sel) {
     store::Station u = *s;
@@ -300,7 +300,9 @@ void station_unit(App& a, const store::Station*& s) {
   }
 }
 
-// The notes, saved when the field is left after an edit.
+// The notes, saved when the field is left after an edit (App::save_notes: at
+// once, or as soon as the last change is read back). The field stays open for
+// typing while a change is read back; only a read-only file closes it.
 void station_notes(App& a, const store::Station*& s) {
   Model& m = *a.model;
   const bool writable = !m.project().read_only();
@@ -310,9 +312,7 @@ void station_notes(App& a, const store::Station*& s) {
   this_frame().targets.push_back({"notes", ImGui::GetItemRectMin(), ImGui::GetItemRectMax(), writable});
   record_box("notes");
   if (ImGui::IsItemDeactivatedAfterEdit() && a.edit.notes != s->notes) {
-    store::Station u = *s;
-    u.notes = a.edit.notes;
-    a.act("notes of " + s->code, [&](store::Project& p) { store::update(p, u); });
+    a.save_notes(s->meta.uuid, a.edit.notes);
     s = m.station(a.station);
   }
 }
@@ -352,7 +352,7 @@ void add_typed_photo(App& a, const store::Station& s) {
 void station_photos(App& a, const store::Station& s) {
   Model& m = *a.model;
   Look& lk = look();
-  const bool writable = !m.project().read_only();
+  const bool writable = m.writable();
   heading("Photos");
   station_thumbnails(a, s);
   const float button_w = label_width("Add photo") + ImGui::GetStyle().ItemSpacing.x;
@@ -371,7 +371,7 @@ void station_photos(App& a, const store::Station& s) {
 void station_readings(App& a, const store::Station& s) {
   Model& m = *a.model;
   Look& lk = look();
-  const bool writable = !m.project().read_only();
+  const bool writable = m.writable();
   std::map<std::string, geo::Severity> worst;
   if (auto c = m.check())
     for (const auto& f : c->report.flags)
@@ -418,6 +418,11 @@ void draw_station(App& a) {
   Model& m = *a.model;
   Look& lk = look();
   const store::Station* s = m.station(a.station);
+  if (!s && !a.station.empty() && m.stale()) {  // a station just created, not read back yet
+    heading("Saving the station");
+    text_dim("It shows here once the records are read again.");
+    return;
+  }
   if (!s) {
     station_new(a);
     return;

@@ -132,11 +132,12 @@ Script::Step Script::step(App& app) {
     }
     wait_text_.clear();
   }
-  // A project being opened (on the job worker) is waited for: no command acts
-  // on the opening screen. And each command acts on a settled screen: what the
+  // A project being opened (on the job worker), or a change being read back
+  // (App::read_again), is waited for: no command acts on the opening screen
+  // or on records older than the file. And each command acts on a settled screen: what the
   // screens build on a worker (background.h) is there first (within a minute,
   // so that a screen that never settles still lets the script go on).
-  if (!app.opening().empty()) return Step::Continue;
+  if (!app.opening().empty() || app.reading_back()) return Step::Continue;
   if (!app.derived_current()) {
     if (settle_deadline_ == 0) settle_deadline_ = SDL_GetTicks() + 60000;
     if (SDL_GetTicks() < settle_deadline_) return Step::Continue;

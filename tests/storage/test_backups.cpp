@@ -77,6 +77,44 @@ TEST(Backups, OnePerSessionNoneForARefusedImportAndNoTwoAlike) {
   }
 }
 
+TEST(Backups, RollingBackupsCanBeLeftToTheCaller) {
+  // rolling_backups = false: the session's backup is still made before the
+  // first change, but later writes make none however long after; backup_due
+  // says when one would have been made, and a backup made on another
+  // connection (as the touch UI does on a worker) resets it.
+  TempDir d;
+  const std::string f = d.file("camp.cairn");
+  { Project::create(f, NewProject{"camp", "", North::True, 0}, quiet()); }
+  OpenOptions o = with_backups();
+  o.rolling_backups = false;
+  o.backup_interval_s = 0;  // every write would be due
+  Project p = Project::open(f, o);
+  EXPECT_TRUE(p.backup_due()) << "no backup yet this session";
+  add_station(p, "S1");
+  ASSERT_EQ(list_backups(f).size(), 1u) << "the session's backup";
+  EXPECT_EQ(stations_in(list_backups(f)[0]), 0);
+  add_station(p, "S2");
+  add_station(p, "S3");
+  EXPECT_EQ(list_backups(f).size(), 1u) << "no rolling backups";
+  EXPECT_TRUE(p.backup_due());
+  {
+    OpenOptions ro = quiet();
+    ro.read_only = true;
+    Project other = Project::open(f, ro);
+    other.backup_now();  // what the caller does instead, through its own connection
+  }
+  const auto b = list_backups(f);
+  ASSERT_EQ(b.size(), 2u);
+  EXPECT_EQ(stations_in(b[1]), 3) << "the file as committed";
+  o.backup_interval_s = 3600;
+  Project q = Project::open(f, o);
+  q.backup_made();
+  EXPECT_FALSE(q.backup_due()) << "made a moment ago, due in an hour";
+  OpenOptions none = quiet();
+  Project r = Project::open(f, none);
+  EXPECT_FALSE(r.backup_due()) << "backups off";
+}
+
 TEST(Backups, TheNewestNAndTheNewestOfEachOlderDayAreKept) {
   TempDir d;
   const std::string f = d.file("camp.cairn");
