@@ -25,6 +25,13 @@ namespace {
 
 using plot::Rgba;
 
+// A season on paper. The plan labels its stations (codes and dip values) up to
+// this many; more would be unreadable at a page's 720 units across.
+constexpr size_t kReportLabelledStations = 1500;
+// A net draws at most this many pole markers (the newest); its contours and
+// statistics count every pole (as the Net screen does with its own limit).
+constexpr size_t kReportPoleMarkers = 2000;
+
 std::string esc(const std::string& s) { return plot::xml_escape(s); }
 
 std::string degrees_ew(double d) {
@@ -396,6 +403,15 @@ void write_plan(std::ostream& o, const ReportData& d, const Index& ix) {
   po.text_size = 10;
   po.mark_size = 9;
   po.line_width = 1.3;
+  // A season's stations on one printed page: their codes and dip values would
+  // be a solid smear (and most of a 260 MB page), so past kReportLabelledStations
+  // they are left out and the attitudes drawn as bare strike lines.
+  const bool crowded = in.stations.size() > kReportLabelledStations;
+  if (crowded) {
+    po.station_labels = false;
+    po.dip_values = false;
+    po.strike_only = true;
+  }
   const plot::PlanView view = plot::fit_view(b, r, 48);
   const geo::MapRect shown_map = plot::visible_map(view, r);
 
@@ -456,6 +472,10 @@ void write_plan(std::ostream& o, const ReportData& d, const Index& ix) {
     << plural(symbols, "strike-dip symbol", "strike-dip symbols")
     << " after FGDC-STD-013-2006 (tick and value on the dip side; a hooked tick for overturned bedding; "
        "a filled triangle for foliation, an open one for cleavage).";
+  if (crowded)
+    o << " With " << in.stations.size() << " stations (more than " << kReportLabelledStations
+      << " on one page) the station codes and dip values are left out and the attitudes are bare strike lines; "
+         "the Plan screen and <code>cairn export</code> give each one.";
   if (!contour_notes.empty()) {
     o << " Structure contours (strike lines of the fitted contacts, labelled with their elevation): ";
     for (size_t i = 0; i < contour_notes.size(); ++i) o << (i ? "; " : "") << contour_notes[i];
@@ -521,7 +541,15 @@ plot::NetOptions net_options(const ReportData& d, bool contours) {
   o.legend = true;
   o.contour_min_data = 5;
   o.text_size = 11;
+  o.max_pole_markers = kReportPoleMarkers;
   return o;
+}
+
+// What a caption says of a net with more poles than it draws (net_options), or "".
+std::string poles_left_out(const plot::NetData& nd) {
+  if (nd.planes.size() <= kReportPoleMarkers) return "";
+  return " The newest " + std::to_string(kReportPoleMarkers) + " of the " + std::to_string(nd.planes.size()) +
+         " poles are drawn; the contours and statistics use all of them.";
 }
 
 std::string net_figure(const plot::NetData& nd, const plot::NetOptions& o, const std::string& caption) {
@@ -536,6 +564,24 @@ std::string net_figure(const plot::NetData& nd, const plot::NetOptions& o, const
   plot::draw_net(svg, {0, 0, W, H}, nd, o);
   return "<figure class=\"net\">" + svg.svg() + "\n<figcaption>" + caption + "</figcaption></figure>\n";
 }
+
+// A section's nets, written into the page one by one as they are drawn (a
+// season's 2 000 contact nets are 50 MB): the first opens their block.
+class NetFigures {
+ public:
+  explicit NetFigures(std::ostream& o) : o_(o) {}
+  void put(const std::string& figure) {
+    if (!any_) o_ << "<div class=\"nets\">\n";
+    any_ = true;
+    o_ << figure;
+  }
+  // Closes the block, or writes `none` when no net was put.
+  void end(const std::string& none) { o_ << (any_ ? std::string("</div>\n") : none); }
+
+ private:
+  std::ostream& o_;
+  bool any_ = false;
+};
 
 // The kind with the most readings (ties: the first in `order`).
 std::string dominant(const std::map<std::string, size_t>& counts, const std::vector<std::string>& order) {
@@ -563,7 +609,7 @@ void write_unit_nets(std::ostream& o, const ReportData& d, const Index& ix) {
   groups.push_back({"Stations without a unit", "", Rgba{90, 90, 90, 255}});
   const std::vector<std::string> plane_order{"bedding", "foliation", "cleavage", "contact", "joint", "fault", "vein"};
   const std::vector<std::string> line_order{"lineation", "fold_axis", "slickenline", "intersection"};
-  std::string figures;
+  NetFigures figures(o);
   for (const auto& g : groups) {
     std::map<std::string, size_t> pk, lk;
     std::vector<const store::PlanarReading*> ps;
@@ -601,18 +647,15 @@ void write_unit_nets(std::ostream& o, const ReportData& d, const Index& ix) {
     nd.line_set = lkind.empty() ? "lines" : line_set_name(lkind);
     std::string caption = "Contours and statistics use the poles to " + kind_words(pkind.empty() ? "planes" : pkind) +
                           (lkind.empty() ? "" : " and the " + line_set_name(lkind)) + ".";
-    figures += net_figure(nd, net_options(d, true), esc(caption));
+    figures.put(net_figure(nd, net_options(d, true), esc(caption + poles_left_out(nd))));
   }
-  if (figures.empty())
-    o << "<p>No readings yet.</p>\n";
-  else
-    o << "<div class=\"nets\">\n" << figures << "</div>\n";
+  figures.end("<p>No readings yet.</p>\n");
   o << "</section>\n";
 }
 
 void write_contact_nets(std::ostream& o, const ReportData& d, const Index& ix) {
   o << "<section id=\"nets-contacts\"><h2>Nets by contact</h2>\n";
-  std::string figures;
+  NetFigures figures(o);
   for (const auto& c : d.contacts) {
     const geo::ContactFit* fit = nullptr;
     for (const auto& f : d.result.fits)
@@ -647,12 +690,9 @@ void write_contact_nets(std::ostream& o, const ReportData& d, const Index& ix) {
     caption +=
         "The blue great circle is the plane fitted to the contact's points, the square its pole with the 95% "
         "cone; markers are the poles of readings that name the contact, in their station's unit colour.";
-    figures += net_figure(nd, net_options(d, false), caption);
+    figures.put(net_figure(nd, net_options(d, false), caption + esc(poles_left_out(nd))));
   }
-  if (figures.empty())
-    o << "<p>No contact has a fit or readings yet.</p>\n";
-  else
-    o << "<div class=\"nets\">\n" << figures << "</div>\n";
+  figures.end("<p>No contact has a fit or readings yet.</p>\n");
   o << "</section>\n";
 }
 

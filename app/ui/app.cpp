@@ -416,11 +416,13 @@ void App::request_check() {
   if (model->check() && !model->check()->error.empty() && model->check()->revision == model->revision()) return;
   const std::string path = model->path();
   const std::uint64_t rev = model->revision();
-  Model* m = model.get();
-  checker.start("Checking readings against contact fits", [path, rev, m](JobProgress& pr) {
+  checker.start("Checking readings against contact fits", [this, path, rev](JobProgress& pr) {
     auto r = std::make_shared<CheckResult>(
         run_check_on_file(path, rev, [&](float f, const std::string& s) { pr.set(f, s); }));
-    return std::function<void()>([m, r] { m->set_check(r); });
+    // The model it was started for may have been replaced by another opening since.
+    return std::function<void()>([this, path, r] {
+      if (model && model->path() == path) model->set_check(r);
+    });
   });
 }
 

@@ -174,3 +174,50 @@ TEST_F(Streamed, ReportProgressWhenAsked) {
   EXPECT_NE(r.err.find("report: 2402 of 2402 rows"), std::string::npos) << r.err;
   EXPECT_EQ(cairn("report s.cairn -o r2.html").err.find("rows"), std::string::npos);
 }
+
+// A season on paper: past 1 500 stations the report's plan leaves out the
+// station codes and dip values, and a net draws the newest 2 000 poles (both
+// said in the captions), so the page stays a size a browser opens. Each pole is
+// a filled circle with a rim for bedding (the report's own key); the SVG
+// elements (W3C SVG 1.1: circle, text) are counted in the figure's markup.
+TEST_F(Streamed, ASeasonReportThinsWhatNoPageCouldShow) {
+  ASSERT_EQ(cairn("new s.cairn --name Thinned --utm 8N").status, 0);
+  const int n = 6000;
+  std::string st = "station,easting,northing,elevation\n", pl = "station,kind,strike,dip\n";
+  for (int i = 0; i < n; ++i) {
+    const std::string code = "S" + std::to_string(i);
+    st +=
+        code + "," + std::to_string(400000 + 7 * (i % 100)) + "," + std::to_string(6500000 + 9 * (i / 100)) + ",100\n";
+    pl += code + ",bedding," + std::to_string(i % 360) + "," + std::to_string(10 + i % 80) + "\n";
+  }
+  write("st.csv", st);
+  write("pl.csv", pl);
+  ASSERT_EQ(cairn("import s.cairn stations st.csv").status, 0);
+  ASSERT_EQ(cairn("import s.cairn planes pl.csv").status, 0);
+  const Outcome r = cairn("report s.cairn -o r.html");
+  ASSERT_EQ(r.status, 0) << r.err;
+  const std::string page = slurp(file("r.html"));
+  auto figure = [&](const std::string& cls, size_t from) {
+    const size_t a = page.find("<figure class=\"" + cls + "\">", from);
+    const size_t b = page.find("</figure>", a);
+    return a == std::string::npos || b == std::string::npos ? std::string() : page.substr(a, b - a);
+  };
+  auto count = [](const std::string& s, const std::string& what) {
+    size_t k = 0;
+    for (size_t at = s.find(what); at != std::string::npos; at = s.find(what, at + 1)) ++k;
+    return k;
+  };
+  const std::string plan = figure("plan", 0);
+  ASSERT_FALSE(plan.empty());
+  EXPECT_NE(plan.find("With 6000 stations (more than 1500 on one page) the station codes and dip values are left out"),
+            std::string::npos);
+  EXPECT_EQ(plan.find(">S5999<"), std::string::npos) << "no station code";
+  EXPECT_LT(count(plan, "<text"), 100u) << "scale bar and north arrow only";
+  const std::string net = figure("net", page.find("<section id=\"nets-units\""));
+  ASSERT_FALSE(net.empty());
+  EXPECT_NE(net.find("The newest 2000 of the 6000 poles are drawn; the contours and statistics use all of them."),
+            std::string::npos);
+  const size_t circles = count(net, "<circle");
+  EXPECT_GE(circles, 2000u);
+  EXPECT_LT(circles, static_cast<size_t>(n)) << "fewer markers than poles";
+}
