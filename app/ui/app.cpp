@@ -558,6 +558,13 @@ void App::shutdown() {
   jobs.join();
   loader.join();
   checker.join();
+  // A build still running reads Dear ImGui's font atlas (soft_raster.h): it ends
+  // before the context goes (a screenshot's last frame can start one).
+  logbook.rows.wait();
+  net.build.wait();
+  plan.layers.wait();
+  plan.drawing.wait();
+  cross.list.wait();
   photos.textures.clear();  // while the OpenGL context is still there
   if (ImGui::GetCurrentContext()) {
     ImGui_ImplOpenGL3_Shutdown();

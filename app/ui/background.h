@@ -70,9 +70,14 @@ class Background {
   // Forgets the key, so that the next want() builds again (e.g. the theme changed).
   void invalidate() { wanted_.clear(); }
 
-  ~Background() {
-    if (running_.valid()) running_.wait();  // the worker reads what `build` owns: let it end
+  // Waits for a build that is running (its value is taken by the next poll).
+  // The App calls it before Dear ImGui's context goes: a picture drawn into
+  // pixels reads the context's font atlas (soft_raster.h, RasterSetup).
+  void wait() const {
+    if (running_.valid()) running_.wait();
   }
+
+  ~Background() { wait(); }  // the worker reads what `build` owns: let it end
 
  private:
   void start(const std::string& key, Build build) {

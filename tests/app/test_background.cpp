@@ -161,3 +161,31 @@ TEST(Background, InvalidateBuildsTheSameKeyAgain) {
   EXPECT_EQ(builds, 2);
   EXPECT_EQ(*b.value(), 2);
 }
+
+TEST(Background, WaitReturnsOnlyWhenTheRunningBuildHasEnded) {
+  // What the App does before Dear ImGui's context goes: a build still running
+  // (which may read that context's font atlas) has ended when wait() returns.
+  Background<int> b;
+  Gate gate;
+  std::atomic<bool> ended{false};
+  b.want(
+      "a",
+      [&] {
+        gate.wait();
+        ended = true;
+        return 1;
+      },
+      false);
+  EXPECT_TRUE(b.building());
+  std::thread opener([&] {
+    std::this_thread::sleep_for(std::chrono::milliseconds(50));
+    gate.release();
+  });
+  b.wait();
+  EXPECT_TRUE(ended);
+  opener.join();
+  b.poll();  // its value is taken as usual
+  ASSERT_NE(b.value(), nullptr);
+  EXPECT_EQ(*b.value(), 1);
+  b.wait();  // nothing running: returns at once
+}
