@@ -101,10 +101,17 @@ bool App::act(const std::string& label, const std::function<void(store::Project&
 }
 
 bool App::reading_back() const {
-  return model && ((model->stale() && read_again_failed_.empty()) || !notes_to_save_.empty());
+  // Once reading back has failed nothing more is written this session (the
+  // failure said so, and that notes left since were not saved).
+  return model && read_again_failed_.empty() && (model->stale() || !notes_to_save_.empty());
 }
 
 void App::save_notes(const std::string& station_uuid, const std::string& notes) {
+  if (!read_again_failed_.empty()) {
+    notify("The notes were not saved: the records could not be read again after the last change (" +
+           read_again_failed_ + "); open the project again");
+    return;
+  }
   notes_to_save_[station_uuid] = notes;
   save_waiting_notes();
 }
@@ -369,7 +376,9 @@ void App::read_again() {
         // The change is in the file; only reading it back failed. The screens
         // keep the last records, and nothing more can be written this session.
         if (model && model->path() == path) read_again_failed_ = why;
-        notify("The records of " + path + " could not be read again after the change: " + why);
+        notify("The records of " + path + " could not be read again after the change: " + why +
+               "; it is saved, but nothing more can be changed until the project is opened again" +
+               (notes_to_save_.empty() ? std::string() : " (the notes left since were not saved)"));
       };
     }
   });
