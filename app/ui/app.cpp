@@ -155,16 +155,17 @@ void App::log_track() {
   }
 }
 
-// The file is opened on two workers at once, so that the window shows at
-// once and the stations soon after (draw_opening says what is being read):
-//  - the job worker opens it for writing, which first runs SQLite's integrity
-//    check (seconds on a season's file: 2.4 s of 874 MB);
-//  - the loader opens it read-only beside it, without that check, and reads the
+// The file is opened on two workers, so that the window shows at once and the
+// stations soon after (draw_opening says what is being read):
+//  - the loader opens it read-only, without the integrity check, and reads the
 //    first part of the records (Records::read_first). The screens show them with
 //    every control that writes off (the connection is read-only) until the
-//    checked connection takes over (Model::checked); a file that fails the check
-//    is then read-only with its problem said, as it would have been anyway. What
-//    is shown is read defensively either way; nothing is written before the check.
+//    checked connection takes over (Model::checked);
+//  - the job worker then opens it for writing, which runs SQLite's integrity
+//    check (2.4 s for a season's 874 MB), and makes the session's backup, while
+//    the loader reads the readings. A file that fails the check is read-only
+//    with its problem said, as it would have been anyway. What is shown is read
+//    defensively either way; nothing is written before the check.
 // A file the loader cannot read so (an older schema, which the writable opening
 // migrates first; a damaged file) is read by the job worker after its check.
 bool App::open_project(const std::string& path, std::string* error) {
@@ -191,11 +192,8 @@ bool App::open_project(const std::string& path, std::string* error) {
   const bool early = loader.start("Reading " + name, [this, path, first](JobProgress& pr) -> std::function<void()> {
     try {
       pr.set(0.1f, "reading stations");
-      store::OpenOptions oo;
-      oo.read_only = true;
-      oo.backups = false;
-      oo.integrity_checked = true;  // the job worker's opening checks it meanwhile
-      auto p = std::make_shared<store::Project>(store::Project::open(path, oo));
+      // Checked by the job worker's opening next, before anything is written.
+      auto p = std::make_shared<store::Project>(open_for_worker(path));
       if (p->schema_version() != store::kSchemaVersion) throw std::runtime_error("an older schema");
       auto rec = Records::read_first(*p);
       first->store(1);
@@ -324,13 +322,7 @@ void App::read_the_rest() {
   const bool started =
       loader.start("Loading the readings", [this, path, rev](JobProgress& pr) -> std::function<void()> {
         try {
-          store::OpenOptions oo;
-          oo.read_only = true;
-          oo.backups = false;
-          // Checked by the opening (the job worker's, beside this one): nothing is
-          // written before it has, and what is read here is read defensively.
-          oo.integrity_checked = true;
-          store::Project p = store::Project::open(path, oo);
+          store::Project p = open_for_worker(path);
           auto rec = Records::read(p, [&](float f, const std::string& what) { pr.set(f, what); });
           return [this, rec, rev, path] {
             if (model) model->completed(rec, rev);
@@ -359,11 +351,7 @@ void App::read_again() {
   if (stale_since_ms_ < 0) stale_since_ms_ = ms_since_start();
   loader.start("Reading the records again", [this, path, changes](JobProgress& pr) -> std::function<void()> {
     try {
-      store::OpenOptions oo;
-      oo.read_only = true;
-      oo.backups = false;
-      oo.integrity_checked = true;  // the model's own connection checked it and wrote the change
-      store::Project p = store::Project::open(path, oo);
+      store::Project p = open_for_worker(path);
       auto rec = Records::read(p, [&](float f, const std::string& what) { pr.set(f, what); });
       return [this, rec, changes, path] {
         if (!model || model->path() != path) return;
@@ -403,11 +391,7 @@ void App::keep_backup() {
                std::string error;
                try {
                  pr.set(0.1f, "copying the file");
-                 store::OpenOptions oo;
-                 oo.read_only = true;
-                 oo.backups = false;
-                 oo.integrity_checked = true;  // checked when it was opened; written by this session only
-                 store::Project p = store::Project::open(path, oo);
+                 store::Project p = open_for_worker(path);
                  p.backup_now();
                } catch (const std::exception& e) {
                  error = e.what();

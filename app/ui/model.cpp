@@ -302,20 +302,21 @@ std::string validity_warning(int outside) {
   return w.empty() ? w : w + ".";
 }
 
+store::Project open_for_worker(const std::string& path) {
+  store::OpenOptions oo;
+  oo.read_only = true;
+  oo.backups = false;
+  oo.integrity_checked = true;
+  return store::Project::open(path, oo);
+}
+
 CheckResult run_check_on_file(const std::string& path, std::uint64_t revision,
                               const std::function<void(float, const std::string&)>& progress) {
   CheckResult r;
   r.revision = revision;
   try {
     progress(0.05f, "opening the project");
-    store::OpenOptions oo;
-    oo.read_only = true;
-    oo.backups = false;
-    // The UI checked the file's integrity when it opened it (on a writable
-    // connection, which also checks every row's CHECK constraints) and has
-    // written it since through its own connection only.
-    oo.integrity_checked = true;
-    store::Project p = store::Project::open(path, oo);
+    store::Project p = open_for_worker(path);
     progress(0.2f, "loading records");
     int outside = 0;
     r.data = core::load_check_input(p, wmm_local_declination(&outside));

@@ -228,6 +228,12 @@ core::LocalDeclination wmm_local_declination(int* outside = nullptr);
 // "N readings are dated outside MODEL's validity (...)" for a count, "" for 0.
 std::string validity_warning(int outside);
 
+// A worker's own read-only connection to the file the UI has open: no backup,
+// and no second integrity check (the UI's opening runs it on its writable
+// connection, before anything is written, and writes through that one only);
+// what the worker reads it reads defensively, as every read does.
+store::Project open_for_worker(const std::string& path);
+
 // Loads a project file into the cross-check engine and runs it: what the
 // check job does on its worker thread, with its own read-only connection.
 CheckResult run_check_on_file(const std::string& path, std::uint64_t revision,

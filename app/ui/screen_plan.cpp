@@ -43,11 +43,7 @@ PlanLayers build_layers(const Records& m, const CheckResult& c, const PlanChoice
   PlanLayers out;
   plot::PlanData& d = out.data;
   out.convergence = c.data.input.grid.convergence;
-  store::OpenOptions oo;
-  oo.read_only = true;
-  oo.backups = false;
-  oo.integrity_checked = true;  // checked when the UI opened it
-  store::Project pr = store::Project::open(ch.path, oo);
+  store::Project pr = open_for_worker(ch.path);
   out.track_days = store::track_days(pr);
   out.track_day = ch.track_day ? *ch.track_day : out.track_days.empty() ? std::string() : out.track_days.back();
   std::map<std::string, size_t> unit_index;
