@@ -11,13 +11,20 @@
 //     `cairn import` would find there (units, contacts, stations), with each
 //     row's audit entry (the row as JSON, made by SQLite's json_object as the
 //     record API does) and its import key, every statement prepared once and
-//     reused, one transaction: the least Cairn's own file layout costs.
+//     reused, one transaction, the page cache `cairn import` sets for its
+//     transaction (store::BulkWriteCache): the least Cairn's own file layout
+//     costs.
+//
+//   bench_import_floor own-unaudited PROJECT KIND CSV
+//     the same as `own` without the audit rows: what the records and their
+//     indexes alone cost (bench/RESULTS.md: what the audit trail adds).
 //
 // KIND is stations, points or planes (the season's CSVs from bench/season.py,
 // positions as easting/northing in the project's UTM zone). Prints
 // "ROWS rows in SECONDS s". Not a test: the bench compares, it asserts nothing.
 #include <sqlite3.h>
 
+#include <algorithm>
 #include <chrono>
 #include <cmath>
 #include <cstdio>
@@ -80,9 +87,10 @@ std::string audit_sql(store::Db& db, const std::string& table) {
          table + "', uuid, 'insert', NULL, json_object(" + expr + ") FROM " + table + " WHERE rowid = ?4";
 }
 
-int own(const std::string& path, const std::string& kind, const formats::CsvTable& t) {
+int own(const std::string& path, const std::string& kind, const formats::CsvTable& t, bool audited) {
   auto p = store::Project::open(path);
   store::Db& db = p.db();
+  store::BulkWriteCache cache(db);
   const auto zone = geo::parse_utm_zone(p.info().utm_zone);
   const std::string device = p.device();
   auto col = [&](const char* name) { return t.column(name); };
@@ -143,6 +151,7 @@ int own(const std::string& path, const std::string& kind, const formats::CsvTabl
         ins.bind(16, now).bind(17, now).bind(18, device).bind(19, formats::sha256_hex(line));
       }
       ins.run();
+      if (!audited) continue;
       audit.reset();
       audit.bind(1, formats::new_uuid()).bind(2, now).bind(3, device);
       audit.bind(4, static_cast<int64_t>(sqlite3_last_insert_rowid(db.handle())));
@@ -155,8 +164,9 @@ int own(const std::string& path, const std::string& kind, const formats::CsvTabl
 }  // namespace
 
 int main(int argc, char** argv) {
-  if (argc != 5) {
-    std::fprintf(stderr, "usage: bench_import_floor bare|own DB KIND CSV\n");
+  const std::string modes[] = {"bare", "own", "own-unaudited"};
+  if (argc != 5 || std::find(std::begin(modes), std::end(modes), argv[1]) == std::end(modes)) {
+    std::fprintf(stderr, "usage: bench_import_floor bare|own|own-unaudited DB KIND CSV\n");
     return 2;
   }
   const std::string mode = argv[1], db = argv[2], kind = argv[3];
@@ -167,7 +177,7 @@ int main(int argc, char** argv) {
     std::fprintf(stderr, "%s\n", t.error().c_str());
     return 1;
   }
-  const int rc = mode == "bare" ? bare(db, *t) : own(db, kind, *t);
+  const int rc = mode == "bare" ? bare(db, *t) : own(db, kind, *t, mode == "own");
   const double s = std::chrono::duration<double>(std::chrono::steady_clock::now() - start).count();
   std::printf("%zu rows in %.3f s\n", t->rows.size(), s);
   return rc;

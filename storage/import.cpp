@@ -714,6 +714,7 @@ void point_row(Context& cx, Row& row) {
 // Runs `body` in one transaction; rolls back and zeroes the counts when errors were found.
 // Stations and points that came without an elevation take the terrain's (storage/terrain.h).
 void all_or_nothing(Project& p, ImportReport& rep, const std::function<void()>& body) {
+  BulkWriteCache cache(p.db());  // one transaction over the season's indexes (storage/sqlite.h)
   try {
     p.write([&] {
       body();

@@ -1303,21 +1303,8 @@ MergeReport merge_files(Project& target, const std::vector<std::string>& sources
   for (const auto& s : sources) copies.push_back(std::make_unique<Source>(s, target.path()));
 
   MergeReport rep;
-  // A larger page cache while the merge's one transaction runs: with SQLite's
-  // default (about 2 MB) the pages of a season's indexes are written to the
-  // -wal and read back several times before the commit ("cache spill",
-  // SQLite documentation, PRAGMA cache_size). 32 MiB, given back afterwards.
-  const int64_t cache_pages = target.db().query_int("PRAGMA cache_size");
-  target.db().exec("PRAGMA cache_size = -32768");
-  struct RestoreCache {
-    Db& db;
-    int64_t pages;
-    ~RestoreCache() {
-      try {
-        db.exec("PRAGMA cache_size = " + std::to_string(pages));
-      } catch (...) {}
-    }
-  } restore{target.db(), cache_pages};
+  // The merge is one transaction over every index of a season (storage/sqlite.h).
+  BulkWriteCache cache(target.db());
   target.write([&] {
     rep = MergeReport{};
     Merger m(target, options, rep);

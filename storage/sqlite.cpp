@@ -246,4 +246,15 @@ std::optional<std::string> Stmt::opt_text(int c) const {
   return text(c);
 }
 
+BulkWriteCache::BulkWriteCache(Db& db, int64_t kib) : db_(db), pages_(db.query_int("PRAGMA cache_size")) {
+  db_.exec("PRAGMA cache_size = " + std::to_string(-kib));
+}
+
+BulkWriteCache::~BulkWriteCache() {
+  try {
+    db_.exec("PRAGMA cache_size = " + std::to_string(pages_));
+  } catch (...) {  // a destructor must not throw; the connection keeps the larger cache
+  }
+}
+
 }  // namespace cairn::store

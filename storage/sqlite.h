@@ -134,4 +134,22 @@ class Stmt {
   std::string sql_;  // the text it was prepared from: the key it goes back to the cache under
 };
 
+// A larger page cache for one bulk write (an import's or a merge's single
+// transaction), the connection's own size given back when it ends. With
+// SQLite's default (about 2 MB) the dirty pages of a season's indexes are
+// written to the -wal and read back several times before the commit ("cache
+// spill", SQLite documentation, PRAGMA cache_size and PRAGMA cache_spill).
+class BulkWriteCache {
+ public:
+  explicit BulkWriteCache(Db& db, int64_t kib = kDefaultKib);
+  ~BulkWriteCache();
+  BulkWriteCache(const BulkWriteCache&) = delete;
+  BulkWriteCache& operator=(const BulkWriteCache&) = delete;
+  static constexpr int64_t kDefaultKib = 65536;
+
+ private:
+  Db& db_;
+  int64_t pages_;  // PRAGMA cache_size before: pages, or -KiB when negative
+};
+
 }  // namespace cairn::store

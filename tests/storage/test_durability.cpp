@@ -156,6 +156,26 @@ TEST(Durability, ConnectionSettings) {
                SqlError);
 }
 
+// A bulk write's larger page cache is the connection's only while it lasts,
+// and an import leaves the connection's own size as it found it. Sizes are
+// pages when positive and -KiB when negative (SQLite documentation, "PRAGMA
+// cache_size").
+TEST(Durability, ABulkWritesPageCacheIsGivenBack) {
+  TempDir dir;
+  Project p = Project::create(dir.file("c.cairn"), NewProject{"c", "", North::True, 0}, quiet());
+  p.db().exec("PRAGMA cache_size = 123");
+  {
+    BulkWriteCache cache(p.db(), 4096);
+    EXPECT_EQ(p.db().query_int("PRAGMA cache_size"), -4096);
+  }
+  EXPECT_EQ(p.db().query_int("PRAGMA cache_size"), 123);
+  p.db().exec("PRAGMA cache_size = -2000");
+  {
+    BulkWriteCache cache(p.db());
+    EXPECT_EQ(p.db().query_int("PRAGMA cache_size"), -BulkWriteCache::kDefaultKib);
+  }
+  EXPECT_EQ(p.db().query_int("PRAGMA cache_size"), -2000);
+}
 TEST(Durability, MigratesAVersion1FileWithoutLoss) {
   TempDir dir;
   const std::string path = dir.file("old.cairn");
