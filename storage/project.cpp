@@ -540,6 +540,8 @@ void Project::backup_made() {
   impl_->backup_error.clear();
 }
 
+void Project::backup_failed(const std::string& why) { impl_->backup_error = why; }
+
 std::string Project::backup_now() {
   std::string b = make_backup(impl_->db, impl_->path, impl_->options.backup_dir, impl_->options.backup_keep);
   backup_made();

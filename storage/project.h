@@ -132,6 +132,9 @@ class Project {
   bool backup_due() const;
   // The last backup was made now (by backup_of, on another connection).
   void backup_made();
+  // A backup made for this file elsewhere (the UI's opening, its job worker)
+  // failed: kept as backup_error() until one is made.
+  void backup_failed(const std::string& why);
   // Existing backups of this file, oldest first.
   std::vector<std::string> backups() const;
   std::string backup_dir() const;

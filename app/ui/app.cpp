@@ -217,12 +217,15 @@ bool App::open_project(const std::string& path, std::string* error) {
       // changed, made here on the worker: on the first change it would have
       // held that frame for as long as copying the file takes (1.4 s for a
       // season's). Identical to the newest backup, it is not kept twice. If it
-      // fails, the first change tries again, as without this.
+      // fails, the top bar says so until a backup is made, and the first change
+      // tries again, as without this.
       if (!p->read_only() && oo.backups) {
         pr.set(0.5f, "keeping a backup before the first change");
         try {
           p->backup_now();
-        } catch (const std::exception&) {}
+        } catch (const std::exception& e) {
+          p->backup_failed(e.what());
+        }
       }
       std::shared_ptr<const Records> rec;
       if (first->load() == 2) {
@@ -399,7 +402,7 @@ void App::keep_backup() {
                return [this, path, error] {
                  if (!model || model->path() != path) return;
                  model->project().backup_made();  // failed or not: tried again after the interval
-                 if (!error.empty()) notify("The backup of " + path + " failed: " + error);
+                 if (!error.empty()) model->project().backup_failed(error);  // said in the top bar
                };
              });
 }
@@ -701,6 +704,19 @@ void App::draw_top_bar() {
       ImGui::PushStyleColor(ImGuiCol_ButtonHovered, ImGui::ColorConvertU32ToFloat4(lk.pal.caution_bg));
       ImGui::PushStyleColor(ImGuiCol_Text, ImGui::ColorConvertU32ToFloat4(lk.pal.caution_text));
       if (button(label + "##hazards")) go(Screen::Crosscheck);
+      ImGui::PopStyleColor(3);
+    }
+    // A failed backup is shown for as long as there is no newer one (a toast
+    // would be gone before a mapper looked up from the outcrop); tapped, why.
+    if (const std::string& why = model->project().backup_error(); !why.empty()) {
+      const std::string label = "\xE2\x96\xB2 No backup";
+      same_line_if_fits(label_width(label));
+      ImGui::PushStyleColor(ImGuiCol_Button, ImGui::ColorConvertU32ToFloat4(lk.pal.error_bg));
+      ImGui::PushStyleColor(ImGuiCol_ButtonHovered, ImGui::ColorConvertU32ToFloat4(lk.pal.error_bg));
+      ImGui::PushStyleColor(ImGuiCol_Text, ImGui::ColorConvertU32ToFloat4(lk.pal.error));
+      if (button(label + "##backup"))
+        notify("No backup of this file could be made: " + why +
+               ". Changes are still saved in the file; another backup is tried after a later change.");
       ImGui::PopStyleColor(3);
     }
     const std::string g = describe(fix);

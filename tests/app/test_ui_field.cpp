@@ -17,16 +17,10 @@
 #include "tests/app/ui_test_support.h"
 
 using namespace cairn;
+using cairn::ui_test::keys;
 using cairn::ui_test::UiTest;
 
 namespace {
-
-// A keypad tap per character ("030/40" -> tap "key 0" ...), spaces as the space key.
-std::string keys(const std::string& s) {
-  std::string out;
-  for (char c : s) out += std::string("tap \"key ") + (c == ' ' ? std::string("space") : std::string(1, c)) + "\"\n";
-  return out;
-}
 
 struct Made {
   std::string path, person, station;

@@ -15,6 +15,7 @@
 
 #include "tests/app/ui_test_support.h"
 
+using cairn::ui_test::keys;
 using cairn::ui_test::UiTest;
 
 namespace {
@@ -142,4 +143,30 @@ TEST_F(UiTest, AFileThatFailsItsCheckIsShownReadOnly) {
   EXPECT_EQ(count(project, "SELECT count(*) FROM stations"), stations);
   EXPECT_EQ(count(project, "SELECT count(*) FROM devices"), devices);
   EXPECT_EQ(count(project, "SELECT count(*) FROM audit WHERE action = 'tampered'"), 1);
+}
+
+// The session's backup, made when the file is opened, fails when the backup
+// folder's name is taken by a plain file: the top bar shows "No backup" for as
+// long as there is none, tapped it says why, and changes are still saved. With
+// the folder free again the next opening makes one and shows nothing.
+TEST_F(UiTest, AFailedBackupIsSaidUntilOneIsMade) {
+  const std::string project = file("camp.cairn");
+  std::filesystem::copy_file(std::string(CAIRN_SOURCE_DIR) + "/demo_project/camp.cairn", project);
+  { std::ofstream(project + ".backups") << "not a folder"; }
+  const long long stations = count(project, "SELECT count(*) FROM stations");
+  std::string s = "wait 3\nwait-idle\n";
+  s += "expect \"\xE2\x96\xB2 No backup\"\n";
+  s += "tap \"+ New station\"\nwait 1\n";
+  s += "tap \"Latitude \xC2\xB0\"\n" + keys("61.182") + "tap \"Longitude \xC2\xB0\"\n" + keys("-135.59");
+  s += "tap \"Create station MT-41\"\nwait 2\nwait-idle\n";  // the demo's next free code
+  s += "tap \"\xE2\x96\xB2 No backup\"\nwait 1\n";           // tried again with the change, and failed again
+  s += "expect \"No backup of this file could be made: \"\n";
+  s += "expect \"Not a directory\"\n";  // why, in the system's words
+  auto r = gui(project, s);
+  ASSERT_EQ(r.status, 0) << r.err;
+  EXPECT_EQ(count(project, "SELECT count(*) FROM stations"), stations + 1) << "the change is saved";
+  std::filesystem::remove(project + ".backups");
+  r = gui(project, "wait 3\nwait-idle\nexpect \"22 stations\"\nexpect-not \"\xE2\x96\xB2 No backup\"\n");
+  ASSERT_EQ(r.status, 0) << r.err;
+  EXPECT_TRUE(std::filesystem::is_directory(project + ".backups"));
 }

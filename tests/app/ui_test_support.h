@@ -31,6 +31,13 @@ inline std::string slurp(const std::string& path) {
   return ss.str();
 }
 
+// A keypad tap per character ("030/40" -> tap "key 0" ...), spaces as the space key.
+inline std::string keys(const std::string& s) {
+  std::string out;
+  for (char c : s) out += std::string("tap \"key ") + (c == ' ' ? std::string("space") : std::string(1, c)) + "\"\n";
+  return out;
+}
+
 // Whether Xvfb is installed (scripts/install-deps.sh --test installs it).
 inline bool have_xvfb() { return std::system("command -v Xvfb >/dev/null 2>&1") == 0; }
 

@@ -10,6 +10,7 @@
 #include <gtest/gtest.h>
 
 #include <filesystem>
+#include <fstream>
 
 #include "storage/import.h"
 #include "storage/project.h"
@@ -113,6 +114,36 @@ TEST(Backups, RollingBackupsCanBeLeftToTheCaller) {
   OpenOptions none = quiet();
   Project r = Project::open(f, none);
   EXPECT_FALSE(r.backup_due()) << "backups off";
+}
+
+TEST(Backups, AFailedBackupIsKeptUntilOneIsMade) {
+  // The backup folder's name taken by a plain file: no backup can be made,
+  // and why stays readable (the touch UI shows it) until one is.
+  TempDir d;
+  const std::string f = d.file("camp.cairn");
+  { Project::create(f, NewProject{"camp", "", North::True, 0}, quiet()); }
+  { std::ofstream(f + ".backups") << "not a folder"; }
+  OpenOptions o = with_backups();
+  o.rolling_backups = false;
+  Project p = Project::open(f, o);
+  EXPECT_EQ(p.backup_error(), "");
+  std::string why;
+  try {
+    p.backup_now();
+  } catch (const std::exception& e) {
+    why = e.what();
+  }
+  ASSERT_NE(why, "") << "a backup into a plain file's name cannot be made";
+  p.backup_failed(why);
+  EXPECT_EQ(p.backup_error(), why);
+  EXPECT_TRUE(p.backup_due()) << "none made this session";
+  add_station(p, "S1");  // the change is saved all the same
+  EXPECT_EQ(p.db().query_int("SELECT count(*) FROM stations"), 1);
+  EXPECT_NE(p.backup_error(), "") << "the session's backup before that change failed too";
+  fs::remove(f + ".backups");
+  p.backup_now();
+  EXPECT_EQ(p.backup_error(), "");
+  EXPECT_EQ(list_backups(f).size(), 1u);
 }
 
 TEST(Backups, TheNewestNAndTheNewestOfEachOlderDayAreKept) {
