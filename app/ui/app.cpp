@@ -1002,11 +1002,12 @@ int App::run() {
     const double worst = *worst_at;
     const auto slow = std::count_if(build_ms_.begin(), build_ms_.end(), [](double x) { return x > 8.0; });
     // The first frame also sets up OpenGL (Dear ImGui's shaders, the font texture): once a session.
-    const double worst_later = *std::max_element(build_ms_.begin() + 1, build_ms_.end());
+    const auto worst_later_at = std::max_element(build_ms_.begin() + 1, build_ms_.end());
+    const double worst_later = worst_later_at == build_ms_.end() ? 0.0 : *worst_later_at;
     std::cerr << "all " << build_ms_.size() << " frames: slowest " << worst << " ms (frame "
               << worst_at - build_ms_.begin() + 1 << "), " << slow
-              << " over 8 ms, after the first (OpenGL set-up) slowest " << worst_later
-              << " ms; first frame shown after " << first_frame_ms_ << " ms, the records after " << first_records_ms_
+              << " over 8 ms, after the first (OpenGL set-up) slowest " << worst_later << " ms (frame "
+              << worst_later_at - build_ms_.begin() + 1 << "); first frame shown after " << first_frame_ms_ << " ms, the records after " << first_records_ms_
               << " ms, the file checked after " << file_checked_ms_ << " ms, the check's result after "
               << first_check_ms_ << " ms (wall clock from start)\n";
   }
