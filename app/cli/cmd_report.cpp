@@ -1,6 +1,7 @@
 // cairn report FILE -o report.html: the evening report, one self-contained HTML
-// file (see report_html.h). The report holds what it draws (every live record,
-// the cross-check and the thumbnails) until the page is written; past 2 s a
+// file (see report_html.h). The report holds what it draws (the stations, the
+// readings in a compact form, the points counted, the cross-check and the
+// thumbnails) until the page is written; past 2 s a
 // progress line on stderr counts the records read (app/core/progress.h: on a
 // terminal or with --progress).
 #include <cerrno>
@@ -51,23 +52,19 @@ std::string date_part(const std::string& iso) {
 DeclinationSummary summarise_declination(const geo::MagneticModel& m, const ReportData& d) {
   DeclinationSummary s;
   s.model = m.name();
-  double lat = 0, lon = 0;
-  size_t n = 0;
-  for (const auto& st : d.stations) lat += st.lat, lon += st.lon, ++n;
-  for (const auto& p : d.points) lat += p.lat, lon += p.lon, ++n;
-  if (n == 0) throw std::runtime_error("no stations or contact points to place it");
-  s.lat = lat / n, s.lon = lon / n;
+  if (d.positions == 0) throw std::runtime_error("no stations or contact points to place it");
+  s.lat = d.lat_sum / static_cast<double>(d.positions), s.lon = d.lon_sum / static_cast<double>(d.positions);
   std::string lo, hi;
-  auto take = [&](const std::string& iso) {
-    const std::string day = date_part(iso);
+  auto take_day = [&](const std::string& day) {
     if (day.empty()) return;
     if (lo.empty() || day < lo) lo = day;
     if (hi.empty() || day > hi) hi = day;
   };
-  for (const auto& r : d.stations) take(r.time);
-  for (const auto& r : d.planes) take(r.time);
-  for (const auto& r : d.lines) take(r.time);
-  for (const auto& r : d.points) take(r.time);
+  for (const auto& r : d.stations) take_day(date_part(r.time));
+  for (const auto& r : d.planes) take_day(r.day);
+  for (const auto& r : d.lines) take_day(r.day);
+  take_day(d.points.first_day);
+  take_day(d.points.last_day);
   if (lo.empty()) {
     s.dates_from_data = false;
     lo = hi = utc_now("%Y-%m-%d");
@@ -114,22 +111,6 @@ int run_report(const ReportArgs& a, std::ostream& out, std::ostream& err) {
   auto step = [&](size_t rows) { line.update(done += rows, total); };
 
   ReportData d;
-  d.file = fs::path(args[0]).filename().string();
-  d.generated = utc_now("%Y-%m-%d %H:%M UTC");
-  d.net = net;
-  d.info = p.info();
-  d.people = store::list_people(p);
-  d.units = store::list_units(p);
-  d.contacts = store::list_contacts(p);
-  d.stations = store::list_stations(p);
-  step(d.stations.size());
-  d.planes = store::list_planes(p);
-  step(d.planes.size());
-  d.lines = store::list_lines(p);
-  step(d.lines.size());
-  d.points = store::list_points(p);
-  step(d.points.size());
-
   const geo::MagneticModel* model = nullptr;
   try {
     model = &wmm();
@@ -138,17 +119,45 @@ int run_report(const ReportArgs& a, std::ostream& out, std::ostream& err) {
     err << "warning: no magnetic model (" << e.what() << "); declination-suspect is not checked\n";
   }
   core::LocalDeclination decl;
+  if (model) decl = wmm_declination(nullptr);
+  // The check first: what it needs only while it runs is given back before
+  // the records are read, so the two do not add up.
+  d.check = core::load_check_input(p, decl);
+  d.result = geo::run_crosscheck(d.check.input);
+  step(1);
+
+  d.file = fs::path(args[0]).filename().string();
+  d.generated = utc_now("%Y-%m-%d %H:%M UTC");
+  d.net = net;
+  d.info = p.info();
+  d.people = store::list_people(p);
+  d.units = store::list_units(p);
+  d.contacts = store::list_contacts(p);
+  d.stations = store::list_stations(p);
+  for (const auto& st : d.stations) d.lat_sum += st.lat, d.lon_sum += st.lon, ++d.positions;
+  step(d.stations.size());
+  // The readings kept as the report needs them and the points only counted,
+  // one record at a time (storage/each.h): whole records of a season took
+  // most of the report's memory.
+  {
+    const ReportIndexer ix(d);
+    auto tick = [&](size_t& n) {
+      if (++n % 4096 == 0) step(4096);
+    };
+    size_t n = 0;
+    store::for_each_plane(p, {}, [&](const store::PlanarReading& r) { d.planes.push_back(ix.plane(r)), tick(n); });
+    store::for_each_line(p, {}, [&](const store::LinearReading& r) { d.lines.push_back(ix.line(r)), tick(n); });
+    store::for_each_point(p, {}, [&](const store::ContactPoint& r) { ReportIndexer::count(d, r), tick(n); });
+    step(n % 4096);
+  }
+
   if (model) {
-    decl = wmm_declination(nullptr);
     try {
       d.declination = summarise_declination(*model, d);
     } catch (const std::exception& e) {
       d.declination_problem = e.what();
     }
   }
-  d.check = core::load_check_input(p, decl);
-  d.result = geo::run_crosscheck(d.check.input);
-  step(1);
   if (const auto t = store::terrain_info(p); t && t->epsg == formats::utm_epsg(d.check.zone)) {
     d.terrain = store::load_terrain(p);
     d.terrain_sigma = t->vertical_accuracy;

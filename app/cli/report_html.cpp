@@ -112,10 +112,17 @@ struct Index {
   }
   std::string person_label(const std::string& uuid) const {
     auto it = person.find(uuid);
-    if (it == person.end()) return "unknown";
-    const auto& p = *it->second;
+    return it == person.end() ? std::string("unknown") : label(*it->second);
+  }
+  static std::string label(const store::Person& p) {
     if (p.initials.empty()) return p.name;
     return p.initials + (p.name.empty() ? "" : " (" + p.name + ")");
+  }
+  // Who made a reading: its own observer, else its station's.
+  std::string reading_person(const ReportData& d, const ReportReading& r) const {
+    if (r.observer >= 0) return label(d.people[static_cast<size_t>(r.observer)]);
+    if (r.observer == ReportReading::kUnknown || r.station < 0) return "unknown";
+    return person_label(d.stations[static_cast<size_t>(r.station)].observer);
   }
   std::string unit_code(const std::string& uuid) const {
     auto it = unit.find(uuid);
@@ -159,24 +166,14 @@ std::string tally_cells(const Tally& t) {
 void write_summary(std::ostream& o, const ReportData& d, const Index& ix) {
   using Key = std::pair<std::string, std::string>;  // day ("" undated), person label
   std::map<Key, Tally> t;
-  auto day_of = [](const std::string& own, const std::string& fallback) {
-    std::string s = date_of(own);
-    return s.empty() ? date_of(fallback) : s;
-  };
   for (const auto& s : d.stations) t[{date_of(s.time), ix.person_label(s.observer)}].stations++;
-  for (const auto& r : d.planes) {
-    auto st = ix.station.find(r.station);
-    const store::Station* s = st == ix.station.end() ? nullptr : st->second;
-    t[{day_of(r.time, s ? s->time : ""), ix.person_label(!r.observer.empty() || !s ? r.observer : s->observer)}]
-        .planes++;
-  }
-  for (const auto& r : d.lines) {
-    auto st = ix.station.find(r.station);
-    const store::Station* s = st == ix.station.end() ? nullptr : st->second;
-    t[{day_of(r.time, s ? s->time : ""), ix.person_label(!r.observer.empty() || !s ? r.observer : s->observer)}]
-        .lines++;
-  }
-  for (const auto& p : d.points) t[{date_of(p.time), ix.person_label(p.observer)}].points++;
+  auto key = [&](const ReportReading& r) {
+    const std::string& station_time = r.station < 0 ? std::string() : d.stations[static_cast<size_t>(r.station)].time;
+    return Key{r.day.empty() ? date_of(station_time) : r.day, ix.reading_person(d, r)};
+  };
+  for (const auto& r : d.planes) t[key(r)].planes++;
+  for (const auto& r : d.lines) t[key(r)].lines++;
+  for (const auto& [k, n] : d.points.by_day_observer) t[{k.first, ix.person_label(k.second)}].points += n;
   size_t contact_wide = 0;
   std::map<std::string, size_t> all_flags;
   for (const auto& f : d.result.flags) {
@@ -612,17 +609,18 @@ void write_unit_nets(std::ostream& o, const ReportData& d, const Index& ix) {
   NetFigures figures(o);
   for (const auto& g : groups) {
     std::map<std::string, size_t> pk, lk;
-    std::vector<const store::PlanarReading*> ps;
-    std::vector<const store::LinearReading*> ls;
+    std::vector<const ReportPlane*> ps;
+    std::vector<const ReportLine*> ls;
+    auto in_group = [&](const ReportReading& r) {
+      return r.station >= 0 && d.stations[static_cast<size_t>(r.station)].unit == g.key;
+    };
     for (const auto& r : d.planes) {
-      auto st = ix.station.find(r.station);
-      if (st == ix.station.end() || st->second->unit != g.key || r.kind == store::PlaneKind::Slope) continue;
+      if (!in_group(r) || r.kind == store::PlaneKind::Slope) continue;
       ps.push_back(&r);
       pk[std::string(store::to_string(r.kind))]++;
     }
     for (const auto& r : d.lines) {
-      auto st = ix.station.find(r.station);
-      if (st == ix.station.end() || st->second->unit != g.key) continue;
+      if (!in_group(r)) continue;
       ls.push_back(&r);
       lk[std::string(store::to_string(r.kind))]++;
     }
@@ -656,19 +654,25 @@ void write_unit_nets(std::ostream& o, const ReportData& d, const Index& ix) {
 void write_contact_nets(std::ostream& o, const ReportData& d, const Index& ix) {
   o << "<section id=\"nets-contacts\"><h2>Nets by contact</h2>\n";
   NetFigures figures(o);
-  for (const auto& c : d.contacts) {
-    const geo::ContactFit* fit = nullptr;
-    for (const auto& f : d.result.fits)
-      if (f.contact_id == c.meta.uuid) fit = &f;
+  // Each contact's readings and fit, found in one pass each (a season has
+  // thousands of contacts and hundreds of thousands of readings).
+  std::vector<std::vector<const ReportPlane*>> naming(d.contacts.size());
+  for (const auto& r : d.planes)
+    if (r.contact >= 0) naming[static_cast<size_t>(r.contact)].push_back(&r);
+  std::unordered_map<std::string, const geo::ContactFit*> fit_of;
+  for (const auto& f : d.result.fits) fit_of[f.contact_id] = &f;  // the last of a contact's, as before
+  for (size_t ci = 0; ci < d.contacts.size(); ++ci) {
+    const store::Contact& c = d.contacts[ci];
+    const auto found = fit_of.find(c.meta.uuid);
+    const geo::ContactFit* fit = found == fit_of.end() ? nullptr : found->second;
     plot::NetData nd;
     nd.title = "Contact " + c.name;
     size_t n = 0;
-    for (const auto& r : d.planes) {
-      if (r.contact != c.meta.uuid) continue;
-      auto st = ix.station.find(r.station);
-      const Rgba ink = st == ix.station.end() ? plot::kInk : ix.colour_of_unit(st->second->unit);
+    for (const ReportPlane* r : naming[ci]) {
+      const Rgba ink =
+          r->station < 0 ? plot::kInk : ix.colour_of_unit(d.stations[static_cast<size_t>(r->station)].unit);
       nd.planes.push_back(
-          {geo::Plane{r.strike, r.dip}, ink, plot::pole_shape(std::string(store::to_string(r.kind))), true});
+          {geo::Plane{r->strike, r->dip}, ink, plot::pole_shape(std::string(store::to_string(r->kind))), true});
       ++n;
     }
     if (n)
@@ -775,6 +779,53 @@ footer { margin-top: 8mm; font-size: 8pt; color: #555; border-top: 0.6pt solid #
 )CSS";
 
 }  // namespace
+
+ReportIndexer::ReportIndexer(const ReportData& d) {
+  auto index = [](auto& map, const auto& list) {
+    for (size_t i = 0; i < list.size(); ++i) map[list[i].meta.uuid] = static_cast<int32_t>(i);
+  };
+  index(station_, d.stations);
+  index(contact_, d.contacts);
+  index(person_, d.people);
+}
+
+// The fields planar and linear readings share.
+template <class Record>
+void ReportIndexer::fill(ReportReading& r, const Record& rec) const {
+  if (const auto it = station_.find(rec.station); it != station_.end()) r.station = it->second;
+  if (!rec.observer.empty()) {
+    const auto it = person_.find(rec.observer);
+    r.observer = it == person_.end() ? ReportReading::kUnknown : it->second;
+  }
+  r.day = date_of(rec.time);
+  r.north = rec.north, r.declination = rec.declination, r.declination_source = rec.declination_source;
+}
+
+ReportPlane ReportIndexer::plane(const store::PlanarReading& p) const {
+  ReportPlane r;
+  fill(r, p);
+  r.strike = p.strike, r.dip = p.dip, r.kind = p.kind;
+  if (const auto it = contact_.find(p.contact); it != contact_.end()) r.contact = it->second;
+  return r;
+}
+
+ReportLine ReportIndexer::line(const store::LinearReading& l) const {
+  ReportLine r;
+  fill(r, l);
+  r.trend = l.trend, r.plunge = l.plunge, r.kind = l.kind;
+  return r;
+}
+
+void ReportIndexer::count(ReportData& d, const store::ContactPoint& p) {
+  const std::string day = date_of(p.time);
+  d.points.by_day_observer[{day, p.observer}]++;
+  if (!day.empty()) {
+    if (d.points.first_day.empty() || day < d.points.first_day) d.points.first_day = day;
+    if (d.points.last_day.empty() || day > d.points.last_day) d.points.last_day = day;
+  }
+  ++d.points.n;
+  d.lat_sum += p.lat, d.lon_sum += p.lon, ++d.positions;
+}
 
 void write_report_html(std::ostream& o, const ReportData& d) {
   const Index ix(d);

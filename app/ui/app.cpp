@@ -1007,9 +1007,9 @@ int App::run() {
     std::cerr << "all " << build_ms_.size() << " frames: slowest " << worst << " ms (frame "
               << worst_at - build_ms_.begin() + 1 << "), " << slow
               << " over 8 ms, after the first (OpenGL set-up) slowest " << worst_later << " ms (frame "
-              << worst_later_at - build_ms_.begin() + 1 << "); first frame shown after " << first_frame_ms_ << " ms, the records after " << first_records_ms_
-              << " ms, the file checked after " << file_checked_ms_ << " ms, the check's result after "
-              << first_check_ms_ << " ms (wall clock from start)\n";
+              << worst_later_at - build_ms_.begin() + 1 << "); first frame shown after " << first_frame_ms_
+              << " ms, the records after " << first_records_ms_ << " ms, the file checked after " << file_checked_ms_
+              << " ms, the check's result after " << first_check_ms_ << " ms (wall clock from start)\n";
   }
   return code;
 }

@@ -14,6 +14,7 @@
 
 #include "storage/import.h"
 #include "storage/project.h"
+#include "storage/repository.h"
 
 using cairn::cli_test::CliTest;
 using cairn::cli_test::Outcome;
@@ -220,4 +221,59 @@ TEST_F(Streamed, ASeasonReportThinsWhatNoPageCouldShow) {
   const size_t circles = count(net, "<circle");
   EXPECT_GE(circles, 2000u);
   EXPECT_LT(circles, static_cast<size_t>(n)) << "fewer markers than poles";
+}
+
+// The report's summary counts each reading under its own day and observer, or
+// its station's when it states none, and the contact points under theirs
+// (the readings are kept in the report's compact form, the points only
+// counted as they are read). Expected rows worked out by hand from the
+// records below; common practice for a field day's tally, no published source.
+TEST_F(Streamed, TheSummaryCountsEachReadingUnderItsDayAndObserver) {
+  using namespace cairn::store;
+  ASSERT_EQ(cairn("new s.cairn --name Tally --utm 8N").status, 0);
+  {
+    OpenOptions o;
+    o.backups = false;
+    Project p = Project::open(file("s.cairn"), o);
+    Person ab, cd;
+    ab.initials = "AB", ab.name = "Ada B", cd.initials = "CD", cd.name = "Cy D";
+    const std::string a = add(p, ab), c = add(p, cd);
+    Unit u1, u2;
+    u1.code = "Ua", u1.name = "lower sandstone", u2.code = "Ub", u2.name = "upper shale";
+    u1.age_rank = 1, u2.age_rank = 2;
+    Contact k;
+    k.name = "Ua-Ub", k.lower_unit = add(p, u1), k.upper_unit = add(p, u2);
+    const std::string contact = add(p, k);
+    Station s;
+    s.code = "S1", s.lat = 61.18, s.lon = -135.6, s.observer = a, s.time = "2026-07-01T10:00:00Z";
+    const std::string station = add(p, s);
+    PlanarReading undated;  // no time, no observer: the station's day and person
+    undated.station = station, undated.measured_strike = 30, undated.measured_dip = 40;
+    add(p, undated);
+    PlanarReading own = undated;  // its own day and person
+    own.meta = {}, own.observer = c, own.time = "2026-07-03T09:00:00Z", own.contact = contact;
+    add(p, own);
+    LinearReading l;  // its own day, the station's person
+    l.station = station, l.measured_trend = 120, l.measured_plunge = 20, l.time = "2026-07-02T11:00:00Z";
+    add(p, l);
+    ContactPoint pt;
+    pt.contact = contact, pt.lat = 61.181, pt.lon = -135.601, pt.observer = c, pt.time = "2026-07-02T12:00:00Z";
+    add(p, pt);
+  }
+  const Outcome r = cairn("report s.cairn -o r.html");
+  ASSERT_EQ(r.status, 0) << r.err;
+  const std::string page = slurp(file("r.html"));
+  auto row = [](const std::string& day, const std::string& who, int st, int pl, int li, int pt) {
+    auto n = [](int v) { return "<td class=\"num\">" + std::to_string(v) + "</td>"; };
+    return "<tr><td class=\"day\">" + day + "</td><td>" + who + "</td>" + n(st) + n(pl) + n(li) + n(pt);
+  };
+  EXPECT_NE(page.find(row("2026-07-01", "AB (Ada B)", 1, 1, 0, 0)), std::string::npos) << page.substr(0, 6000);
+  EXPECT_NE(page.find(row("2026-07-02", "AB (Ada B)", 0, 0, 1, 0)), std::string::npos);
+  EXPECT_NE(page.find(row("2026-07-02", "CD (Cy D)", 0, 0, 0, 1)), std::string::npos);
+  EXPECT_NE(page.find(row("2026-07-03", "CD (Cy D)", 0, 1, 0, 0)), std::string::npos);
+  EXPECT_NE(page.find("3 days (2026-07-01 to 2026-07-03), 2 people: 1 station, 2 planar readings, 1 linear reading, "
+                      "1 contact point"),
+            std::string::npos);
+  // The reading naming the contact is drawn on its net.
+  EXPECT_NE(page.find("poles to readings naming it (1)"), std::string::npos);
 }
