@@ -823,7 +823,6 @@ void ReportIndexer::count(ReportData& d, const store::ContactPoint& p) {
     if (d.points.first_day.empty() || day < d.points.first_day) d.points.first_day = day;
     if (d.points.last_day.empty() || day > d.points.last_day) d.points.last_day = day;
   }
-  ++d.points.n;
   d.lat_sum += p.lat, d.lon_sum += p.lon, ++d.positions;
 }
 

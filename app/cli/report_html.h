@@ -67,12 +67,10 @@ struct ReportLine : ReportReading {
 };
 
 // The contact points, counted as they are read (the report draws them from
-// the check's input): by day and observer, with the dates' range and the sum
-// of their positions for the declination summary.
+// the check's input): by day and observer, with the range of their dates.
 struct PointTally {
   std::map<std::pair<std::string, std::string>, size_t> by_day_observer;  // (YYYY-MM-DD or "", person UUID)
   std::string first_day, last_day;                                        // "" when none is dated
-  size_t n = 0;
 };
 
 struct ReportData {
