@@ -445,6 +445,7 @@ bool App::idle() const {
 // order, and each step needs the one before it (the density sets the sizes the
 // window and the fonts are made with).
 bool App::init(std::string* error) {
+  mark_ui_thread();
   SDL_SetHint(SDL_HINT_VIDEO_X11_NET_WM_BYPASS_COMPOSITOR, "0");
   if (SDL_Init(SDL_INIT_VIDEO | SDL_INIT_TIMER) != 0) {
     *error = std::string(

@@ -77,7 +77,7 @@ void ImGuiCanvas::text(Pt at, const std::string& s, Rgba colour, double size, pl
     p.x -= anchor == plot::Anchor::Middle ? ext.x / 2 : ext.x;
   }
   list_->AddText(font_, fs, p, col(colour), s.c_str());
-  this_frame().texts.push_back(s);  // what a picture says can be checked by event scripts too
+  if (texts_ == Texts::Recorded) this_frame().texts.push_back(s);  // what a picture says, for event scripts too
 }
 
 }  // namespace cairn::ui

@@ -11,8 +11,13 @@ namespace cairn::ui {
 class ImGuiCanvas : public plot::Canvas {
  public:
   // Draws on `list` with `font` (text sizes are pixels); colours pass through
-  // theme_colour(theme, ...), so print colours become night colours.
-  ImGuiCanvas(ImDrawList* list, ImFont* font, ThemeKind theme) : list_(list), font_(font), theme_(theme) {}
+  // theme_colour(theme, ...), so print colours become night colours. Texts
+  // drawn go into the frame's record (widgets.h: what event scripts read),
+  // except on a worker (Texts::Unrecorded), where the UI thread records the
+  // picture's texts when it shows it.
+  enum class Texts { Recorded, Unrecorded };
+  ImGuiCanvas(ImDrawList* list, ImFont* font, ThemeKind theme, Texts texts = Texts::Recorded)
+      : list_(list), font_(font), theme_(theme), texts_(texts) {}
 
   void polyline(const std::vector<plot::Pt>& pts, plot::Rgba stroke, double width, bool closed = false) override;
   void fill_polygon(const std::vector<plot::Pt>& pts, plot::Rgba fill) override;
@@ -27,6 +32,7 @@ class ImGuiCanvas : public plot::Canvas {
   ImDrawList* list_;
   ImFont* font_;
   ThemeKind theme_;
+  Texts texts_;
   ImVector<ImVec2> buf_;
 };
 

@@ -157,7 +157,7 @@ RgbaImage draw_in_pixels(const plot::RecordingCanvas& drawing, int w, int h, con
                ImDrawListFlags_AntiAliasedFill | ImDrawListFlags_AllowVtxOffset;
   list.PushTextureID(s.font_texture);
   list.PushClipRect(ImVec2(0, 0), ImVec2(static_cast<float>(w), static_cast<float>(h)));
-  ImGuiCanvas canvas(&list, s.font, s.theme);
+  ImGuiCanvas canvas(&list, s.font, s.theme, ImGuiCanvas::Texts::Unrecorded);  // on a worker
   drawing.replay(canvas);
   RgbaImage out;
   rasterize(list, s, w, h, out);

@@ -4,6 +4,8 @@
 #include <algorithm>
 #include <cmath>
 #include <cstdio>
+#include <stdexcept>
+#include <thread>
 
 #include <imgui_internal.h>
 
@@ -13,6 +15,7 @@ namespace {
 
 FrameRecord g_frames[2];
 int g_current = 0;
+std::thread::id g_ui_thread;  // set by mark_ui_thread
 Look g_look;
 
 void record_target(const std::string& label, bool enabled) {
@@ -67,7 +70,13 @@ std::vector<std::string> layout_problems(const FrameRecord& f, ImVec2 display) {
   return out;
 }
 
-FrameRecord& this_frame() { return g_frames[g_current]; }
+void mark_ui_thread() { g_ui_thread = std::this_thread::get_id(); }
+
+FrameRecord& this_frame() {
+  if (g_ui_thread != std::thread::id() && std::this_thread::get_id() != g_ui_thread)
+    throw std::logic_error("the frame's record was written from a thread that is not the UI's");
+  return g_frames[g_current];
+}
 const FrameRecord& last_frame() { return g_frames[1 - g_current]; }
 void finish_frame_record() {
   g_current = 1 - g_current;

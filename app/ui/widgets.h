@@ -41,6 +41,10 @@ struct FrameRecord {
 };
 
 // The record being written this frame, and the one of the last finished frame.
+// Only the UI thread may write it (mark_ui_thread): a picture drawn on a worker
+// (soft_raster.h) that wrote it raced the frame's own writes and could crash.
+// Called from another thread, this_frame() throws std::logic_error.
+void mark_ui_thread();
 FrameRecord& this_frame();
 const FrameRecord& last_frame();
 void finish_frame_record();  // this frame becomes the last one
