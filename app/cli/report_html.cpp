@@ -167,8 +167,10 @@ void write_summary(std::ostream& o, const ReportData& d, const Index& ix) {
   using Key = std::pair<std::string, std::string>;  // day ("" undated), person label
   std::map<Key, Tally> t;
   for (const auto& s : d.stations) t[{date_of(s.time), ix.person_label(s.observer)}].stations++;
+  static const std::string undated;
   auto key = [&](const ReportReading& r) {
-    const std::string& station_time = r.station < 0 ? std::string() : d.stations[static_cast<size_t>(r.station)].time;
+    // Both sides references: no copy of the station's time for each of a season's readings.
+    const std::string& station_time = r.station < 0 ? undated : d.stations[static_cast<size_t>(r.station)].time;
     return Key{r.day.empty() ? date_of(station_time) : r.day, ix.reading_person(d, r)};
   };
   for (const auto& r : d.planes) t[key(r)].planes++;
