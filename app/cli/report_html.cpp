@@ -459,9 +459,13 @@ void write_plan(std::ostream& o, const ReportData& d, const Index& ix) {
   svg.set_fixed_size(false);
   svg.set_class("plan");
   svg.set_title("Plan of stations, contact points, strike-dip symbols and structure contours");
+  // A season's plan is tens of megabytes of SVG: written as it is drawn, not held whole.
+  o << "<figure class=\"plan\">";
+  svg.stream_to(o);
   plot::draw_plan(svg, r, pd, view, po);
   svg.polyline({{0.5, 0.5}, {W - 0.5, 0.5}, {W - 0.5, H - 0.5}, {0.5, H - 0.5}}, plot::kInk, 1, true);
-  o << "<figure class=\"plan\">" << svg.svg() << "\n<figcaption>";
+  svg.finish();
+  o << "\n<figcaption>";
   o << "Grid north up";
   if (d.check.zone.zone > 0) o << " (UTM zone " << d.check.zone.zone << (d.check.zone.northp ? "N" : "S") << ")";
   if (std::fabs(gamma) >= 0.05)

@@ -3,6 +3,7 @@
 #include <algorithm>
 #include <cmath>
 #include <cstdio>
+#include <stdexcept>
 #include <fmt/format.h>
 
 #include "app/plot/symbols.h"
@@ -93,7 +94,8 @@ std::string xml_escape(std::string_view text) {
   return out;
 }
 
-SvgCanvas::SvgCanvas(double width, double height, int decimals) : width_(width), height_(height), decimals_(decimals) {}
+SvgCanvas::SvgCanvas(double width, double height, int decimals)
+    : width_(width), height_(height), decimals_(decimals), body_(&kept_) {}
 
 std::string SvgCanvas::num(double v) const { return svg_number(v, decimals_); }
 
@@ -108,31 +110,31 @@ std::string SvgCanvas::points(const std::vector<Pt>& pts) const {
 
 void SvgCanvas::polyline(const std::vector<Pt>& pts, Rgba stroke, double width, bool closed) {
   if (pts.size() < 2 || !all_finite(pts) || !std::isfinite(width)) return;
-  body_ << '<' << (closed ? "polygon" : "polyline") << " points=\"" << points(pts) << "\" fill=\"none\" stroke=\""
-        << svg_colour(stroke) << '"' << opacity("stroke-opacity", stroke) << " stroke-width=\"" << num(width)
-        << "\" stroke-linejoin=\"round\" stroke-linecap=\"round\"/>\n";
+  *body_ << '<' << (closed ? "polygon" : "polyline") << " points=\"" << points(pts) << "\" fill=\"none\" stroke=\""
+         << svg_colour(stroke) << '"' << opacity("stroke-opacity", stroke) << " stroke-width=\"" << num(width)
+         << "\" stroke-linejoin=\"round\" stroke-linecap=\"round\"/>\n";
   ++elements_;
 }
 
 void SvgCanvas::fill_polygon(const std::vector<Pt>& pts, Rgba fill) {
   if (pts.size() < 3 || !all_finite(pts)) return;
-  body_ << "<polygon points=\"" << points(pts) << "\" fill=\"" << svg_colour(fill) << '"'
-        << opacity("fill-opacity", fill) << " stroke=\"none\"/>\n";
+  *body_ << "<polygon points=\"" << points(pts) << "\" fill=\"" << svg_colour(fill) << '"'
+         << opacity("fill-opacity", fill) << " stroke=\"none\"/>\n";
   ++elements_;
 }
 
 void SvgCanvas::circle(Pt centre, double radius, Rgba stroke, double width, std::optional<Rgba> fill) {
   if (!finite(centre) || !std::isfinite(radius) || radius <= 0 || !std::isfinite(width)) return;
-  body_ << "<circle cx=\"" << num(centre.x) << "\" cy=\"" << num(centre.y) << "\" r=\"" << num(radius) << '"';
+  *body_ << "<circle cx=\"" << num(centre.x) << "\" cy=\"" << num(centre.y) << "\" r=\"" << num(radius) << '"';
   if (fill)
-    body_ << " fill=\"" << svg_colour(*fill) << '"' << opacity("fill-opacity", *fill);
+    *body_ << " fill=\"" << svg_colour(*fill) << '"' << opacity("fill-opacity", *fill);
   else
-    body_ << " fill=\"none\"";
+    *body_ << " fill=\"none\"";
   if (width > 0) {
-    body_ << " stroke=\"" << svg_colour(stroke) << '"' << opacity("stroke-opacity", stroke) << " stroke-width=\""
-          << num(width) << '"';
+    *body_ << " stroke=\"" << svg_colour(stroke) << '"' << opacity("stroke-opacity", stroke) << " stroke-width=\""
+           << num(width) << '"';
   }
-  body_ << "/>\n";
+  *body_ << "/>\n";
   ++elements_;
 }
 
@@ -157,27 +159,26 @@ void SvgCanvas::marker(Pt centre, Shape shape, double size, Rgba colour, bool fi
 void SvgCanvas::text(Pt at, const std::string& s, Rgba colour, double size, Anchor anchor) {
   if (!finite(at) || s.empty() || !std::isfinite(size) || size <= 0) return;
   const char* a = anchor == Anchor::Start ? "start" : anchor == Anchor::Middle ? "middle" : "end";
-  body_ << "<text x=\"" << num(at.x) << "\" y=\"" << num(at.y + 0.8 * size) << "\" font-size=\"" << num(size)
-        << "\" text-anchor=\"" << a << "\" fill=\"" << svg_colour(colour) << '"' << opacity("fill-opacity", colour)
-        << '>' << xml_escape(s) << "</text>\n";
+  *body_ << "<text x=\"" << num(at.x) << "\" y=\"" << num(at.y + 0.8 * size) << "\" font-size=\"" << num(size)
+         << "\" text-anchor=\"" << a << "\" fill=\"" << svg_colour(colour) << '"' << opacity("fill-opacity", colour)
+         << '>' << xml_escape(s) << "</text>\n";
   ++elements_;
 }
 
 void SvgCanvas::begin_group(const std::string& css_class) {
-  body_ << "<g";
-  if (!css_class.empty()) body_ << " class=\"" << xml_escape(css_class) << '"';
-  body_ << ">\n";
+  *body_ << "<g";
+  if (!css_class.empty()) *body_ << " class=\"" << xml_escape(css_class) << '"';
+  *body_ << ">\n";
   ++open_groups_;
 }
 
 void SvgCanvas::end_group() {
   if (open_groups_ == 0) return;
-  body_ << "</g>\n";
+  *body_ << "</g>\n";
   --open_groups_;
 }
 
-std::string SvgCanvas::svg() const {
-  std::ostringstream o;
+void SvgCanvas::write_start(std::ostream& o) const {
   o << "<svg xmlns=\"http://www.w3.org/2000/svg\" viewBox=\"0 0 " << num(width_) << ' ' << num(height_) << '"';
   if (fixed_size_) o << " width=\"" << num(width_) << "\" height=\"" << num(height_) << '"';
   if (!class_.empty()) o << " class=\"" << xml_escape(class_) << '"';
@@ -185,10 +186,31 @@ std::string SvgCanvas::svg() const {
   if (!title_.empty()) o << " role=\"img\" aria-label=\"" << xml_escape(title_) << '"';
   o << ">\n";
   if (!title_.empty()) o << "<title>" << xml_escape(title_) << "</title>\n";
-  o << body_.str();
+}
+
+std::string SvgCanvas::svg() const {
+  if (streamed_) throw std::logic_error("SvgCanvas::svg: this picture was written into a stream");
+  std::ostringstream o;
+  write_start(o);
+  o << kept_.str();
   for (int i = 0; i < open_groups_; ++i) o << "</g>\n";
   o << "</svg>";
   return o.str();
+}
+
+void SvgCanvas::stream_to(std::ostream& out) {
+  if (streamed_ || elements_ > 0 || open_groups_ > 0 || kept_.tellp() > 0)
+    throw std::logic_error("SvgCanvas::stream_to: only before anything is drawn, and once");
+  write_start(out);
+  body_ = &out;
+  streamed_ = true;
+}
+
+void SvgCanvas::finish() {
+  if (!streamed_ || finished_) throw std::logic_error("SvgCanvas::finish: only once, after stream_to");
+  for (; open_groups_ > 0; --open_groups_) *body_ << "</g>\n";
+  *body_ << "</svg>";
+  finished_ = true;
 }
 
 }  // namespace cairn::plot

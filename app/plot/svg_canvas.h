@@ -12,6 +12,13 @@
 //   svg.set_title("Bedding, unit Kls");
 //   draw_net(svg, {0, 0, 400, 300}, data, options);
 //   std::string xml = svg.svg();
+//
+// A large picture (a season's plan, hundreds of thousands of elements) can be
+// written into a stream as it is drawn instead of being held whole:
+//
+//   svg.stream_to(out);   // writes the <svg> start tag; set the title and class first
+//   draw_plan(svg, ...);  // each element goes straight into `out`
+//   svg.finish();         // closes open groups and the <svg> element
 #pragma once
 #include <sstream>
 #include <string>
@@ -26,6 +33,8 @@ class SvgCanvas : public Canvas {
  public:
   // A picture `width` x `height` user units; coordinates get `decimals` decimals.
   SvgCanvas(double width, double height, int decimals = 2);
+  SvgCanvas(const SvgCanvas&) = delete;  // it points into itself (body_)
+  SvgCanvas& operator=(const SvgCanvas&) = delete;
 
   void polyline(const std::vector<Pt>& pts, Rgba stroke, double width, bool closed = false) override;
   void fill_polygon(const std::vector<Pt>& pts, Rgba fill) override;
@@ -44,18 +53,29 @@ class SvgCanvas : public Canvas {
   // Write width/height attributes (true, the default) or leave the size to CSS.
   void set_fixed_size(bool fixed) { fixed_size_ = fixed; }
 
-  // The whole <svg> element (unclosed groups are closed).
+  // The whole <svg> element (unclosed groups are closed). Not for a streamed
+  // picture (std::logic_error).
   std::string svg() const;
+
+  // From now on, elements are written into `out` (which must outlive the
+  // drawing), after the <svg> start tag written here. Only before anything is
+  // drawn (std::logic_error otherwise).
+  void stream_to(std::ostream& out);
+  // Ends a streamed picture: closes open groups and the <svg> element. Once.
+  void finish();
   // Number of elements drawn (for tests and for skipping empty pictures).
   std::size_t elements() const { return elements_; }
 
  private:
   std::string num(double v) const;
   std::string points(const std::vector<Pt>& pts) const;
+  void write_start(std::ostream& o) const;
 
   double width_, height_;
   int decimals_;
-  std::ostringstream body_;
+  std::ostringstream kept_;  // the body of a picture that is not streamed
+  std::ostream* body_;       // kept_, or the stream of stream_to()
+  bool streamed_ = false, finished_ = false;
   std::size_t elements_ = 0;
   int open_groups_ = 0;
   std::string title_, class_;

@@ -20,6 +20,9 @@
 #include <string>
 #include <unistd.h>
 
+#include <sstream>
+#include <stdexcept>
+
 #include "app/plot/svg_canvas.h"
 #include "app/plot/symbols.h"
 
@@ -140,6 +143,40 @@ TEST(SvgCanvas, OutputParsesAsXmlAndKeepsTheText) {
   EXPECT_NE(out.find("title 'Title with <tags> & \"quotes\"'"), std::string::npos) << out;
   // The control character is dropped and the bad byte becomes U+FFFD.
   EXPECT_NE(out.find("text 'Unit <Kb> & \"marl\" \\'q\\' \\u03b195  \\ufffd'"), std::string::npos) << out;
+}
+
+// A picture written into a stream as it is drawn (the report's plan) is the
+// same document, byte for byte, as the one held whole and parsed as XML above.
+TEST(SvgCanvas, AStreamedPictureIsTheSameDocument) {
+  auto draw = [](SvgCanvas& c) {
+    c.begin_group("points");
+    for (int i = 0; i < 50; ++i) c.marker({i * 1.5, 100 - i * 0.75}, Shape::Diamond, 6, kOkabeIto[i % 3], i % 2 == 0);
+    c.end_group();
+    c.begin_group("labels");  // left open: svg() and finish() close it
+    c.text({5, 5}, "K<b> & \"q\"", kInk, 10);
+    c.polyline({{0, 0}, {std::nan(""), 1}}, kInk, 1);
+  };
+  SvgCanvas whole(200, 100, 1), streamed(200, 100, 1);
+  for (SvgCanvas* c : {&whole, &streamed}) {
+    c->set_title("Plan & key");
+    c->set_class("plan");
+    c->set_fixed_size(false);
+  }
+  draw(whole);
+  std::ostringstream out;
+  out << "<figure>";
+  streamed.stream_to(out);
+  draw(streamed);
+  streamed.finish();
+  EXPECT_EQ(out.str(), "<figure>" + whole.svg());
+  EXPECT_EQ(streamed.elements(), whole.elements());
+  // Held whole and streamed are not mixed up: a streamed picture has no svg(),
+  // and a picture already drawn into cannot start streaming.
+  EXPECT_THROW((void)streamed.svg(), std::logic_error);
+  EXPECT_THROW(streamed.finish(), std::logic_error);
+  std::ostringstream late;
+  EXPECT_THROW(whole.stream_to(late), std::logic_error);
+  EXPECT_TRUE(late.str().empty());
 }
 
 TEST(SvgCanvas, FixedOrFluidSize) {
