@@ -51,6 +51,7 @@ void RecordingCanvas::text(Pt at, const std::string& s, Rgba colour, double size
   o.size = size;
   o.anchor = anchor;
   ops_.push_back(std::move(o));
+  texts_.push_back(s);
 }
 
 void RecordingCanvas::replay(Canvas& out, double dx, double dy) const {

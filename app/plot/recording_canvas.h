@@ -33,12 +33,19 @@ class RecordingCanvas : public Canvas {
   void text(Pt at, const std::string& s, Rgba colour, double size, Anchor anchor = Anchor::Start) override;
 
   const std::vector<DrawOp>& ops() const { return ops_; }
-  void clear() { ops_.clear(); }
+  // The texts drawn, in order (what a screen reports as shown without walking
+  // every operation of a season's drawing).
+  const std::vector<std::string>& texts() const { return texts_; }
+  void clear() {
+    ops_.clear();
+    texts_.clear();
+  }
   // Draws every recorded operation on `out`, moved by (dx, dy).
   void replay(Canvas& out, double dx = 0, double dy = 0) const;
 
  private:
   std::vector<DrawOp> ops_;
+  std::vector<std::string> texts_;
 };
 
 }  // namespace cairn::plot

@@ -20,6 +20,9 @@
 #include <future>
 #include <memory>
 #include <string>
+#include <utility>
+
+#include "app/ui/retire.h"
 
 namespace cairn::ui {
 
@@ -34,6 +37,7 @@ class Background {
     if (key == wanted_) return;
     wanted_ = key;
     if (running_.valid()) {  // after the running build, only the newest key wanted meanwhile
+      if (next_) retire(std::make_shared<const Build>(std::move(next_)));  // what it holds, freed off this thread
       next_ = std::move(build);
       next_key_ = key;
       return;
@@ -82,13 +86,19 @@ class Background {
  private:
   void start(const std::string& key, Build build) {
     running_key_ = key;
-    running_ = std::async(std::launch::async, [b = std::move(build)] { return std::make_shared<const T>(b()); });
+    // What the build holds (shared pointers to a season's records) is let go
+    // here on the worker: the async state it lives in is freed by the UI thread.
+    running_ = std::async(std::launch::async, [b = std::move(build)]() mutable {
+      auto value = std::make_shared<const T>(b());
+      b = nullptr;
+      return value;
+    });
   }
 
   template <class Get>
   void finish(const std::string& key, Get get) {
     try {
-      value_ = get();
+      retire(std::exchange(value_, get()));  // the older value is freed off the UI thread
       value_key_ = key;
       failed_key_.clear();
       error_.clear();

@@ -58,13 +58,13 @@ bool GlPicture::render(const plot::RecordingCanvas& drawing, int w, int h, Theme
   list.PushClipRect(ImVec2(0, 0), ImVec2(static_cast<float>(w), static_cast<float>(h)));
   ImGuiCanvas canvas(&list, font, theme);
   drawing.replay(canvas);
-  texts_.clear();
-  for (const auto& op : drawing.ops())
-    if (op.kind == plot::DrawOp::Text) texts_.push_back(op.text);
+  texts_ = drawing.texts();
 
   if (!texture_ || w != w_ || h != h_) {
     bind_texture();
     glTexImage2D(GL_TEXTURE_2D, 0, GL_RGBA, pw, ph, 0, GL_RGBA, GL_UNSIGNED_BYTE, nullptr);
+    texture_w_ = pw;
+    texture_h_ = ph;
     if (!framebuffer_) f.gen(1, &framebuffer_);
   }
   w_ = w;
@@ -97,6 +97,7 @@ bool GlPicture::render(const plot::RecordingCanvas& drawing, int w, int h, Theme
   if (!complete) {
     glDeleteTextures(1, &texture_);
     texture_ = 0;
+    texture_w_ = texture_h_ = 0;
   }
   return complete;
 }
@@ -115,10 +116,7 @@ void GlPicture::show(ImDrawList* list, ImVec2 min, ImVec2 max) const {
 bool GlPicture::show_drawing(const plot::RecordingCanvas& drawing, const std::optional<RgbaImage>& pixels, int w, int h,
                              ThemeKind theme, ImFont* font, ImU32 background) {
   if (!pixels) return render(drawing, w, h, theme, font, background);
-  std::vector<std::string> texts;
-  for (const auto& op : drawing.ops())
-    if (op.kind == plot::DrawOp::Text) texts.push_back(op.text);
-  upload(*pixels, w, h, std::move(texts));
+  upload(*pixels, w, h, drawing.texts());
   return true;
 }
 
@@ -131,15 +129,24 @@ void GlPicture::bind_texture() {
   glTexParameteri(GL_TEXTURE_2D, GL_TEXTURE_WRAP_T, GL_CLAMP_TO_EDGE);
 }
 
-void GlPicture::upload(const RgbaImage& image, int w, int h, std::vector<std::string> texts) {
+void GlPicture::upload(const RgbaImage& image, int w, int h, const std::vector<std::string>& texts) {
   bind_texture();
   glPixelStorei(GL_UNPACK_ALIGNMENT, 1);
   glPixelStorei(GL_UNPACK_ROW_LENGTH, 0);
-  glTexImage2D(GL_TEXTURE_2D, 0, GL_RGBA, image.w, image.h, 0, GL_RGBA, GL_UNSIGNED_BYTE, image.px.data());
+  // A new picture of the size shown already (the usual case: new data, the
+  // same screen) goes into the texture's storage; a new storage would be a
+  // fresh allocation of megabytes, page by page, in the frame.
+  if (texture_w_ == image.w && texture_h_ == image.h) {
+    glTexSubImage2D(GL_TEXTURE_2D, 0, 0, 0, image.w, image.h, GL_RGBA, GL_UNSIGNED_BYTE, image.px.data());
+  } else {
+    glTexImage2D(GL_TEXTURE_2D, 0, GL_RGBA, image.w, image.h, 0, GL_RGBA, GL_UNSIGNED_BYTE, image.px.data());
+    texture_w_ = image.w;
+    texture_h_ = image.h;
+  }
   w_ = w;
   h_ = h;
   rows_up_ = false;
-  texts_ = std::move(texts);
+  texts_ = texts;
 }
 
 }  // namespace cairn::ui

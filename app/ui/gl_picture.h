@@ -31,7 +31,7 @@ class GlPicture {
                     ThemeKind theme, ImFont* font, ImU32 background);
   // Puts pixels drawn elsewhere (soft_raster.h, on a worker) into the texture,
   // as a picture of w x h points; `texts` are the drawing's texts.
-  void upload(const RgbaImage& image, int w, int h, std::vector<std::string> texts);
+  void upload(const RgbaImage& image, int w, int h, const std::vector<std::string>& texts);
   bool ready() const { return texture_ != 0; }
   // Shows the texture at `pos` on the draw list.
   void show(ImDrawList* list, ImVec2 pos) const;
@@ -44,8 +44,9 @@ class GlPicture {
  private:
   void bind_texture();  // made if need be, linear filtering, clamped to the edge
   unsigned texture_ = 0, framebuffer_ = 0;
-  int w_ = 0, h_ = 0;     // points
-  bool rows_up_ = false;  // rows bottom to top (rendered by OpenGL) rather than top to bottom (uploaded)
+  int texture_w_ = 0, texture_h_ = 0;  // the texture's storage, in pixels (0: none yet)
+  int w_ = 0, h_ = 0;                  // points
+  bool rows_up_ = false;               // rows bottom to top (rendered by OpenGL) rather than top to bottom (uploaded)
   std::vector<std::string> texts_;
 };
 

@@ -6,8 +6,10 @@
 #include <cstdio>
 #include <cstdlib>
 #include <fmt/format.h>
+#include <utility>
 
 #include "app/cli/magnetic_source.h"
+#include "app/ui/retire.h"
 #include "formats/ids.h"
 #include "storage/each.h"
 #include "storage/repository.h"
@@ -171,11 +173,12 @@ void Model::refreshed(std::shared_ptr<const Records> r, std::uint64_t changes) {
 }
 
 void Model::completed(std::shared_ptr<const Records> r, std::uint64_t rev) {
-  if (rev == revision_ && !rec_->complete) rec_ = std::move(r);
+  if (rev == revision_ && !rec_->complete) retire(std::exchange(rec_, std::move(r)));
 }
 
 void Model::took(std::shared_ptr<const Records> r) {
-  rec_ = std::move(r);
+  // The records replaced (a season's, 100 000 stations) are freed off the UI thread.
+  retire(std::exchange(rec_, std::move(r)));
   // Revisions are unique across every project opened in this session, so that
   // caches keyed by a revision never mistake one project for another.
   static std::uint64_t last = 0;

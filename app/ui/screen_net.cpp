@@ -5,11 +5,13 @@
 #include <algorithm>
 #include <map>
 #include <set>
+#include <utility>
 
 #include "app/plot/net_scene.h"
 #include "app/plot/symbols.h"
 #include "app/ui/gl_picture.h"
 #include "app/ui/imgui_canvas.h"
+#include "app/ui/retire.h"
 #include "app/ui/screens.h"
 #include "app/ui/text_util.h"
 #include "app/ui/widgets.h"
@@ -194,8 +196,9 @@ void draw_net_screen(App& a) {
   text_dim(summary);
   const ImVec2 origin = ImGui::GetCursorScreenPos();
   if (built && built != ns.rendered.get()) {
-    // A new drawing: into the texture once, here on the UI thread (OpenGL).
-    ns.rendered = ns.build.shared();
+    // A new drawing: into the texture once, here on the UI thread (OpenGL); the
+    // one it replaces is freed on the retiring thread (retire.h).
+    retire(std::exchange(ns.rendered, ns.build.shared()));
     if (!ns.picture) ns.picture = std::make_unique<GlPicture>();
     if (!ns.picture->show_drawing(built->drawing, built->pixels, static_cast<int>(choice.width),
                                   static_cast<int>(choice.height), lk.theme, lk.fonts.small, lk.pal.background))

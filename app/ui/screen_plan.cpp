@@ -7,12 +7,14 @@
 #include <cmath>
 #include <map>
 #include <tuple>
+#include <utility>
 #include <fmt/printf.h>
 
 #include "app/plot/plan_scene.h"
 #include "app/plot/plan_terrain.h"
 #include "app/plot/plan_track.h"
 #include "app/plot/symbols.h"
+#include "app/ui/retire.h"
 #include "formats/layers.h"
 #include "app/ui/gl_picture.h"
 #include "app/ui/imgui_canvas.h"
@@ -331,7 +333,7 @@ void draw_plan_screen(App& a) {
       build_in_frame());
   const auto pic = ps.drawing.shared();
   if (pic && pic != ps.rendered) {
-    ps.rendered = pic;
+    retire(std::exchange(ps.rendered, pic));  // the older picture is freed off the UI thread (retire.h)
     if (!ps.picture) ps.picture = std::make_unique<GlPicture>();
     if (!ps.picture->show_drawing(pic->drawing, pic->pixels, static_cast<int>(pic->w), static_cast<int>(pic->h),
                                   lk.theme, lk.fonts.small, lk.pal.background))

@@ -1,7 +1,8 @@
 // The screens' background builds (app/ui/background.h): a small build is
 // there in the frame that asked; a large one runs on a worker while the last
 // value stays; only the newest key wanted meanwhile is built next; a failed
-// build keeps the last value and says why.
+// build keeps the last value and says why; what a build held and the value a
+// newer one replaces are freed off the UI thread (retire.h).
 // Source: common practice for immediate-mode UIs that keep drawing the last
 // result while a newer one is computed; no published source. Every expected
 // value here follows from the calls the test makes.
@@ -10,12 +11,14 @@
 #include <atomic>
 #include <chrono>
 #include <condition_variable>
+#include <memory>
 #include <mutex>
 #include <stdexcept>
 #include <string>
 #include <thread>
 
 #include "app/ui/background.h"
+#include "app/ui/retire.h"
 
 using cairn::ui::Background;
 
@@ -188,4 +191,70 @@ TEST(Background, WaitReturnsOnlyWhenTheRunningBuildHasEnded) {
   ASSERT_NE(b.value(), nullptr);
   EXPECT_EQ(*b.value(), 1);
   b.wait();  // nothing running: returns at once
+}
+
+namespace {
+
+// Notes the thread its destructor ran on: a stand-in for a season's records,
+// which take milliseconds to free.
+struct Freed {
+  std::mutex mu;
+  std::thread::id on;
+  bool done = false;
+};
+struct Tracked {
+  std::shared_ptr<Freed> note;
+  explicit Tracked(std::shared_ptr<Freed> n) : note(std::move(n)) {}
+  ~Tracked() {
+    std::lock_guard<std::mutex> l(note->mu);
+    note->on = std::this_thread::get_id();
+    note->done = true;
+  }
+};
+
+}  // namespace
+
+// A frame cannot spare the milliseconds of freeing a season's records or a
+// plan's drawing: what a worker build held and the value a newer one replaces
+// are freed off the thread that polls (retire.h).
+TEST(Background, WhatABuildHeldAndTheValueItReplacesAreFreedOffTheUiThread) {
+  const auto ui = std::this_thread::get_id();
+  auto held_note = std::make_shared<Freed>(), value_note = std::make_shared<Freed>();
+  Background<std::shared_ptr<Tracked>> b;
+  b.want(
+      "one", [n = value_note] { return std::make_shared<Tracked>(n); }, true);
+  {
+    auto held = std::make_shared<Tracked>(held_note);  // the build's only owner once this scope ends
+    b.want(
+        "two", [held] { return std::shared_ptr<Tracked>(); }, false);
+  }
+  ASSERT_TRUE(settle(b));
+  cairn::ui::wait_retired();
+  // Both were freed, and neither on this thread.
+  std::lock_guard<std::mutex> l1(held_note->mu), l2(value_note->mu);
+  EXPECT_TRUE(held_note->done);
+  EXPECT_TRUE(value_note->done);
+  EXPECT_NE(held_note->on, ui);
+  EXPECT_NE(value_note->on, ui);
+}
+
+// retire() drops one reference: a value someone else still holds lives on.
+TEST(Retire, OnlyTheLastReferenceFrees) {
+  auto note = std::make_shared<Freed>();
+  auto kept = std::make_shared<Tracked>(note);
+  const unsigned long before = cairn::ui::retired_count();
+  cairn::ui::retire(kept);  // a copy handed over; `kept` still holds it
+  cairn::ui::wait_retired();
+  EXPECT_EQ(cairn::ui::retired_count(), before + 1);
+  {
+    std::lock_guard<std::mutex> l(note->mu);
+    EXPECT_FALSE(note->done);
+  }
+  cairn::ui::retire(std::move(kept));
+  cairn::ui::retire(nullptr);  // ignored
+  cairn::ui::wait_retired();
+  EXPECT_EQ(cairn::ui::retired_count(), before + 2);
+  std::lock_guard<std::mutex> l(note->mu);
+  EXPECT_TRUE(note->done);
+  EXPECT_NE(note->on, std::this_thread::get_id());
 }
