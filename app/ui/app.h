@@ -323,6 +323,10 @@ class App {
   // CPU time of the UI thread to build each frame (events to ImGui::Render, no
   // GPU work; the check's worker thread not counted), for --frame-stats.
   std::vector<double> build_ms_;
+  // Of each, the CPU time in the screen's own code (draw_screen); the rest is
+  // the frame's fixed part (Dear ImGui's NewFrame and Render, the top bar and
+  // the navigation), which costs the same on every screen.
+  std::vector<double> screen_ms_;
   // Wall-clock milliseconds from the App's making (the file is opened after
   // it) to the end of the first frame, to the records read, and to the first
   // frame that shows a check result; for --frame-stats.

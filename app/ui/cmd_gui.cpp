@@ -66,7 +66,9 @@ Runner define(CLI::App& app) {
   flag(app, "--night", a->o.night, "start with the night theme");
   auto* nogps = flag(app, "--no-gps", a->o.no_gps, "do not connect to gpsd");
   option(app, "--gps", a->gps, "gpsd to connect to, HOST:PORT (default localhost:2947)")->excludes(nogps);
-  flag(app, "--frame-stats", a->o.frame_stats, "print the CPU time of each frame's build on exit");
+  flag(app, "--frame-stats", a->o.frame_stats,
+       "print the CPU time of each frame's build on exit (with --screenshot: frames paced at 60 a second, as a display "
+       "paces them)");
   option(app, "--dpi", a->dpi, "screen density in dots per inch, 50 to 1000 (default: from the display)");
   option(app, "--size", a->size, "window size WIDTHxHEIGHT, e.g. 1280x800");
   choice(app, "--view", a->view, {"logbook", "station", "pad", "net", "plan", "crosscheck", "camp", "review"},
