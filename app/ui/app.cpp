@@ -21,6 +21,7 @@
 #include "app/ui/text_util.h"
 #include "app/ui/widgets.h"
 #include "formats/ids.h"
+#include "storage/each.h"
 #include "storage/repository.h"
 #include "storage/schema.h"
 #include "storage/track.h"
@@ -195,7 +196,10 @@ bool App::open_project(const std::string& path, std::string* error) {
       // Checked by the job worker's opening next, before anything is written.
       auto p = std::make_shared<store::Project>(open_for_worker(path));
       if (p->schema_version() != store::kSchemaVersion) throw std::runtime_error("an older schema");
-      auto rec = Records::read_first(*p);
+      auto rec = Records::read_first(*p, [path] {
+        store::Project q = open_for_worker(path);
+        return store::readings_per_station(q);
+      });
       first->store(1);
       return [this, path, p, rec] { first_part_read(path, std::move(*p), rec); };
     } catch (const std::exception&) {

@@ -1,6 +1,8 @@
 #include "app/ui/gl_picture.h"
 
+#include <algorithm>
 #include <cstdint>
+#include <utility>
 
 #include <SDL.h>
 #include <SDL_opengl.h>
@@ -39,6 +41,8 @@ const FboApi& fbo() {
 
 GlPicture::~GlPicture() {
   if (texture_) glDeleteTextures(1, &texture_);
+  reset(bands_, 0, 0);
+  reset(spare_, 0, 0);
   if (framebuffer_ && fbo().ok()) fbo().del(1, &framebuffer_);
 }
 
@@ -70,6 +74,7 @@ bool GlPicture::render(const plot::RecordingCanvas& drawing, int w, int h, Theme
   w_ = w;
   h_ = h;
   rows_up_ = true;
+  banded_ = false;
   GLint previous = 0;
   glGetIntegerv(GL_FRAMEBUFFER_BINDING, &previous);
   f.bind(GL_FRAMEBUFFER, framebuffer_);
@@ -107,6 +112,17 @@ void GlPicture::show(ImDrawList* list, ImVec2 pos) const {
 }
 
 void GlPicture::show(ImDrawList* list, ImVec2 min, ImVec2 max) const {
+  if (banded_) {
+    if (!bands_.complete()) return;
+    const float height = max.y - min.y;
+    for (size_t i = 0; i < bands_.tex.size(); ++i) {
+      const int y0 = static_cast<int>(i) * kBandRows, y1 = std::min(bands_.h, y0 + kBandRows);
+      list->AddImage(reinterpret_cast<ImTextureID>(static_cast<std::intptr_t>(bands_.tex[i])),
+                     ImVec2(min.x, min.y + height * static_cast<float>(y0) / static_cast<float>(bands_.h)),
+                     ImVec2(max.x, min.y + height * static_cast<float>(y1) / static_cast<float>(bands_.h)));
+    }
+    return;
+  }
   if (!texture_) return;
   // A rendered texture's rows run bottom to top (OpenGL), so its v is flipped.
   list->AddImage(reinterpret_cast<ImTextureID>(static_cast<std::intptr_t>(texture_)), min, max,
@@ -129,20 +145,63 @@ void GlPicture::bind_texture() {
   glTexParameteri(GL_TEXTURE_2D, GL_TEXTURE_WRAP_T, GL_CLAMP_TO_EDGE);
 }
 
+void GlPicture::reset(Bands& b, int w, int h) {
+  for (unsigned t : b.tex)
+    if (t) glDeleteTextures(1, &t);
+  b.tex.assign(w > 0 && h > 0 ? static_cast<size_t>((h + kBandRows - 1) / kBandRows) : 0, 0);
+  b.w = w;
+  b.h = h;
+  b.made = 0;
+}
+
+void GlPicture::make_one(Bands& b) {
+  if (b.made >= b.tex.size()) return;
+  const int rows = std::min(kBandRows, b.h - static_cast<int>(b.made) * kBandRows);
+  unsigned& t = b.tex[b.made];
+  glGenTextures(1, &t);
+  glBindTexture(GL_TEXTURE_2D, t);
+  glTexParameteri(GL_TEXTURE_2D, GL_TEXTURE_MIN_FILTER, GL_LINEAR);
+  glTexParameteri(GL_TEXTURE_2D, GL_TEXTURE_MAG_FILTER, GL_LINEAR);
+  glTexParameteri(GL_TEXTURE_2D, GL_TEXTURE_WRAP_S, GL_CLAMP_TO_EDGE);
+  glTexParameteri(GL_TEXTURE_2D, GL_TEXTURE_WRAP_T, GL_CLAMP_TO_EDGE);
+  glTexImage2D(GL_TEXTURE_2D, 0, GL_RGBA, b.w, rows, 0, GL_RGBA, GL_UNSIGNED_BYTE, nullptr);
+  ++b.made;
+}
+
+void GlPicture::prepare(int pw, int ph) {
+  if (pw <= 0 || ph <= 0) return;
+  if (bands_.complete() && bands_.w == pw && bands_.h == ph) return;  // the picture goes into the bands shown
+  if (spare_.w != pw || spare_.h != ph) reset(spare_, pw, ph);
+  make_one(spare_);
+}
+
 void GlPicture::upload(const RgbaImage& image, int w, int h, const std::vector<std::string>& texts) {
-  bind_texture();
+  if (image.w <= 0 || image.h <= 0 || image.px.size() < static_cast<size_t>(image.w) * static_cast<size_t>(image.h) * 4)
+    return;
+  // Into the bands shown when the size is theirs (new data, the same screen),
+  // else into the spare ones prepare() made over the frames the build took
+  // (the bands shown become the spare ones), else into bands made now.
+  if (!(bands_.complete() && bands_.w == image.w && bands_.h == image.h)) {
+    if (spare_.complete() && spare_.w == image.w && spare_.h == image.h) {
+      std::swap(bands_, spare_);
+    } else {
+      reset(bands_, image.w, image.h);
+      while (!bands_.complete()) make_one(bands_);
+    }
+  }
   glPixelStorei(GL_UNPACK_ALIGNMENT, 1);
   glPixelStorei(GL_UNPACK_ROW_LENGTH, 0);
-  // A new picture of the size shown already (the usual case: new data, the
-  // same screen) goes into the texture's storage; a new storage would be a
-  // fresh allocation of megabytes, page by page, in the frame.
-  if (texture_w_ == image.w && texture_h_ == image.h) {
-    glTexSubImage2D(GL_TEXTURE_2D, 0, 0, 0, image.w, image.h, GL_RGBA, GL_UNSIGNED_BYTE, image.px.data());
-  } else {
-    glTexImage2D(GL_TEXTURE_2D, 0, GL_RGBA, image.w, image.h, 0, GL_RGBA, GL_UNSIGNED_BYTE, image.px.data());
-    texture_w_ = image.w;
-    texture_h_ = image.h;
+  for (size_t i = 0; i < bands_.tex.size(); ++i) {
+    const int y0 = static_cast<int>(i) * kBandRows, rows = std::min(kBandRows, image.h - y0);
+    glBindTexture(GL_TEXTURE_2D, bands_.tex[i]);
+    glTexSubImage2D(GL_TEXTURE_2D, 0, 0, 0, image.w, rows, GL_RGBA, GL_UNSIGNED_BYTE,
+                    image.px.data() + static_cast<size_t>(y0) * static_cast<size_t>(image.w) * 4);
   }
+  if (texture_) {  // a rendered picture before: its texture is not needed now
+    glDeleteTextures(1, &texture_);
+    texture_ = 0;
+  }
+  banded_ = true;
   w_ = w;
   h_ = h;
   rows_up_ = false;

@@ -32,7 +32,11 @@ class GlPicture {
   // Puts pixels drawn elsewhere (soft_raster.h, on a worker) into the texture,
   // as a picture of w x h points; `texts` are the drawing's texts.
   void upload(const RgbaImage& image, int w, int h, const std::vector<std::string>& texts);
-  bool ready() const { return texture_ != 0; }
+  bool ready() const { return banded_ ? bands_.complete() : texture_ != 0; }
+  // A picture of pw x ph pixels is being drawn on a worker: called every frame
+  // meanwhile, this makes the textures for it one band a frame, so that the
+  // frame it arrives in only copies it in (upload()).
+  void prepare(int pw, int ph);
   // Shows the texture at `pos` on the draw list.
   void show(ImDrawList* list, ImVec2 pos) const;
   // Shows it stretched over the rectangle from `min` to `max` (a picture of an
@@ -43,6 +47,22 @@ class GlPicture {
 
  private:
   void bind_texture();  // made if need be, linear filtering, clamped to the edge
+
+  // A picture from pixels is kept as horizontal bands of kBandRows rows, each
+  // a texture of its own: a texture's storage is allocated, and under llvmpipe
+  // faulted in, all at once (5-9 ms in one frame for a net of 868x627 on the
+  // bench machine), and bands let prepare() spread that over frames.
+  static constexpr int kBandRows = 64;
+  struct Bands {
+    std::vector<unsigned> tex;
+    int w = 0, h = 0;  // pixels
+    size_t made = 0;   // textures made so far, from the top
+    bool complete() const { return w > 0 && made == tex.size(); }
+  };
+  static void reset(Bands& b, int w, int h);  // deletes its textures; `tex` sized for w x h, none made
+  static void make_one(Bands& b);             // the next band's texture, storage without contents
+  Bands bands_, spare_;                       // shown; made ready for the next picture
+  bool banded_ = false;                       // what show() shows: bands_ (uploaded) or texture_ (rendered)
   unsigned texture_ = 0, framebuffer_ = 0;
   int texture_w_ = 0, texture_h_ = 0;  // the texture's storage, in pixels (0: none yet)
   int w_ = 0, h_ = 0;                  // points

@@ -6,6 +6,7 @@
 #include <cstdio>
 #include <cstdlib>
 #include <fmt/format.h>
+#include <future>
 #include <utility>
 
 #include "app/cli/magnetic_source.h"
@@ -95,11 +96,14 @@ std::shared_ptr<const Records> Records::read(store::Project& p,
   return r;
 }
 
-std::shared_ptr<const Records> Records::read_first(store::Project& p) {
+std::shared_ptr<const Records> Records::read_first(store::Project& p,
+                                                   std::function<std::unordered_map<std::string, size_t>()> counts) {
   auto r = std::make_shared<Records>();
+  std::future<std::unordered_map<std::string, size_t>> counting;
+  if (counts) counting = std::async(std::launch::async, std::move(counts));
   r->read_small(p);
   r->stations = store::list_stations(p);
-  r->counted_ = store::readings_per_station(p);
+  r->counted_ = counting.valid() ? counting.get() : store::readings_per_station(p);
   r->complete = false;
   r->index();
   return r;

@@ -186,6 +186,10 @@ void draw_net_screen(App& a) {
         return p;
       },
       build_in_frame());
+  if (raster && !ns.build.current()) {  // its texture's storage is made ready meanwhile
+    if (!ns.picture) ns.picture = std::make_unique<GlPicture>();
+    ns.picture->prepare(static_cast<int>(choice.width), static_cast<int>(choice.height));
+  }
   const NetPicture* built = ns.build.value();
   // One line of summary above the net.
   std::string summary = !built || built->legend.empty()

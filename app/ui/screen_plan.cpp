@@ -331,6 +331,10 @@ void draw_plan_screen(App& a) {
         return pic;
       },
       build_in_frame());
+  if (raster && !ps.drawing.current()) {  // its texture's storage is made ready meanwhile
+    if (!ps.picture) ps.picture = std::make_unique<GlPicture>();
+    ps.picture->prepare(static_cast<int>(r.w), static_cast<int>(r.h));
+  }
   const auto pic = ps.drawing.shared();
   if (pic && pic != ps.rendered) {
     retire(std::exchange(ps.rendered, pic));  // the older picture is freed off the UI thread (retire.h)

@@ -12,6 +12,7 @@
 #include <string>
 
 #include "app/ui/model.h"
+#include "storage/each.h"
 #include "storage/repository.h"
 
 using namespace cairn;
@@ -141,4 +142,61 @@ TEST(Model, NothingIsWrittenWhileTheFileIsChecked) {
       "new station S2", [&](store::Project& q) { store::add(q, s2); }, &err))
       << err;
   EXPECT_EQ(stations_in(path), 2);
+}
+
+// Planar and linear readings live at S1 and S2 in the sqlite3 shell's count;
+// the first part of the records knows them per station, whether they were
+// counted through the same connection or through another one beside it.
+TEST(Model, TheFirstPartCountsTheReadingsPerStationEitherWay) {
+  TempFolder t;
+  const std::string path = project_with_one_station(t, "n.cairn");
+  {
+    store::Project p = store::Project::open(path, quiet());
+    store::Station s2 = station("S2");
+    const std::string s2_id = store::add(p, s2);
+    const std::string s1_id = store::find_station(p, "S1")->meta.uuid;
+    for (const auto& [at, typed] : {std::pair{s1_id, "090/40"}, {s1_id, "100/45"}, {s2_id, "010/20"}}) {
+      store::PlanarReading r;
+      r.station = at;
+      r.typed = typed;
+      r.notation = store::PlaneNotation::StrikeDip;
+      store::add(p, r);
+    }
+    store::PlanarReading gone;
+    gone.station = s2_id;
+    gone.typed = "200/10";
+    gone.notation = store::PlaneNotation::StrikeDip;
+    store::soft_delete(p, store::Kind::Plane, store::add(p, gone));  // deleted: not counted
+    store::LinearReading l;
+    l.station = s2_id;
+    l.typed = "30/12";
+    store::add(p, l);
+  }
+  auto shell_count = [&](const std::string& code) {
+    const std::string q =
+        "SELECT (SELECT count(*) FROM planes p WHERE p.station = s.uuid AND p.deleted IS NULL) + "
+        "(SELECT count(*) FROM lines l WHERE l.station = s.uuid AND l.deleted IS NULL) "
+        "FROM stations s WHERE s.code = '" +
+        code + "'";
+    FILE* f = popen(("sqlite3 -readonly '" + path + "' \"" + q + "\"").c_str(), "r");
+    int n = -1;
+    if (f && std::fscanf(f, "%d", &n) != 1) n = -1;
+    if (f) pclose(f);
+    return static_cast<size_t>(n);
+  };
+  store::OpenOptions ro = quiet();
+  ro.read_only = true;
+  store::Project here = store::Project::open(path, ro);
+  auto same = ui::Records::read_first(here);
+  auto beside = ui::Records::read_first(here, [&] {
+    store::Project other = store::Project::open(path, ro);
+    return store::readings_per_station(other);
+  });
+  for (const char* code : {"S1", "S2"}) {
+    const std::string id = store::find_station(here, code)->meta.uuid;
+    EXPECT_EQ(same->readings_at(id), shell_count(code)) << code;
+    EXPECT_EQ(beside->readings_at(id), shell_count(code)) << code;
+  }
+  EXPECT_EQ(shell_count("S1"), 2u);
+  EXPECT_EQ(shell_count("S2"), 2u);
 }
