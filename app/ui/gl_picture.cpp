@@ -67,8 +67,6 @@ bool GlPicture::render(const plot::RecordingCanvas& drawing, int w, int h, Theme
   if (!texture_ || w != w_ || h != h_) {
     bind_texture();
     glTexImage2D(GL_TEXTURE_2D, 0, GL_RGBA, pw, ph, 0, GL_RGBA, GL_UNSIGNED_BYTE, nullptr);
-    texture_w_ = pw;
-    texture_h_ = ph;
     if (!framebuffer_) f.gen(1, &framebuffer_);
   }
   w_ = w;
@@ -102,7 +100,6 @@ bool GlPicture::render(const plot::RecordingCanvas& drawing, int w, int h, Theme
   if (!complete) {
     glDeleteTextures(1, &texture_);
     texture_ = 0;
-    texture_w_ = texture_h_ = 0;
   }
   return complete;
 }

@@ -29,8 +29,9 @@ class GlPicture {
   // The same, from pixels already drawn (`pixels`) when there are some, else render().
   bool show_drawing(const plot::RecordingCanvas& drawing, const std::optional<RgbaImage>& pixels, int w, int h,
                     ThemeKind theme, ImFont* font, ImU32 background);
-  // Puts pixels drawn elsewhere (soft_raster.h, on a worker) into the texture,
-  // as a picture of w x h points; `texts` are the drawing's texts.
+  // Puts pixels drawn elsewhere (soft_raster.h, on a worker) into its
+  // textures (bands of rows, below), as a picture of w x h points; `texts`
+  // are the drawing's texts.
   void upload(const RgbaImage& image, int w, int h, const std::vector<std::string>& texts);
   bool ready() const { return banded_ ? bands_.complete() : texture_ != 0; }
   // A picture of pw x ph pixels is being drawn on a worker: called every frame
@@ -64,9 +65,8 @@ class GlPicture {
   Bands bands_, spare_;                       // shown; made ready for the next picture
   bool banded_ = false;                       // what show() shows: bands_ (uploaded) or texture_ (rendered)
   unsigned texture_ = 0, framebuffer_ = 0;
-  int texture_w_ = 0, texture_h_ = 0;  // the texture's storage, in pixels (0: none yet)
-  int w_ = 0, h_ = 0;                  // points
-  bool rows_up_ = false;               // rows bottom to top (rendered by OpenGL) rather than top to bottom (uploaded)
+  int w_ = 0, h_ = 0;     // points
+  bool rows_up_ = false;  // rows bottom to top (rendered by OpenGL) rather than top to bottom (uploaded)
   std::vector<std::string> texts_;
 };
 
