@@ -71,7 +71,9 @@ struct Records {
   // `counts`, when given, counts the readings per station through a connection
   // of its own (storage's readings_per_station) while this one reads the
   // stations: on a season the count takes as long as the stations (0.45 s),
-  // and the two cores are otherwise idle while the first screen waits.
+  // and the two cores are otherwise idle while the first screen waits. (Two
+  // read transactions may see different states of a file another program
+  // writes meanwhile; the counts are shown only until the readings arrive.)
   static std::shared_ptr<const Records> read_first(
       store::Project& p, std::function<std::unordered_map<std::string, size_t>()> counts = nullptr);
 
