@@ -3,8 +3,7 @@
 // take milliseconds to free, a frame's whole budget; handed to retire(), the
 // last reference is dropped on a thread of its own instead.
 //
-//   ps.rendered.swap(newer);
-//   retire(std::move(newer));  // the older picture is freed on the retiring thread
+//   retire(std::exchange(ps.rendered, newer));  // the older picture is freed on the retiring thread
 //
 // Only for values whose destructors touch nothing but their own memory (no
 // OpenGL, no Dear ImGui, no database): they run on another thread.
